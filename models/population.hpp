@@ -1,0 +1,73 @@
+#pragma once
+// A population: the encounters on each unit, each encounter's score stream
+// and its outcome. Every source (replay, bootstrap, generator, shift) produces
+// this one value type; the simulation and the evaluation measures read it.
+#include <cstddef>
+#include <cstdint>
+#include <map>
+#include <optional>
+#include <span>
+#include <string>
+#include <vector>
+
+#include "models/time.hpp"
+
+namespace tocsin {
+
+struct Encounter {
+    std::string id;       // as in the source; leaves the machine only on request
+    std::uint32_t unit = 0;  // index into Population::units
+    Instant admitted = 0;
+    Instant discharged = 0;
+    std::optional<Instant> outcome_at;  // time zero, when the outcome happened
+};
+
+struct Score {
+    Instant available_at = 0;  // first instant a system could act on it
+    Instant scored_at = 0;     // the clinical instant it describes
+    double value = 0.0;
+};
+
+// Why a score or encounter was not used. Counted, never silently dropped.
+struct Exclusions {
+    std::map<std::string, std::int64_t> scores_by_reason;
+    std::map<std::string, std::int64_t> encounters_by_reason;
+    std::map<std::string, std::int64_t> notes;  // resolved oddities, e.g. ambiguous local times
+    std::int64_t total_scores() const;
+};
+
+struct Population {
+    std::vector<std::string> units;       // unit names; index = unit id
+    std::vector<Encounter> encounters;
+    // Usable scores only (admitted <= available_at < min(discharged, outcome_at)),
+    // grouped by encounter, each group in the order the rule sees them:
+    // available_at, then scored_at, then source order.
+    std::vector<Score> scores;
+    std::vector<std::size_t> score_start;  // encounters.size() + 1 offsets into scores
+    Exclusions excluded;
+    // The period the population covers: [period_start, period_end).
+    Instant period_start = 0;
+    Instant period_end = 0;
+
+    std::span<const Score> scores_of(std::size_t encounter) const {
+        return {scores.data() + score_start[encounter], score_start[encounter + 1] - score_start[encounter]};
+    }
+    // End of the interval in which scores are usable: min(discharged, outcome_at).
+    static Instant usable_until(const Encounter& e) {
+        return e.outcome_at && *e.outcome_at < e.discharged ? *e.outcome_at : e.discharged;
+    }
+};
+
+// Rebuild score_start from a per-score encounter index, sorting each group into
+// rule order. `owner[i]` is the encounter of `scores[i]`; source order breaks ties.
+void group_scores_by_encounter(Population& population, std::vector<Score>& scores,
+                               std::vector<std::uint32_t>& owner);
+
+// Remove scores outside [admitted, min(discharged, outcome_at)) and count them by
+// reason. Assumes scores are grouped (score_start valid).
+void apply_score_exclusions(Population& population);
+
+// Set period_start/period_end to span every stay when they are unset (both 0).
+void default_period(Population& population);
+
+}  // namespace tocsin

@@ -1,0 +1,243 @@
+#include "models/time.hpp"
+
+#include <algorithm>
+#include <array>
+#include <charconv>
+#include <cstdio>
+#include <cstdlib>
+#include <fstream>
+#include <iterator>
+#include <stdexcept>
+
+namespace tocsin {
+
+std::int64_t days_from_civil(int y, int m, int d) {
+    y -= m <= 2;
+    const std::int64_t era = (y >= 0 ? y : y - 399) / 400;
+    const unsigned yoe = static_cast<unsigned>(y - era * 400);
+    const unsigned doy = (153 * (m + (m > 2 ? -3 : 9)) + 2) / 5 + d - 1;
+    const unsigned doe = yoe * 365 + yoe / 4 - yoe / 100 + doy;
+    return era * 146097 + static_cast<std::int64_t>(doe) - 719468;
+}
+
+CivilTime civil_from_instant(Instant t) {
+    std::int64_t z = t >= 0 ? t / 86400 : (t - 86399) / 86400;
+    std::int64_t secs = t - z * 86400;
+    CivilTime c;
+    c.hour = static_cast<int>(secs / 3600);
+    c.minute = static_cast<int>((secs % 3600) / 60);
+    c.second = static_cast<int>(secs % 60);
+    z += 719468;
+    const std::int64_t era = (z >= 0 ? z : z - 146096) / 146097;
+    const unsigned doe = static_cast<unsigned>(z - era * 146097);
+    const unsigned yoe = (doe - doe / 1460 + doe / 36524 - doe / 146096) / 365;
+    const std::int64_t y = static_cast<std::int64_t>(yoe) + era * 400;
+    const unsigned doy = doe - (365 * yoe + yoe / 4 - yoe / 100);
+    const unsigned mp = (5 * doy + 2) / 153;
+    c.day = static_cast<int>(doy - (153 * mp + 2) / 5 + 1);
+    c.month = static_cast<int>(mp < 10 ? mp + 3 : mp - 9);
+    c.year = static_cast<int>(y + (c.month <= 2));
+    return c;
+}
+
+int weekday_from_days(std::int64_t z) {
+    // 1970-01-01 was a Thursday (3 when Monday is 0).
+    return static_cast<int>(((z % 7) + 7 + 3) % 7);
+}
+
+namespace {
+
+std::int64_t read_be(const unsigned char* p, int bytes) {
+    std::uint64_t v = 0;
+    for (int i = 0; i < bytes; ++i) v = (v << 8) | p[i];
+    if (bytes == 4) return static_cast<std::int32_t>(static_cast<std::uint32_t>(v));
+    return static_cast<std::int64_t>(v);
+}
+
+}  // namespace
+
+TimeZone TimeZone::utc() {
+    TimeZone z;
+    z.name_ = "UTC";
+    return z;
+}
+
+TimeZone TimeZone::load(const std::string& name) {
+    if (name == "UTC" || name == "Etc/UTC") return utc();
+    if (name.empty() || name.find("..") != std::string::npos || name.front() == '/')
+        throw std::runtime_error("time zone '" + name + "' is not an IANA zone name such as Europe/Berlin");
+    const char* dir = std::getenv("TZDIR");
+    std::string path = std::string(dir && *dir ? dir : "/usr/share/zoneinfo") + "/" + name;
+    std::ifstream in(path, std::ios::binary);
+    if (!in)
+        throw std::runtime_error("time zone '" + name + "' is unknown (no file " + path +
+                                 "; is the tzdata package installed?)");
+    std::vector<unsigned char> data((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
+    auto bad = [&] { return std::runtime_error("time zone file " + path + " is not a TZif file"); };
+    if (data.size() < 44 || data[0] != 'T' || data[1] != 'Z' || data[2] != 'i' || data[3] != 'f') throw bad();
+
+    // Header: magic(4) version(1) unused(15) then six 4-byte counts.
+    auto counts = [&](std::size_t at) {
+        std::array<std::int64_t, 6> c{};
+        for (int i = 0; i < 6; ++i) c[i] = read_be(&data[at + 20 + 4 * i], 4);
+        return c;  // isutcnt, isstdcnt, leapcnt, timecnt, typecnt, charcnt
+    };
+    auto c1 = counts(0);
+    std::size_t v1_size = 44 + c1[3] * 5 + c1[4] * 6 + c1[5] + c1[2] * 8 + c1[1] + c1[0];
+    std::size_t at = 0;
+    int time_bytes = 4;
+    std::array<std::int64_t, 6> c = c1;
+    if (data[4] >= '2') {  // use the 64-bit block that follows the 32-bit one
+        at = v1_size;
+        if (data.size() < at + 44) throw bad();
+        c = counts(at);
+        time_bytes = 8;
+    }
+    std::size_t p = at + 44;
+    const std::size_t timecnt = c[3], typecnt = c[4];
+    if (data.size() < p + timecnt * (time_bytes + 1) + typecnt * 6) throw bad();
+    TimeZone z;
+    z.name_ = name;
+    std::vector<std::int64_t> times(timecnt);
+    for (std::size_t i = 0; i < timecnt; ++i) times[i] = read_be(&data[p + i * time_bytes], time_bytes);
+    p += timecnt * time_bytes;
+    std::vector<int> idx(timecnt);
+    for (std::size_t i = 0; i < timecnt; ++i) idx[i] = data[p + i];
+    p += timecnt;
+    std::vector<std::int32_t> type_offset(typecnt);
+    for (std::size_t i = 0; i < typecnt; ++i)
+        type_offset[i] = static_cast<std::int32_t>(read_be(&data[p + i * 6], 4));
+    if (typecnt == 0) throw bad();
+    z.initial_offset_ = type_offset[0];
+    for (std::size_t i = 0; i < timecnt; ++i) {
+        if (idx[i] >= static_cast<int>(typecnt)) throw bad();
+        z.transitions_.push_back(times[i]);
+        z.offsets_.push_back(type_offset[idx[i]]);
+    }
+    // A zone whose table still changes offsets relies on its footer rule after
+    // the last transition; we do not evaluate footer rules, so we refuse to
+    // answer past the table rather than guess. Debian ships "fat" files whose
+    // tables run to 2037.
+    if (!z.transitions_.empty()) {
+        bool has_dst_rule = false;
+        for (std::size_t i = 1; i < z.offsets_.size(); ++i)
+            if (z.transitions_[i] > z.transitions_.back() - days(3 * 365) && z.offsets_[i] != z.offsets_[i - 1])
+                has_dst_rule = true;
+        if (has_dst_rule) z.covered_until_ = z.transitions_.back();
+    }
+    return z;
+}
+
+std::int32_t TimeZone::offset_at(Instant t) const {
+    if (transitions_.empty() || t < transitions_.front()) return initial_offset_;
+    auto it = std::upper_bound(transitions_.begin(), transitions_.end(), t);
+    return offsets_[static_cast<std::size_t>(it - transitions_.begin()) - 1];
+}
+
+Instant TimeZone::from_local(const CivilTime& l, LocalMapping* mapping) const {
+    const Instant local = days_from_civil(l.year, l.month, l.day) * 86400 + l.hour * 3600 + l.minute * 60 + l.second;
+    // Candidate UTC instants: local - offset for each offset in force near it.
+    // Offsets never differ by more than a day, so probing +-1 day is enough.
+    const std::int32_t before = offset_at(local - 86400), after = offset_at(local + 86400);
+    Instant first = local - before, second = local - after;
+    bool first_ok = offset_at(first) == before, second_ok = offset_at(second) == after;
+    if (mapping) *mapping = LocalMapping::unique;
+    if (first_ok && second_ok) {
+        if (first != second && mapping) *mapping = LocalMapping::ambiguous_took_earlier;
+        return std::min(first, second);
+    }
+    if (first_ok) return first;
+    if (second_ok) return second;
+    // Skipped by a forward change: read with the offset before the change, which
+    // lands the same distance past the change as the time was past its start.
+    if (mapping) *mapping = LocalMapping::nonexistent_moved_forward;
+    return local - before;
+}
+
+namespace {
+
+bool digits(std::string_view s, std::size_t at, std::size_t n, int& out) {
+    if (at + n > s.size()) return false;
+    int v = 0;
+    for (std::size_t i = at; i < at + n; ++i) {
+        char ch = s[i];
+        if (ch < '0' || ch > '9') return false;
+        v = v * 10 + (ch - '0');
+    }
+    out = v;
+    return true;
+}
+
+int days_in_month(int y, int m) {
+    static const int d[] = {31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31};
+    if (m == 2 && ((y % 4 == 0 && y % 100 != 0) || y % 400 == 0)) return 29;
+    return d[m - 1];
+}
+
+}  // namespace
+
+std::optional<Instant> parse_timestamp(std::string_view s, const TimeZone& zone, TimestampNote* note) {
+    CivilTime c;
+    if (s.size() < 19) return std::nullopt;
+    if (!digits(s, 0, 4, c.year) || s[4] != '-' || !digits(s, 5, 2, c.month) || s[7] != '-' ||
+        !digits(s, 8, 2, c.day) || (s[10] != 'T' && s[10] != ' ') || !digits(s, 11, 2, c.hour) ||
+        s[13] != ':' || !digits(s, 14, 2, c.minute) || s[16] != ':' || !digits(s, 17, 2, c.second))
+        return std::nullopt;
+    if (c.month < 1 || c.month > 12 || c.day < 1 || c.day > days_in_month(c.year, c.month) || c.hour > 23 ||
+        c.minute > 59 || c.second > 59)
+        return std::nullopt;
+    std::size_t p = 19;
+    if (p < s.size() && s[p] == '.') {
+        ++p;
+        std::size_t start = p;
+        while (p < s.size() && s[p] >= '0' && s[p] <= '9') ++p;
+        if (p == start) return std::nullopt;
+    }
+    const Instant as_utc = days_from_civil(c.year, c.month, c.day) * 86400 + c.hour * 3600 + c.minute * 60 + c.second;
+    if (note) note->mapping = LocalMapping::unique;
+    if (p == s.size()) return zone.from_local(c, note ? &note->mapping : nullptr);
+    if (s[p] == 'Z' && p + 1 == s.size()) return as_utc;
+    if (s[p] == '+' || s[p] == '-') {
+        int sign = s[p] == '+' ? 1 : -1, oh = 0, om = 0;
+        ++p;
+        if (!digits(s, p, 2, oh)) return std::nullopt;
+        p += 2;
+        if (p < s.size() && s[p] == ':') ++p;
+        if (!digits(s, p, 2, om) || p + 2 != s.size() || oh > 23 || om > 59) return std::nullopt;
+        return as_utc - sign * (oh * 3600 + om * 60);
+    }
+    return std::nullopt;
+}
+
+std::optional<int> parse_clock_minutes(std::string_view s) {
+    int h = 0, m = 0;
+    if (s.size() != 5 || !digits(s, 0, 2, h) || s[2] != ':' || !digits(s, 3, 2, m) || h > 23 || m > 59)
+        return std::nullopt;
+    return h * 60 + m;
+}
+
+std::string format_utc(Instant at) {
+    CivilTime c = civil_from_instant(at);
+    char buf[32];
+    std::snprintf(buf, sizeof buf, "%04d-%02d-%02dT%02d:%02d:%02dZ", c.year, c.month, c.day, c.hour, c.minute,
+                  c.second);
+    return buf;
+}
+
+std::string format_local(Instant at, const TimeZone& zone) {
+    const std::int32_t off = zone.offset_at(at);
+    CivilTime c = civil_from_instant(at + off);
+    const int a = off < 0 ? -off : off;
+    char buf[40];
+    std::snprintf(buf, sizeof buf, "%04d-%02d-%02dT%02d:%02d:%02d%c%02d:%02d", c.year, c.month, c.day, c.hour,
+                  c.minute, c.second, off < 0 ? '-' : '+', a / 3600, (a % 3600) / 60);
+    return buf;
+}
+
+std::string format_clock_minutes(int m) {
+    char buf[16];
+    std::snprintf(buf, sizeof buf, "%02d:%02d", m / 60, m % 60);
+    return buf;
+}
+
+}  // namespace tocsin

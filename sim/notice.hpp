@@ -1,0 +1,27 @@
+#pragma once
+// A notice: one firing of a plan's rule for one encounter, delivered through
+// the plan's channel. Every notice is recorded.
+#include <cstdint>
+#include <string_view>
+
+#include "models/time.hpp"
+
+namespace tocsin {
+
+enum class Channel : std::uint8_t { page, chart_interruption, handoff_list, ranked_review };
+enum class NoticeReason : std::uint8_t { first, repeat, rise };
+
+std::string_view to_string(Channel channel);
+std::string_view to_string(NoticeReason reason);
+
+struct Notice {
+    Instant at = 0;               // when it was delivered
+    double score = 0.0;           // the score that made it fire
+    std::uint32_t encounter = 0;  // index into Population::encounters
+    std::uint32_t unit = 0;
+    std::uint32_t plan = 0;       // index into the scenario's plans
+    NoticeReason reason = NoticeReason::first;
+    Channel channel = Channel::page;
+};
+
+}  // namespace tocsin
