@@ -42,20 +42,20 @@ case "${1:-}" in
         ;;
     test)
         install_missing "${BUILD_PACKAGES[@]}" "${REFERENCE_PACKAGES[@]}"
-        build build
+        build build -DTOCSIN_TESTS=ON -DTOCSIN_BENCH=ON
         (cd build && ctest -j "$JOBS" --output-on-failure --timeout 600)
         # Second pass: the same tests under AddressSanitizer + UndefinedBehaviorSanitizer.
-        cmake -S . -B build-sanitize -DCMAKE_BUILD_TYPE=RelWithDebInfo -DTOCSIN_SANITIZE=ON -DTOCSIN_BENCH=OFF > /dev/null
+        cmake -S . -B build-sanitize -DCMAKE_BUILD_TYPE=RelWithDebInfo -DTOCSIN_SANITIZE=ON -DTOCSIN_TESTS=ON -DTOCSIN_BENCH=OFF > /dev/null
         cmake --build build-sanitize -j "$JOBS"
         (cd build-sanitize && ASAN_OPTIONS=detect_leaks=1 ctest -j "$JOBS" --output-on-failure --timeout 900 -LE reference)
         ;;
     build)
         install_missing "${BUILD_PACKAGES[@]}"
-        build build
+        build build -DTOCSIN_TESTS=ON -DTOCSIN_BENCH=ON
         ;;
     bench)
         install_missing "${BUILD_PACKAGES[@]}"
-        build build
+        build build -DTOCSIN_TESTS=ON -DTOCSIN_BENCH=ON
         for b in build/bench/bench_*; do [ -x "$b" ] && "$b"; done
         ;;
     keys)  # refresh the README's scenario key reference from the built tool
