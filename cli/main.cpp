@@ -4,11 +4,16 @@
 
 #include <chrono>
 #include <iostream>
+#include <cstdio>
 #include <thread>
+
+#include <unistd.h>
 
 #include "analysis/cautions.hpp"
 #include "analysis/output.hpp"
 #include "analysis/results.hpp"
+#include "analysis/run.hpp"
+#include "sim/population_source.hpp"
 #include "models/errors.hpp"
 #include "models/replay.hpp"
 #include "sim/scenario.hpp"
@@ -31,6 +36,24 @@ unsigned thread_count(unsigned requested) {
     return std::max(1u, std::thread::hardware_concurrency());
 }
 
+// A progress bar with time left on stderr, only when stderr is a terminal.
+ProgressReport progress_bar() {
+    if (!::isatty(2)) return {};
+    const auto start = std::chrono::steady_clock::now();
+    return [start](std::uint64_t done, std::uint64_t total) {
+        const double elapsed = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
+        const double left = done ? elapsed * static_cast<double>(total - done) / static_cast<double>(done) : 0;
+        const int width = 30, filled = static_cast<int>(width * done / std::max<std::uint64_t>(1, total));
+        std::fprintf(stderr, "\r  replication %llu/%llu [%s%s] %3d%%  ~%.0f s left   ",
+                     static_cast<unsigned long long>(done), static_cast<unsigned long long>(total),
+                     std::string(static_cast<std::size_t>(filled), '#').c_str(),
+                     std::string(static_cast<std::size_t>(width - filled), '.').c_str(),
+                     static_cast<int>(100 * done / std::max<std::uint64_t>(1, total)), left);
+        if (done == total) std::fprintf(stderr, "\r%*s\r", 80, "");
+        std::fflush(stderr);
+    };
+}
+
 int command_check(const std::string& path) {
     const Scenario sc = load_scenario(path);
     std::cout << describe_scenario(sc);
@@ -47,21 +70,21 @@ int command_check(const std::string& path) {
 }
 
 int command_run(const RunOptions& opt) {
-    const Scenario sc = load_scenario(opt.scenario);
-    const Population pop = load_replay(sc.replay, sc.zone);
-    const ShiftCalendar cal = calendar_for(sc, pop);
-    const ReplicationRecord record = simulate_replication(sc, pop, cal, 0, thread_count(opt.threads));
-    const RunTables tables = run_tables(sc, pop, cal, record, opt.notice_log);
-    std::cout << run_summary_text(sc, pop, tables, reporting_shifts(sc, pop, cal));
+    const auto started = std::chrono::steady_clock::now();
+    Scenario sc = load_scenario(opt.scenario);
+    const PopulationFactory factory = population_factory(sc);
+    RunSettings settings;
+    settings.threads = thread_count(opt.threads);
+    settings.notice_log = opt.notice_log;
+    settings.progress = progress_bar();
+    const RunOutput out = run_scenario(sc, factory, settings);
+    std::cout << out.text;
     if (!opt.out_dir.empty()) {
-        std::vector<OutputFile> files;
-        add_table_files(files, tables.plan_summary);
-        add_table_files(files, tables.unit_shift_notices);
-        add_table_files(files, tables.exclusions);
-        if (tables.notice_log) add_table_files(files, *tables.notice_log);
-        files.push_back({"CAUTIONS.txt", cautions_text() + "\n"});
+        const std::vector<OutputFile> files = run_output_files(out);
         write_output_files(opt.out_dir, files);
-        std::cout << "Wrote " << files.size() << " files to " << opt.out_dir << "\n";
+        std::cout << "Wrote " << files.size() << " files to " << opt.out_dir << " in "
+                  << format_real(std::chrono::duration<double>(std::chrono::steady_clock::now() - started).count(), 1)
+                  << " s\n";
     }
     return 0;
 }

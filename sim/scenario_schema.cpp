@@ -14,6 +14,7 @@ const std::vector<SectionSpec>& scenario_sections() {
              {"description", KeyKind::text, "", "", false, -1e300, 1e300, "The question the scenario answers, in plain words."},
              {"time_zone", KeyKind::text, "", "", true, -1e300, 1e300, "IANA zone of the hospital's wall clock, e.g. Europe/Berlin; naive timestamps and all local-time rules use it."},
              {"seed", KeyKind::integer, "", "1", false, 0, 9.2e18, "Seed of every random stream; same seed, same results."},
+             {"replications", KeyKind::integer, "", "1", false, 1, 100000, "How many replications of every plan to run (more than 1 needs a resampled or generated population)."},
              {"score_label", KeyKind::text, "", "score", false, -1e300, 1e300, "What the score is called in reports, e.g. 'deterioration index'."},
              {"shifts", KeyKind::list, "", "", true, -1e300, 1e300, "The daily shifts, one item each (see shifts[])."},
              {"outcome", KeyKind::section, "", "", true, -1e300, 1e300, "What counts as catching a case (see outcome)."},
