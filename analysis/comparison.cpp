@@ -198,14 +198,26 @@ std::string with_interval(const MeanInterval& m, int decimals) {
     return fmt(m.mean) + " (" + fmt(m.low) + " to " + fmt(m.high) + ")";
 }
 
+std::size_t metric_index(const Metric& metric) { return static_cast<std::size_t>(&metric - plan_metrics().data()); }
+
 namespace {
-std::size_t metric_index(std::string_view name) {
-    const auto& ms = plan_metrics();
-    for (std::size_t i = 0; i < ms.size(); ++i)
-        if (ms[i].name == name) return i;
-    return 0;
-}
+std::size_t metric_index(std::string_view name) { return metric_index(*find_metric(name)); }
 }  // namespace
+
+std::string frontier_text(const ReplicatedFigures& f, std::size_t burden, std::size_t benefit) {
+    auto points = frontier(f, burden, benefit);
+    std::vector<FrontierPoint> on;
+    for (const auto& p : points)
+        if (p.on_frontier) on.push_back(p);
+    std::sort(on.begin(), on.end(), [](const FrontierPoint& a, const FrontierPoint& b) { return a.burden < b.burden; });
+    std::ostringstream o;
+    o << "Trade-off frontier (" << on.size() << " of " << points.size() << " plans are not beaten on both "
+      << plan_metrics()[burden].name << " and " << plan_metrics()[benefit].name << "):\n";
+    for (const auto& p : on)
+        o << "  " << f.plans[p.plan] << ": " << format_real(p.burden, 2) << " " << plan_metrics()[burden].name << ", "
+          << format_real(p.benefit, 2) << " " << plan_metrics()[benefit].name << "\n";
+    return o.str();
+}
 
 std::string comparison_text(const ReplicatedFigures& f, std::size_t ref) {
     std::ostringstream o;

@@ -34,6 +34,7 @@ struct Metric {
 // Every per-plan metric reported across replications, in table order.
 const std::vector<Metric>& plan_metrics();
 const Metric* find_metric(std::string_view name);  // nullptr when unknown
+std::size_t metric_index(const Metric& metric);
 std::string metric_names();                        // "a, b, c" for messages
 
 struct MeanInterval {
@@ -86,6 +87,8 @@ std::string with_interval(const MeanInterval& m, int decimals);
 // A compact terminal view: the main figures with intervals, and paired
 // differences from the reference plan.
 std::string comparison_text(const ReplicatedFigures& f, std::size_t reference_plan = 0);
+// The plans on the frontier, lightest first.
+std::string frontier_text(const ReplicatedFigures& f, std::size_t burden_metric, std::size_t benefit_metric);
 std::string budget_text(const ReplicatedFigures& f, const BudgetAnswer& answer, std::size_t burden_metric,
                         double limit, std::size_t benefit_metric);
 

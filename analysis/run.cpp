@@ -46,14 +46,21 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
     for (const Plan& p : sc.plans) names.push_back(p.name);
     out.figures = collect_figures(names, figures);
     out.comparison = comparison_tables(out.figures);
-    const auto index = [](const Metric* m) { return static_cast<std::size_t>(m - plan_metrics().data()); };
-    out.frontier = frontier_table(out.figures, index(burden), index(benefit));
+    out.frontier = frontier_table(out.figures, metric_index(*burden), metric_index(*benefit));
 
     const ShiftCalendar cal = calendar_for(sc, out.first_population);
     out.text = run_header_text(sc, out.first_population, out.first_replication,
                                reporting_shifts(sc, out.first_population, cal)) + "\n";
     if (sc.replications > 1) out.text += comparison_text(out.figures);
     else out.text += plan_summary_text(out.first_replication);
+    if (sc.plans.size() > 2) out.text += "\n" + frontier_text(out.figures, metric_index(*burden), metric_index(*benefit));
+    if (settings.budget_limit) {
+        const Metric* limited = find_metric(settings.budget_metric);
+        if (!limited) throw std::runtime_error("unknown metric '" + settings.budget_metric + "' (expected one of " + metric_names() + ")");
+        out.budget = best_within_budget(out.figures, metric_index(*limited), *settings.budget_limit, metric_index(*benefit));
+        out.text += "\n" + budget_text(out.figures, *out.budget, metric_index(*limited), *settings.budget_limit,
+                                       metric_index(*benefit));
+    }
     out.text += "\n" + cautions_text() + "\n";
     return out;
 }

@@ -20,6 +20,9 @@ struct RunSettings {
     ProgressReport progress;          // may be empty
     std::string burden_metric = "per_unit_night_mean";
     std::string benefit_metric = "caught";
+    // The budget question: the best plan whose mean `budget_metric` is within the limit.
+    std::optional<double> budget_limit;
+    std::string budget_metric = "per_unit_night_p90";
 };
 
 struct RunOutput {
@@ -28,6 +31,7 @@ struct RunOutput {
     ReplicatedFigures figures;
     ComparisonTables comparison;
     Table frontier;
+    std::optional<BudgetAnswer> budget;
     std::string text;                 // the terminal summary
 };
 

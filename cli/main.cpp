@@ -3,6 +3,7 @@
 #include <CLI/CLI.hpp>
 
 #include <chrono>
+#include <optional>
 #include <iostream>
 #include <cstdio>
 #include <thread>
@@ -19,6 +20,7 @@
 #include "sim/scenario.hpp"
 #include "sim/scenario_keys.hpp"
 #include "sim/simulate.hpp"
+#include "sim/sweep.hpp"
 
 using namespace tocsin;
 
@@ -29,7 +31,28 @@ struct RunOptions {
     std::string out_dir;
     bool notice_log = false;
     unsigned threads = 0;
+    std::uint64_t replications = 0;  // 0 = as the scenario says
+    std::optional<double> max_burden;
+    std::string budget_metric = "per_unit_night_p90";
+    std::string burden_metric = "per_unit_night_mean";
+    std::string benefit_metric = "caught";
+    // sweep only
+    std::string sweep_plan;
+    std::vector<std::string> vary;
+    bool keep_plans = false;
 };
+
+void add_run_options(CLI::App* cmd, RunOptions& o) {
+    cmd->add_option("scenario", o.scenario, "Scenario YAML file")->required();
+    cmd->add_option("-o,--out", o.out_dir, "Write tidy CSV and JSON tables to this directory");
+    cmd->add_flag("--notice-log", o.notice_log, "Also write every notice with its encounter id (patient-level)");
+    cmd->add_option("-j,--threads", o.threads, "Worker threads (default: all cores); results do not depend on it");
+    cmd->add_option("-r,--replications", o.replications, "Replications (default: the scenario's `replications`)");
+    cmd->add_option("--max-burden", o.max_burden, "Budget question: best plan whose mean --budget-metric is at most this");
+    cmd->add_option("--budget-metric", o.budget_metric, "Burden the budget limits (default per_unit_night_p90)");
+    cmd->add_option("--burden", o.burden_metric, "Burden axis of the frontier (default per_unit_night_mean)");
+    cmd->add_option("--benefit", o.benefit_metric, "Benefit axis of the frontier and budget (default caught)");
+}
 
 unsigned thread_count(unsigned requested) {
     if (requested) return requested;
@@ -69,14 +92,29 @@ int command_check(const std::string& path) {
     return 0;
 }
 
-int command_run(const RunOptions& opt) {
+int command_run(const RunOptions& opt, bool sweep) {
     const auto started = std::chrono::steady_clock::now();
-    Scenario sc = load_scenario(opt.scenario);
+    Scenario sc;
+    if (sweep) {
+        SweepRequest request;
+        request.base_plan = opt.sweep_plan;
+        for (const auto& v : opt.vary) request.axes.push_back(parse_sweep_axis(v));
+        request.keep_other_plans = opt.keep_plans;
+        sc = sweep_scenario(opt.scenario, request);
+        std::cout << "Sweep: " << sc.plans.size() << " plans\n";
+    } else {
+        sc = load_scenario(opt.scenario);
+    }
+    if (opt.replications) sc.replications = opt.replications;
     const PopulationFactory factory = population_factory(sc);
     RunSettings settings;
     settings.threads = thread_count(opt.threads);
     settings.notice_log = opt.notice_log;
     settings.progress = progress_bar();
+    settings.burden_metric = opt.burden_metric;
+    settings.benefit_metric = opt.benefit_metric;
+    settings.budget_limit = opt.max_burden;
+    settings.budget_metric = opt.budget_metric;
     const RunOutput out = run_scenario(sc, factory, settings);
     std::cout << out.text;
     if (!opt.out_dir.empty()) {
@@ -102,10 +140,15 @@ int main(int argc, char** argv) {
 
     RunOptions run_opt;
     auto* run = app.add_subcommand("run", "Run every plan of a scenario and print the comparison");
-    run->add_option("scenario", run_opt.scenario, "Scenario YAML file")->required();
-    run->add_option("-o,--out", run_opt.out_dir, "Write tidy CSV and JSON tables to this directory");
-    run->add_flag("--notice-log", run_opt.notice_log, "Also write every notice with its encounter id (patient-level)");
-    run->add_option("-j,--threads", run_opt.threads, "Worker threads (default: all cores); results do not depend on it");
+    add_run_options(run, run_opt);
+
+    RunOptions sweep_opt;
+    auto* sweep = app.add_subcommand("sweep", "Vary plan parameters over a grid and show the trade-off frontier");
+    add_run_options(sweep, sweep_opt);
+    sweep->add_option("--plan", sweep_opt.sweep_plan, "Plan to vary (default: the scenario's sweep.plan, else the first)");
+    sweep->add_option("--vary", sweep_opt.vary,
+                      "PATH=VALUES, e.g. plan.rule.threshold=50:80:5 or plan.rule.snooze_minutes=60,120,240; repeat for a grid");
+    sweep->add_flag("--keep-plans", sweep_opt.keep_plans, "Also run the scenario's plans as written");
 
     auto* keys = app.add_subcommand("keys", "Print the reference of every scenario key (Markdown)");
 
@@ -116,7 +159,8 @@ int main(int argc, char** argv) {
     }
     try {
         if (*check) return command_check(check_path);
-        if (*run) return command_run(run_opt);
+        if (*run) return command_run(run_opt, false);
+        if (*sweep) return command_run(sweep_opt, true);
         if (*keys) {
             std::cout << keys_reference_markdown();
             return 0;

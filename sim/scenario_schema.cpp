@@ -21,6 +21,7 @@ const std::vector<SectionSpec>& scenario_sections() {
              {"population", KeyKind::section, "", "", true, -1e300, 1e300, "Where encounters and scores come from (see population)."},
              {"reporting", KeyKind::section, "", "", false, -1e300, 1e300, "Optional reporting period (see reporting)."},
              {"plans", KeyKind::list, "", "", true, -1e300, 1e300, "The candidate workflows to compare (see plans[])."},
+             {"sweep", KeyKind::section, "", "", false, -1e300, 1e300, "Parameters `tocsin sweep` varies when none are given on the command line (see sweep)."},
          }},
         {"shifts[]",
          "One daily shift, named by its local start time; it ends when the next shift starts.",
@@ -73,6 +74,21 @@ const std::vector<SectionSpec>& scenario_sections() {
              {"max_per_shift", KeyKind::integer, "firings", "none", false, 1, 1000, "At most this many firings per encounter per shift, rises included."},
              {"quiet_from", KeyKind::clock, "local time", "none", false, -1e300, 1e300, "Start of daily quiet hours \"HH:MM\" (nothing fires)."},
              {"quiet_until", KeyKind::clock, "local time", "none", false, -1e300, 1e300, "End of daily quiet hours \"HH:MM\" (exclusive; may wrap midnight)."},
+         }},
+        {"sweep",
+         "What `tocsin sweep` varies by default. Paths as for --vary: plan.rule.threshold is relative to the swept plan.",
+         {
+             {"plan", KeyKind::text, "", "first plan", false, -1e300, 1e300, "Name of the plan to vary."},
+             {"vary", KeyKind::list, "", "", true, -1e300, 1e300, "One item per parameter (see sweep.vary[]); several make a grid."},
+         }},
+        {"sweep.vary[]",
+         "One swept parameter: a list of values, or a range from..to by step (inclusive).",
+         {
+             {"key", KeyKind::text, "path", "", true, -1e300, 1e300, "Dotted path, e.g. plan.rule.threshold."},
+             {"values", KeyKind::list, "", "", false, -1e300, 1e300, "The values to try."},
+             {"from", KeyKind::real, "", "", false, -1e300, 1e300, "Start of a range."},
+             {"to", KeyKind::real, "", "", false, -1e300, 1e300, "End of a range (inclusive)."},
+             {"step", KeyKind::real, "", "", false, 1e-12, 1e300, "Step of a range."},
          }},
     };
     return sections;
