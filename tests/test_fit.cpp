@@ -3,6 +3,7 @@
 #include <yaml-cpp/yaml.h>
 
 #include <cmath>
+#include <stdexcept>
 
 #include "models/fit.hpp"
 #include "models/generator.hpp"

@@ -7,6 +7,7 @@
 #include <boost/random/normal_distribution.hpp>
 #include <boost/random/uniform_01.hpp>
 #include <cmath>
+#include <stdexcept>
 #include <thread>
 
 #include "models/discrimination.hpp"
