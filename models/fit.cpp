@@ -100,8 +100,19 @@ GeneratorFit fit_generator(const Population& pop, const FitOptions& options) {
         UnitConfig unit;
         unit.name = pop.units[u];
         unit.beds = std::max(1, highest_census(pop, u));
-        for (std::size_t h = 0; h < hours_per_week; ++h)
-            unit.arrivals_per_hour[h] = exposure[h] > 0 ? admissions[u][h] / exposure[h] : 0.0;
+        if (options.arrivals_by_hour_of_day) {
+            for (std::size_t hour = 0; hour < 24; ++hour) {
+                double count = 0, hours = 0;
+                for (std::size_t d = 0; d < 7; ++d) {
+                    count += admissions[u][d * 24 + hour];
+                    hours += exposure[d * 24 + hour];
+                }
+                for (std::size_t d = 0; d < 7; ++d) unit.arrivals_per_hour[d * 24 + hour] = hours > 0 ? count / hours : 0.0;
+            }
+        } else {
+            for (std::size_t h = 0; h < hours_per_week; ++h)
+                unit.arrivals_per_hour[h] = exposure[h] > 0 ? admissions[u][h] / exposure[h] : 0.0;
+        }
         c.units.push_back(unit);
     }
     fit.notes.push_back("arrival rates count admissions only; arrivals turned away when a unit was full are not in a log");
@@ -261,10 +272,11 @@ std::string scenario_fragment(const GeneratorConfig& c, const std::vector<std::s
     std::ostringstream y;
     y << "# Generator parameters fitted by tocsin; edit freely.\n";
     for (const std::string& n : notes) y << "# note: " << n << "\n";
+    y << "# Hours of week are on the " << c.zone.name() << " clock: keep `time_zone: " << c.zone.name()
+      << "` at the top of the scenario.\n";
     y << "population:\n  generate:\n";
     y << "    start: " << format_utc(c.period_start) << "\n";
     y << "    end: " << format_utc(c.period_end) << "\n";
-    y << "    time_zone: " << c.zone.name() << "\n";
     y << "    warmup_days: " << number(c.warmup_days) << "\n";
     y << "    units:\n";
     for (const UnitConfig& u : c.units) {

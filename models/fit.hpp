@@ -27,6 +27,10 @@ struct FitOptions {
     StayDistribution stay_distribution = StayDistribution::lognormal;
     bool outcome_ends_stay = true;
     double drift_window_hours = 96.0;   // how far before time zero to look for a rise
+    // Pool the weekdays: one rate per local hour of day, the same every day.
+    // Steadier for a log of a few weeks (6 weeks give 6 admissions-hours per
+    // hour of week, 42 per hour of day).
+    bool arrivals_by_hour_of_day = false;
 };
 
 struct GeneratorFit {

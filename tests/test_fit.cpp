@@ -107,7 +107,7 @@ TEST_CASE("fit.scenario_fragment_is_yaml_with_the_fitted_values") {
     const YAML::Node g = root["population"]["generate"];
     REQUIRE(g.IsMap());
     CHECK(g["start"].as<std::string>() == "2026-01-05T00:00:00Z");
-    CHECK(g["time_zone"].as<std::string>() == "UTC");
+    CHECK(text.find("keep `time_zone: UTC` at the top") != std::string::npos);
     REQUIRE(g["units"].size() == 2);
     CHECK(g["units"][1]["name"].as<std::string>() == "ward-south");
     CHECK(g["units"][1]["beds"].as<int>() == fit.config.units[1].beds);
@@ -129,4 +129,16 @@ TEST_CASE("fit.refuses_a_population_too_small") {
     empty.period_end = empty.period_start + 86400;
     empty.score_start = {0};
     CHECK_THROWS_WITH_AS(fit_generator(empty), doctest::Contains("no encounter is admitted"), std::invalid_argument);
+}
+
+TEST_CASE("fit.arrivals_by_hour_of_day") {
+    // Pooling the weekdays: every day gets the same 24 rates. The 10-11 h rate
+    // rests on 365 such hours: Poisson SE = sqrt(0.45 x 365) / 365 = 0.035; tolerance 3 SE.
+    FitOptions pooled;
+    pooled.arrivals_by_hour_of_day = true;
+    const GeneratorFit fit = fit_generator(generate_population(known_year(), 1, 0), pooled);
+    const WeeklyRate& r = fit.config.units[0].arrivals_per_hour;
+    for (int h = 0; h < hours_per_week; ++h) CHECK(r[h] == r[h % 24]);
+    CHECK(std::abs(r[10] - 0.45) <= 3 * std::sqrt(0.45 * 365) / 365);
+    CHECK(std::abs(r[2] - 0.15) <= 3 * std::sqrt(0.15 * 365) / 365);
 }
