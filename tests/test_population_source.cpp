@@ -159,3 +159,17 @@ TEST_CASE("population_source.cli_fit") {
     CHECK(fragment.find("keep `time_zone: America/Chicago`") != std::string::npos);
     CHECK_NOTHROW(parse_scenario(head + fragment, "fitted.yaml", ""));
 }
+
+TEST_CASE("population_source.plans_do_not_move_patients") {
+    // Common random numbers: adding a plan or changing who answers leaves every
+    // patient and score of a replication exactly as it was.
+    const Scenario one = parse_scenario(generated(), "s.yaml", "");
+    std::string text = generated();
+    text.replace(text.find("    rule: {threshold: 60}\n"), 26,
+                 "    role: charge nurse\n    rule: {threshold: 60}\n  - name: q\n    rule: {threshold: 40, snooze_minutes: 60}\n");
+    const Scenario two = parse_scenario(text, "s.yaml", "");
+    REQUIRE(two.plans.size() == 2);
+    for (std::uint64_t r : {0, 5})
+        CHECK(testing::serialize(population_for(one, prepare_population(one), r)) ==
+              testing::serialize(population_for(two, prepare_population(two), r)));
+}
