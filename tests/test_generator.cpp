@@ -14,6 +14,7 @@
 #include "models/generator.hpp"
 #include "models/random_streams.hpp"
 #include "population_fixtures.hpp"
+#include "test_support.hpp"
 
 using namespace tocsin;
 using namespace tocsin::testing;
@@ -338,4 +339,55 @@ TEST_CASE("generator.validation_names_the_field") {
     c = two_wards();
     c.scores.jitter_minutes = 90;
     CHECK_THROWS_WITH_AS(validate(c), doctest::Contains("scores.jitter_minutes"), std::invalid_argument);
+}
+
+TEST_CASE("generator.reference_r") {
+    // Outside references: R's ks.test (stats package) for the stay
+    // distribution, and pROC's auc() (Robin et al. 2011) for the
+    // encounter-level AUC that calibration relies on.
+    const auto probe = testing::run_command("Rscript -e 'suppressMessages(library(pROC)); cat(\"ready\")'");
+    if (probe.exit_code != 0 || probe.output.find("ready") == std::string::npos) {
+        MESSAGE("SKIPPED: Rscript with pROC is not available; the R reference checks did not run");
+        return;
+    }
+    GeneratorConfig c = two_wards(120);
+    c.outcome.probability = 0.0;
+    c.units[0].beds = c.units[1].beds = 1000000;
+    c.warmup_days = 0;
+    const std::vector<double> hours = stays_in_hours(generate_population(c, 3, 0));
+    const Population pop = generate_population(two_wards(120), 3, 0);
+    const EncounterMaxima maxima = encounter_maxima(pop);
+
+    testing::ScratchDir dir;
+    std::string stays_csv = "hours\n", maxima_csv = "case,score\n";
+    char line[64];
+    for (double h : hours) {
+        std::snprintf(line, sizeof line, "%.17g\n", h);
+        stays_csv += line;
+    }
+    for (double v : maxima.cases) {
+        std::snprintf(line, sizeof line, "1,%.17g\n", v);
+        maxima_csv += line;
+    }
+    for (double v : maxima.controls) {
+        std::snprintf(line, sizeof line, "0,%.17g\n", v);
+        maxima_csv += line;
+    }
+    const std::string stays = dir.file("stays.csv", stays_csv), scores = dir.file("maxima.csv", maxima_csv);
+    const std::string script = dir.file("check.R",
+        "suppressMessages(library(pROC))\n"
+        "s <- read.csv('" + stays + "')$hours\n"
+        "k <- suppressWarnings(ks.test(s, 'plnorm', meanlog = log(72), sdlog = 0.6))\n"
+        "m <- read.csv('" + scores + "')\n"
+        "a <- auc(roc(m$case, m$score, levels = c(0, 1), direction = '<', quiet = TRUE))\n"
+        "cat(sprintf('%.12f %.12f %.12f\\n', k$statistic, k$p.value, as.numeric(a)))\n");
+    const auto r = testing::run_command("Rscript " + script);
+    INFO(r.output);
+    REQUIRE(r.exit_code == 0);
+    double d_r = 0, p_r = 0, auc_r = 0;
+    REQUIRE(std::sscanf(r.output.c_str(), "%lf %lf %lf", &d_r, &p_r, &auc_r) == 3);
+    auto lognormal = [](double x) { return 0.5 * std::erfc(-(std::log(x / 72.0)) / (0.6 * std::sqrt(2.0))); };
+    CHECK(ks_statistic(hours, lognormal) == doctest::Approx(d_r).epsilon(1e-9));
+    CHECK(p_r > 0.05);  // the declared distribution is not rejected at the 5 % level
+    CHECK(mann_whitney_auc(maxima.cases, maxima.controls) == doctest::Approx(auc_r).epsilon(1e-9));
 }
