@@ -167,7 +167,7 @@ void read_scores(const ReplaySource& source, const TimeZone& zone, const IdIndex
         const long long body = in ? static_cast<long long>(header.size()) + 1 : size;
         cuts.push_back(body);
         const unsigned cores = std::max(1u, std::min(8u, std::thread::hardware_concurrency()));
-        const long long chunk_min = 32LL << 20;
+        const long long chunk_min = std::max(1LL, source.parallel_chunk_bytes);
         const long long chunks = header.find('"') != std::string::npos ? 1 : std::min<long long>(cores, std::max(1LL, (size - body) / chunk_min));
         for (long long k = 1; k < chunks; ++k) {
             in.clear();

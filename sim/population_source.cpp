@@ -1,5 +1,6 @@
 #include "sim/population_source.hpp"
 
+#include <memory>
 #include <sstream>
 #include <stdexcept>
 
@@ -49,8 +50,6 @@ Population population_for(const Scenario& sc, const PreparedPopulation& prepared
 
 std::string describe_prepared(const Scenario& sc, const PreparedPopulation& p) {
     std::ostringstream o;
-    if (sc.source == PopulationSource::replay && !sc.bootstrap)
-        o << "Replications: the log has no bootstrap section, so every replication is the log as replayed.\n";
     if (p.calibration) {
         o.setf(std::ios::fixed);
         o.precision(3);
@@ -59,6 +58,18 @@ std::string describe_prepared(const Scenario& sc, const PreparedPopulation& p) {
           << " cases and " << p.calibration->controls << " controls of replication 0.\n";
     }
     return o.str();
+}
+
+PopulationFactory population_factory(const Scenario& scenario) {
+    return population_factory(scenario, prepare_population(scenario));
+}
+
+PopulationFactory population_factory(const Scenario& scenario, const PreparedPopulation& prepared) {
+    auto shared_scenario = std::make_shared<const Scenario>(scenario);
+    auto shared_prepared = std::make_shared<const PreparedPopulation>(prepared);
+    return [shared_scenario, shared_prepared](std::uint64_t replication) {
+        return population_for(*shared_scenario, *shared_prepared, replication);
+    };
 }
 
 }  // namespace tocsin

@@ -241,6 +241,7 @@ Scenario parse_scenario(const std::string& yaml_text, const std::string& file, c
         top.fail("time_zone", e.what());
     }
     sc.seed = static_cast<std::uint64_t>(top.integer("seed", 1));
+    sc.replications = static_cast<std::uint64_t>(top.integer("replications", 1));
     sc.score_label = top.text("score_label", "score");
 
     // Shifts, sorted by start time.
@@ -298,6 +299,9 @@ Scenario parse_scenario(const std::string& yaml_text, const std::string& file, c
             sc.shift = parse_shift(Section(node, "population.shift", file, "population.shift"), sc);
             sc.shift_at = {node.Mark().line + 1, node.Mark().column + 1};
         }
+        if (sc.replications > 1 && sc.source == PopulationSource::replay && !sc.bootstrap)
+            top.fail("replications", "a plain replay is the same in every replication; more than one replication "
+                                     "needs a resampled (population.bootstrap) or generated population");
     }
     if (top.has("reporting")) {
         Section s(top.child("reporting"), "reporting", file, "reporting");
@@ -370,7 +374,8 @@ std::string describe_scenario(const Scenario& sc) {
     std::ostringstream o;
     o << "Scenario: " << sc.name << "\n";
     if (!sc.description.empty()) o << "  " << sc.description << "\n";
-    o << "Time zone: " << sc.time_zone_name << "; seed " << sc.seed << "\n";
+    o << "Time zone: " << sc.time_zone_name << "; seed " << sc.seed << "; " << sc.replications
+      << (sc.replications == 1 ? " replication" : " replications") << "\n";
     o << "Shifts:";
     for (std::size_t i = 0; i < sc.shifts.names.size(); ++i)
         o << " " << sc.shifts.names[i] << " from " << format_clock_minutes(sc.shifts.start_minutes[i])

@@ -44,6 +44,7 @@ struct Scenario {
     std::string time_zone_name;
     TimeZone zone = TimeZone::utc();
     std::uint64_t seed = 1;
+    std::uint64_t replications = 1;
     ShiftPattern shifts;
     Seconds window = hours(24);   // a catch starts no earlier than window before time zero
     Seconds min_lead = 0;         // ... and at least min_lead before it
