@@ -3,6 +3,7 @@
 #include <CLI/CLI.hpp>
 
 #include <chrono>
+#include <fstream>
 #include <optional>
 #include <iostream>
 #include <cstdio>
@@ -16,6 +17,7 @@
 #include "analysis/run.hpp"
 #include "sim/population_source.hpp"
 #include "models/errors.hpp"
+#include "models/fit.hpp"
 #include "models/replay.hpp"
 #include "sim/scenario.hpp"
 #include "sim/scenario_keys.hpp"
@@ -40,6 +42,14 @@ struct RunOptions {
     std::string sweep_plan;
     std::vector<std::string> vary;
     bool keep_plans = false;
+};
+
+struct FitCommand {
+    std::string scenario;
+    std::string out_path;
+    std::string scale = "points";
+    std::string stay = "lognormal";
+    bool by_hour_of_day = false;
 };
 
 void add_run_options(CLI::App* cmd, RunOptions& o) {
@@ -80,13 +90,16 @@ ProgressReport progress_bar() {
 int command_check(const std::string& path) {
     const Scenario sc = load_scenario(path);
     std::cout << describe_scenario(sc);
-    const Population pop = load_replay(sc.replay, sc.zone);
+    const PreparedPopulation prepared = prepare_population(sc);
+    std::cout << describe_prepared(sc, prepared);
+    const Population pop = population_for(sc, prepared, 0);
     std::int64_t cases = 0;
     for (const Encounter& e : pop.encounters) cases += e.outcome_at.has_value();
     std::cout << "Input: " << pop.encounters.size() << " encounters on " << pop.units.size() << " units ("
               << cases << " with the outcome), " << pop.scores.size() << " usable scores, "
               << pop.excluded.total_scores() << " scores excluded.\n";
     for (const auto& [reason, n] : pop.excluded.scores_by_reason) std::cout << "  excluded: " << n << " scores " << reason << "\n";
+    for (const auto& [reason, n] : pop.excluded.encounters_by_reason) std::cout << "  excluded: " << n << " encounters " << reason << "\n";
     for (const auto& [reason, n] : pop.excluded.notes) std::cout << "  note: " << n << " " << reason << "\n";
     std::cout << "The scenario is valid.\n";
     return 0;
@@ -106,7 +119,9 @@ int command_run(const RunOptions& opt, bool sweep) {
         sc = load_scenario(opt.scenario);
     }
     if (opt.replications) sc.replications = opt.replications;
-    const PopulationFactory factory = population_factory(sc);
+    const PreparedPopulation prepared = prepare_population(sc);
+    std::cout << describe_prepared(sc, prepared);
+    const PopulationFactory factory = population_factory(sc, prepared);
     RunSettings settings;
     settings.threads = thread_count(opt.threads);
     settings.notice_log = opt.notice_log;
@@ -125,6 +140,30 @@ int command_run(const RunOptions& opt, bool sweep) {
         std::cout << "Wrote " << files.size() << " files to " << opt.out_dir << " in "
                   << format_real(std::chrono::duration<double>(std::chrono::steady_clock::now() - started).count(), 1)
                   << " s\n";
+    }
+    return 0;
+}
+
+// Estimate the generator's knobs from the scenario's replayed log and print
+// (or write) them as an editable `population: generate:` fragment.
+int command_fit(const FitCommand& cmd) {
+    const Scenario sc = load_scenario(cmd.scenario);
+    if (sc.source != PopulationSource::replay)
+        throw InputError(sc.file, 0, 0, "population", "tocsin fit needs a scenario that replays a log (population: replay:)");
+    FitOptions options;
+    options.zone = sc.zone;
+    options.scale = cmd.scale == "probability" ? ScoreScale::probability : ScoreScale::points;
+    options.stay_distribution = cmd.stay == "gamma" ? StayDistribution::gamma : StayDistribution::lognormal;
+    options.arrivals_by_hour_of_day = cmd.by_hour_of_day;
+    const GeneratorFit fit = fit_generator(load_replay(sc.replay, sc.zone), options);
+    const std::string fragment = scenario_fragment(fit.config, fit.notes);
+    if (cmd.out_path.empty()) {
+        std::cout << fragment;
+    } else {
+        std::ofstream out(cmd.out_path, std::ios::binary);
+        if (!(out << fragment)) throw std::runtime_error("cannot write " + cmd.out_path);
+        std::cout << "Fitted " << fit.encounters_admitted << " admissions (" << fit.cases << " cases) and " << fit.scores
+                  << " scores; wrote " << cmd.out_path << "\n";
     }
     return 0;
 }
@@ -152,6 +191,14 @@ int main(int argc, char** argv) {
                       "PATH=VALUES, e.g. plan.rule.threshold=50:80:5 or plan.rule.snooze_minutes=60,120,240; repeat for a grid");
     sweep->add_flag("--keep-plans", sweep_opt.keep_plans, "Also run the scenario's plans as written");
 
+    FitCommand fit_cmd;
+    auto* fit = app.add_subcommand("fit", "Fit the population generator to the scenario's log; print a YAML fragment to edit");
+    fit->add_option("scenario", fit_cmd.scenario, "Scenario YAML file that replays a log")->required();
+    fit->add_option("-o,--out", fit_cmd.out_path, "Write the fragment to this file instead of the terminal");
+    fit->add_option("--scale", fit_cmd.scale, "Score scale of the log")->check(CLI::IsMember({"points", "probability"}));
+    fit->add_option("--stay", fit_cmd.stay, "Length-of-stay family")->check(CLI::IsMember({"lognormal", "gamma"}));
+    fit->add_flag("--by-hour-of-day", fit_cmd.by_hour_of_day, "One arrival rate per hour of day, every day alike (steadier for short logs)");
+
     auto* keys = app.add_subcommand("keys", "Print the reference of every scenario key (Markdown)");
 
     try {
@@ -163,6 +210,7 @@ int main(int argc, char** argv) {
         if (*check) return command_check(check_path);
         if (*run) return command_run(run_opt, false);
         if (*sweep) return command_run(sweep_opt, true);
+        if (*fit) return command_fit(fit_cmd);
         if (*keys) {
             std::cout << keys_reference_markdown();
             return 0;
