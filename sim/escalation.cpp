@@ -79,7 +79,7 @@ EscalationGraph::EscalationGraph(std::vector<std::string> role_names)
 
 std::vector<EscalationProblem> escalation_problems(std::span<const std::string> role_names,
                                                    std::span<const EscalationEdge> edges,
-                                                   std::span<const bool> role_ever_staffed) {
+                                                   const std::vector<bool>& role_ever_staffed) {
     std::vector<EscalationProblem> problems;
     const Graph g = graph_of_valid_edges(role_names, edges, problems);
 
@@ -138,7 +138,7 @@ std::vector<EscalationProblem> escalation_problems(std::span<const std::string> 
 }
 
 EscalationGraph build_escalation_graph(std::span<const std::string> role_names, std::span<const EscalationEdge> edges,
-                                       std::span<const bool> role_ever_staffed) {
+                                       const std::vector<bool>& role_ever_staffed) {
     const std::vector<EscalationProblem> problems = escalation_problems(role_names, edges, role_ever_staffed);
     if (!problems.empty()) {
         std::string message = problems.size() == 1 ? problems[0].message

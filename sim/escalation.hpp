@@ -51,7 +51,7 @@ public:
 
 private:
     friend EscalationGraph build_escalation_graph(std::span<const std::string>, std::span<const EscalationEdge>,
-                                                  std::span<const bool>);
+                                                  const std::vector<bool>&);
     Graph graph_;
     std::vector<std::optional<EscalationStep>> next_;  // cached from graph_ for the event loop
 };
@@ -70,11 +70,11 @@ struct EscalationProblem {
 // `role_ever_staffed` may be empty (then that last check is skipped).
 std::vector<EscalationProblem> escalation_problems(std::span<const std::string> role_names,
                                                    std::span<const EscalationEdge> edges,
-                                                   std::span<const bool> role_ever_staffed = {});
+                                                   const std::vector<bool>& role_ever_staffed = {});
 
 // Builds the graph or throws InputError (field "escalation") listing every problem.
 EscalationGraph build_escalation_graph(std::span<const std::string> role_names, std::span<const EscalationEdge> edges,
-                                       std::span<const bool> role_ever_staffed = {});
+                                       const std::vector<bool>& role_ever_staffed = {});
 
 // The path a task created at `first_role` follows when nobody takes it up.
 struct EscalationPath {
