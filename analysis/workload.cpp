@@ -16,7 +16,8 @@ std::size_t teams_of(const Role& role, const StaffModel& model) { return role.pe
 
 }  // namespace
 
-Table staff_workload_table(std::span<const PlanStaffRun> runs, const ShiftCalendar& calendar) {
+Table staff_workload_table(std::span<const PlanStaffRun> runs, const ShiftCalendar& calendar,
+                           const ReportPeriod& period) {
     Table t;
     t.name = "staff_workload";
     t.title = "Staff workload by plan and role";
@@ -56,6 +57,7 @@ Table staff_workload_table(std::span<const PlanStaffRun> runs, const ShiftCalend
             // A task reached this role when it followed at least `step` edges of the path.
             const auto step = std::find(path.roles.begin(), path.roles.end(), role_index) - path.roles.begin();
             for (const TaskRecord& task : run.tasks) {
+                if (!period.contains(task.created)) continue;
                 if (step <= task.escalations) ++arrived;
                 if (task.role != role_index) continue;
                 if (task.fate == TaskFate::never_taken_up) ++never;
@@ -76,10 +78,12 @@ Table staff_workload_table(std::span<const PlanStaffRun> runs, const ShiftCalend
             }
             std::vector<double> minutes_per_team_shift;
             double rostered_seconds = 0, worked_seconds = 0;
-            std::int64_t staff_shifts = 0;
+            std::int64_t staff_shifts = 0, team_shifts = 0;
             for (std::size_t team = 0; team < teams; ++team)
                 for (std::size_t s = 0; s < n_shifts; ++s) {
+                    if (shifts[s].start < period.from || shifts[s].end > period.until) continue;
                     const int heads = headcount(role.roster, shifts[s]);
+                    ++team_shifts;
                     const Instant from = std::max(shifts[s].start, run.start);
                     const Instant to = std::min(shifts[s].end, run.until);
                     staff_shifts += heads;
@@ -90,7 +94,7 @@ Table staff_workload_table(std::span<const PlanStaffRun> runs, const ShiftCalend
             std::sort(waits.begin(), waits.end());
             std::sort(minutes_per_team_shift.begin(), minutes_per_team_shift.end());
             t.add_row({pr.plan, role.name, std::string(role.per_unit ? "each unit" : "hospital"),
-                       static_cast<std::int64_t>(teams * n_shifts), staff_shifts, arrived, started,
+                       team_shifts, staff_shifts, arrived, started,
                        real_or_empty(mean(minutes_per_team_shift)),
                        real_or_empty(quantile_sorted(minutes_per_team_shift, 0.9)),
                        rostered_seconds > 0 ? Cell{worked_seconds / rostered_seconds} : Cell{},
@@ -104,7 +108,7 @@ Table staff_workload_table(std::span<const PlanStaffRun> runs, const ShiftCalend
     return t;
 }
 
-Table escalation_table(std::span<const PlanStaffRun> runs) {
+Table escalation_table(std::span<const PlanStaffRun> runs, const ReportPeriod& period) {
     Table t;
     t.name = "staff_escalations";
     t.title = "Tasks escalated, by plan and edge";
@@ -114,7 +118,7 @@ Table escalation_table(std::span<const PlanStaffRun> runs) {
         const EscalationPath path = escalation_path(model.escalation, pr.settings.first_role);
         std::vector<std::int64_t> followed(path.timeout_seconds.size(), 0);
         for (const TaskRecord& task : pr.run->tasks)
-            for (std::size_t k = 0; k < task.escalations && k < followed.size(); ++k) ++followed[k];
+            for (std::size_t k = 0; period.contains(task.created) && k < task.escalations && k < followed.size(); ++k) ++followed[k];
         for (std::size_t k = 0; k < followed.size(); ++k)
             t.add_row({pr.plan, model.roles[path.roles[k]].name, model.roles[path.roles[k + 1]].name,
                        static_cast<double>(path.timeout_seconds[k]) / 60.0, followed[k]});
@@ -122,15 +126,20 @@ Table escalation_table(std::span<const PlanStaffRun> runs) {
     return t;
 }
 
-Table task_fate_table(std::span<const PlanStaffRun> runs) {
+Table task_fate_table(std::span<const PlanStaffRun> runs, const ReportPeriod& period) {
     Table t;
     t.name = "task_fates";
     t.title = "What became of each task, by plan";
     t.columns = {"plan", "fate", "tasks", "share"};
     for (const PlanStaffRun& pr : runs) {
         std::array<std::int64_t, task_fate_count> count{};
-        for (const TaskRecord& task : pr.run->tasks) ++count[static_cast<std::size_t>(task.fate)];
-        const double total = static_cast<double>(pr.run->tasks.size());
+        std::int64_t total_tasks = 0;
+        for (const TaskRecord& task : pr.run->tasks)
+            if (period.contains(task.created)) {
+                ++count[static_cast<std::size_t>(task.fate)];
+                ++total_tasks;
+            }
+        const double total = static_cast<double>(total_tasks);
         for (int f = 0; f < task_fate_count; ++f)
             t.add_row({pr.plan, std::string(to_string(static_cast<TaskFate>(f))), count[f],
                        total > 0 ? Cell{static_cast<double>(count[f]) / total} : Cell{}});

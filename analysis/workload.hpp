@@ -14,6 +14,10 @@
 //   shift minutes, summed over team-shifts).
 // - Waits are from the notice to the evaluation start, for tasks started at
 //   that role; tasks never taken up are counted apart, not as waits.
+// - A ReportPeriod limits every table to tasks created inside it and the
+//   per-shift figures to complete shifts inside it (the simulation itself
+//   runs over the whole calendar, so queues carried in are real).
+#include <limits>
 #include <span>
 #include <string>
 #include <vector>
@@ -32,12 +36,19 @@ struct PlanStaffRun {
     const StaffRun* run = nullptr;
 };
 
+struct ReportPeriod {
+    Instant from = std::numeric_limits<Instant>::min();
+    Instant until = std::numeric_limits<Instant>::max();  // exclusive
+    bool contains(Instant t) const { return t >= from && t < until; }
+};
+
 // One row per plan and role on the plan's escalation path.
-Table staff_workload_table(std::span<const PlanStaffRun> runs, const ShiftCalendar& calendar);
+Table staff_workload_table(std::span<const PlanStaffRun> runs, const ShiftCalendar& calendar,
+                           const ReportPeriod& period = {});
 // One row per plan and escalation edge on its path: tasks that followed it.
-Table escalation_table(std::span<const PlanStaffRun> runs);
+Table escalation_table(std::span<const PlanStaffRun> runs, const ReportPeriod& period = {});
 // One row per plan and fate: every task is exactly one.
-Table task_fate_table(std::span<const PlanStaffRun> runs);
+Table task_fate_table(std::span<const PlanStaffRun> runs, const ReportPeriod& period = {});
 // One row per task; patient-level (encounter ids), so exported only on request.
 // `encounter_ids` and `unit_names` are indexed as in the notices.
 Table task_log_table(std::span<const PlanStaffRun> runs, std::span<const std::string> encounter_ids,

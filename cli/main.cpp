@@ -23,6 +23,7 @@ struct RunOptions {
     std::string scenario;
     std::string out_dir;
     bool notice_log = false;
+    bool task_log = false;
     unsigned threads = 0;
 };
 
@@ -51,7 +52,7 @@ int command_run(const RunOptions& opt) {
     const Population pop = load_replay(sc.replay, sc.zone);
     const ShiftCalendar cal = calendar_for(sc, pop);
     const ReplicationRecord record = simulate_replication(sc, pop, cal, 0, thread_count(opt.threads));
-    const RunTables tables = run_tables(sc, pop, cal, record, opt.notice_log);
+    const RunTables tables = run_tables(sc, pop, cal, record, opt.notice_log, opt.task_log);
     std::cout << run_summary_text(sc, pop, tables, reporting_shifts(sc, pop, cal));
     if (!opt.out_dir.empty()) {
         std::vector<OutputFile> files;
@@ -59,6 +60,8 @@ int command_run(const RunOptions& opt) {
         add_table_files(files, tables.unit_shift_notices);
         add_table_files(files, tables.exclusions);
         if (tables.notice_log) add_table_files(files, *tables.notice_log);
+        for (const auto* staff : {&tables.staff_workload, &tables.staff_escalations, &tables.task_fates, &tables.task_log})
+            if (*staff) add_table_files(files, **staff);
         files.push_back({"CAUTIONS.txt", cautions_text() + "\n"});
         write_output_files(opt.out_dir, files);
         std::cout << "Wrote " << files.size() << " files to " << opt.out_dir << "\n";
@@ -82,6 +85,7 @@ int main(int argc, char** argv) {
     run->add_option("scenario", run_opt.scenario, "Scenario YAML file")->required();
     run->add_option("-o,--out", run_opt.out_dir, "Write tidy CSV and JSON tables to this directory");
     run->add_flag("--notice-log", run_opt.notice_log, "Also write every notice with its encounter id (patient-level)");
+    run->add_flag("--task-log", run_opt.task_log, "Also write every staff task with its encounter id (patient-level)");
     run->add_option("-j,--threads", run_opt.threads, "Worker threads (default: all cores); results do not depend on it");
 
     auto* keys = app.add_subcommand("keys", "Print the reference of every scenario key (Markdown)");

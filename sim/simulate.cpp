@@ -58,6 +58,15 @@ ReplicationRecord simulate_replication(const Scenario& scenario, const Populatio
         }
         std::stable_sort(out.begin(), out.end(), [](const Notice& a, const Notice& b) { return a.at < b.at; });
     }
+    if (scenario.has_staff()) {
+        // Each plan has a staff of its own: plans are alternatives, not rivals for the same nurses.
+        const StaffModel model = staff_model(scenario, static_cast<std::uint32_t>(population.units.size()));
+        for (std::size_t p = 0; p < n_plans; ++p) {
+            RandomEngine minutes = make_stream(scenario.seed, replication, StreamPurpose::task_minutes, p);
+            record.plans[p].staff = simulate_staff(record.plans[p].notices, model, scenario.plans[p].staffing, calendar,
+                                                   calendar.shifts().back().end, minutes);
+        }
+    }
     return record;
 }
 
