@@ -85,12 +85,12 @@ ServiceTime parse_minutes(const Section& s) {
         s.fail("distribution", "unknown distribution '" + d + "' (expected fixed, exponential, gamma, lognormal or empirical)");
     std::string wanted;
     for (std::string_view k : kind->second) wanted += (wanted.empty() ? "" : ", ") + std::string(k);
-    for (std::string_view key : {"minutes", "mean", "sd", "median", "spread", "values"}) {
-        const bool used = std::find(kind->second.begin(), kind->second.end(), key) != kind->second.end();
-        if (s.has(key) && !used)
+    constexpr std::string_view parameter_keys[] = {"minutes", "mean", "sd", "median", "spread", "values"};
+    for (std::string_view key : parameter_keys)  // a misplaced key first: it often explains a missing one
+        if (s.has(key) && std::find(kind->second.begin(), kind->second.end(), key) == kind->second.end())
             s.fail(key, "'" + std::string(key) + "' is not used by the " + d + " distribution (it takes: " + wanted + ")");
-        if (!s.has(key) && used) s.fail("distribution", "the " + d + " distribution needs: " + wanted);
-    }
+    for (std::string_view key : kind->second)
+        if (!s.has(key)) s.fail("distribution", "the " + d + " distribution needs: " + wanted);
     ServiceTime out;
     if (d == "fixed") out = FixedMinutes{*s.optional_real("minutes")};
     else if (d == "exponential") out = ExponentialMinutes{*s.optional_real("mean")};
