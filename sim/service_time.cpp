@@ -72,7 +72,9 @@ void check_service_time(const ServiceTime& d) {
     if (std::string p = service_time_problem(d); !p.empty()) throw std::invalid_argument(p);
 }
 
-double draw_minutes(const ServiceTime& d, RandomEngine& stream) {
+namespace {
+template <class Engine>
+double draw_with(const ServiceTime& d, Engine& stream) {
     return std::visit(
         Overloaded{
             [](const FixedMinutes& f) { return f.minutes; },
@@ -96,9 +98,16 @@ double draw_minutes(const ServiceTime& d, RandomEngine& stream) {
         },
         d);
 }
+}  // namespace
+
+double draw_minutes(const ServiceTime& d, RandomEngine& stream) { return draw_with(d, stream); }
+double draw_minutes(const ServiceTime& d, SplitMixEngine& stream) { return draw_with(d, stream); }
 
 Seconds draw_seconds(const ServiceTime& d, RandomEngine& stream) {
-    return static_cast<Seconds>(std::llround(draw_minutes(d, stream) * 60.0));
+    return static_cast<Seconds>(std::llround(draw_with(d, stream) * 60.0));
+}
+Seconds draw_seconds(const ServiceTime& d, SplitMixEngine& stream) {
+    return static_cast<Seconds>(std::llround(draw_with(d, stream) * 60.0));
 }
 
 double mean_minutes(const ServiceTime& d) {

@@ -84,6 +84,7 @@ struct TaskState {
     std::uint32_t slot = 0;     // position in the team's `working` list
     Instant finish_at = 0;
     Instant overtime_since = 0;
+    Seconds first_role_seconds = 0;  // drawn at creation
 };
 
 struct QueueEntry {
@@ -129,7 +130,6 @@ public:
     Simulation(std::span<const Notice> notices, const StaffModel& model, const StaffPlan& plan,
                const ShiftCalendar& calendar, Instant until, RandomEngine& stream)
         : notices_(notices), model_(model), plan_(plan), calendar_(calendar), until_(until), stream_(stream) {
-        path_ = escalation_path(model.escalation, plan.first_role).roles;
         team_base_.resize(model.roles.size());
         std::uint32_t teams = 0;
         for (std::size_t r = 0; r < model.roles.size(); ++r) {
@@ -148,7 +148,7 @@ public:
         const std::size_t n = notices_.size();
         run_.tasks.resize(n);
         state_.resize(n);
-        minutes_.resize(n * path_.size());
+        escalation_seed_ = stream_();  // before any task's draw, so the first role's draws stay in notice order
         now_ = run_.start;
         events_.start_at(now_);
         for (Team& t : teams_) t.last_change = now_;
@@ -203,8 +203,7 @@ private:
         task.unit = notice.unit;
         task.first_role = plan_.first_role;
         task.role = plan_.first_role;
-        for (std::size_t k = 0; k < path_.size(); ++k)
-            minutes_[i * path_.size() + k] = draw_seconds(model_.roles[path_[k]].minutes_per_task, stream_);
+        state_[i].first_role_seconds = draw_seconds(model_.roles[plan_.first_role].minutes_per_task, stream_);
         join(i);
     }
 
@@ -244,9 +243,16 @@ private:
         st.slot = static_cast<std::uint32_t>(team.working.size());
         team.working.push_back(i);
         task.started_at = now_;
-        task.service_seconds = minutes_[i * path_.size() + task.escalations];
+        task.service_seconds = task.escalations == 0 ? st.first_role_seconds : escalated_seconds(i, task);
         st.finish_at = now_ + task.service_seconds;
         events_.schedule(st.finish_at, finish_priority, Event{EventKind::finish, 0, i});
+    }
+
+    // Minutes at the role reached after `task.escalations` steps: a substream of
+    // (task, step), so they do not depend on which tasks escalated before it.
+    Seconds escalated_seconds(std::uint32_t i, const TaskRecord& task) const {
+        SplitMixEngine engine{mix64(escalation_seed_ ^ mix64((std::uint64_t{i} << 8) | task.escalations))};
+        return draw_seconds(model_.roles[task.role].minutes_per_task, engine);
     }
 
     void remove_working(Team& team, std::uint32_t i) {
@@ -393,11 +399,10 @@ private:
     const ShiftCalendar& calendar_;
     Instant until_;
     RandomEngine& stream_;
-    std::vector<std::uint32_t> path_;       // roles on the plan's escalation path
     std::vector<std::uint32_t> team_base_;  // per role: index of its first team
     std::vector<Team> teams_;
     std::vector<TaskState> state_;
-    std::vector<Seconds> minutes_;          // per task and path step: seconds needed
+    std::uint64_t escalation_seed_ = 0;
     EventQueue<Event> events_;
     Instant now_ = 0;
     StaffRun run_;

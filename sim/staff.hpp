@@ -4,10 +4,12 @@
 // timeout on its role's escalation edge it moves to the next role.
 //
 // Decisions (documented here and in the README):
-// - Minutes per task are drawn when the task is created, one draw for each
-//   role on its escalation path in path order, from the plan's task_minutes
-//   stream. The k-th task of a plan therefore needs the same minutes whatever
-//   the roster, the queue discipline or the other plans (common random numbers).
+// - Minutes per task at its first role are drawn when the task is created, in
+//   notice order, from the plan's task_minutes stream. Minutes at a role it
+//   escalates to come from a substream of (task, escalation step) seeded from
+//   that stream's first draw. The k-th task of a plan therefore needs the same
+//   minutes at each role whatever the roster, the queue discipline or the other
+//   plans (common random numbers).
 // - Simultaneous events run in this order: shift change, task finishes, then
 //   escalation timeouts, then new notices (in input order). So a colleague who
 //   finishes at the instant a timeout falls takes the task up before it
