@@ -169,6 +169,26 @@ TEST_CASE("staff.shift_end") {
         CHECK(cell<double>(w, w.rows[0], "overtime_minutes") == doctest::Approx(20));
         CHECK(cell<std::int64_t>(w, w.rows[0], "never_taken_up") == 1);
     }
+    SUBCASE("hand over to a smaller night team: the task nearest completion stays with its nurse") {
+        // Two day nurses, one night nurse. Task 0 at 18:40 (ends 19:10), task 1 at
+        // 18:50 (ends 19:20). At 19:00 one nurse comes on for two tasks in
+        // progress: task 0, ten minutes from done, is finished by its day nurse in
+        // 10 min of overtime; task 1 is handed over and ends at 19:20. A notice
+        // at 19:05 waits for the night nurse until 19:20 (the overtime nurse
+        // takes nothing new), so it runs 19:20-19:50.
+        const StaffModel model = model_of({role("ward nurse", {2, 1}, FixedMinutes{30})});
+        const std::vector<Notice> three = {notice_at(march(2, 18, 40)), notice_at(march(2, 18, 50)),
+                                           notice_at(march(2, 19, 5))};
+        const StaffRun run = run_story(three, model, plan, march(2, 23, 0));
+        CHECK_FALSE(run.tasks[0].handed_over);
+        CHECK(run.tasks[0].overtime_seconds == minutes(10));
+        CHECK(run.tasks[0].ended_at == march(2, 19, 10));
+        CHECK(run.tasks[1].handed_over);
+        CHECK(run.tasks[1].overtime_seconds == 0);
+        CHECK(run.tasks[1].ended_at == march(2, 19, 20));
+        CHECK(run.tasks[2].started_at == march(2, 19, 20));
+        CHECK(run.tasks[2].ended_at == march(2, 19, 50));
+    }
     SUBCASE("drop: abandoned at 19:00 and counted") {
         plan.at_shift_end = ShiftEndPolicy::drop;
         const StaffModel model = model_of({role("ward nurse", {1, 1}, FixedMinutes{30})});
