@@ -82,7 +82,8 @@ struct GeneratorConfig {
     Instant period_start = 0;  // the population covers [period_start, period_end)
     Instant period_end = 0;
     // Arrivals start this long before period_start so that the census at the
-    // start is already realistic; stays still present at period_start are kept.
+    // start is already realistic; stays still present at period_start are kept
+    // with all their scores (like a log extract of everyone on the unit).
     double warmup_days = 14.0;
     TimeZone zone = TimeZone::utc();  // hour of week is read on this local clock
 };
@@ -107,12 +108,17 @@ struct GenerationSummary {
 };
 
 // Called once per kept encounter, unit by unit, in admission order within a
-// unit. `scores` holds the usable scores only, in rule order; the span is
+// unit. An arrival that finds every bed taken is turned away and counted in
+// Exclusions::encounters_by_reason ("arrival turned away, unit full: <unit>";
+// only arrivals inside the period count); a scheduled score that goes missing
+// is counted in notes. `scores` holds the usable scores only, in rule order; the span is
 // valid during the call only.
 using EncounterSink = std::function<void(const Encounter&, std::span<const Score>)>;
 
 // Streaming form: the population never sits in memory at once (one unit's
-// current occupants and one encounter's scores at a time).
+// current occupants and one encounter's scores at a time). Encounters come
+// unit by unit, not in global time order: a consumer that needs time order
+// across units (shared staff queues) must merge per-unit streams itself.
 GenerationSummary generate_streaming(const GeneratorConfig& config, std::uint64_t seed, std::uint64_t replication,
                                      const EncounterSink& sink);
 
