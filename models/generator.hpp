@@ -128,20 +128,30 @@ Population generate_population(const GeneratorConfig& config, std::uint64_t seed
 // What calibrate_to_auc found.
 struct AucCalibration {
     GeneratorConfig config;        // the input with drift_size and outcome probability set
-    double achieved_auc = 0.0;     // on the calibration population (seed, replication 0)
+    double achieved_auc = 0.0;     // on the calibration population
     double drift_size = 0.0;
     int populations_generated = 0;
-    std::int64_t cases = 0;
+    std::int64_t cases = 0;        // with a usable score, in the calibration population
     std::int64_t controls = 0;
+    // The calibration population: `config` over [config.period_start,
+    // calibration_period_end), replication 0 of the given seed.
+    Instant calibration_period_end = 0;
 };
 
 // Sets outcome.probability to the target rate and finds scores.drift_size by
 // bisection so that the encounter-level AUC (each encounter's highest usable
-// score; Mann-Whitney) of the population generated with `seed`, replication 0,
-// matches `target_auc` within `auc_tolerance`. With common random numbers the
-// AUC does not decrease as the drift grows, so bisection is safe. Throws
-// std::invalid_argument, saying which AUCs are reachable, when the target is not.
+// score; Mann-Whitney) of a calibration population matches `target_auc`
+// within `auc_tolerance`. With common random numbers the AUC does not
+// decrease as the drift grows, so bisection is safe.
+//
+// The calibration population is not the scenario's period but one long
+// enough for about `calibration_cases` expected cases (at least 28 days, at
+// most 3 years), starting at period_start: the knob should carry the target
+// discrimination, not the sampling noise of a small hospital-month (with
+// 1,000 cases the AUC's standard error is about 0.01), and a large hospital
+// needs only part of its year. Throws std::invalid_argument, saying which
+// AUCs are reachable, when the target is not.
 AucCalibration calibrate_to_auc(const GeneratorConfig& config, double target_auc, double target_outcome_rate,
-                                std::uint64_t seed, double auc_tolerance = 0.002);
+                                std::uint64_t seed, double auc_tolerance = 0.002, double calibration_cases = 1000);
 
 }  // namespace tocsin
