@@ -135,7 +135,7 @@ RunTables run_tables(const Scenario& sc, const Population& pop, const ShiftCalen
     t.exclusions.columns = {"what", "reason", "count"};
     for (const auto& [reason, n] : pop.excluded.encounters_by_reason) t.exclusions.add_row({"encounters", reason, n});
     for (const auto& [reason, n] : pop.excluded.scores_by_reason) t.exclusions.add_row({"scores", reason, n});
-    for (const auto& [reason, n] : pop.excluded.notes) t.exclusions.add_row({"timestamps", reason, n});
+    for (const auto& [reason, n] : pop.excluded.notes) t.exclusions.add_row({"notes", reason, n});
     if (with_notice_log) {
         Table log;
         log.name = "notice_log";

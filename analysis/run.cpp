@@ -1,5 +1,6 @@
 #include "analysis/run.hpp"
 
+#include <cstdio>
 #include <mutex>
 #include <stdexcept>
 
@@ -63,6 +64,19 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
     }
     out.text += "\n" + cautions_text() + "\n";
     return out;
+}
+
+std::string run_record_json(const Scenario& sc, const RunSettings& settings, double seconds) {
+    char hash[24];
+    std::snprintf(hash, sizeof hash, "%016llx", static_cast<unsigned long long>(sc.source_hash));
+    std::string plans;
+    for (const Plan& p : sc.plans) plans += (plans.empty() ? "" : ", ") + json_escape(p.name);
+    return std::string("{\n") + "  \"tool\": \"tocsin\",\n  \"version\": \"" + TOCSIN_VERSION + "\",\n" +
+           "  \"scenario_file\": " + json_escape(sc.file) + ",\n  \"scenario_name\": " + json_escape(sc.name) +
+           ",\n  \"scenario_fnv1a64\": \"" + hash + "\",\n  \"seed\": " + std::to_string(sc.seed) +
+           ",\n  \"replications\": " + std::to_string(sc.replications) + ",\n  \"threads\": " +
+           std::to_string(settings.threads) + ",\n  \"seconds\": " + format_real(seconds, 3) +
+           ",\n  \"plans\": [" + plans + "]\n}\n";
 }
 
 std::vector<OutputFile> run_output_files(const RunOutput& out) {

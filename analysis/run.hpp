@@ -37,6 +37,11 @@ struct RunOutput {
 
 RunOutput run_scenario(const Scenario& scenario, const PopulationFactory& make_population, const RunSettings& settings);
 
+// The machine-readable record of a run: tool version, scenario file and hash,
+// seed, replications, threads and time taken. It is the one output that
+// differs between identical runs (threads, time).
+std::string run_record_json(const Scenario& scenario, const RunSettings& settings, double seconds);
+
 // Every output file of a run (tables as CSV and JSON, cautions).
 std::vector<OutputFile> run_output_files(const RunOutput& output);
 

@@ -141,6 +141,8 @@ int command_run(const RunOptions& opt, bool sweep) {
     if (!opt.out_dir.empty()) {
         std::vector<OutputFile> files = run_output_files(out);
         if (effect) add_table_files(files, effect->table);
+        files.push_back({"run_record.json",
+                         run_record_json(sc, settings, std::chrono::duration<double>(std::chrono::steady_clock::now() - started).count())});
         write_output_files(opt.out_dir, files);
         std::cout << "Wrote " << files.size() << " files to " << opt.out_dir << " in "
                   << format_real(std::chrono::duration<double>(std::chrono::steady_clock::now() - started).count(), 1)

@@ -230,6 +230,8 @@ Scenario parse_scenario(const std::string& yaml_text, const std::string& file, c
     Scenario sc;
     sc.file = file;
     sc.directory = directory;
+    sc.source_hash = 0xcbf29ce484222325ULL;  // FNV-1a, 64 bit
+    for (unsigned char c : yaml_text) sc.source_hash = (sc.source_hash ^ c) * 0x100000001b3ULL;
     if (top.integer("scenario_schema", 0) != scenario_schema_version)
         top.fail("scenario_schema", "unsupported schema version");
     sc.name = top.text("name");

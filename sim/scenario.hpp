@@ -38,6 +38,7 @@ struct KeyLocation {
 
 struct Scenario {
     std::string file;         // path as given
+    std::uint64_t source_hash = 0;  // FNV-1a of the scenario text, for the run record
     std::string directory;    // for resolving relative paths
     std::string name;
     std::string description;
