@@ -15,6 +15,7 @@
 #include "analysis/output.hpp"
 #include "analysis/results.hpp"
 #include "analysis/run.hpp"
+#include "analysis/shift_effect.hpp"
 #include "sim/population_source.hpp"
 #include "models/errors.hpp"
 #include "models/fit.hpp"
@@ -135,8 +136,14 @@ int command_run(const RunOptions& opt, bool sweep) {
     settings.budget_metric = opt.budget_metric;
     const RunOutput out = run_scenario(sc, factory, settings);
     std::cout << out.text;
+    std::optional<ShiftEffect> effect;
+    if (sc.shift) {
+        effect = shift_effect(sc, factory, settings.threads);
+        std::cout << "\n" << effect->text;
+    }
     if (!opt.out_dir.empty()) {
         std::vector<OutputFile> files = run_output_files(out);
+        if (effect) add_table_files(files, effect->table);
         files.push_back({"run_record.json",
                          run_record_json(sc, settings, std::chrono::duration<double>(std::chrono::steady_clock::now() - started).count())});
         write_output_files(opt.out_dir, files);
