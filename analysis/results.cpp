@@ -4,6 +4,7 @@
 #include <sstream>
 
 #include "analysis/cautions.hpp"
+#include "analysis/channel_tables.hpp"
 #include "analysis/quantiles.hpp"
 
 namespace tocsin {
@@ -51,7 +52,7 @@ PlanFigures plan_figures(const Scenario& sc, const Population& pop, const ShiftC
             const std::size_t k = slot[cal.index_of(n.at)];
             if (k != SIZE_MAX) ++f.unit_shift_counts[n.unit * n_shifts + k];
         }
-        actions.emplace_back(n.encounter, n.at);
+        if (n.asks_evaluation) actions.emplace_back(n.encounter, n.at);  // only an evaluation can catch a case
     }
     std::vector<double> all, night;
     for (std::size_t u = 0; u < n_units; ++u)
@@ -99,7 +100,7 @@ Cell opt(const std::optional<double>& v) { return v ? Cell(*v) : Cell(); }
 }  // namespace
 
 RunTables run_tables(const Scenario& sc, const Population& pop, const ShiftCalendar& cal,
-                     const ReplicationRecord& record, bool with_notice_log) {
+                     const ReplicationRecord& record, bool with_notice_log, const ChartOpeningLog* replayed_openings) {
     RunTables t;
     const ReportingShifts rep = reporting_shifts(sc, pop, cal);
     t.plan_summary.name = "plan_summary";
@@ -136,16 +137,29 @@ RunTables run_tables(const Scenario& sc, const Population& pop, const ShiftCalen
     for (const auto& [reason, n] : pop.excluded.encounters_by_reason) t.exclusions.add_row({"encounters", reason, n});
     for (const auto& [reason, n] : pop.excluded.scores_by_reason) t.exclusions.add_row({"scores", reason, n});
     for (const auto& [reason, n] : pop.excluded.notes) t.exclusions.add_row({"timestamps", reason, n});
+    if (replayed_openings) add_chart_opening_exclusions(t.exclusions, *replayed_openings);
+    {
+        ChannelTables c = channel_tables(sc, pop, cal, record);
+        t.channel_burden = std::move(c.channel_burden);
+        t.rounds = std::move(c.rounds);
+        t.chart_interruptions = std::move(c.chart_interruptions);
+    }
     if (with_notice_log) {
         Table log;
         log.name = "notice_log";
         log.title = "Every notice (holds encounter ids)";
-        log.columns = {"plan", "replication", "encounter", "unit", "at", "score", "reason", "channel"};
+        log.columns = {"plan", "replication", "encounter", "unit", "at", "score", "reason", "channel",
+                       "evaluation", "opener", "delivery_minutes"};
         for (std::size_t p = 0; p < sc.plans.size(); ++p)
             for (const Notice& n : record.plans[p].notices)
                 log.add_row({sc.plans[p].name, static_cast<std::int64_t>(record.replication),
                              pop.encounters[n.encounter].id, pop.units[n.unit], format_utc(n.at), n.score,
-                             std::string(to_string(n.reason)), std::string(to_string(n.channel))});
+                             std::string(to_string(n.reason)), std::string(to_string(n.channel)),
+                             std::int64_t{n.asks_evaluation ? 1 : 0},
+                             n.channel == Channel::chart_interruption && sc.chart_openings
+                                 ? Cell(sc.chart_openings->roles[n.opener_role].name)
+                                 : Cell(),
+                             n.delivery_minutes});
         t.notice_log = std::move(log);
     }
     return t;
@@ -177,7 +191,22 @@ std::string run_summary_text(const Scenario& sc, const Population& pop, const Ru
                       at(row, "per_unit_shift_p90"), at(row, "per_unit_night_mean"), at(row, "per_unit_night_p90"),
                       at(row, "per_unit_night_max"), at(row, "caught"), at(row, "missed"), at(row, "sensitivity"),
                       at(row, "lead_median_h"), at(row, "notices_per_catch")});
-    o << to_text(view) << "\n" << cautions_text() << "\n";
+    o << to_text(view);
+    if (!t.channel_burden.rows.empty()) {
+        Table burden;
+        burden.title = "\nBurden in each channel's own unit (mean, 90th percentile, worst; delivery minutes)";
+        burden.columns = {"plan", "channel", "burden", "mean", "p90", "max", "minutes_mean", "evaluations"};
+        const auto& bc = t.channel_burden.columns;
+        auto col = [&](const std::vector<Cell>& row, const char* name) {
+            return row[static_cast<std::size_t>(std::find(bc.begin(), bc.end(), name) - bc.begin())];
+        };
+        for (const auto& row : t.channel_burden.rows)
+            burden.add_row({col(row, "plan"), col(row, "channel"), col(row, "burden"), col(row, "burden_mean"),
+                            col(row, "burden_p90"), col(row, "burden_max"), col(row, "minutes_mean"),
+                            col(row, "evaluations")});
+        o << to_text(burden);
+    }
+    o << "\n" << cautions_text() << "\n";
     return o.str();
 }
 

@@ -45,10 +45,15 @@ struct RunTables {
     Table unit_shift_notices;  // the data behind the per-shift distributions
     Table exclusions;
     std::optional<Table> notice_log;  // opt-in: holds encounter ids
+    Table channel_burden;             // each channel's burden in its own unit (analysis/channel_tables.hpp)
+    Table rounds;                     // handoff lists and review rounds
+    Table chart_interruptions;        // per unit x shift x opening role
 };
 
+// `replayed_openings`: the replayed chart-opening log, for its exclusions.
 RunTables run_tables(const Scenario& scenario, const Population& population, const ShiftCalendar& calendar,
-                     const ReplicationRecord& record, bool with_notice_log);
+                     const ReplicationRecord& record, bool with_notice_log,
+                     const ChartOpeningLog* replayed_openings = nullptr);
 
 // A readable terminal summary of a run.
 std::string run_summary_text(const Scenario& scenario, const Population& population, const RunTables& tables,

@@ -7,8 +7,10 @@
 #include <string>
 #include <vector>
 
+#include "models/chart_openings.hpp"
 #include "models/replay.hpp"
 #include "models/time.hpp"
+#include "sim/channel_types.hpp"
 #include "sim/notice.hpp"
 #include "sim/rules.hpp"
 #include "sim/shifts.hpp"
@@ -23,6 +25,9 @@ struct Plan {
     Channel channel = Channel::page;
     std::string role;  // who answers
     Rule rule;
+    ChartSettings chart;      // channel chart_interruption
+    HandoffSettings handoff;  // channel handoff_list
+    ReviewSettings review;    // channel ranked_review (its skip window is rule.snooze)
 };
 
 struct Scenario {
@@ -40,6 +45,7 @@ struct Scenario {
     ReplaySource replay;
     std::optional<Instant> period_start, period_end;  // reporting period, when declared
     std::vector<Plan> plans;
+    std::optional<ChartOpeningSource> chart_openings;  // needed by chart-interruption plans
 };
 
 // Throws InputError (file:line:column, key) on any problem.

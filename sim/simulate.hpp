@@ -2,6 +2,7 @@
 // One replication: every plan of a scenario run over the same population
 // (common random numbers), recording every notice.
 #include <cstdint>
+#include <utility>
 #include <vector>
 
 #include "models/population.hpp"
@@ -13,6 +14,13 @@ namespace tocsin {
 
 struct PlanRecord {
     std::vector<Notice> notices;  // in time order (ties: encounter, then score order)
+    // Evaluation instants the rule was asked at: usable scores (page), chart
+    // openings by the plan's roles, unit handoffs, review rounds per scope.
+    std::int64_t occasions = 0;
+    std::vector<Round> rounds;  // handoff list and ranked review, in time order
+    // Ranked review: (encounter, round instant) for every patient on a top-N
+    // list, reviewed or left over by the team's capacity.
+    std::vector<std::pair<std::uint32_t, Instant>> listed;
 };
 
 struct ReplicationRecord {
@@ -24,9 +32,11 @@ struct ReplicationRecord {
 ShiftCalendar calendar_for(const Scenario& scenario, const Population& population);
 
 // Runs every plan on the population. `threads` splits encounters into blocks;
-// the record is identical whatever the thread count.
+// the record is identical whatever the thread count. Chart-interruption plans
+// read `replayed_openings` when the scenario replays chart openings (see
+// load_chart_openings), and generate them otherwise.
 ReplicationRecord simulate_replication(const Scenario& scenario, const Population& population,
                                        const ShiftCalendar& calendar, std::uint64_t replication,
-                                       unsigned threads = 1);
+                                       unsigned threads = 1, const ChartOpeningLog* replayed_openings = nullptr);
 
 }  // namespace tocsin
