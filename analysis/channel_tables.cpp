@@ -80,7 +80,8 @@ ChannelBurden channel_burden(const Scenario& sc, const Population& pop, const Sh
         case Channel::handoff_list:
         case Channel::ranked_review:
             b.measure = plan.channel == Channel::handoff_list ? "patients flagged per unit per handoff"
-                                                              : "patients reviewed per review round";
+                        : plan.review.scope == ReviewScope::unit ? "patients reviewed per unit per review round"
+                                                                 : "patients reviewed per review round";
             for (const Round& r : record.rounds) {
                 if (r.at < rep.from || r.at >= rep.until) continue;
                 b.values.push_back(r.acted);

@@ -338,8 +338,10 @@ std::string describe_scenario(const Scenario& sc) {
     if (sc.replay.latency_when_missing) o << " (latency " << duration_words(sc.replay.latency_when_missing) << " when available_at is empty)";
     o << "\nPlans (" << sc.plans.size() << "):\n";
     for (const Plan& p : sc.plans) {
+        Rule shown = p.rule;
+        if (p.channel == Channel::ranked_review) shown.snooze.reset();  // shown as the review's skip below
         o << "  - " << p.name << ": " << to_string(p.channel) << " to " << p.role << " when "
-          << describe_rule(p.rule, sc.score_label) << "\n";
+          << describe_rule(shown, sc.score_label) << "\n";
         if (p.channel == Channel::chart_interruption)
             o << "      at each chart opening; " << num(p.chart.interruption_minutes) << " min per interruption; "
               << num(p.chart.acceptance_probability) << " of interruptions lead to an evaluation\n";
@@ -355,6 +357,7 @@ std::string describe_scenario(const Scenario& sc) {
               << " at";
             for (int t : p.review.times_minutes) o << " " << format_clock_minutes(t);
             o << "; " << num(p.review.minutes_per_review) << " min per review";
+            if (p.rule.snooze) o << "; skips patients reviewed in the last " << duration_words(*p.rule.snooze);
             if (p.review.max_reviews_per_round) o << "; at most " << *p.review.max_reviews_per_round << " reviews per round";
             o << "\n";
         }

@@ -64,7 +64,7 @@ const std::vector<SectionSpec>& scenario_sections() {
          {
              {"name", KeyKind::text, "", "", true, -1e300, 1e300, "e.g. ward nurse; replayed rows name it in their role column."},
              {"clinicians_per_unit", KeyKind::real, "clinicians", "1", false, 0.001, 1000, "Headcount of the role on one unit in one shift, for 'interruptions per clinician per shift'."},
-             {"openings_per_hour", KeyKind::list, "openings per patient per hour", "", false, -1e300, 1e300, "Rate by local hour 00..23: one number (all day) or 24 (hour 0 first); needed when openings are generated."},
+             {"openings_per_hour", KeyKind::list, "openings per patient per hour", "", false, -1e300, 1e300, "Rate by local hour: a list of one number (all day, e.g. [1.5]) or of 24 (hour 00 first); needed when openings are generated."},
          }},
         {"plans[]",
          "One candidate workflow: a rule, a channel and who answers.",

@@ -392,3 +392,62 @@ TEST_CASE("channels.round_times_across_daylight_saving") {
     const Instant mar2 = days_from_civil(2026, 3, 2) * 86400;
     CHECK(daily_instants({480}, chicago, mar2, mar2 + hours(24)) == std::vector<Instant>{mar2 + hours(14)});
 }
+
+TEST_CASE("channels.same_record_whatever_the_threads") {
+    // 2,100 patients (enough for the per-encounter pass to split into two
+    // blocks) with generated chart openings, and one plan per channel: the
+    // record is the same with 1 and 2 threads. Two chart plans that differ only
+    // in acceptance see the same openings and the same draws, so they interrupt
+    // at the same instants, and every interruption accepted at 0.3 is accepted at 0.7.
+    Ward w;
+    for (int i = 0; i < 2100; ++i) {
+        const Instant admitted = at(2, 0) + minutes(i * 7 % 2880);
+        const bool outcome = i % 10 == 0;
+        const auto e = w.patient("E" + std::to_string(10000 + i), static_cast<std::uint32_t>(i % 3), admitted,
+                                 admitted + hours(48), outcome ? std::optional<Instant>(admitted + hours(40)) : std::nullopt);
+        for (int h = 0; h < 48; h += 2) w.score(e, admitted + hours(h) + minutes(5), 30 + (i * 13 + h * (outcome ? 3 : 1)) % 60);
+    }
+    w.done();
+    ChartOpeningRole nurse;
+    nurse.name = "nurse";
+    nurse.openings_per_hour.fill(0.5);
+    w.sc.chart_openings = ChartOpeningSource{{nurse}, ""};
+    Plan& often = w.plan(Channel::chart_interruption, 70);
+    often.rule.snooze = hours(4);
+    often.chart.acceptance_probability = 0.7;
+    w.sc.plans.push_back(often);
+    w.sc.plans.back().chart.acceptance_probability = 0.3;
+    Plan& handoff = w.plan(Channel::handoff_list, 65);
+    handoff.handoff.follow_up_probability = 0.5;
+    Plan& review = w.plan(Channel::ranked_review, 50);
+    review.review.times_minutes = {8 * 60};
+    review.review.top_n = 5;
+    const ShiftCalendar cal = w.calendar();
+    const ReplicationRecord one = simulate_replication(w.sc, w.pop, cal, 0, 1);
+    const ReplicationRecord two = simulate_replication(w.sc, w.pop, cal, 0, 2);
+    for (std::size_t p = 0; p < w.sc.plans.size(); ++p) {
+        CAPTURE(p);
+        const auto& a = one.plans[p].notices;
+        const auto& b = two.plans[p].notices;
+        CHECK(a.size() > 50);
+        REQUIRE(a.size() == b.size());
+        bool same = true;
+        for (std::size_t i = 0; i < a.size(); ++i)
+            same = same && a[i].at == b[i].at && a[i].encounter == b[i].encounter && a[i].reason == b[i].reason &&
+                   a[i].asks_evaluation == b[i].asks_evaluation;
+        CHECK(same);
+        CHECK(one.plans[p].occasions == two.plans[p].occasions);
+    }
+    const auto& p07 = one.plans[0].notices;
+    const auto& p03 = one.plans[1].notices;
+    REQUIRE(p07.size() == p03.size());
+    int subset_violations = 0, accepted07 = 0, accepted03 = 0;
+    for (std::size_t i = 0; i < p07.size(); ++i) {
+        CHECK(p07[i].at == p03[i].at);
+        subset_violations += p03[i].asks_evaluation && !p07[i].asks_evaluation;
+        accepted07 += p07[i].asks_evaluation;
+        accepted03 += p03[i].asks_evaluation;
+    }
+    CHECK(subset_violations == 0);
+    CHECK(accepted03 < accepted07);
+}
