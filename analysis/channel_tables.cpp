@@ -3,6 +3,7 @@
 #include <algorithm>
 
 #include "analysis/quantiles.hpp"
+#include "sim/channels.hpp"
 
 namespace tocsin {
 
@@ -20,11 +21,11 @@ std::size_t slot_of(const ShiftCalendar& cal, const std::vector<std::size_t>& sl
 }
 
 // Roles whose openings the plan interrupts.
-std::vector<std::uint16_t> chart_roles(const Scenario& sc, const Plan& plan) {
-    std::vector<std::uint16_t> roles;
+std::vector<std::uint8_t> chart_roles(const Scenario& sc, const Plan& plan) {
+    std::vector<std::uint8_t> roles;
     if (plan.chart.role) roles.push_back(*plan.chart.role);
     else if (sc.chart_openings)
-        for (std::size_t r = 0; r < sc.chart_openings->roles.size(); ++r) roles.push_back(static_cast<std::uint16_t>(r));
+        for (std::size_t r = 0; r < sc.chart_openings->roles.size(); ++r) roles.push_back(static_cast<std::uint8_t>(r));
     return roles;
 }
 
@@ -42,6 +43,7 @@ ChannelBurden channel_burden(const Scenario& sc, const Population& pop, const Sh
     ChannelBurden b;
     const std::size_t n_units = pop.units.size(), n_shifts = rep.shifts.size();
     const auto slot = reporting_slots(cal, rep);
+    const double per_notice = delivery_minutes(plan);
     switch (plan.channel) {
         case Channel::page: {
             b.measure = "notices per unit per shift";
@@ -51,7 +53,7 @@ ChannelBurden channel_burden(const Scenario& sc, const Population& pop, const Sh
                 const std::size_t k = slot_of(cal, slot, n.at);
                 if (k == SIZE_MAX) continue;
                 b.values[n.unit * n_shifts + k] += 1;
-                b.minutes[n.unit * n_shifts + k] += n.delivery_minutes;
+                b.minutes[n.unit * n_shifts + k] += per_notice;
             }
             break;
         }
@@ -65,11 +67,11 @@ ChannelBurden channel_burden(const Scenario& sc, const Population& pop, const Sh
                 if (k == SIZE_MAX) continue;
                 const std::size_t i = (n.unit * n_shifts + k) * n_roles + n.opener_role;
                 count[i] += 1;
-                minutes[i] += n.delivery_minutes;
+                minutes[i] += per_notice;
             }
             for (std::size_t u = 0; u < n_units; ++u)
                 for (std::size_t k = 0; k < n_shifts; ++k)
-                    for (std::uint16_t r : roles) {
+                    for (std::uint8_t r : roles) {
                         const double heads = sc.chart_openings->roles[r].clinicians_per_unit;
                         const std::size_t i = (u * n_shifts + k) * n_roles + r;
                         b.values.push_back(count[i] / heads);
@@ -112,11 +114,8 @@ ChannelTables channel_tables(const Scenario& sc, const Population& pop, const Sh
         const PlanRecord& rec = record.plans[p];
         const ChannelBurden b = channel_burden(sc, pop, cal, rep, plan, rec);
         std::int64_t evaluations = 0;
-        double minutes = 0;
-        for (const Notice& n : rec.notices) {
-            evaluations += n.asks_evaluation;
-            minutes += n.delivery_minutes;
-        }
+        for (const Notice& n : rec.notices) evaluations += n.asks_evaluation;
+        const double minutes = delivery_minutes(plan) * static_cast<double>(rec.notices.size());
         t.channel_burden.add_row({plan.name, std::string(to_string(plan.channel)), rec.occasions,
                                   static_cast<std::int64_t>(rec.notices.size()), evaluations, minutes, b.measure,
                                   summary(b.values, -1), summary(b.values, 0.9),
@@ -132,7 +131,7 @@ ChannelTables channel_tables(const Scenario& sc, const Population& pop, const Sh
             std::size_t i = 0;
             for (std::size_t u = 0; u < pop.units.size(); ++u)
                 for (std::size_t k = 0; k < n_shifts; ++k)
-                    for (std::uint16_t r : roles) {
+                    for (std::uint8_t r : roles) {
                         const std::size_t s = rep.shifts[k];
                         const double heads = sc.chart_openings->roles[r].clinicians_per_unit;
                         const double per = b.values[i], mins = b.minutes[i];

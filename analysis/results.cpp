@@ -5,6 +5,7 @@
 
 #include "analysis/cautions.hpp"
 #include "analysis/channel_tables.hpp"
+#include "sim/channels.hpp"
 #include "analysis/quantiles.hpp"
 
 namespace tocsin {
@@ -159,7 +160,7 @@ RunTables run_tables(const Scenario& sc, const Population& pop, const ShiftCalen
                              n.channel == Channel::chart_interruption && sc.chart_openings
                                  ? Cell(sc.chart_openings->roles[n.opener_role].name)
                                  : Cell(),
-                             n.delivery_minutes});
+                             delivery_minutes(sc.plans[p])});
         t.notice_log = std::move(log);
     }
     return t;

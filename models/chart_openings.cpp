@@ -81,7 +81,7 @@ ChartOpeningLog load_chart_openings(const std::string& path, const std::vector<C
         if (*at < enc.admitted) { ++before_admission; continue; }
         if (enc.outcome_at && *at >= *enc.outcome_at) { ++after_outcome; continue; }
         if (*at >= enc.discharged) { ++after_discharge; continue; }
-        openings.push_back({*at, static_cast<std::uint16_t>(r)});
+        openings.push_back({*at, static_cast<std::uint8_t>(r)});
         owner.push_back(it->second);
     }
     // Group by encounter (stable counting sort), then time order within each group.
@@ -120,7 +120,7 @@ void generate_chart_openings(const std::vector<ChartOpeningRole>& roles, const E
             if (t >= static_cast<double>(end)) break;
             const auto at = static_cast<Instant>(t);
             if (keep(stream) * peak < rate[static_cast<std::size_t>(local_hour(zone, at))])
-                out.push_back({at, static_cast<std::uint16_t>(r)});
+                out.push_back({at, static_cast<std::uint8_t>(r)});
         }
     }
     std::stable_sort(out.begin() + static_cast<std::ptrdiff_t>(first), out.end(),

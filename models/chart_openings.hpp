@@ -40,7 +40,7 @@ struct ChartOpeningSource {
 
 struct ChartOpening {
     Instant at = 0;
-    std::uint16_t role = 0;  // index into ChartOpeningSource::roles
+    std::uint8_t role = 0;  // index into ChartOpeningSource::roles (at most 255 roles)
 };
 
 struct ChartOpeningLog {

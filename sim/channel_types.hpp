@@ -11,7 +11,7 @@
 namespace tocsin {
 
 struct ChartSettings {
-    std::optional<std::uint16_t> role;   // only openings by this role (index into chart-opening roles); none: all
+    std::optional<std::uint8_t> role;     // only openings by this role (index into chart-opening roles); none: all
     double interruption_minutes = 0.0;   // the opener's time per interruption
     double acceptance_probability = 1.0; // share of interruptions that lead to an evaluation
 };

@@ -11,6 +11,16 @@
 
 namespace tocsin {
 
+double delivery_minutes(const Plan& plan) {
+    switch (plan.channel) {
+        case Channel::page: return 0.0;
+        case Channel::chart_interruption: return plan.chart.interruption_minutes;
+        case Channel::handoff_list: return plan.handoff.minutes_per_flag;
+        case Channel::ranked_review: return plan.review.minutes_per_review;
+    }
+    return 0.0;
+}
+
 void openings_for_encounter(const Scenario& sc, const Population& pop, const ChartOpeningLog* replayed,
                             std::size_t e, std::uint64_t replication, EncounterOpenings& out) {
     out.openings.clear();
@@ -53,7 +63,6 @@ std::int64_t fire_chart_rule(const Plan& plan, const RuleClock& clock, std::span
         n.channel = Channel::chart_interruption;
         n.asks_evaluation = openings.acceptance_draws[i] < plan.chart.acceptance_probability;
         n.opener_role = o.role;
-        n.delivery_minutes = plan.chart.interruption_minutes;
         out.push_back(n);
     }
     return asked;
@@ -164,7 +173,6 @@ PlanRecord run_round_channel(const Scenario& sc, const Population& pop, const Sh
                 if (!reason) continue;
                 Notice n = notice(e, *reason, patient.rule.latest());
                 n.asks_evaluation = u01 < plan.handoff.follow_up_probability;
-                n.delivery_minutes = plan.handoff.minutes_per_flag;
                 record.notices.push_back(n);
                 Round& r = rounds[n.unit];
                 ++r.listed;
@@ -200,7 +208,6 @@ PlanRecord run_round_channel(const Scenario& sc, const Population& pop, const Sh
                 const Candidate& c = groups[g][rank];
                 census.at(c.encounter).rule.fired(t, c.reason);
                 Notice n = notice(c.encounter, c.reason, c.score);
-                n.delivery_minutes = plan.review.minutes_per_review;
                 record.notices.push_back(n);
                 ++reviewed;
                 ++rounds[g].acted;

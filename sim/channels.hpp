@@ -28,6 +28,11 @@
 
 namespace tocsin {
 
+// Staff minutes one notice's delivery takes (the interruption, the handoff
+// discussion of a flagged patient, the review), apart from any evaluation task
+// it creates; a page's delivery is counted as none.
+double delivery_minutes(const Plan& plan);
+
 // One encounter's chart openings in one replication, with one acceptance draw
 // (uniform on [0, 1)) per opening shared by every plan (common random numbers).
 struct EncounterOpenings {

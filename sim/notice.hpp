@@ -29,10 +29,7 @@ struct Notice {
     bool asks_evaluation = true;
     // For a chart interruption: the opener's role, an index into the
     // scenario's chart-opening roles; 0 for other channels.
-    std::uint16_t opener_role = 0;
-    // Staff minutes the delivery itself takes (the interruption, the handoff
-    // discussion, the review), apart from any evaluation task it creates.
-    double delivery_minutes = 0.0;
+    std::uint8_t opener_role = 0;
 };
 
 }  // namespace tocsin

@@ -117,6 +117,7 @@ ChartOpeningSource parse_chart_openings(const Section& s, const std::string& dir
         src.roles.push_back(std::move(role));
     }
     if (src.roles.empty()) s.fail("roles", "at least one role is needed");
+    if (src.roles.size() > 255) s.fail("roles", "at most 255 chart-opening roles");
     return src;
 }
 
@@ -145,7 +146,7 @@ void parse_channel_settings(const Section& s, Plan& p, const Scenario& sc, const
             if (r == roles.size())
                 s.fail("role", "a chart interruption goes to whoever opens the chart: role must be one of the "
                                "chart_openings roles, or left out for every role");
-            p.chart.role = static_cast<std::uint16_t>(r);
+            p.chart.role = static_cast<std::uint8_t>(r);
         }
     } else if (p.channel == Channel::handoff_list) {
         Section h(s.child("handoff"), "plans[].handoff", s.file(), where + ".handoff");

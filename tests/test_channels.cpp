@@ -110,7 +110,6 @@ TEST_CASE("channels.chart_interruption") {
     REQUIRE(out.size() == 2);
     CHECK(out[0].score == 70);
     CHECK(out[1].opener_role == 1);
-    CHECK(out[0].delivery_minutes == 2);
     CHECK(out[0].channel == Channel::chart_interruption);
 
     SUBCASE("a rise interrupts through the snooze") {
