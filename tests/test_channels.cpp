@@ -8,6 +8,7 @@
 #include <string>
 #include <vector>
 
+#include "analysis/channel_tables.hpp"
 #include "analysis/results.hpp"
 #include "analysis/review_size.hpp"
 #include "sim/channels.hpp"
@@ -449,4 +450,53 @@ TEST_CASE("channels.same_record_whatever_the_threads") {
     }
     CHECK(subset_violations == 0);
     CHECK(accepted03 < accepted07);
+}
+
+TEST_CASE("channels.burden_in_each_channels_unit") {
+    // The handoff story above (threshold 60, handoffs 07:00 and 19:00, 3 min
+    // per flag): flags per unit per handoff are A 1, B 1, A 2, B 0, A 2, B 0:
+    // mean 1, worst 2; minutes 3 per flag: mean 3.
+    Ward w;
+    const auto p1 = w.patient("P1", 0, at(3, 6), at(4, 12));
+    const auto p2 = w.patient("P2", 0, at(3, 8), at(5, 0), at(4, 10));
+    const auto p3 = w.patient("P3", 1, at(2, 20), at(3, 18, 30));
+    w.score(p1, at(3, 6, 30), 65).score(p1, at(3, 10), 40).score(p1, at(3, 18), 70);
+    w.score(p2, at(3, 9), 58).score(p2, at(3, 15), 62);
+    w.score(p3, at(2, 21), 80);
+    w.done();
+    Plan& handoff = w.plan(Channel::handoff_list, 60);
+    handoff.handoff.minutes_per_flag = 3;
+    const ShiftCalendar cal = w.calendar();
+    const ReportingShifts rep = reporting_shifts(w.sc, w.pop, cal);
+    ChannelBurden b = channel_burden(w.sc, w.pop, cal, rep, handoff, run_round_channel(w.sc, w.pop, cal, handoff, 0, 0));
+    CHECK(b.measure == "patients flagged per unit per handoff");
+    CHECK(b.values == std::vector<double>{1, 1, 2, 0, 2, 0});
+    CHECK(b.minutes == std::vector<double>{3, 3, 6, 0, 6, 0});
+
+    SUBCASE("chart interruptions per clinician per shift") {
+        // Two interruptions of nurses (4 per unit) on unit A in the 3 Mar day
+        // shift, one of the doctor (1 per unit) in the same shift. The complete
+        // shifts between 2 Mar 20:00 and 5 Mar 00:00 are 3 Mar day, 3 Mar night
+        // and 4 Mar day (the 4 Mar night ends after 5 Mar 00:00): 2 units x 3
+        // shifts x 2 roles = 12 values, all 0 but the nurses' 2 / 4 = 0.5 and
+        // the doctor's 1 / 1 = 1.
+        w.sc.chart_openings = ChartOpeningSource{{{"nurse", 4, {}}, {"doctor", 1, {}}}, ""};
+        Plan chart;
+        chart.channel = Channel::chart_interruption;
+        PlanRecord r;
+        for (std::uint8_t role : {0, 0, 1}) {
+            Notice n;
+            n.at = at(3, 9);
+            n.channel = Channel::chart_interruption;
+            n.opener_role = role;
+            r.notices.push_back(n);
+        }
+        b = channel_burden(w.sc, w.pop, cal, rep, chart, r);
+        CHECK(b.measure == "interruptions per clinician per shift");
+        REQUIRE(b.values.size() == 12);
+        std::vector<double> expected(12, 0.0);
+        expected[0] = 0.5;  // unit A, 3 Mar day, nurse
+        expected[1] = 1.0;  // unit A, 3 Mar day, doctor
+        CHECK(b.values == expected);
+    }
 }

@@ -145,3 +145,39 @@ TEST_CASE("chart_openings.replay") {
         CHECK(expect_error(dir.path("missing.csv"), roles, pop).find("missing.csv") != std::string::npos);
     }
 }
+
+TEST_CASE("chart_openings.replayed_through_the_command_line") {
+    // The demo with its chart openings replayed from a three-row log: one usable
+    // opening (FH-00003, admitted 2 Nov 18:52, outcome 3 Nov 18:12 local), one
+    // after its outcome and one before its admission, both counted as excluded.
+    tocsin::testing::ScratchDir dir;
+    const std::string source = std::string(TOCSIN_SOURCE_DIR) + "/scenarios/";
+    std::string yaml = tocsin::testing::read_file(source + "demo.yaml");
+    yaml.replace(yaml.find("chart_openings:\n"), 16, "chart_openings:\n  replay: openings.csv\n");
+    dir.file("demo.yaml", yaml);
+    dir.file("demo/encounters.csv", tocsin::testing::read_file(source + "demo/encounters.csv"));
+    dir.file("demo/scores.csv", tocsin::testing::read_file(source + "demo/scores.csv"));
+    dir.file("openings.csv",
+             "encounter,opened_at,role\n"
+             "FH-00003,2026-11-03 10:00:00,ward nurse\n"
+             "FH-00003,2026-11-03 19:00:00,ward nurse\n"
+             "FH-00003,2026-11-01 00:00:00,ward physician\n");
+    const auto check = tocsin::testing::run_tocsin("check " + dir.path("demo.yaml"));
+    INFO(check.output);
+    CHECK(check.exit_code == 0);
+    CHECK(check.output.find("Chart openings: 1 usable.") != std::string::npos);
+    const auto run = tocsin::testing::run_tocsin("run " + dir.path("demo.yaml") + " --out " + dir.path("out"));
+    REQUIRE(run.exit_code == 0);
+    const std::string exclusions = tocsin::testing::read_file(dir.path("out/exclusions.csv"));
+    CHECK(exclusions.find("chart openings,opened at or after the outcome (time zero),1") != std::string::npos);
+    CHECK(exclusions.find("chart openings,opened before admission,1") != std::string::npos);
+    const std::string burden = tocsin::testing::read_file(dir.path("out/channel_burden.csv"));
+    CHECK(burden.find("chart-60,chart_interruption,1,") != std::string::npos);  // one opening asked
+
+    // A bad row stops the run with its place, and nothing is written.
+    dir.file("openings.csv", "encounter,opened_at,role\nFH-00003,2026-11-03 10:00:00,porter\n");
+    const auto bad = tocsin::testing::run_tocsin("run " + dir.path("demo.yaml") + " --out " + dir.path("bad"));
+    CHECK(bad.exit_code == 2);
+    CHECK(bad.output.find("openings.csv:2:3: role: role 'porter' is not declared") != std::string::npos);
+    CHECK_FALSE(std::filesystem::exists(dir.path("bad")));
+}
