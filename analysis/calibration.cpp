@@ -35,16 +35,24 @@ void check_lengths(std::span<const double> p, std::span<const std::uint8_t> y) {
 
 ObservedExpected observed_expected(std::span<const double> p, std::span<const std::uint8_t> y, double confidence) {
     check_lengths(p, y);
-    ObservedExpected out;
-    out.predictions = static_cast<std::int64_t>(p.size());
+    double observed = 0.0, expected = 0.0;
     for (std::size_t i = 0; i < p.size(); ++i) {
-        out.expected += p[i];
-        out.observed += y[i] ? 1.0 : 0.0;
+        expected += p[i];
+        observed += y[i] ? 1.0 : 0.0;
     }
-    out.ratio = out.expected > 0 ? out.observed / out.expected : not_a_number;
-    const double n = static_cast<double>(out.predictions);
-    if (out.observed > 0 && out.observed < n && out.expected > 0) {
-        const double se = std::sqrt(1.0 / out.observed - 1.0 / n);
+    return observed_expected_from_sums(static_cast<std::int64_t>(p.size()), observed, expected, confidence);
+}
+
+ObservedExpected observed_expected_from_sums(std::int64_t predictions, double observed, double expected,
+                                             double confidence) {
+    ObservedExpected out;
+    out.predictions = predictions;
+    out.observed = observed;
+    out.expected = expected;
+    out.ratio = expected > 0 ? observed / expected : not_a_number;
+    const double n = static_cast<double>(predictions);
+    if (observed > 0 && observed < n && expected > 0) {
+        const double se = std::sqrt(1.0 / observed - 1.0 / n);
         const double z = normal_two_sided_z(confidence);
         out.interval = {out.ratio * std::exp(-z * se), out.ratio * std::exp(z * se)};
     } else {
@@ -55,30 +63,38 @@ ObservedExpected observed_expected(std::span<const double> p, std::span<const st
 
 LogisticRecalibration logistic_recalibration(std::span<const double> p, std::span<const std::uint8_t> y) {
     check_lengths(p, y);
+    std::vector<double> trials(p.size(), 1.0), events(p.size());
+    for (std::size_t i = 0; i < y.size(); ++i) events[i] = y[i] ? 1.0 : 0.0;
+    return logistic_recalibration_grouped(p, trials, events);
+}
+
+LogisticRecalibration logistic_recalibration_grouped(std::span<const double> p, std::span<const double> trials,
+                                                     std::span<const double> events) {
+    if (p.size() != trials.size() || p.size() != events.size())
+        throw std::invalid_argument("calibration: probabilities, trials and events differ in length");
     LogisticRecalibration out;
-    out.predictions = static_cast<std::int64_t>(p.size());
     std::vector<double> x(p.size());
-    std::int64_t events = 0;
+    double n_total = 0.0, events_total = 0.0;
     for (std::size_t i = 0; i < p.size(); ++i) {
-        x[i] = logit(clamp_probability(p[i], out.clamped));
-        events += y[i] ? 1 : 0;
+        std::int64_t clamped = 0;
+        x[i] = logit(clamp_probability(p[i], clamped));
+        out.clamped += clamped * static_cast<std::int64_t>(trials[i]);
+        n_total += trials[i];
+        events_total += events[i];
     }
+    out.predictions = static_cast<std::int64_t>(n_total);
     out.intercept = out.slope = out.calibration_in_the_large = not_a_number;
     out.intercept_se = out.slope_se = out.calibration_in_the_large_se = not_a_number;
-    if (events == 0 || events == out.predictions) return out;
+    if (events_total == 0.0 || events_total == n_total) return out;
 
-    // Newton-Raphson on the log-likelihood, started at perfect calibration.
-    // For the logit link this is exactly IRLS: beta += (X'WX)^-1 X'(y - mu).
-    Eigen::Vector2d beta(0.0, 1.0);
-    Eigen::Matrix2d information;
-    constexpr int max_iterations = 100;
-    for (out.iterations = 1; out.iterations <= max_iterations; ++out.iterations) {
+    // Fisher information and score of the two-parameter model at beta.
+    auto accumulate = [&](const Eigen::Vector2d& beta, Eigen::Matrix2d& information, Eigen::Vector2d& score) {
         information.setZero();
-        Eigen::Vector2d score = Eigen::Vector2d::Zero();
+        score.setZero();
         for (std::size_t i = 0; i < x.size(); ++i) {
             const double mu = expit(beta[0] + beta[1] * x[i]);
-            const double w = mu * (1.0 - mu);
-            const double r = (y[i] ? 1.0 : 0.0) - mu;
+            const double w = trials[i] * mu * (1.0 - mu);
+            const double r = events[i] - trials[i] * mu;
             information(0, 0) += w;
             information(0, 1) += w * x[i];
             information(1, 1) += w * x[i] * x[i];
@@ -86,6 +102,14 @@ LogisticRecalibration logistic_recalibration(std::span<const double> p, std::spa
             score[1] += r * x[i];
         }
         information(1, 0) = information(0, 1);
+    };
+    // Newton-Raphson on the log-likelihood, started at perfect calibration.
+    // For the logit link this is exactly IRLS: beta += (X'WX)^-1 X'(y - mu).
+    Eigen::Vector2d beta(0.0, 1.0), score;
+    Eigen::Matrix2d information;
+    constexpr int max_iterations = 100;
+    for (out.iterations = 1; out.iterations <= max_iterations; ++out.iterations) {
+        accumulate(beta, information, score);
         const Eigen::Vector2d step = information.ldlt().solve(score);
         if (!step.allFinite()) break;
         beta += step;
@@ -95,16 +119,7 @@ LogisticRecalibration logistic_recalibration(std::span<const double> p, std::spa
         }
     }
     if (out.converged) {
-        // Recompute the information at the final estimate for the standard errors.
-        information.setZero();
-        for (double xi : x) {
-            const double mu = expit(beta[0] + beta[1] * xi);
-            const double w = mu * (1.0 - mu);
-            information(0, 0) += w;
-            information(0, 1) += w * xi;
-            information(1, 1) += w * xi * xi;
-        }
-        information(1, 0) = information(0, 1);
+        accumulate(beta, information, score);  // information at the final estimate
         const Eigen::Matrix2d covariance = information.inverse();
         out.intercept = beta[0];
         out.slope = beta[1];
@@ -113,17 +128,20 @@ LogisticRecalibration logistic_recalibration(std::span<const double> p, std::spa
     }
 
     // Calibration-in-the-large: one-parameter Newton with logit(p) as offset.
-    double a = 0.0, information_a = 0.0;
-    bool converged_a = false;
-    for (int it = 0; it < max_iterations; ++it) {
-        double score = 0.0;
+    auto offset_fit = [&](double a, double& information_a) {
+        double s = 0.0;
         information_a = 0.0;
         for (std::size_t i = 0; i < x.size(); ++i) {
             const double mu = expit(a + x[i]);
-            score += (y[i] ? 1.0 : 0.0) - mu;
-            information_a += mu * (1.0 - mu);
+            s += events[i] - trials[i] * mu;
+            information_a += trials[i] * mu * (1.0 - mu);
         }
-        const double step = score / information_a;
+        return s;
+    };
+    double a = 0.0, information_a = 0.0;
+    bool converged_a = false;
+    for (int it = 0; it < max_iterations; ++it) {
+        const double step = offset_fit(a, information_a) / information_a;
         if (!std::isfinite(step)) break;
         a += step;
         if (std::abs(step) < 1e-10 * (1.0 + std::abs(a))) {
@@ -132,11 +150,7 @@ LogisticRecalibration logistic_recalibration(std::span<const double> p, std::spa
         }
     }
     if (converged_a) {
-        information_a = 0.0;
-        for (double xi : x) {
-            const double mu = expit(a + xi);
-            information_a += mu * (1.0 - mu);
-        }
+        offset_fit(a, information_a);
         out.calibration_in_the_large = a;
         out.calibration_in_the_large_se = 1.0 / std::sqrt(information_a);
     }
