@@ -6,7 +6,6 @@
 #include <limits>
 #include <stdexcept>
 
-#include "analysis/quantiles.hpp"
 
 namespace tocsin {
 
@@ -216,7 +215,14 @@ SmoothedCurve smoothed_calibration(std::span<const double> p, std::span<const st
         const double m = sum / static_cast<double>(x.size());
         for (double xi : x) sum_sq += (xi - m) * (xi - m);
         const double sd = x.size() > 1 ? std::sqrt(sum_sq / static_cast<double>(x.size() - 1)) : 0.0;
-        const double iqr = quantile(x, 0.75) - quantile(x, 0.25);
+        // Quartiles by selection, not a full sort: this runs on every prediction.
+        std::vector<double> copy = x;
+        const auto lower_at = static_cast<std::ptrdiff_t>((copy.size() - 1) / 4);
+        const auto upper_at = static_cast<std::ptrdiff_t>(3 * (copy.size() - 1) / 4);
+        std::nth_element(copy.begin(), copy.begin() + upper_at, copy.end());
+        const double upper_quartile = copy[static_cast<std::size_t>(upper_at)];
+        std::nth_element(copy.begin(), copy.begin() + lower_at, copy.begin() + upper_at);
+        const double iqr = upper_quartile - copy[static_cast<std::size_t>(lower_at)];
         double spread = std::min(sd, iqr / 1.34);
         if (!(spread > 0.0)) spread = sd > 0.0 ? sd : 1.0;
         bandwidth = 0.9 * spread * std::pow(static_cast<double>(x.size()), -0.2);

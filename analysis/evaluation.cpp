@@ -123,21 +123,24 @@ std::vector<AucSums> auc_by_horizon(const RankedPredictions& r, const std::vecto
                                     const std::vector<std::uint32_t>& weights) {
     const std::size_t n = r.value.size(), k = limits.size();
     std::vector<AucSums> sums(k);
-    std::vector<std::int64_t> pos(k), neg(k);
+    std::vector<std::int64_t> pos(k);
     std::size_t i = 0;
     while (i < n) {
         std::fill(pos.begin(), pos.end(), 0);
-        std::fill(neg.begin(), neg.end(), 0);
+        std::int64_t group = 0;
         const double v = r.value[i];
+        // Branch-free on purpose: a third of bootstrap weights are 0 and the
+        // labels are unpredictable, so multiplying beats skipping.
         for (; i < n && r.value[i] == v; ++i) {
             const std::int64_t w = weights.empty() ? 1 : weights[r.encounter[i]];
-            if (w == 0) continue;
             const std::int32_t ahead = r.seconds_to_outcome[i];
-            for (std::size_t h = 0; h < k; ++h) (ahead <= limits[h] ? pos[h] : neg[h]) += w;
+            group += w;
+            for (std::size_t h = 0; h < k; ++h) pos[h] += w * static_cast<std::int64_t>(ahead <= limits[h]);
         }
         for (std::size_t h = 0; h < k; ++h) {
-            sums[h].twice_u += pos[h] * (2 * sums[h].negatives + neg[h]);
-            sums[h].negatives += neg[h];
+            const std::int64_t neg = group - pos[h];
+            sums[h].twice_u += pos[h] * (2 * sums[h].negatives + neg);
+            sums[h].negatives += neg;
             sums[h].positives += pos[h];
         }
     }

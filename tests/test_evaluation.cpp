@@ -7,7 +7,10 @@
 #include <string>
 #include <vector>
 
+#include <boost/random/uniform_int_distribution.hpp>
+
 #include "analysis/evaluation.hpp"
+#include "models/random_streams.hpp"
 
 using namespace tocsin;
 
@@ -245,6 +248,44 @@ TEST_CASE("evaluation.bootstrap_is_reproducible") {
     CHECK(first != to_csv(prediction_auc_table(pop, o)));
     const Table t = prediction_auc_table(pop, o);
     CHECK(cell_number(t, 0, "auc_lower") < cell_number(t, 0, "auc_upper"));
+}
+
+TEST_CASE("evaluation.bootstrap_replicate_is_the_resampled_population") {
+    // One replicate resamples whole encounters with replacement. Its AUC must
+    // equal the AUC of a population built by copying each drawn encounter,
+    // which we build here from the documented stream: (seed, replication,
+    // evaluation_bootstrap, entity = replicate index), one uniform draw per
+    // encounter with scores. With one replicate the percentile interval is
+    // that single value.
+    Builder b;
+    for (int e = 0; e < 12; ++e) {
+        const bool is_case = e % 3 == 0;
+        const Instant admitted = march_1 + hours(2 * e);
+        const auto id = b.encounter("P" + std::to_string(e), admitted, admitted + hours(20),
+                                    is_case ? std::optional<Instant>(admitted + hours(18)) : std::nullopt);
+        for (int k = 0; k < 16; ++k) b.score(id, admitted + hours(k), (e * 5 + k * 7) % 13 + (is_case ? k * 0.25 : 0.0));
+    }
+    const Population pop = b.build();
+    EvaluationOptions o;
+    o.horizons_hours = {6};
+    o.bootstrap_replicates = 1;
+    o.seed = 17;
+    o.replication = 2;
+    const Table boot = prediction_auc_table(pop, o);
+
+    RandomEngine engine = make_stream(17, 2, StreamPurpose::evaluation_bootstrap, 0);
+    boost::random::uniform_int_distribution<std::size_t> pick(0, pop.encounters.size() - 1);
+    Builder copy;
+    for (std::size_t d = 0; d < pop.encounters.size(); ++d) {
+        const std::size_t e = pick(engine);
+        const Encounter& enc = pop.encounters[e];
+        const auto id = copy.encounter(enc.id + "#" + std::to_string(d), enc.admitted, enc.discharged, enc.outcome_at);
+        for (const Score& s : pop.scores_of(e)) copy.score(id, s.available_at, s.value);
+    }
+    o.bootstrap_replicates = 0;
+    const Table resampled = prediction_auc_table(copy.build(), o);
+    CHECK(cell_number(boot, 0, "auc_lower") == doctest::Approx(cell_number(resampled, 0, "auc")).epsilon(1e-12));
+    CHECK(cell_number(boot, 0, "auc_upper") == cell_number(boot, 0, "auc_lower"));
 }
 
 TEST_CASE("evaluation.rejects_bad_options") {
