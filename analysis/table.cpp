@@ -119,14 +119,18 @@ std::string to_text(const Table& t, int digits) {
         std::string fill(w > s.size() ? w - s.size() : 0, ' ');
         return left ? s + fill : fill + s;
     };
+    // A column is left-aligned when it holds text.
+    std::vector<bool> text_column(t.columns.size(), false);
+    for (const auto& row : t.rows)
+        for (std::size_t i = 0; i < row.size(); ++i)
+            if (std::holds_alternative<std::string>(row[i])) text_column[i] = true;
     std::string out;
     if (!t.title.empty()) out += t.title + "\n";
-    for (std::size_t i = 0; i < t.columns.size(); ++i) out += (i ? "  " : "") + pad(t.columns[i], width[i], i == 0);
+    for (std::size_t i = 0; i < t.columns.size(); ++i) out += (i ? "  " : "") + pad(t.columns[i], width[i], text_column[i]);
     out += "\n";
     for (std::size_t r = 0; r < cells.size(); ++r) {
         for (std::size_t i = 0; i < cells[r].size(); ++i) {
-            const bool left = std::holds_alternative<std::string>(t.rows[r][i]);
-            out += (i ? "  " : "") + pad(cells[r][i], width[i], left);
+            out += (i ? "  " : "") + pad(cells[r][i], width[i], text_column[i]);
         }
         out += "\n";
     }

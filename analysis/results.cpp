@@ -1,0 +1,191 @@
+#include "analysis/results.hpp"
+
+#include <algorithm>
+#include <sstream>
+
+#include "analysis/cautions.hpp"
+#include "analysis/quantiles.hpp"
+
+namespace tocsin {
+
+ReportingShifts reporting_shifts(const Scenario& sc, const Population& pop, const ShiftCalendar& cal) {
+    ReportingShifts r;
+    r.from = sc.period_start.value_or(pop.period_start);
+    r.until = sc.period_end.value_or(pop.period_end);
+    for (std::size_t k = 0; k < cal.size(); ++k) {
+        const Shift& s = cal.shifts()[k];
+        if (s.start >= r.from && s.end <= r.until) r.shifts.push_back(k);
+    }
+    return r;
+}
+
+std::vector<std::optional<Instant>> first_catch(const Scenario& sc, const Population& pop,
+                                                const std::vector<std::pair<std::uint32_t, Instant>>& actions) {
+    std::vector<std::optional<Instant>> first(pop.encounters.size());
+    for (const auto& [e, at] : actions) {
+        const Encounter& enc = pop.encounters[e];
+        if (!enc.outcome_at) continue;
+        const Instant t0 = *enc.outcome_at;
+        if (at < t0 - sc.window || at > t0 - sc.min_lead) continue;
+        if (!first[e] || at < *first[e]) first[e] = at;
+    }
+    return first;
+}
+
+PlanFigures plan_figures(const Scenario& sc, const Population& pop, const ShiftCalendar& cal,
+                         const ReportingShifts& rep, const PlanRecord& record) {
+    PlanFigures f;
+    const std::size_t n_units = pop.units.size(), n_shifts = rep.shifts.size();
+    f.unit_shift_counts.assign(n_units * n_shifts, 0);
+    // Position of each calendar shift among the reporting shifts, or npos.
+    std::vector<std::size_t> slot(cal.size(), SIZE_MAX);
+    for (std::size_t k = 0; k < n_shifts; ++k) slot[rep.shifts[k]] = k;
+    std::vector<std::pair<std::uint32_t, Instant>> actions;
+    actions.reserve(record.notices.size());
+    for (const Notice& n : record.notices) {
+        ++f.notices;
+        if (n.reason == NoticeReason::first) ++f.notices_first;
+        else if (n.reason == NoticeReason::repeat) ++f.notices_repeat;
+        else ++f.notices_rise;
+        if (cal.contains(n.at)) {
+            const std::size_t k = slot[cal.index_of(n.at)];
+            if (k != SIZE_MAX) ++f.unit_shift_counts[n.unit * n_shifts + k];
+        }
+        actions.emplace_back(n.encounter, n.at);
+    }
+    std::vector<double> all, night;
+    for (std::size_t u = 0; u < n_units; ++u)
+        for (std::size_t k = 0; k < n_shifts; ++k) {
+            const double c = static_cast<double>(f.unit_shift_counts[u * n_shifts + k]);
+            all.push_back(c);
+            if (cal.is_night(rep.shifts[k])) night.push_back(c);
+        }
+    std::sort(all.begin(), all.end());
+    std::sort(night.begin(), night.end());
+    if (!all.empty()) {
+        f.per_unit_shift_mean = mean(all);
+        f.per_unit_shift_p90 = quantile_sorted(all, 0.9);
+        f.per_unit_shift_max = all.back();
+    }
+    if (!night.empty()) {
+        f.per_unit_night_mean = mean(night);
+        f.per_unit_night_p90 = quantile_sorted(night, 0.9);
+        f.per_unit_night_max = night.back();
+    }
+    const auto caught_at = first_catch(sc, pop, actions);
+    std::vector<double> leads;
+    for (std::size_t e = 0; e < pop.encounters.size(); ++e) {
+        if (!pop.encounters[e].outcome_at) continue;
+        ++f.cases;
+        if (caught_at[e]) {
+            ++f.caught;
+            leads.push_back(static_cast<double>(*pop.encounters[e].outcome_at - *caught_at[e]) / 3600.0);
+        }
+    }
+    f.missed = f.cases - f.caught;
+    if (f.cases) f.sensitivity = static_cast<double>(f.caught) / static_cast<double>(f.cases);
+    if (!leads.empty()) {
+        std::sort(leads.begin(), leads.end());
+        f.lead_median_hours = quantile_sorted(leads, 0.5);
+        f.lead_q1_hours = quantile_sorted(leads, 0.25);
+        f.lead_q3_hours = quantile_sorted(leads, 0.75);
+    }
+    if (f.caught) f.notices_per_catch = static_cast<double>(f.notices) / static_cast<double>(f.caught);
+    return f;
+}
+
+namespace {
+Cell opt(const std::optional<double>& v) { return v ? Cell(*v) : Cell(); }
+}  // namespace
+
+RunTables run_tables(const Scenario& sc, const Population& pop, const ShiftCalendar& cal,
+                     const ReplicationRecord& record, bool with_notice_log) {
+    RunTables t;
+    const ReportingShifts rep = reporting_shifts(sc, pop, cal);
+    t.plan_summary.name = "plan_summary";
+    t.plan_summary.title = "Plans compared (replication " + std::to_string(record.replication) + ")";
+    t.plan_summary.columns = {"plan", "channel", "notices", "first", "repeat", "rise",
+                              "per_unit_shift_mean", "per_unit_shift_p90", "per_unit_shift_max",
+                              "per_unit_night_mean", "per_unit_night_p90", "per_unit_night_max",
+                              "cases", "caught", "missed", "sensitivity",
+                              "lead_median_h", "lead_q1_h", "lead_q3_h", "notices_per_catch"};
+    t.unit_shift_notices.name = "unit_shift_notices";
+    t.unit_shift_notices.title = "Notices per unit per shift";
+    t.unit_shift_notices.columns = {"plan", "unit", "shift_start", "shift", "night", "notices"};
+    for (std::size_t p = 0; p < sc.plans.size(); ++p) {
+        const PlanFigures f = plan_figures(sc, pop, cal, rep, record.plans[p]);
+        t.plan_summary.add_row({sc.plans[p].name, std::string(to_string(sc.plans[p].channel)), f.notices,
+                                f.notices_first, f.notices_repeat, f.notices_rise, f.per_unit_shift_mean,
+                                f.per_unit_shift_p90, f.per_unit_shift_max, opt(f.per_unit_night_mean),
+                                opt(f.per_unit_night_p90), opt(f.per_unit_night_max), f.cases, f.caught, f.missed,
+                                opt(f.sensitivity), opt(f.lead_median_hours), opt(f.lead_q1_hours),
+                                opt(f.lead_q3_hours), opt(f.notices_per_catch)});
+        const std::size_t n_shifts = rep.shifts.size();
+        for (std::size_t u = 0; u < pop.units.size(); ++u)
+            for (std::size_t k = 0; k < n_shifts; ++k) {
+                const std::size_t s = rep.shifts[k];
+                t.unit_shift_notices.add_row({sc.plans[p].name, pop.units[u],
+                                              format_local(cal.shifts()[s].start, sc.zone), cal.name_of(s),
+                                              std::int64_t{cal.is_night(s) ? 1 : 0},
+                                              f.unit_shift_counts[u * n_shifts + k]});
+            }
+    }
+    t.exclusions.name = "exclusions";
+    t.exclusions.title = "Excluded or adjusted input, by reason";
+    t.exclusions.columns = {"what", "reason", "count"};
+    for (const auto& [reason, n] : pop.excluded.encounters_by_reason) t.exclusions.add_row({"encounters", reason, n});
+    for (const auto& [reason, n] : pop.excluded.scores_by_reason) t.exclusions.add_row({"scores", reason, n});
+    for (const auto& [reason, n] : pop.excluded.notes) t.exclusions.add_row({"timestamps", reason, n});
+    if (with_notice_log) {
+        Table log;
+        log.name = "notice_log";
+        log.title = "Every notice (holds encounter ids)";
+        log.columns = {"plan", "replication", "encounter", "unit", "at", "score", "reason", "channel"};
+        for (std::size_t p = 0; p < sc.plans.size(); ++p)
+            for (const Notice& n : record.plans[p].notices)
+                log.add_row({sc.plans[p].name, static_cast<std::int64_t>(record.replication),
+                             pop.encounters[n.encounter].id, pop.units[n.unit], format_utc(n.at), n.score,
+                             std::string(to_string(n.reason)), std::string(to_string(n.channel))});
+        t.notice_log = std::move(log);
+    }
+    return t;
+}
+
+std::string run_header_text(const Scenario& sc, const Population& pop, const RunTables& t, const ReportingShifts& rep) {
+    std::ostringstream o;
+    std::int64_t cases = 0;
+    for (const Encounter& e : pop.encounters) cases += e.outcome_at.has_value();
+    o << sc.name << "\n";
+    o << "Population: " << pop.encounters.size() << " encounters on " << pop.units.size() << " units, " << cases
+      << " with the outcome, " << pop.scores.size() << " usable scores.\n";
+    o << "Per-shift figures cover " << rep.shifts.size() << " complete shifts from " << format_local(rep.from, sc.zone)
+      << " to " << format_local(rep.until, sc.zone) << ".\n";
+    if (t.exclusions.rows.empty()) o << "Nothing was excluded.\n";
+    else o << "\n" << to_text(t.exclusions);
+    return o.str();
+}
+
+std::string plan_summary_text(const RunTables& t) {
+    // A narrower view for the terminal; the CSV/JSON hold every column.
+    Table view;
+    view.title = "Plans compared (notices per unit per shift; lead in hours before time zero)";
+    view.columns = {"plan", "notices", "shift_mean", "shift_p90", "night_mean", "night_p90", "night_max",
+                    "caught", "missed", "sensitivity", "lead_median_h", "notices_per_catch"};
+    const auto& cols = t.plan_summary.columns;
+    auto at = [&](const std::vector<Cell>& row, const char* name) {
+        return row[static_cast<std::size_t>(std::find(cols.begin(), cols.end(), name) - cols.begin())];
+    };
+    for (const auto& row : t.plan_summary.rows)
+        view.add_row({at(row, "plan"), at(row, "notices"), at(row, "per_unit_shift_mean"),
+                      at(row, "per_unit_shift_p90"), at(row, "per_unit_night_mean"), at(row, "per_unit_night_p90"),
+                      at(row, "per_unit_night_max"), at(row, "caught"), at(row, "missed"), at(row, "sensitivity"),
+                      at(row, "lead_median_h"), at(row, "notices_per_catch")});
+    return to_text(view);
+}
+
+std::string run_summary_text(const Scenario& sc, const Population& pop, const RunTables& t,
+                             const ReportingShifts& rep) {
+    return run_header_text(sc, pop, t, rep) + "\n" + plan_summary_text(t) + "\n" + cautions_text() + "\n";
+}
+
+}  // namespace tocsin

@@ -1,0 +1,61 @@
+#pragma once
+// What a run reports, computed from the records of a replication. Every
+// figure is defined in DESIGN.md; the column names are stable (README,
+// "Output columns").
+#include <optional>
+#include <vector>
+
+#include "analysis/table.hpp"
+#include "models/population.hpp"
+#include "sim/scenario.hpp"
+#include "sim/simulate.hpp"
+
+namespace tocsin {
+
+// The complete shifts whose per-unit counts are reported.
+struct ReportingShifts {
+    std::vector<std::size_t> shifts;  // indices into the calendar, ascending
+    Instant from = 0, until = 0;
+};
+ReportingShifts reporting_shifts(const Scenario& scenario, const Population& population, const ShiftCalendar& calendar);
+
+struct PlanFigures {
+    std::int64_t notices = 0;
+    std::int64_t notices_first = 0, notices_repeat = 0, notices_rise = 0;
+    // Per unit-shift over the reporting shifts (every unit x shift, zeros included).
+    double per_unit_shift_mean = 0, per_unit_shift_p90 = 0, per_unit_shift_max = 0;
+    std::optional<double> per_unit_night_mean, per_unit_night_p90, per_unit_night_max;
+    std::int64_t cases = 0, caught = 0, missed = 0;
+    std::optional<double> sensitivity;
+    std::optional<double> lead_median_hours, lead_q1_hours, lead_q3_hours;
+    std::optional<double> notices_per_catch;
+    std::vector<std::int64_t> unit_shift_counts;  // unit-major: [unit * shifts + k]
+};
+
+// First instant, per encounter, of a catching action; nothing when not caught.
+// `action_at` lists (encounter, instant) pairs in any order.
+std::vector<std::optional<Instant>> first_catch(const Scenario& scenario, const Population& population,
+                                                const std::vector<std::pair<std::uint32_t, Instant>>& actions);
+
+PlanFigures plan_figures(const Scenario& scenario, const Population& population, const ShiftCalendar& calendar,
+                         const ReportingShifts& reporting, const PlanRecord& record);
+
+struct RunTables {
+    Table plan_summary;
+    Table unit_shift_notices;  // the data behind the per-shift distributions
+    Table exclusions;
+    std::optional<Table> notice_log;  // opt-in: holds encounter ids
+};
+
+RunTables run_tables(const Scenario& scenario, const Population& population, const ShiftCalendar& calendar,
+                     const ReplicationRecord& record, bool with_notice_log);
+
+// Parts of the terminal summary: the population and exclusions; the plan table.
+std::string run_header_text(const Scenario& scenario, const Population& population, const RunTables& tables,
+                            const ReportingShifts& reporting);
+std::string plan_summary_text(const RunTables& tables);
+// A readable terminal summary of a run of one replication.
+std::string run_summary_text(const Scenario& scenario, const Population& population, const RunTables& tables,
+                             const ReportingShifts& reporting);
+
+}  // namespace tocsin

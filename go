@@ -1,0 +1,76 @@
+#!/usr/bin/env bash
+# tocsin's one entry point for set-up, build, demo, tests and benchmarks.
+#   ./go demo    install what is missing, build, run the demo scenario
+#   ./go test    install what is missing, build, run every test (then the sanitizer pass)
+#   ./go build   install build dependencies and build (Release, in build/)
+#   ./go bench   build and run the benchmarks (figures, not pass/fail)
+#   ./go keys    refresh the README's scenario key reference
+# Installs only Debian packages that are not installed yet.
+set -euo pipefail
+cd "$(dirname "${BASH_SOURCE[0]}")"
+JOBS="${JOBS:-$(nproc)}"
+
+BUILD_PACKAGES=(g++ cmake make pkgconf tzdata libboost-random-dev libboost-graph-dev libeigen3-dev
+                libyaml-cpp-dev libcli11-dev doctest-dev)
+# Outside references the test suite checks against, and the browser that renders the report.
+REFERENCE_PACKAGES=(python3 python3-sklearn python3-statsmodels python3-scipy r-base-core r-cran-proc chromium fonts-liberation)
+
+install_missing() {
+    local missing=() p
+    for p in "$@"; do
+        dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q "install ok installed" || missing+=("$p")
+    done
+    ((${#missing[@]})) || return 0
+    local sudo=""
+    [ "$(id -u)" -eq 0 ] || sudo="sudo"
+    echo "go: installing ${missing[*]}" >&2
+    $sudo apt-get update -qq
+    DEBIAN_FRONTEND=noninteractive $sudo apt-get install -y -qq --no-install-recommends "${missing[@]}" >&2
+}
+
+build() {  # build DIR TARGET [cmake args...]
+    local dir="$1" target="$2"; shift 2
+    cmake -S . -B "$dir" -DCMAKE_BUILD_TYPE=Release "$@" > /dev/null
+    cmake --build "$dir" -j "$JOBS" --target "$target"
+}
+
+case "${1:-}" in
+    demo)
+        install_missing "${BUILD_PACKAGES[@]}"
+        build build tocsin
+        ./build/tocsin run scenarios/demo.yaml --out out/demo
+        ;;
+    test)
+        install_missing "${BUILD_PACKAGES[@]}" "${REFERENCE_PACKAGES[@]}"
+        build build all -DTOCSIN_TESTS=ON -DTOCSIN_BENCH=ON
+        (cd build && ctest -j "$JOBS" --output-on-failure --timeout 600)
+        # Second pass: the same tests under AddressSanitizer + UndefinedBehaviorSanitizer.
+        cmake -S . -B build-sanitize -DCMAKE_BUILD_TYPE=RelWithDebInfo -DTOCSIN_SANITIZE=ON -DTOCSIN_TESTS=ON -DTOCSIN_BENCH=OFF > /dev/null
+        cmake --build build-sanitize -j "$JOBS"
+        (cd build-sanitize && ASAN_OPTIONS=detect_leaks=1 ctest -j "$JOBS" --output-on-failure --timeout 900 -LE reference)
+        ;;
+    build)
+        install_missing "${BUILD_PACKAGES[@]}"
+        build build all -DTOCSIN_TESTS=ON -DTOCSIN_BENCH=ON
+        ;;
+    bench)
+        install_missing "${BUILD_PACKAGES[@]}"
+        build build all -DTOCSIN_TESTS=ON -DTOCSIN_BENCH=ON
+        for b in build/bench/bench_*; do [ -x "$b" ] && "$b"; done
+        ;;
+    keys)  # refresh the README's scenario key reference from the built tool
+        build build tocsin
+        python3 - <<'PY'
+import subprocess
+readme = open("README.md").read()
+keys = subprocess.run(["build/tocsin", "keys"], check=True, capture_output=True, text=True).stdout
+begin, end = "<!-- keys:begin -->\n", "<!-- keys:end -->"
+a, b = readme.index(begin) + len(begin), readme.index(end)
+open("README.md", "w").write(readme[:a] + keys + readme[b:])
+PY
+        ;;
+    *)
+        sed -n '2,8p' "$0"
+        exit 2
+        ;;
+esac

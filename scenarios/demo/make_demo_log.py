@@ -1,0 +1,74 @@
+#!/usr/bin/env python3
+"""Writes the invented silent-mode log of the demo scenario.
+
+Fernhollow District Hospital and its wards are invented; every encounter and
+score here is random. The log spans four weeks across the end of daylight
+saving time in the scenario's zone, so the demo shows how a repeated local
+hour is handled. Run from this folder: python3 make_demo_log.py
+"""
+import csv
+import datetime as dt
+import math
+import random
+from zoneinfo import ZoneInfo
+
+ZONE = ZoneInfo("America/Chicago")
+START = dt.datetime(2026, 10, 19, 7, 0, tzinfo=ZONE)
+END = dt.datetime(2026, 11, 16, 7, 0, tzinfo=ZONE)
+UNITS = {"4 North medicine": 26, "5 South surgery": 22, "6 East older adults": 20}
+OUTCOME_RATE = 0.07  # share of stays ending in an unplanned ICU transfer (invented)
+
+rng = random.Random(20261201)
+encounters, scores = [], []
+serial = 0
+for unit, beds in UNITS.items():
+    bed_free = [START - dt.timedelta(hours=rng.uniform(0, 72)) for _ in range(beds)]
+    for bed in range(beds):
+        t = bed_free[bed]
+        while t < END:
+            serial += 1
+            eid = f"FH-{serial:05d}"
+            stay_h = min(24 * 21, max(6.0, rng.lognormvariate(math.log(80), 0.6)))
+            admitted = t
+            discharged = t + dt.timedelta(hours=stay_h)
+            outcome = None
+            if rng.random() < OUTCOME_RATE:
+                outcome = admitted + dt.timedelta(hours=stay_h * rng.uniform(0.2, 1.0))
+                discharged = outcome + dt.timedelta(hours=rng.uniform(0.5, 3))
+            base = rng.gauss(28, 9)
+            drift_start = outcome - dt.timedelta(hours=rng.uniform(4, 36)) if outcome else None
+            s = admitted + dt.timedelta(minutes=rng.uniform(10, 60))
+            while s < discharged:
+                value = base + rng.gauss(0, 8)
+                if outcome and s > drift_start:
+                    hours_in = (s - drift_start).total_seconds() / 3600
+                    span = (outcome - drift_start).total_seconds() / 3600
+                    value += 42 * min(1.0, hours_in / max(span, 1))
+                value = max(0, min(100, value))
+                latency = dt.timedelta(minutes=rng.choice([2, 3, 5, 8, 15]))
+                if rng.random() > 0.03:  # a few scores are never computed
+                    scores.append((eid, s, s + latency, round(value, 1)))
+                s += dt.timedelta(minutes=rng.gauss(60, 6))
+            encounters.append((eid, unit, admitted, discharged, outcome))
+            t = discharged + dt.timedelta(hours=rng.expovariate(1 / 10))
+
+
+def naive_local(x):
+    return x.astimezone(ZONE).strftime("%Y-%m-%d %H:%M:%S")
+
+
+def utc(x):
+    return x.astimezone(dt.timezone.utc).strftime("%Y-%m-%dT%H:%M:%SZ")
+
+
+with open("encounters.csv", "w", newline="") as f:
+    w = csv.writer(f, lineterminator="\n")
+    w.writerow(["encounter", "unit", "admitted", "discharged", "outcome_at"])
+    for eid, unit, a, d, o in sorted(encounters):
+        w.writerow([eid, unit, naive_local(a), naive_local(d), naive_local(o) if o else ""])
+with open("scores.csv", "w", newline="") as f:
+    w = csv.writer(f, lineterminator="\n")
+    w.writerow(["encounter", "scored_at", "available_at", "score"])
+    for eid, s, a, v in sorted(scores):
+        w.writerow([eid, utc(s), utc(a), v])
+print(len(encounters), "encounters,", len(scores), "scores")

@@ -1,0 +1,73 @@
+#pragma once
+// A scenario: where the population comes from, the wall clock, what counts as
+// a catch, and the candidate plans. Loaded strictly from YAML (see
+// sim/scenario_schema.cpp for every key).
+#include <cstdint>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "models/bootstrap.hpp"
+#include "models/generator.hpp"
+#include "models/replay.hpp"
+#include "models/stress.hpp"
+#include "models/time.hpp"
+#include "sim/notice.hpp"
+#include "sim/rules.hpp"
+#include "sim/shifts.hpp"
+
+namespace tocsin {
+
+inline constexpr int scenario_schema_version = 1;
+
+struct Plan {
+    std::string name;
+    std::string description;
+    Channel channel = Channel::page;
+    std::string role;  // who answers
+    Rule rule;
+};
+
+enum class PopulationSource { replay, generate };
+
+// Where a key sits in the scenario file, for errors found after loading.
+struct KeyLocation {
+    long line = 0;
+    long column = 0;
+};
+
+struct Scenario {
+    std::string file;         // path as given
+    std::uint64_t source_hash = 0;  // FNV-1a of the scenario text, for the run record
+    std::string directory;    // for resolving relative paths
+    std::string name;
+    std::string description;
+    std::string time_zone_name;
+    TimeZone zone = TimeZone::utc();
+    std::uint64_t seed = 1;
+    std::uint64_t replications = 1;
+    ShiftPattern shifts;
+    Seconds window = hours(24);   // a catch starts no earlier than window before time zero
+    Seconds min_lead = 0;         // ... and at least min_lead before it
+    std::string score_label = "score";
+    PopulationSource source = PopulationSource::replay;
+    ReplaySource replay;                       // source == replay
+    std::optional<BootstrapConfig> bootstrap;  // replay: how replications 1, 2, ... resample the log
+    GeneratorConfig generator;                 // source == generate (zone = the scenario's)
+    std::optional<double> target_auc;          // generate: calibrate scores.drift_size to this
+    KeyLocation target_auc_at;
+    std::optional<ShiftStress> shift;          // stress test applied to every replication
+    KeyLocation shift_at;
+    std::optional<Instant> period_start, period_end;  // reporting period, when declared
+    std::vector<Plan> plans;
+};
+
+// Throws InputError (file:line:column, key) on any problem.
+Scenario load_scenario(const std::string& path);
+Scenario parse_scenario(const std::string& yaml_text, const std::string& file_label, const std::string& directory);
+
+// Plain-words description of what will be simulated, for `tocsin check`.
+std::string describe_scenario(const Scenario& scenario);
+std::string describe_rule(const Rule& rule, const std::string& score_label);
+
+}  // namespace tocsin

@@ -1,0 +1,231 @@
+#include "sim/scenario_keys.hpp"
+
+#include <algorithm>
+#include <cassert>
+#include <cmath>
+
+#include "models/time.hpp"
+
+namespace tocsin {
+
+std::size_t edit_distance(std::string_view a, std::string_view b) {
+    std::vector<std::size_t> row(b.size() + 1);
+    for (std::size_t j = 0; j <= b.size(); ++j) row[j] = j;
+    for (std::size_t i = 1; i <= a.size(); ++i) {
+        std::size_t diag = row[0];
+        row[0] = i;
+        for (std::size_t j = 1; j <= b.size(); ++j) {
+            std::size_t up = row[j];
+            row[j] = std::min({row[j] + 1, row[j - 1] + 1, diag + (a[i - 1] == b[j - 1] ? 0 : 1)});
+            diag = up;
+        }
+    }
+    return row[b.size()];
+}
+
+InputError yaml_error(const std::string& file, const YAML::Node& at, std::string field, const std::string& message) {
+    const YAML::Mark mark = at.Mark();
+    const long line = mark.line >= 0 ? mark.line + 1 : 0;
+    const long column = mark.column >= 0 ? mark.column + 1 : 0;
+    return InputError(file, line, column, std::move(field), message);
+}
+
+const SectionSpec& section_spec(std::string_view path) {
+    for (const SectionSpec& s : scenario_sections())
+        if (s.path == path) return s;
+    assert(false && "unknown section spec");
+    throw std::logic_error("unknown section spec " + std::string(path));
+}
+
+namespace {
+
+std::string_view kind_name(KeyKind k) {
+    switch (k) {
+        case KeyKind::integer: return "whole number";
+        case KeyKind::real: return "number";
+        case KeyKind::text: return "text";
+        case KeyKind::clock: return "time of day HH:MM";
+        case KeyKind::flag: return "true/false";
+        case KeyKind::section: return "section";
+        case KeyKind::list: return "list";
+    }
+    return "?";
+}
+
+std::string range_text(const KeySpec& k) {
+    const bool lo = k.min > -1e299, hi = k.max < 1e299;
+    auto num = [](double v) {
+        std::string s = std::to_string(v);
+        s.erase(s.find_last_not_of('0') + 1);
+        if (!s.empty() && s.back() == '.') s.pop_back();
+        return s;
+    };
+    if (lo && hi) return num(k.min) + " to " + num(k.max);
+    if (lo) return ">= " + num(k.min);
+    if (hi) return "<= " + num(k.max);
+    return "";
+}
+
+}  // namespace
+
+std::string keys_reference_markdown() {
+    std::string out;
+    for (const SectionSpec& s : scenario_sections()) {
+        out += "#### `" + std::string(s.path) + "`\n\n" + std::string(s.help) + "\n\n";
+        out += "| key | kind | unit | default | range | meaning |\n| --- | --- | --- | --- | --- | --- |\n";
+        for (const KeySpec& k : s.keys) {
+            out += "| `" + std::string(k.name) + "` | " + std::string(kind_name(k.kind)) + " | " + std::string(k.unit) +
+                   " | " + (k.required ? std::string("required") : std::string(k.default_value)) + " | " +
+                   range_text(k) + " | " + std::string(k.help) + " |\n";
+        }
+        out += "\n";
+    }
+    return out;
+}
+
+Section::Section(const YAML::Node& node, std::string_view spec_path, std::string file, std::string where)
+    : node_(node), spec_(&section_spec(spec_path)), file_(std::move(file)), where_(std::move(where)) {
+    if (!node_.IsMap())
+        throw yaml_error(file_, node_, where_, "expected a section of keys (" + std::string(spec_->help) + ")");
+    for (auto it = node_.begin(); it != node_.end(); ++it) {
+        const std::string key = it->first.as<std::string>();
+        const bool known = std::any_of(spec_->keys.begin(), spec_->keys.end(), [&](const KeySpec& k) { return k.name == key; });
+        if (known) continue;
+        std::string_view best;
+        std::size_t best_d = SIZE_MAX;
+        for (const KeySpec& k : spec_->keys) {
+            std::size_t d = edit_distance(key, k.name);
+            if (d < best_d) best_d = d, best = k.name;
+        }
+        std::string valid;
+        for (const KeySpec& k : spec_->keys) valid += (valid.empty() ? "" : ", ") + std::string(k.name);
+        std::string message = "unknown key '" + key + "' in " + where_;
+        if (!best.empty() && best_d <= std::max<std::size_t>(2, key.size() / 3))
+            message += "; did you mean '" + std::string(best) + "'?";
+        message += " (valid keys: " + valid + ")";
+        throw yaml_error(file_, it->first, where_ + "." + key, message);
+    }
+    for (const KeySpec& k : spec_->keys)
+        if (k.required && !has(k.name))
+            throw yaml_error(file_, node_, where_ + "." + std::string(k.name),
+                             "required key '" + std::string(k.name) + "' is missing (" + std::string(k.help) + ")");
+}
+
+const KeySpec& Section::spec(std::string_view key) const {
+    for (const KeySpec& k : spec_->keys)
+        if (k.name == key) return k;
+    assert(false && "key not declared in its section spec");
+    throw std::logic_error("undeclared key " + std::string(key));
+}
+
+bool Section::has(std::string_view key) const {
+    spec(key);
+    const YAML::Node v = node_[std::string(key)];
+    return v.IsDefined() && !v.IsNull();
+}
+
+YAML::Node Section::value(std::string_view key) const { return node_[std::string(key)]; }
+
+void Section::fail(std::string_view key, const std::string& message) const {
+    YAML::Node v = value(key);
+    throw error(v.IsDefined() ? v : node_, key, message);
+}
+
+InputError Section::error(const YAML::Node& at, std::string_view key, const std::string& message) const {
+    return yaml_error(file_, at, where_ + "." + std::string(key), message);
+}
+
+double Section::check_range(std::string_view key, double v) const {
+    const KeySpec& k = spec(key);
+    if (!std::isfinite(v) || v < k.min || v > k.max)
+        fail(key, "value " + std::to_string(v) + " is out of range (expected " + range_text(k) +
+                      (k.unit.empty() ? "" : " " + std::string(k.unit)) + ")");
+    return v;
+}
+
+std::optional<double> Section::optional_real(std::string_view key) const {
+    assert(spec(key).kind == KeyKind::real);
+    if (!has(key)) return std::nullopt;
+    YAML::Node v = value(key);
+    double d = 0;
+    if (!v.IsScalar() || !YAML::convert<double>::decode(v, d))
+        fail(key, "expected a number" + (spec(key).unit.empty() ? std::string() : " of " + std::string(spec(key).unit)) +
+                      ", found '" + (v.IsScalar() ? v.Scalar() : std::string("a list or section")) + "'");
+    return check_range(key, d);
+}
+
+double Section::real(std::string_view key, double fallback) const { return optional_real(key).value_or(fallback); }
+
+std::optional<std::int64_t> Section::optional_integer(std::string_view key) const {
+    assert(spec(key).kind == KeyKind::integer);
+    if (!has(key)) return std::nullopt;
+    YAML::Node v = value(key);
+    long long n = 0;
+    if (!v.IsScalar() || !YAML::convert<long long>::decode(v, n))
+        fail(key, "expected a whole number, found '" + (v.IsScalar() ? v.Scalar() : std::string("a list or section")) + "'");
+    check_range(key, static_cast<double>(n));
+    return n;
+}
+
+std::int64_t Section::integer(std::string_view key, std::int64_t fallback) const {
+    return optional_integer(key).value_or(fallback);
+}
+
+std::string Section::text(std::string_view key, std::string fallback) const {
+    if (!has(key)) return fallback;
+    YAML::Node v = value(key);
+    if (!v.IsScalar()) fail(key, "expected text, found a list or section");
+    return v.Scalar();
+}
+
+std::optional<int> Section::clock(std::string_view key) const {
+    assert(spec(key).kind == KeyKind::clock);
+    if (!has(key)) return std::nullopt;
+    YAML::Node v = value(key);
+    std::optional<int> m;
+    if (v.IsScalar()) m = parse_clock_minutes(v.Scalar());
+    if (!m) fail(key, "expected a local time of day as \"HH:MM\" (quoted), found '" + (v.IsScalar() ? v.Scalar() : std::string("?")) + "'");
+    return m;
+}
+
+bool Section::flag(std::string_view key, bool fallback) const {
+    if (!has(key)) return fallback;
+    YAML::Node v = value(key);
+    bool b = false;
+    if (!v.IsScalar() || !YAML::convert<bool>::decode(v, b)) fail(key, "expected true or false");
+    return b;
+}
+
+YAML::Node Section::child(std::string_view key) const {
+    if (!has(key)) return YAML::Node();
+    YAML::Node v = value(key);
+    const KeySpec& k = spec(key);
+    if (k.kind == KeyKind::section && !v.IsMap()) fail(key, "expected a section of keys");
+    if (k.kind == KeyKind::list && !v.IsSequence()) fail(key, "expected a list (one '- ' item per entry)");
+    return v;
+}
+
+std::vector<std::string> Section::text_list(std::string_view key) const {
+    std::vector<std::string> out;
+    if (!has(key)) return out;
+    YAML::Node v = child(key);
+    for (const auto& item : v) {
+        if (!item.IsScalar()) throw error(item, key, "expected a list of text values");
+        out.push_back(item.Scalar());
+    }
+    return out;
+}
+
+std::vector<double> Section::real_list(std::string_view key) const {
+    std::vector<double> out;
+    if (!has(key)) return out;
+    YAML::Node v = child(key);
+    for (const auto& item : v) {
+        double d = 0;
+        if (!item.IsScalar() || !YAML::convert<double>::decode(item, d)) throw error(item, key, "expected a list of numbers");
+        out.push_back(d);
+    }
+    return out;
+}
+
+}  // namespace tocsin

@@ -1,0 +1,80 @@
+#pragma once
+// Scenario keys are declared once, in sim/scenario_schema.cpp, with their kind,
+// unit, default, valid range and one line of help. The same table drives
+// validation, error messages ("did you mean ...?"), `tocsin keys` and the
+// README's reference section, so they never disagree.
+#include <cstdint>
+#include <optional>
+#include <string>
+#include <string_view>
+#include <vector>
+
+#include <yaml-cpp/yaml.h>
+
+#include "models/errors.hpp"
+
+namespace tocsin {
+
+enum class KeyKind { integer, real, text, clock, flag, section, list };
+
+struct KeySpec {
+    std::string_view name;
+    KeyKind kind;
+    std::string_view unit;           // e.g. "minutes", "points"; empty when none
+    std::string_view default_value;  // shown in help; empty = required or no default
+    bool required = false;
+    double min = -1e300;             // inclusive range for numbers
+    double max = 1e300;
+    std::string_view help;
+};
+
+struct SectionSpec {
+    std::string_view path;  // e.g. "plans[].rule"
+    std::string_view help;
+    std::vector<KeySpec> keys;
+};
+
+// Every section of the scenario file, in reference order.
+const std::vector<SectionSpec>& scenario_sections();
+const SectionSpec& section_spec(std::string_view path);
+// Markdown reference of every key, for `tocsin keys` and the README.
+std::string keys_reference_markdown();
+
+// Reads one YAML mapping against its SectionSpec. Unknown keys, wrong types
+// and out-of-range values are InputErrors at the key's file:line:column.
+class Section {
+public:
+    Section(const YAML::Node& node, std::string_view spec_path, std::string file, std::string where);
+
+    bool has(std::string_view key) const;
+    double real(std::string_view key, double fallback) const;
+    std::optional<double> optional_real(std::string_view key) const;
+    std::int64_t integer(std::string_view key, std::int64_t fallback) const;
+    std::optional<std::int64_t> optional_integer(std::string_view key) const;
+    std::string text(std::string_view key, std::string fallback = {}) const;
+    std::optional<int> clock(std::string_view key) const;  // "HH:MM" -> minutes after midnight
+    bool flag(std::string_view key, bool fallback) const;
+    YAML::Node child(std::string_view key) const;  // a sub-section or list; null when absent
+    std::vector<std::string> text_list(std::string_view key) const;
+    std::vector<double> real_list(std::string_view key) const;
+
+    const std::string& file() const { return file_; }
+    const std::string& where() const { return where_; }
+    [[noreturn]] void fail(std::string_view key, const std::string& message) const;
+    InputError error(const YAML::Node& at, std::string_view key, const std::string& message) const;
+
+private:
+    const KeySpec& spec(std::string_view key) const;
+    YAML::Node value(std::string_view key) const;
+    double check_range(std::string_view key, double v) const;
+    YAML::Node node_;
+    const SectionSpec* spec_;
+    std::string file_;
+    std::string where_;
+};
+
+// Error for a node that is not where a section expected it.
+InputError yaml_error(const std::string& file, const YAML::Node& at, std::string field, const std::string& message);
+std::size_t edit_distance(std::string_view a, std::string_view b);
+
+}  // namespace tocsin

@@ -1,0 +1,64 @@
+#include "sim/simulate.hpp"
+
+#include <algorithm>
+#include <thread>
+
+namespace tocsin {
+
+ShiftCalendar calendar_for(const Scenario& scenario, const Population& population) {
+    Instant from = population.period_start, to = population.period_end;
+    for (const Encounter& e : population.encounters) {
+        from = std::min(from, e.admitted);
+        to = std::max(to, e.discharged);
+    }
+    if (scenario.period_start) from = std::min(from, *scenario.period_start);
+    if (scenario.period_end) to = std::max(to, *scenario.period_end);
+    return ShiftCalendar(scenario.shifts, scenario.zone, from, to + 1);
+}
+
+ReplicationRecord simulate_replication(const Scenario& scenario, const Population& population,
+                                       const ShiftCalendar& calendar, std::uint64_t replication, unsigned threads) {
+    const std::size_t n_plans = scenario.plans.size();
+    const std::size_t n_enc = population.encounters.size();
+    threads = std::max(1u, std::min<unsigned>(threads, static_cast<unsigned>(std::max<std::size_t>(1, n_enc / 1024))));
+    // blocks[b][plan]: notices of encounters in block b, in encounter order.
+    std::vector<std::vector<std::vector<Notice>>> blocks(threads, std::vector<std::vector<Notice>>(n_plans));
+    const RuleClock clock{&scenario.zone, &calendar};
+    auto work = [&](unsigned b) {
+        const std::size_t first = n_enc * b / threads, last = n_enc * (b + 1) / threads;
+        for (std::size_t e = first; e < last; ++e) {
+            const auto scores = population.scores_of(e);
+            if (scores.empty()) continue;
+            const auto enc = static_cast<std::uint32_t>(e);
+            const std::uint32_t unit = population.encounters[e].unit;
+            // All plans for one encounter while its scores are in cache.
+            for (std::size_t p = 0; p < n_plans; ++p)
+                fire_page_rule(scenario.plans[p].rule, clock, scores, enc, unit, static_cast<std::uint32_t>(p),
+                               scenario.plans[p].channel, blocks[b][p]);
+        }
+    };
+    if (threads == 1) {
+        work(0);
+    } else {
+        std::vector<std::thread> pool;
+        for (unsigned b = 0; b < threads; ++b) pool.emplace_back(work, b);
+        for (auto& t : pool) t.join();
+    }
+    ReplicationRecord record;
+    record.replication = replication;
+    record.plans.resize(n_plans);
+    for (std::size_t p = 0; p < n_plans; ++p) {
+        auto& out = record.plans[p].notices;
+        std::size_t total = 0;
+        for (unsigned b = 0; b < threads; ++b) total += blocks[b][p].size();
+        out.reserve(total);
+        for (unsigned b = 0; b < threads; ++b) {
+            out.insert(out.end(), blocks[b][p].begin(), blocks[b][p].end());
+            std::vector<Notice>().swap(blocks[b][p]);
+        }
+        std::stable_sort(out.begin(), out.end(), [](const Notice& a, const Notice& b) { return a.at < b.at; });
+    }
+    return record;
+}
+
+}  // namespace tocsin

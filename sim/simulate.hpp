@@ -1,0 +1,32 @@
+#pragma once
+// One replication: every plan of a scenario run over the same population
+// (common random numbers), recording every notice.
+#include <cstdint>
+#include <vector>
+
+#include "models/population.hpp"
+#include "sim/notice.hpp"
+#include "sim/scenario.hpp"
+#include "sim/shifts.hpp"
+
+namespace tocsin {
+
+struct PlanRecord {
+    std::vector<Notice> notices;  // in time order (ties: encounter, then score order)
+};
+
+struct ReplicationRecord {
+    std::uint64_t replication = 0;
+    std::vector<PlanRecord> plans;  // one per scenario plan, same order
+};
+
+// The shift calendar covering every stay of the population.
+ShiftCalendar calendar_for(const Scenario& scenario, const Population& population);
+
+// Runs every plan on the population. `threads` splits encounters into blocks;
+// the record is identical whatever the thread count.
+ReplicationRecord simulate_replication(const Scenario& scenario, const Population& population,
+                                       const ShiftCalendar& calendar, std::uint64_t replication,
+                                       unsigned threads = 1);
+
+}  // namespace tocsin

@@ -1,0 +1,96 @@
+// End to end through the command-line tool on the demo scenario: golden
+// outputs, byte-identical results whatever the thread count, no patient ids
+// unless asked, and no partial output when the input is bad.
+#include <doctest/doctest.h>
+
+#include <filesystem>
+
+#include "test_support.hpp"
+
+using namespace tocsin::testing;
+
+namespace {
+
+const std::string source_dir = TOCSIN_SOURCE_DIR;
+const std::string demo = source_dir + "/scenarios/demo.yaml";
+
+// Set TOCSIN_UPDATE_GOLDEN=1 to rewrite the golden files after an intended change.
+void check_golden(const std::string& produced_path, const std::string& golden_name) {
+    const std::string golden_path = source_dir + "/tests/golden/" + golden_name;
+    const std::string produced = read_file(produced_path);
+    REQUIRE_FALSE(produced.empty());
+    if (std::getenv("TOCSIN_UPDATE_GOLDEN")) {
+        std::ofstream(golden_path, std::ios::binary) << produced;
+        MESSAGE("golden file rewritten: " << golden_path);
+    }
+    CHECK_MESSAGE(produced == read_file(golden_path), "differs from " << golden_path
+                  << " (if the change is intended, rerun with TOCSIN_UPDATE_GOLDEN=1 and review the diff)");
+}
+
+}  // namespace
+
+TEST_CASE("end_to_end.demo_golden") {
+    ScratchDir dir;
+    const auto r = run_tocsin("run " + demo + " --out " + dir.path("out") + " --threads 1");
+    INFO(r.output);
+    REQUIRE(r.exit_code == 0);
+    CHECK(r.output.find("not a medical device") != std::string::npos);
+    CHECK(r.output.find("page-70") != std::string::npos);
+    check_golden(dir.path("out/plan_summary.csv"), "demo_plan_summary.csv");
+    check_golden(dir.path("out/exclusions.csv"), "demo_exclusions.csv");
+    CHECK(std::filesystem::exists(dir.path("out/CAUTIONS.txt")));
+}
+
+TEST_CASE("end_to_end.same_bytes_whatever_the_threads") {
+    ScratchDir dir;
+    REQUIRE(run_tocsin("run " + demo + " --notice-log --threads 1 --out " + dir.path("one")).exit_code == 0);
+    REQUIRE(run_tocsin("run " + demo + " --notice-log --threads 2 --out " + dir.path("two")).exit_code == 0);
+    int compared = 0;
+    for (const auto& entry : std::filesystem::directory_iterator(dir.path("one"))) {
+        const std::string name = entry.path().filename().string();
+        if (name == "run_record.json") continue;  // records the thread count and time taken, by design
+        CAPTURE(name);
+        CHECK(read_file(entry.path().string()) == read_file(dir.path("two/" + name)));
+        ++compared;
+    }
+    CHECK(compared >= 9);
+}
+
+TEST_CASE("end_to_end.patient_ids_only_on_request") {
+    ScratchDir dir;
+    REQUIRE(run_tocsin("run " + demo + " --out " + dir.path("plain")).exit_code == 0);
+    for (const auto& entry : std::filesystem::directory_iterator(dir.path("plain"))) {
+        CAPTURE(entry.path().string());
+        CHECK(read_file(entry.path().string()).find("FH-0") == std::string::npos);
+    }
+    REQUIRE(run_tocsin("run " + demo + " --notice-log --out " + dir.path("log")).exit_code == 0);
+    const std::string log = read_file(dir.path("log/notice_log.csv"));
+    CHECK(log.rfind("plan,replication,encounter,unit,at,score,reason,channel\n", 0) == 0);
+    CHECK(log.find("FH-0") != std::string::npos);
+}
+
+TEST_CASE("end_to_end.bad_input_writes_nothing") {
+    ScratchDir dir;
+    // A copy of the demo whose score log has one malformed value on line 3.
+    std::string scores = read_file(source_dir + "/scenarios/demo/scores.csv");
+    const std::size_t line3 = scores.find('\n', scores.find('\n') + 1) + 1;
+    const std::size_t comma = scores.rfind(',', scores.find('\n', line3));
+    scores.replace(comma + 1, scores.find('\n', line3) - comma - 1, "n/a");
+    dir.file("demo/scores.csv", scores);
+    dir.file("demo/encounters.csv", read_file(source_dir + "/scenarios/demo/encounters.csv"));
+    dir.file("demo.yaml", read_file(demo));
+    const auto r = run_tocsin("run " + dir.path("demo.yaml") + " --out " + dir.path("out"));
+    CHECK(r.exit_code == 2);
+    CHECK(r.output.find("scores.csv:3:4: score: expected a finite number, found 'n/a'") != std::string::npos);
+    CHECK_FALSE(std::filesystem::exists(dir.path("out")));
+    const auto c = run_tocsin("check " + dir.path("demo.yaml"));
+    CHECK(c.exit_code == 2);
+}
+
+TEST_CASE("end_to_end.check_describes_the_scenario") {
+    const auto r = run_tocsin("check " + demo);
+    INFO(r.output);
+    CHECK(r.exit_code == 0);
+    CHECK(r.output.find("page-55-rise: page to rapid response nurse when deterioration score >= 55; snooze 4 h; a rise of 10") != std::string::npos);
+    CHECK(r.output.find("The scenario is valid.") != std::string::npos);
+}

@@ -1,0 +1,113 @@
+// The scenario loader is strict: unknown keys, wrong types and out-of-range
+// values are errors at file:line:column naming the key (and the nearest valid
+// key for a typo). Every declared key is documented in the README.
+#include <doctest/doctest.h>
+
+#include "models/errors.hpp"
+#include "sim/scenario.hpp"
+#include "sim/scenario_keys.hpp"
+#include "test_support.hpp"
+
+using namespace tocsin;
+
+namespace {
+
+// A minimal valid scenario; `rule` is spliced in at line 16.
+std::string scenario_text(const std::string& rule = "{threshold: 60}", const std::string& extra = "") {
+    return "scenario_schema: 1\n"                             // 1
+           "name: test\n"                                     // 2
+           "time_zone: UTC\n"                                 // 3
+           "shifts:\n"                                        // 4
+           "  - {name: day, starts: \"07:00\"}\n"             // 5
+           "  - {name: night, starts: \"19:00\", night: true}\n"  // 6
+           "outcome:\n"                                       // 7
+           "  window_hours: 12\n"                             // 8
+           "population:\n"                                    // 9
+           "  replay:\n"                                      // 10
+           "    encounters: e.csv\n"                          // 11
+           "    scores: s.csv\n"                              // 12
+           "plans:\n"                                         // 13
+           "  - name: p\n"                                    // 14
+           "    channel: page\n"                              // 15
+           "    rule: " + rule + "\n" + extra;                // 16
+}
+
+InputError parse_error(const std::string& text) {
+    try {
+        parse_scenario(text, "s.yaml", "");
+    } catch (const InputError& e) {
+        return e;
+    }
+    FAIL("expected an InputError");
+    return InputError("", 0, 0, "", "");
+}
+
+}  // namespace
+
+TEST_CASE("scenario.valid_minimal") {
+    Scenario sc = parse_scenario(scenario_text("{threshold: 60, snooze_minutes: 90, quiet_from: \"23:00\", quiet_until: \"06:00\"}"),
+                                 "s.yaml", "/data");
+    CHECK(sc.plans.size() == 1);
+    CHECK(sc.plans[0].rule.snooze == minutes(90));
+    CHECK(sc.plans[0].rule.quiet_start_minute == 23 * 60);
+    CHECK(sc.window == hours(12));
+    CHECK(sc.replay.encounters_path == "/data/e.csv");
+    CHECK(sc.shifts.is_night == std::vector<bool>{false, true});
+}
+
+TEST_CASE("scenario.unknown_key_names_nearest") {
+    const InputError e = parse_error(scenario_text("{threshold: 60, snoze_minutes: 90}"));
+    CHECK(e.file == "s.yaml");
+    CHECK(e.line == 16);
+    CHECK(e.column > 10);
+    CHECK(std::string(e.what()).find("unknown key 'snoze_minutes'") != std::string::npos);
+    CHECK(std::string(e.what()).find("did you mean 'snooze_minutes'") != std::string::npos);
+
+    const InputError top = parse_error(scenario_text() + "seeds: 4\n");
+    CHECK(top.line == 17);
+    CHECK(std::string(top.what()).find("did you mean 'seed'") != std::string::npos);
+}
+
+TEST_CASE("scenario.wrong_type_and_range") {
+    const InputError t = parse_error(scenario_text("{threshold: high}"));
+    CHECK(t.line == 16);
+    CHECK(t.field == "plans[0].rule.threshold");
+    CHECK(std::string(t.what()).find("expected a number") != std::string::npos);
+
+    const InputError r = parse_error(scenario_text("{threshold: 60, persistence: 0}"));
+    CHECK(std::string(r.what()).find("out of range") != std::string::npos);
+
+    const InputError i = parse_error(scenario_text("{threshold: 60, persistence: 2.5}"));
+    CHECK(std::string(i.what()).find("whole number") != std::string::npos);
+
+    const InputError c = parse_error(scenario_text("{threshold: 60, quiet_from: \"25:00\", quiet_until: \"06:00\"}"));
+    CHECK(std::string(c.what()).find("HH:MM") != std::string::npos);
+}
+
+TEST_CASE("scenario.cross_field_rules") {
+    CHECK(std::string(parse_error(scenario_text("{threshold: 60, rearm_below: 70}")).what()).find("re-arm level") != std::string::npos);
+    CHECK(std::string(parse_error(scenario_text("{threshold: 60, quiet_from: \"23:00\"}")).what()).find("both") != std::string::npos);
+    CHECK(std::string(parse_error(scenario_text("{threshold: 60}", "  - name: p\n    rule: {threshold: 1}\n")).what())
+              .find("two plans are named 'p'") != std::string::npos);
+    std::string zone = scenario_text();
+    zone.replace(zone.find("UTC"), 3, "Atlantis/Central");
+    CHECK(parse_error(zone).line == 3);
+    std::string missing = scenario_text();
+    missing.replace(missing.find("name: test\n"), 11, "");
+    CHECK(std::string(parse_error(missing).what()).find("required key 'name'") != std::string::npos);
+    CHECK(parse_error("plans: [\n").line >= 1);  // not YAML at all
+}
+
+TEST_CASE("scenario.every_key_documented_in_readme") {
+    const std::string readme = tocsin::testing::read_file(std::string(TOCSIN_SOURCE_DIR) + "/README.md");
+    REQUIRE_FALSE(readme.empty());
+    const std::string begin = "<!-- keys:begin -->\n", end = "<!-- keys:end -->";
+    const std::size_t a = readme.find(begin), b = readme.find(end);
+    REQUIRE(a != std::string::npos);
+    REQUIRE(b != std::string::npos);
+    CHECK_MESSAGE(readme.substr(a + begin.size(), b - a - begin.size()) == keys_reference_markdown(),
+                  "README's key reference is stale: regenerate it from `tocsin keys` (see DEVELOPERS.md)");
+    // And every key declared is in it (guards against an empty reference).
+    for (const SectionSpec& section : scenario_sections())
+        for (const KeySpec& key : section.keys) CHECK(readme.find("| `" + std::string(key.name) + "` |") != std::string::npos);
+}
