@@ -106,10 +106,10 @@ const std::string reference_dir = std::string(TOCSIN_SOURCE_DIR) + "/tests/refer
 
 }  // namespace
 
-TEST_CASE("evaluation_reference.sklearn_statsmodels") {
+TEST_CASE("reference.evaluation_sklearn_statsmodels") {
     if (!command_succeeds(python + " -c 'import sklearn, statsmodels, numpy'")) {
         MESSAGE("SKIPPED: scikit-learn / statsmodels not installed for " << python
-                                                                        << " (Debian: python3-sklearn python3-statsmodels)");
+                                                                        << " (./go test installs python3-sklearn python3-statsmodels)");
         return;
     }
     const DataSet d = generated_data();
@@ -165,9 +165,9 @@ TEST_CASE("evaluation_reference.sklearn_statsmodels") {
                            << "; tocsin intercept " << fit.intercept << " slope " << fit.slope);
 }
 
-TEST_CASE("evaluation_reference.pROC_delong") {
+TEST_CASE("reference.evaluation_pROC_delong") {
     if (!command_succeeds("Rscript -e 'quit(status = !requireNamespace(\"pROC\", quietly = TRUE))'")) {
-        MESSAGE("SKIPPED: R or the pROC package not installed (Debian: r-base-core r-cran-proc)");
+        MESSAGE("SKIPPED: R or the pROC package not installed (./go test installs r-base-core r-cran-proc)");
         return;
     }
     const DataSet d = generated_data();
