@@ -15,6 +15,7 @@
 #include "analysis/output.hpp"
 #include "analysis/results.hpp"
 #include "analysis/run.hpp"
+#include "cli/evaluate_command.hpp"
 #include "sim/population_source.hpp"
 #include "models/errors.hpp"
 #include "models/fit.hpp"
@@ -199,6 +200,9 @@ int main(int argc, char** argv) {
     fit->add_option("--stay", fit_cmd.stay, "Length-of-stay family")->check(CLI::IsMember({"lognormal", "gamma"}));
     fit->add_flag("--by-hour-of-day", fit_cmd.by_hour_of_day, "One arrival rate per hour of day, every day alike (steadier for short logs)");
 
+    EvaluateCommand evaluate_cmd;
+    auto* evaluate = add_evaluate_command(app, evaluate_cmd);
+
     auto* keys = app.add_subcommand("keys", "Print the reference of every scenario key (Markdown)");
 
     try {
@@ -211,6 +215,7 @@ int main(int argc, char** argv) {
         if (*run) return command_run(run_opt, false);
         if (*sweep) return command_run(sweep_opt, true);
         if (*fit) return command_fit(fit_cmd);
+        if (*evaluate) return run_evaluate_command(evaluate_cmd);
         if (*keys) {
             std::cout << keys_reference_markdown();
             return 0;
