@@ -368,6 +368,9 @@ CalibrationTables calibration_from_ranked(const Population& pop, const RankedPre
     std::vector<double> observed_by_encounter(pop.encounters.size(), 0.0), expected_by_encounter(pop.encounters.size(), 0.0);
     for (std::size_t i = 0; i < n; ++i) {
         p[i] = m.probability(r.value[i]);
+        if (!(p[i] >= 0.0 && p[i] <= 1.0))
+            throw std::invalid_argument("evaluation: the probability mapping turns score " + format_real(r.value[i]) +
+                                        " into " + format_real(p[i]) + ", outside [0, 1] (points out of 100 need divide:100)");
         y[i] = r.seconds_to_outcome[i] <= limit ? 1 : 0;
         if (i == 0 || r.value[i] != r.value[i - 1]) {
             group_p.push_back(p[i]);

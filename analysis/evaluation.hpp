@@ -62,10 +62,29 @@ struct EvaluationOptions {
     int smoothed_points = 50;
 };
 
+// The tables. Columns of those built by the parts below are documented there;
+// the others:
+//  calibration (one row; prediction level, label = the mapping's horizon):
+//    outcome, horizon_hours (empty = before discharge), predictions, observed,
+//    expected, oe_ratio, oe_lower, oe_upper (delta method, predictions taken
+//    as independent), oe_bootstrap_lower, oe_bootstrap_upper (encounter
+//    bootstrap, percentile), calibration_intercept(_se), calibration_slope(_se),
+//    calibration_in_the_large(_se), probabilities_clamped, converged.
+//  calibration_bins: group, predictions, outcomes, predicted_low,
+//    predicted_high, mean_predicted, observed, observed_lower, observed_upper (Wilson).
+//  calibration_smoothed: predicted, observed, effective_n, bandwidth_logit, method.
+//  drift (one row per period, prediction level; label = the mapping's horizon,
+//    else the first horizon): period, period_start, outcome, horizon_hours,
+//    predictions, positive_predictions, auc, observed, expected, oe_ratio,
+//    oe_lower, oe_upper (the last five empty without a probability mapping).
+//    Periods with no prediction are listed with zero counts.
+//  decision_curve (encounter level: an encounter is evaluated when its highest
+//    probability before time zero reaches pt): see decision_curve_table in
+//    analysis/net_benefit.hpp.
 struct Evaluation {
     Table counts;                // evaluation_counts
     Table encounter_auc;         // evaluation_encounter_auc
-    Table thresholds;            // evaluation_thresholds
+    Table thresholds;            // evaluation_thresholds (see threshold_table in analysis/roc.hpp)
     Table prediction_auc;        // evaluation_prediction_auc
     Table lead_times;            // evaluation_lead_times
     Table calibration;           // evaluation_calibration (no rows without a probability mapping)

@@ -5,6 +5,7 @@
 
 #include "analysis/cautions.hpp"
 #include "analysis/evaluation.hpp"
+#include "analysis/evaluation_scenario.hpp"
 #include "analysis/output.hpp"
 #include "models/errors.hpp"
 #include "sim/population_source.hpp"
@@ -77,24 +78,18 @@ int run_evaluate_command(const EvaluateCommand& c) {
     const PreparedPopulation prepared = prepare_population(sc);
     const Population pop = population_for(sc, prepared, c.replication);
 
-    EvaluationOptions o;
+    EvaluationOptions o = evaluation_options_for(sc);
     o.thresholds = c.thresholds;
     o.threshold_grid_points = c.grid_points;
     o.horizons_hours = c.horizons_hours;
-    o.window_hours = c.window_hours >= 0 ? c.window_hours : static_cast<double>(sc.window) / 3600.0;
-    o.min_lead_hours = c.min_lead_hours >= 0 ? c.min_lead_hours : static_cast<double>(sc.min_lead) / 3600.0;
-    if (!c.probability.empty()) {
-        o.probability = parse_mapping(c.probability);
-    } else if (sc.source == PopulationSource::generate && sc.generator.scores.scale == ScoreScale::probability) {
-        o.probability = ProbabilityMapping{};  // generated probabilities are probabilities as they are
-    }
+    if (c.window_hours >= 0) o.window_hours = c.window_hours;
+    if (c.min_lead_hours >= 0) o.min_lead_hours = c.min_lead_hours;
+    if (!c.probability.empty()) o.probability = parse_mapping(c.probability);
     if (o.probability) o.probability->horizon_hours = c.probability_horizon_hours;
     o.decision_threshold_probabilities = c.decision_thresholds;
     o.evaluations_per_case = c.evaluations_per_case;
     o.drift_period_days = c.period_days;
-    o.zone = sc.zone;
     o.bootstrap_replicates = c.bootstrap_replicates;
-    o.seed = sc.seed;
     o.replication = c.replication;
 
     const Evaluation ev = evaluate(pop, o);

@@ -7,6 +7,7 @@
 #include <string>
 
 #include "analysis/evaluation.hpp"
+#include "analysis/evaluation_scenario.hpp"
 #include "sim/population_source.hpp"
 #include "sim/scenario.hpp"
 #include "test_support.hpp"
@@ -26,13 +27,9 @@ TEST_CASE("evaluate.cli_writes_the_library_tables") {
     // Every table as CSV and JSON.
     const Scenario sc = load_scenario(demo);
     const Population pop = population_for(sc, prepare_population(sc), 0);
-    EvaluationOptions o;
+    EvaluationOptions o = evaluation_options_for(sc);
     o.thresholds = {60};
     o.bootstrap_replicates = 20;
-    o.seed = sc.seed;
-    o.zone = sc.zone;
-    o.window_hours = static_cast<double>(sc.window) / 3600.0;
-    o.min_lead_hours = static_cast<double>(sc.min_lead) / 3600.0;
     const Evaluation ev = evaluate(pop, o);
     for (const Table* t : evaluation_tables(ev)) {
         CAPTURE(t->name);
