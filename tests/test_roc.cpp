@@ -63,7 +63,7 @@ BruteForce delong_brute_force(const std::vector<double>& s, const std::vector<st
 }  // namespace
 
 TEST_CASE("roc.hanley_mcneil_rating_example") {
-    // Hanley & McNeil (1982), Radiology 143:29-36, Table 1: 109 CT images
+    // Hanley & McNeil (1982), Radiology 143:29-36, Table 1 (from memory): 109 CT images
     // rated 1 (definitely normal) to 5 (definitely abnormal). Counts are from
     // memory of the paper's table; they are the widely reproduced example.
     //   rating:       1   2   3   4   5
@@ -104,7 +104,7 @@ TEST_CASE("roc.hanley_mcneil_rating_example") {
 TEST_CASE("roc.delong_matches_brute_force") {
     // Random scores rounded to one decimal so that ties between and within
     // classes are common; several sizes including very unbalanced ones.
-    for (int n_pos : {1 + 1, 7, 60, 300}) {
+    for (int n_pos : {2, 7, 60, 300}) {
         for (int n_neg : {3, 41, 500}) {
             RandomEngine engine = make_stream(7, 0, StreamPurpose::trajectory, static_cast<std::uint64_t>(n_pos * 1000 + n_neg));
             boost::random::normal_distribution<double> noise(0.0, 1.0);
@@ -144,9 +144,11 @@ TEST_CASE("roc.degenerate_classes") {
 }
 
 TEST_CASE("roc.wilson_newcombe_examples") {
-    // Newcombe (1998), Statistics in Medicine 17:857-872, Table I, method 3
-    // (Wilson score interval without continuity correction), 95%. Values are
-    // from memory of the table, to its 4 decimals.
+    // Newcombe (1998), Statistics in Medicine 17:857-872: the paper's four
+    // worked examples, method 3 (Wilson score interval without continuity
+    // correction), 95%, to its 4 decimals. Values are from memory of the
+    // paper's results table (table number not checked); statsmodels'
+    // proportion_confint(method="wilson") gives the same to 4 decimals.
     struct Example {
         int k, n;
         double lower, upper;
