@@ -16,7 +16,7 @@ using namespace tocsin;
 using namespace tocsin::testing;
 
 TEST_CASE("evaluate.cli_writes_the_library_tables") {
-    const std::string demo = std::string(TOCSIN_SOURCE_DIR) + "/scenarios/demo.yaml";
+    const std::string demo = std::string(TOCSIN_SOURCE_DIR) + "/scenarios/fernhollow-replay.yaml";
     ScratchDir dir;
     const auto r = run_tocsin("evaluate " + demo + " --threshold 60 --bootstrap 20 --out " + dir.path("one"));
     INFO(r.output);
@@ -45,7 +45,7 @@ TEST_CASE("evaluate.cli_writes_the_library_tables") {
 }
 
 TEST_CASE("evaluate.cli_rejects_a_bad_mapping") {
-    const std::string demo = std::string(TOCSIN_SOURCE_DIR) + "/scenarios/demo.yaml";
+    const std::string demo = std::string(TOCSIN_SOURCE_DIR) + "/scenarios/fernhollow-replay.yaml";
     const auto r = run_tocsin("evaluate " + demo + " --probability divide:ten");
     CHECK(r.exit_code == 2);
     CHECK(r.output.find("--probability") != std::string::npos);
