@@ -51,6 +51,7 @@ tbody th{text-align:left;font-weight:bold}
 figure{margin:1.2em 0;padding:0}
 figcaption{color:var(--muted);font-size:.92rem;margin-top:.4em;max-width:46em}
 svg.chart{display:block;width:100%;height:auto;font-family:inherit}
+svg.chart.narrow{max-width:620px}
 dl.record{display:grid;grid-template-columns:max-content 1fr;gap:.25em 1.4em;margin:.6em 0}
 dl.record dt{font-weight:bold}
 dl.record dd{margin:0;font-family:"Liberation Mono","DejaVu Sans Mono",monospace;font-size:.92rem;overflow-wrap:anywhere}
@@ -106,8 +107,9 @@ std::vector<Group> groups_of(const std::vector<PlanSeries>& series) {
 const std::string box_reading =
     "The box holds the middle half of the values and the thick line inside it is the median; the diamond "
     "is the mean; the red tick is the 90th percentile (9 values in 10 are at or below it); whiskers reach "
-    "the furthest values within one and a half box lengths. The column on the right gives the median, the "
-    "90th percentile and the number of values.";
+    "the furthest values within one and a half box lengths. Faint dots show the values themselves; whole "
+    "numbers such as pages are shown instead as bars under the box, as tall as the share of values they "
+    "hold. The column on the right gives the median, the 90th percentile and the number of values.";
 
 std::string join_names(const std::vector<std::string>& names) {
     std::string out;
@@ -142,8 +144,11 @@ Section frontier_section(const ReportInput& in) {
         "off the frontier is beaten on both counts by some other plan.");
     if (!in.budget_answer.empty()) body += paragraph(in.budget_answer, "answer");
     body += "<figure>" + scatter_svg(chart) + "<figcaption>" +
-            html_escape("Bars show the interval of each figure. Up to " + std::to_string(chart.max_labels) +
-                        " plans are named on the chart; with more, only frontier plans are." +
+            html_escape("Bars show the interval of each figure." +
+                        (chart.points.size() > chart.max_labels
+                             ? " With " + std::to_string(chart.points.size()) +
+                                   " plans, only those on the frontier are named on the chart; hover over a point for its name, or see the list below."
+                             : std::string()) +
                         (in.burden_limit ? " The dashed line marks the budget of " + format_for_people(*in.burden_limit) +
                                                " " + in.burden_label + "."
                                          : std::string())) +
@@ -198,6 +203,7 @@ LineChart roc_chart(std::vector<CurvePoint> points, const std::string& curve_nam
     c.curves = {{curve_name, std::move(points), false}};
     c.x_min = 0, c.x_max = 1, c.y_min = 0, c.y_max = 1;
     c.diagonal = true;
+    c.square = true;
     return c;
 }
 
@@ -210,6 +216,7 @@ LineChart calibration_chart(std::vector<CurvePoint> points, const std::string& c
     c.curves = {{curve_name, std::move(points), false}};
     c.x_min = 0, c.x_max = 1, c.y_min = 0, c.y_max = 1;
     c.diagonal = true;
+    c.square = true;
     return c;
 }
 
@@ -273,7 +280,7 @@ std::string render_report(const ReportInput& in) {
         chart.value_label = in.burden_label;
         chart.groups = groups_of(in.burden_per_night);
         chart.limit = in.burden_limit;
-        std::string caption = (in.burden_note.empty() ? "" : "Each dot is " + in.burden_note + ". ") + box_reading;
+        std::string caption = (in.burden_note.empty() ? "" : "One value is " + in.burden_note + ". ") + box_reading;
         if (in.burden_limit) caption += " The dashed line marks the budget.";
         sections.push_back(distribution_section(
             "burden", "Burden per night, by plan",
@@ -282,7 +289,7 @@ std::string render_report(const ReportInput& in) {
     }
     if (!in.lead_times_hours.empty() || !in.lead_times_from_evaluation_hours.empty()) {
         std::vector<std::pair<BoxChart, std::string>> charts;
-        const std::string each = (in.lead_time_note.empty() ? "Each dot is one caught case. " : in.lead_time_note + " ");
+        const std::string each = (in.lead_time_note.empty() ? "One value is one caught case. " : in.lead_time_note + " ");
         if (!in.lead_times_hours.empty()) {
             BoxChart chart;
             chart.id = "fig-lead-notice";

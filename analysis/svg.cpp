@@ -3,6 +3,8 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdio>
+#include <map>
+#include <set>
 
 #include "analysis/html.hpp"
 #include "analysis/quantiles.hpp"
@@ -42,9 +44,10 @@ std::string tick_label(double v, const Axis& axis) {
     return format_real(v, decimals);
 }
 
-std::string svg_open(const std::string& id, double height, const std::string& title, const std::string& description) {
-    const std::string w = svg_number(chart_width), h = svg_number(height);
-    return "<svg class=\"chart\" viewBox=\"0 0 " + w + " " + h + "\" width=\"" + w + "\" height=\"" + h +
+std::string svg_open(const std::string& id, double height, const std::string& title, const std::string& description,
+                     double width = chart_width) {
+    const std::string w = svg_number(width), h = svg_number(height);
+    return std::string("<svg class=\"chart") + (width < chart_width ? " narrow" : "") + "\" viewBox=\"0 0 " + w + " " + h + "\" width=\"" + w + "\" height=\"" + h +
            "\" role=\"img\" aria-labelledby=\"" + id + "-title " + id + "-desc\" " + chart_font + ">" +
            "<title id=\"" + id + "-title\">" + html_escape(title) + "</title><desc id=\"" + id + "-desc\">" +
            html_escape(description) + "</desc>";
@@ -243,8 +246,9 @@ std::string scatter_svg(const ScatterChart& chart) {
             out += "<circle cx=\"" + svg_number(px) + "\" cy=\"" + svg_number(py) + "\" r=\"5.5\" fill=\"#ffffff\" stroke=\"" +
                    muted_ink + "\" stroke-width=\"1.5\"/>";
         if (label_all || p->on_frontier) {
+            // Frontier labels sit below-right, clear of the rising frontier line.
             const bool flip = px > right - 220;
-            out += text(flip ? px - 10 : px + 10, py - 9, shorten(p->label, 32),
+            out += text(flip ? px - 10 : px + 10, p->on_frontier ? py + 20 : py - 9, shorten(p->label, 32),
                         std::string("text-anchor=\"") + (flip ? "end" : "start") + "\" fill=\"" + ink +
                             "\" stroke=\"#ffffff\" stroke-width=\"3\" paint-order=\"stroke\"");
         }
@@ -285,7 +289,19 @@ std::string box_svg(const BoxChart& chart) {
         hi = std::max(hi, *chart.limit);
     }
 
-    const double row_height = 46, top = 42;
+    // Counts (pages per night) take few whole values; dots would pile into
+    // columns, so each value gets a bar as tall as its share instead.
+    std::set<double> distinct;
+    bool whole_numbers = true;
+    for (const Row& r : rows)
+        for (double v : r.sorted) {
+            whole_numbers = whole_numbers && v == std::round(v);
+            if (whole_numbers && distinct.size() <= 40) distinct.insert(v);
+        }
+    whole_numbers = whole_numbers && !distinct.empty() && distinct.size() <= 40;
+
+    // With bars, each row holds the box above and the bars below it.
+    const double row_height = whole_numbers ? 66 : 46, top = 42;
     const double label_width = std::clamp(7.4 * static_cast<double>(longest_label) + 20, 90.0, 250.0);
     const double left = label_width, right = chart_width - 200;
     const double bottom = top + row_height * static_cast<double>(rows.size());
@@ -302,8 +318,15 @@ std::string box_svg(const BoxChart& chart) {
     out += text(left + 202, 26, "mean", legend_colour);
     out += line(left + 254, 13, left + 254, 29, frontier_colour, 2.5);
     out += text(left + 262, 26, "90th percentile", legend_colour);
-    out += "<circle cx=\"" + svg_number(left + 384) + "\" cy=\"21\" r=\"3\" fill=\"" + std::string(muted_ink) + "\"/>";
-    out += text(left + 393, 26, "values", legend_colour);
+    if (whole_numbers) {
+        out += "<rect x=\"" + svg_number(left + 380) + "\" y=\"16\" width=\"5\" height=\"12\" fill=\"" + std::string(muted_ink) +
+               "\" fill-opacity=\"0.45\"/><rect x=\"" + svg_number(left + 387) + "\" y=\"21\" width=\"5\" height=\"7\" fill=\"" +
+               std::string(muted_ink) + "\" fill-opacity=\"0.45\"/>";
+        out += text(left + 400, 26, "how often each value occurs", legend_colour);
+    } else {
+        out += "<circle cx=\"" + svg_number(left + 384) + "\" cy=\"21\" r=\"3\" fill=\"" + std::string(muted_ink) + "\"/>";
+        out += text(left + 393, 26, "values", legend_colour);
+    }
     out += text(right + 14, 26, "median · 90th pct · n", "fill=\"" + std::string(muted_ink) + "\"");
 
     for (std::size_t i = 0; i < rows.size(); ++i) {
@@ -322,7 +345,8 @@ std::string box_svg(const BoxChart& chart) {
         const Group& g = chart.groups[i];
         const std::vector<double>& v = rows[i].sorted;
         const std::string& colour = plan_colours()[i % plan_colours().size()];
-        const double mid = top + row_height * (static_cast<double>(i) + 0.5);
+        const double row_top = top + row_height * static_cast<double>(i);
+        const double mid = whole_numbers ? row_top + 20 : row_top + row_height / 2;
         out += "<g><title>" + html_escape(g.label) + "</title>";
         out += text(left - 12, mid + 4, shorten(g.label, 30), "text-anchor=\"end\" fill=\"" + std::string(ink) + "\"");
         if (v.empty()) {
@@ -336,9 +360,25 @@ std::string box_svg(const BoxChart& chart) {
         const double whisker_lo = *std::lower_bound(v.begin(), v.end(), q1 - reach);
         const double whisker_hi = *(std::upper_bound(v.begin(), v.end(), q3 + reach) - 1);
 
+        if (whole_numbers) {
+            std::map<double, std::size_t> counts;
+            for (double value : v) ++counts[value];
+            std::size_t most = 0;
+            for (const auto& [value, n] : counts) most = std::max(most, n);
+            const double bar_width = std::clamp(0.6 * (x(1) - x(0)), 2.0, 18.0);
+            const double row_bottom = row_top + row_height - 3;
+            for (const auto& [value, n] : counts) {
+                const double bar_height = 30 * static_cast<double>(n) / static_cast<double>(most);
+                out += "<rect x=\"" + svg_number(x(value) - bar_width / 2) + "\" y=\"" + svg_number(row_bottom - bar_height) +
+                       "\" width=\"" + svg_number(bar_width) + "\" height=\"" + svg_number(bar_height) + "\" fill=\"" + colour +
+                       "\" fill-opacity=\"0.3\"><title>" + html_escape(g.label + ": " + format_for_people(value) + " in " +
+                                                                          std::to_string(n) + " of " + std::to_string(v.size())) +
+                       "</title></rect>";
+            }
+        }
         // The values themselves, thinned to evenly spaced order statistics, spread
         // vertically by a fixed low-discrepancy sequence (same input, same picture).
-        const std::size_t shown = std::min(v.size(), std::max<std::size_t>(chart.max_points, 1));
+        const std::size_t shown = whole_numbers ? 0 : std::min(v.size(), std::max<std::size_t>(chart.max_points, 1));
         for (std::size_t k = 0; k < shown; ++k) {
             const std::size_t index = shown == 1 ? 0 : (k * (v.size() - 1)) / (shown - 1);
             const double spread = std::fmod(static_cast<double>(k) * 0.6180339887498949, 1.0) - 0.5;
@@ -385,11 +425,12 @@ std::string line_svg(const LineChart& chart, const std::string& id) {
     if (left_out) description += " " + plural(left_out, "point", "points") + " left out for a missing value.";
     if (drawn == 0) return nothing_to_draw(id, chart.title, "No points to draw. " + description);
 
-    const double height = 440, left = 78, right = chart_width - 28, top = 48, bottom = height - 64;
+    const double width = chart.square ? 620 : chart_width;
+    const double height = chart.square ? 600 : 440, left = 78, right = width - 28, top = 48, bottom = height - 64;
     const Scale x{nice_axis(chart.x_min.value_or(x_lo), chart.x_max.value_or(x_hi)), left, right};
     const Scale y{nice_axis(chart.y_min.value_or(y_lo), chart.y_max.value_or(y_hi)), bottom, top};
 
-    std::string out = svg_open(id, height, chart.title, description);
+    std::string out = svg_open(id, height, chart.title, description, width);
     out += "<defs><clipPath id=\"" + id + "-plot\"><rect x=\"" + svg_number(left) + "\" y=\"" + svg_number(top) +
            "\" width=\"" + svg_number(right - left) + "\" height=\"" + svg_number(bottom - top) + "\"/></clipPath></defs>";
     out += "<rect x=\"" + svg_number(left) + "\" y=\"" + svg_number(top) + "\" width=\"" + svg_number(right - left) +
@@ -421,7 +462,7 @@ std::string line_svg(const LineChart& chart, const std::string& id) {
             if (!s.empty())
                 out += "<polyline points=\"" + s + "\" fill=\"none\" stroke=\"" + colour + "\" stroke-width=\"2.2\"" + dash +
                        " stroke-linejoin=\"round\"/>";
-        if (c.points.size() <= 30)
+        if (c.points.size() <= 30 && !c.dashed)
             for (const CurvePoint& p : c.points)
                 if (finite(p.x) && finite(p.y))
                     out += "<circle cx=\"" + svg_number(x(p.x)) + "\" cy=\"" + svg_number(y(p.y)) + "\" r=\"3.2\" fill=\"" +

@@ -76,6 +76,7 @@ struct LineChart {
     std::vector<Curve> curves;
     std::optional<double> x_min, x_max, y_min, y_max;  // fixed axis ends; otherwise from the data
     bool diagonal = false;                              // the line y = x, e.g. chance or perfect calibration
+    bool square = false;                                // a narrower, square plot (ROC, calibration)
 };
 std::string line_svg(const LineChart& chart, const std::string& id);
 
