@@ -92,9 +92,9 @@ std::string format_for_people(double v) {
     const double magnitude = std::fabs(v);
     if (magnitude >= 0.1) return format_real(v, 2);
     // Three significant figures, e.g. 0.0123, without exponent notation.
-    int decimals = 3;
+    int decimals = 3;  // one more decimal per leading zero: 0.0123 needs 4
     for (double m = magnitude; m < 0.1 && decimals < 12; m *= 10) ++decimals;
-    return format_real(v, decimals - 1);
+    return format_real(v, decimals);
 }
 
 namespace {

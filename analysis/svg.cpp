@@ -47,7 +47,7 @@ std::string tick_label(double v, const Axis& axis) {
 std::string svg_open(const std::string& id, double height, const std::string& title, const std::string& description,
                      double width = chart_width) {
     const std::string w = svg_number(width), h = svg_number(height);
-    return std::string("<svg class=\"chart") + (width < chart_width ? " narrow" : "") + "\" viewBox=\"0 0 " + w + " " + h + "\" width=\"" + w + "\" height=\"" + h +
+    return std::string("<svg class=\"chart") + (width < chart_width ? " narrow" : "") + "\" id=\"" + id + "\" viewBox=\"0 0 " + w + " " + h + "\" width=\"" + w + "\" height=\"" + h +
            "\" role=\"img\" aria-labelledby=\"" + id + "-title " + id + "-desc\" " + chart_font + ">" +
            "<title id=\"" + id + "-title\">" + html_escape(title) + "</title><desc id=\"" + id + "-desc\">" +
            html_escape(description) + "</desc>";
