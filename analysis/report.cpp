@@ -36,6 +36,7 @@ nav.contents ol{columns:2;margin:.2em 0 .4em;padding-left:1.4em}
 nav.contents a{color:var(--teal)}
 .findings{border-left:4px solid var(--teal);padding:.2em 0 .2em 1.2em;margin:1em 0}
 .findings li{margin:.25em 0;font-weight:bold}
+ol.frontier-list{columns:2;font-size:.92rem}
 ul.assumptions li{margin:.3em 0}
 .table-wrap{overflow-x:auto;margin:.8em 0 .4em}
 table{border-collapse:collapse;font-size:.9rem;font-variant-numeric:tabular-nums;min-width:50%}
@@ -131,34 +132,42 @@ Section frontier_section(const ReportInput& in) {
         chart.x_limit = in.burden_limit;
         chart.x_limit_label = "budget " + format_for_people(*in.burden_limit);
     }
-    std::vector<const FrontierPoint*> frontier, beaten;
-    for (const FrontierPoint& p : in.frontier) {
+    for (const FrontierPoint& p : in.frontier)
         chart.points.push_back({p.plan, p.burden, p.burden_lo, p.burden_hi, p.benefit, p.benefit_lo, p.benefit_hi, p.on_frontier});
-        (p.on_frontier ? frontier : beaten).push_back(&p);
-    }
-    std::stable_sort(frontier.begin(), frontier.end(),
-                     [](const FrontierPoint* a, const FrontierPoint* b) { return a->burden < b->burden; });
+    const bool crowded = chart.points.size() > chart.max_labels;
+    const bool numbered = frontier_numbered(chart);
+
     std::string body = paragraph(
         "A plan is on the frontier when no other plan gives at least as much benefit for no more burden. "
         "Choosing between frontier plans is a judgement about how much burden one more case is worth; a plan "
         "off the frontier is beaten on both counts by some other plan.");
     if (!in.budget_answer.empty()) body += paragraph(in.budget_answer, "answer");
-    body += "<figure>" + scatter_svg(chart) + "<figcaption>" +
-            html_escape("Bars show the interval of each figure." +
-                        (chart.points.size() > chart.max_labels
-                             ? " With " + std::to_string(chart.points.size()) +
-                                   " plans, only those on the frontier are named on the chart; hover over a point for its name, or see the list below."
-                             : std::string()) +
-                        (in.burden_limit ? " The dashed line marks the budget of " + format_for_people(*in.burden_limit) +
-                                               " " + in.burden_label + "."
-                                         : std::string())) +
-            "</figcaption></figure>\n";
-    std::vector<std::string> names;
-    for (const FrontierPoint* p : frontier) names.push_back(p->plan);
-    if (!names.empty()) body += paragraph("On the frontier, from lightest to heaviest burden: " + join_names(names) + ".");
-    names.clear();
-    for (const FrontierPoint* p : beaten) names.push_back(p->plan);
-    if (!names.empty()) body += paragraph("Beaten on both counts: " + join_names(names) + ".", "note");
+    std::string caption = "Bars show the interval of each figure.";
+    if (crowded)
+        caption = "With " + std::to_string(chart.points.size()) +
+                  " plans, only those on the frontier carry interval bars and " +
+                  (numbered ? "numbers (see the list below)" : "names") +
+                  "; the other plans are small circles, named when the pointer rests on them.";
+    if (in.burden_limit)
+        caption += " The dashed line marks the budget of " + format_for_people(*in.burden_limit) + " " + in.burden_label + ".";
+    body += "<figure>" + scatter_svg(chart) + "<figcaption>" + html_escape(caption) + "</figcaption></figure>\n";
+
+    std::vector<std::string> frontier, beaten;
+    for (std::size_t i : frontier_order(chart.points)) frontier.push_back(in.frontier[i].plan);
+    for (const FrontierPoint& p : in.frontier)
+        if (!p.on_frontier) beaten.push_back(p.plan);
+    if (numbered) {
+        body += paragraph("On the frontier, from lightest to heaviest burden (numbers as on the chart):");
+        body += "<ol class=\"frontier-list\">";
+        for (const std::string& name : frontier) body += "<li>" + html_escape(name) + "</li>";
+        body += "</ol>\n";
+    } else if (!frontier.empty()) {
+        body += paragraph("On the frontier, from lightest to heaviest burden: " + join_names(frontier) + ".");
+    }
+    if (crowded && !beaten.empty())
+        body += paragraph(std::to_string(beaten.size()) + " other plans are beaten on both counts.", "note");
+    else if (!beaten.empty())
+        body += paragraph("Beaten on both counts: " + join_names(beaten) + ".", "note");
     return {"frontier", "Burden against benefit", body};
 }
 

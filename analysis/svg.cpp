@@ -96,6 +96,12 @@ std::string nothing_to_draw(const std::string& id, const std::string& title, con
            "</svg>\n";
 }
 
+std::size_t character_count(const std::string& utf8) {
+    std::size_t n = 0;
+    for (unsigned char c : utf8) n += (c & 0xC0) != 0x80;
+    return n;
+}
+
 std::string plural(std::size_t n, const std::string& one, const std::string& many) {
     return std::to_string(n) + " " + (n == 1 ? one : many);
 }
@@ -210,11 +216,11 @@ std::string scatter_svg(const ScatterChart& chart) {
     }
 
     std::vector<const ScatterPoint*> frontier;
-    for (const ScatterPoint* p : drawn)
-        if (p->on_frontier) frontier.push_back(p);
-    std::stable_sort(frontier.begin(), frontier.end(), [](const ScatterPoint* a, const ScatterPoint* b) {
-        return a->x != b->x ? a->x < b->x : a->y < b->y;
-    });
+    std::map<const ScatterPoint*, std::size_t> frontier_number;  // 1-based, in frontier_order
+    for (std::size_t i : frontier_order(chart.points)) {
+        frontier.push_back(&chart.points[i]);
+        frontier_number[&chart.points[i]] = frontier.size();
+    }
     if (frontier.size() > 1) {
         std::string points;
         for (const ScatterPoint* p : frontier) points += (points.empty() ? "" : " ") + svg_number(x(p->x)) + "," + svg_number(y(p->y));
@@ -222,7 +228,13 @@ std::string scatter_svg(const ScatterChart& chart) {
                "\" stroke-width=\"2\" stroke-linejoin=\"round\"/>";
     }
 
-    const bool label_all = drawn.size() <= chart.max_labels;
+    // A crowded chart keeps bars and names for the frontier; other plans are
+    // small dots, named on hover. Frontier names become numbers when even they
+    // would crowd, matching the numbered list the report prints below.
+    const bool crowded = drawn.size() > chart.max_labels;
+    const bool number_frontier = frontier_numbered(chart);
+    // Beaten plans first, so frontier points are drawn on top.
+    std::stable_partition(drawn.begin(), drawn.end(), [](const ScatterPoint* p) { return !p->on_frontier; });
     for (const ScatterPoint* p : drawn) {
         const double px = x(p->x), py = y(p->y);
         out += "<g><title>" + html_escape(p->label + ": " + chart.x_label + " " + format_for_people(p->x) + " (" +
@@ -230,12 +242,13 @@ std::string scatter_svg(const ScatterChart& chart) {
                                           chart.y_label + " " + format_for_people(p->y) + " (" +
                                           format_for_people(p->y_lo) + " to " + format_for_people(p->y_hi) + ")") +
                "</title>";
-        if (finite(p->x_lo) && finite(p->x_hi)) {
+        const bool bars = !crowded || p->on_frontier;
+        if (bars && finite(p->x_lo) && finite(p->x_hi)) {
             out += line(x(p->x_lo), py, x(p->x_hi), py, muted_ink, 1.2);
             out += line(x(p->x_lo), py - 4, x(p->x_lo), py + 4, muted_ink, 1.2);
             out += line(x(p->x_hi), py - 4, x(p->x_hi), py + 4, muted_ink, 1.2);
         }
-        if (finite(p->y_lo) && finite(p->y_hi)) {
+        if (bars && finite(p->y_lo) && finite(p->y_hi)) {
             out += line(px, y(p->y_lo), px, y(p->y_hi), muted_ink, 1.2);
             out += line(px - 4, y(p->y_lo), px + 4, y(p->y_lo), muted_ink, 1.2);
             out += line(px - 4, y(p->y_hi), px + 4, y(p->y_hi), muted_ink, 1.2);
@@ -243,18 +256,36 @@ std::string scatter_svg(const ScatterChart& chart) {
         if (p->on_frontier)
             out += "<circle cx=\"" + svg_number(px) + "\" cy=\"" + svg_number(py) + "\" r=\"6\" fill=\"" + frontier_colour + "\"/>";
         else
-            out += "<circle cx=\"" + svg_number(px) + "\" cy=\"" + svg_number(py) + "\" r=\"5.5\" fill=\"#ffffff\" stroke=\"" +
-                   muted_ink + "\" stroke-width=\"1.5\"/>";
-        if (label_all || p->on_frontier) {
+            out += "<circle cx=\"" + svg_number(px) + "\" cy=\"" + svg_number(py) + "\" r=\"" + (crowded ? "3.5" : "5.5") +
+                   "\" fill=\"#ffffff\" stroke=\"" + muted_ink + "\" stroke-width=\"1.5\"/>";
+        if (!crowded || p->on_frontier) {
             // Frontier labels sit below-right, clear of the rising frontier line.
             const bool flip = px > right - 220;
-            out += text(flip ? px - 10 : px + 10, p->on_frontier ? py + 20 : py - 9, shorten(p->label, 32),
-                        std::string("text-anchor=\"") + (flip ? "end" : "start") + "\" fill=\"" + ink +
+            const std::string label =
+                number_frontier ? std::to_string(frontier_number[p]) : shorten(p->label, 32);
+            out += text(flip ? px - 10 : px + 10, p->on_frontier ? py + 20 : py - 9, label,
+                        std::string(number_frontier ? "font-weight=\"bold\" " : "") + "text-anchor=\"" + (flip ? "end" : "start") + "\" fill=\"" + ink +
                             "\" stroke=\"#ffffff\" stroke-width=\"3\" paint-order=\"stroke\"");
         }
         out += "</g>";
     }
     return out + "</svg>\n";
+}
+
+std::vector<std::size_t> frontier_order(const std::vector<ScatterPoint>& points) {
+    std::vector<std::size_t> order;
+    for (std::size_t i = 0; i < points.size(); ++i)
+        if (points[i].on_frontier && finite(points[i].x) && finite(points[i].y)) order.push_back(i);
+    std::stable_sort(order.begin(), order.end(), [&](std::size_t a, std::size_t b) {
+        return points[a].x != points[b].x ? points[a].x < points[b].x : points[a].y < points[b].y;
+    });
+    return order;
+}
+
+bool frontier_numbered(const ScatterChart& chart) {
+    std::size_t drawn = 0;
+    for (const ScatterPoint& p : chart.points) drawn += finite(p.x) && finite(p.y);
+    return drawn > chart.max_labels && frontier_order(chart.points).size() > chart.max_labels / 2;
 }
 
 std::string box_svg(const BoxChart& chart) {
@@ -277,7 +308,7 @@ std::string box_svg(const BoxChart& chart) {
             hi = std::max(hi, r.sorted.back());
         }
         left_out += r.left_out;
-        longest_label = std::max(longest_label, std::min<std::size_t>(g.label.size(), 30));
+        longest_label = std::max(longest_label, std::min<std::size_t>(character_count(g.label), 30));
         rows.push_back(std::move(r));
     }
     std::string description = chart.description + (chart.description.empty() ? "" : " ") +
@@ -309,23 +340,24 @@ std::string box_svg(const BoxChart& chart) {
     const Scale x{nice_axis(lo, hi, chart.include_zero), left, right};
 
     std::string out = svg_open(chart.id, height, chart.title, description);
-    // Legend above the plot.
+    // Legend above the plot, aligned with it when it fits beside the right-hand column.
+    const double legend_left = left + 600 <= right + 10 ? left : 12;
     const std::string legend_colour = "fill=\"" + std::string(ink) + "\"";
-    out += "<rect x=\"" + svg_number(left) + "\" y=\"14\" width=\"26\" height=\"14\" fill=\"#1d5c63\" fill-opacity=\"0.18\" stroke=\"#1d5c63\"/>";
-    out += line(left + 13, 14, left + 13, 28, ink, 2.5);
-    out += text(left + 34, 26, "middle half, median", legend_colour);
-    out += "<path d=\"M" + svg_number(left + 190) + " 15 l6 6 l-6 6 l-6 -6 z\" fill=\"" + std::string(ink) + "\"/>";
-    out += text(left + 202, 26, "mean", legend_colour);
-    out += line(left + 254, 13, left + 254, 29, frontier_colour, 2.5);
-    out += text(left + 262, 26, "90th percentile", legend_colour);
+    out += "<rect x=\"" + svg_number(legend_left) + "\" y=\"14\" width=\"26\" height=\"14\" fill=\"#1d5c63\" fill-opacity=\"0.18\" stroke=\"#1d5c63\"/>";
+    out += line(legend_left + 13, 14, legend_left + 13, 28, ink, 2.5);
+    out += text(legend_left + 34, 26, "middle half, median", legend_colour);
+    out += "<path d=\"M" + svg_number(legend_left + 190) + " 15 l6 6 l-6 6 l-6 -6 z\" fill=\"" + std::string(ink) + "\"/>";
+    out += text(legend_left + 202, 26, "mean", legend_colour);
+    out += line(legend_left + 254, 13, legend_left + 254, 29, frontier_colour, 2.5);
+    out += text(legend_left + 262, 26, "90th percentile", legend_colour);
     if (whole_numbers) {
-        out += "<rect x=\"" + svg_number(left + 380) + "\" y=\"16\" width=\"5\" height=\"12\" fill=\"" + std::string(muted_ink) +
-               "\" fill-opacity=\"0.45\"/><rect x=\"" + svg_number(left + 387) + "\" y=\"21\" width=\"5\" height=\"7\" fill=\"" +
+        out += "<rect x=\"" + svg_number(legend_left + 380) + "\" y=\"16\" width=\"5\" height=\"12\" fill=\"" + std::string(muted_ink) +
+               "\" fill-opacity=\"0.45\"/><rect x=\"" + svg_number(legend_left + 387) + "\" y=\"21\" width=\"5\" height=\"7\" fill=\"" +
                std::string(muted_ink) + "\" fill-opacity=\"0.45\"/>";
-        out += text(left + 400, 26, "how often each value occurs", legend_colour);
+        out += text(legend_left + 400, 26, "how often each value occurs", legend_colour);
     } else {
-        out += "<circle cx=\"" + svg_number(left + 384) + "\" cy=\"21\" r=\"3\" fill=\"" + std::string(muted_ink) + "\"/>";
-        out += text(left + 393, 26, "values", legend_colour);
+        out += "<circle cx=\"" + svg_number(legend_left + 384) + "\" cy=\"21\" r=\"3\" fill=\"" + std::string(muted_ink) + "\"/>";
+        out += text(legend_left + 393, 26, "values", legend_colour);
     }
     out += text(right + 14, 26, "median · 90th pct · n", "fill=\"" + std::string(muted_ink) + "\"");
 
@@ -426,7 +458,30 @@ std::string line_svg(const LineChart& chart, const std::string& id) {
     if (drawn == 0) return nothing_to_draw(id, chart.title, "No points to draw. " + description);
 
     const double width = chart.square ? 620 : chart_width;
-    const double height = chart.square ? 600 : 440, left = 78, right = width - 28, top = 48, bottom = height - 64;
+    const double left = 78, right = width - 28;
+    // The legend: one entry per line (and the diagonal), wrapped into rows above the plot.
+    struct LegendEntry {
+        std::string name, colour;
+        bool dashed;
+        double x = 0, y = 0;
+    };
+    std::vector<LegendEntry> entries;
+    for (std::size_t i = 0; i < chart.curves.size(); ++i)
+        entries.push_back({shorten(chart.curves[i].name, 36), plan_colours()[i % plan_colours().size()], chart.curves[i].dashed});
+    if (chart.diagonal) entries.push_back({"y = x", muted_ink, true});
+    double legend_x = left, legend_y = 22;
+    for (LegendEntry& e : entries) {
+        const double entry_width = 48 + 7.4 * static_cast<double>(character_count(e.name));
+        if (legend_x > left && legend_x + entry_width > right) {
+            legend_x = left;
+            legend_y += 22;
+        }
+        e.x = legend_x;
+        e.y = legend_y;
+        legend_x += entry_width;
+    }
+    const double top = legend_y + 26;
+    const double height = (chart.square ? 552 : 392) + top, bottom = height - 64;
     const Scale x{nice_axis(chart.x_min.value_or(x_lo), chart.x_max.value_or(x_hi)), left, right};
     const Scale y{nice_axis(chart.y_min.value_or(y_lo), chart.y_max.value_or(y_hi)), bottom, top};
 
@@ -442,8 +497,13 @@ std::string line_svg(const LineChart& chart, const std::string& id) {
         const double a = std::max(x.axis.lo, y.axis.lo), b = std::min(x.axis.hi, y.axis.hi);
         if (a < b) out += line(x(a), y(a), x(b), y(b), muted_ink, 1.2, "stroke-dasharray=\"3 4\"");
     }
-    double legend_x = left;
     std::string legend;
+    for (const LegendEntry& e : entries) {
+        const bool diagonal_entry = chart.diagonal && &e == &entries.back();
+        legend += line(e.x, e.y, e.x + 26, e.y, e.colour, diagonal_entry ? 1.2 : 2.5,
+                       e.dashed ? (diagonal_entry ? "stroke-dasharray=\"3 4\"" : "stroke-dasharray=\"7 5\"") : "");
+        legend += text(e.x + 32, e.y + 4, e.name, "fill=\"" + std::string(ink) + "\"");
+    }
     for (std::size_t i = 0; i < chart.curves.size(); ++i) {
         const Curve& c = chart.curves[i];
         const std::string& colour = plan_colours()[i % plan_colours().size()];
@@ -468,16 +528,8 @@ std::string line_svg(const LineChart& chart, const std::string& id) {
                     out += "<circle cx=\"" + svg_number(x(p.x)) + "\" cy=\"" + svg_number(y(p.y)) + "\" r=\"3.2\" fill=\"" +
                            colour + "\"/>";
         out += "</g>";
-        legend += line(legend_x, 22, legend_x + 26, 22, colour, 2.5, c.dashed ? "stroke-dasharray=\"7 5\"" : "");
-        const std::string name = shorten(c.name, 36);
-        legend += text(legend_x + 32, 26, name, "fill=\"" + std::string(ink) + "\"");
-        legend_x += 48 + 7.4 * static_cast<double>(std::min<std::size_t>(name.size(), 36));
     }
     out += "</g>";
-    if (chart.diagonal) {
-        legend += line(legend_x, 22, legend_x + 26, 22, muted_ink, 1.2, "stroke-dasharray=\"3 4\"");
-        legend += text(legend_x + 32, 26, "y = x", "fill=\"" + std::string(ink) + "\"");
-    }
     return out + legend + "</svg>\n";
 }
 

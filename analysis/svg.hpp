@@ -43,6 +43,12 @@ struct ScatterChart {
     std::size_t max_labels = 12;    // more points than this: only frontier points are named
 };
 std::string scatter_svg(const ScatterChart& chart);
+// Indices of the drawn frontier points from lightest to heaviest (ties: less
+// benefit first); a numbered frontier (see frontier_numbered) uses 1, 2, ... in this order.
+std::vector<std::size_t> frontier_order(const std::vector<ScatterPoint>& points);
+// With more than max_labels points, beaten plans lose their names and bars; when
+// more than max_labels / 2 frontier points remain, they are numbered instead of named.
+bool frontier_numbered(const ScatterChart& chart);
 
 // One row per group: box from the 25th to the 75th percentile, median line,
 // whiskers to the furthest values within 1.5 box lengths (Tukey), a diamond

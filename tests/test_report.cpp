@@ -422,3 +422,31 @@ TEST_CASE("report.many_plans_name_only_the_frontier") {
     CHECK(svg.find(">plan-5</text>") == std::string::npos);
     CHECK(svg.find("<title>plan-5: ") != std::string::npos);  // still named on hover
 }
+
+TEST_CASE("report.crowded_frontier_is_numbered") {
+    // 30 plans; every third one is on the frontier (10 > 12 / 2), given in
+    // reverse burden order so the list must be sorted: plan-27 is the lightest.
+    ReportInput in;
+    for (int i = 0; i < 30; ++i)
+        in.frontier.push_back({"plan-" + std::to_string(i), double(30 - i), nan_value, nan_value, double(30 - i) * 2,
+                               nan_value, nan_value, i % 3 == 0});
+    ScatterChart chart;
+    for (const FrontierPoint& p : in.frontier)
+        chart.points.push_back({p.plan, p.burden, p.burden_lo, p.burden_hi, p.benefit, p.benefit_lo, p.benefit_hi, p.on_frontier});
+    CHECK(frontier_numbered(chart));
+    const std::vector<std::size_t> order = frontier_order(chart.points);
+    REQUIRE(order.size() == 10);
+    CHECK(order.front() == 27);
+    CHECK(order.back() == 0);
+    const std::string page = render_report(in);
+    CHECK(page.find("<ol class=\"frontier-list\"><li>plan-27</li><li>plan-24</li>") != std::string::npos);
+    CHECK(page.find(">1</text>") != std::string::npos);
+    CHECK(page.find(">plan-27</text>") == std::string::npos);
+    CHECK(page.find("20 other plans are beaten on both counts.") != std::string::npos);
+    // With few frontier plans, names stay on the chart and no numbered list is printed.
+    for (FrontierPoint& p : in.frontier) p.on_frontier = p.plan == "plan-0" || p.plan == "plan-3";
+    const std::string named = render_report(in);
+    CHECK(named.find("frontier-list") == std::string::npos);
+    CHECK(named.find(">plan-3</text>") != std::string::npos);
+    CHECK(named.find("On the frontier, from lightest to heaviest burden: plan-3 and plan-0.") != std::string::npos);
+}
