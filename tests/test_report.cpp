@@ -446,7 +446,7 @@ TEST_CASE("report.crowded_frontier_is_numbered") {
     // With few frontier plans, names stay on the chart and no numbered list is printed.
     for (FrontierPoint& p : in.frontier) p.on_frontier = p.plan == "plan-0" || p.plan == "plan-3";
     const std::string named = render_report(in);
-    CHECK(named.find("frontier-list") == std::string::npos);
+    CHECK(named.find("<ol class=\"frontier-list\">") == std::string::npos);
     CHECK(named.find(">plan-3</text>") != std::string::npos);
     CHECK(named.find("On the frontier, from lightest to heaviest burden: plan-3 and plan-0.") != std::string::npos);
 }
