@@ -32,7 +32,7 @@ struct PlanSeries {
 // interval of each figure (NaN when there is none); `on_frontier` is true when
 // no other plan has lower-or-equal burden and higher-or-equal benefit with one
 // of them strictly better.
-struct FrontierPoint {
+struct ReportFrontierPoint {
     std::string plan;
     static constexpr double none = std::numeric_limits<double>::quiet_NaN();
     double burden = 0, burden_lo = none, burden_hi = none;
@@ -75,7 +75,7 @@ struct ReportInput {
     std::string benefit_label = "cases caught with at least the minimum lead";
     std::optional<double> burden_limit;    // the committee's budget, drawn on the burden charts
     std::string budget_answer;             // plain-word answer to the budget question, if asked
-    std::vector<FrontierPoint> frontier;
+    std::vector<ReportFrontierPoint> frontier;
 
     std::vector<PlanSeries> burden_per_night;
     std::string burden_note;               // what one value is, e.g. "one unit-night of one replication"
@@ -93,6 +93,17 @@ struct ReportInput {
 
     RunRecord run;
 };
+
+// The report shows intervals in wide tables (columns `x`, `x_lo`, `x_hi`). This
+// turns a long table, one row per (`row_key`, metric) with columns `row_key`,
+// "metric", `value_column`, "ci_low" and "ci_high", into that form: one row per
+// `row_key` value in order of first appearance, and per metric (those listed in
+// `metrics`, in that order, or else all in order of first appearance) the three
+// columns `<metric>`, `<metric>_lo`, `<metric>_hi`. Cells are copied as they are;
+// a missing combination is an empty cell. std::invalid_argument names a missing
+// column or an unknown metric.
+Table wide_intervals(const Table& long_table, const std::string& value_column = "mean",
+                     const std::vector<std::string>& metrics = {}, const std::string& row_key = "plan");
 
 // Ready-made evaluation charts with the usual axes and reference lines.
 LineChart roc_chart(std::vector<CurvePoint> false_positive_rate_vs_sensitivity, const std::string& curve_name = "score");
