@@ -135,7 +135,7 @@ RunTables run_tables(const Scenario& sc, const Population& pop, const ShiftCalen
     t.exclusions.columns = {"what", "reason", "count"};
     for (const auto& [reason, n] : pop.excluded.encounters_by_reason) t.exclusions.add_row({"encounters", reason, n});
     for (const auto& [reason, n] : pop.excluded.scores_by_reason) t.exclusions.add_row({"scores", reason, n});
-    for (const auto& [reason, n] : pop.excluded.notes) t.exclusions.add_row({"timestamps", reason, n});
+    for (const auto& [reason, n] : pop.excluded.notes) t.exclusions.add_row({"notes", reason, n});
     if (with_notice_log) {
         Table log;
         log.name = "notice_log";
@@ -151,8 +151,7 @@ RunTables run_tables(const Scenario& sc, const Population& pop, const ShiftCalen
     return t;
 }
 
-std::string run_summary_text(const Scenario& sc, const Population& pop, const RunTables& t,
-                             const ReportingShifts& rep) {
+std::string run_header_text(const Scenario& sc, const Population& pop, const RunTables& t, const ReportingShifts& rep) {
     std::ostringstream o;
     std::int64_t cases = 0;
     for (const Encounter& e : pop.encounters) cases += e.outcome_at.has_value();
@@ -162,10 +161,14 @@ std::string run_summary_text(const Scenario& sc, const Population& pop, const Ru
     o << "Per-shift figures cover " << rep.shifts.size() << " complete shifts from " << format_local(rep.from, sc.zone)
       << " to " << format_local(rep.until, sc.zone) << ".\n";
     if (t.exclusions.rows.empty()) o << "Nothing was excluded.\n";
-    else o << "\n" << to_text(t.exclusions) << "";
+    else o << "\n" << to_text(t.exclusions);
+    return o.str();
+}
+
+std::string plan_summary_text(const RunTables& t) {
     // A narrower view for the terminal; the CSV/JSON hold every column.
     Table view;
-    view.title = "\nPlans compared (notices per unit per shift; lead in hours before time zero)";
+    view.title = "Plans compared (notices per unit per shift; lead in hours before time zero)";
     view.columns = {"plan", "notices", "shift_mean", "shift_p90", "night_mean", "night_p90", "night_max",
                     "caught", "missed", "sensitivity", "lead_median_h", "notices_per_catch"};
     const auto& cols = t.plan_summary.columns;
@@ -177,8 +180,12 @@ std::string run_summary_text(const Scenario& sc, const Population& pop, const Ru
                       at(row, "per_unit_shift_p90"), at(row, "per_unit_night_mean"), at(row, "per_unit_night_p90"),
                       at(row, "per_unit_night_max"), at(row, "caught"), at(row, "missed"), at(row, "sensitivity"),
                       at(row, "lead_median_h"), at(row, "notices_per_catch")});
-    o << to_text(view) << "\n" << cautions_text() << "\n";
-    return o.str();
+    return to_text(view);
+}
+
+std::string run_summary_text(const Scenario& sc, const Population& pop, const RunTables& t,
+                             const ReportingShifts& rep) {
+    return run_header_text(sc, pop, t, rep) + "\n" + plan_summary_text(t) + "\n" + cautions_text() + "\n";
 }
 
 }  // namespace tocsin
