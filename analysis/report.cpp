@@ -340,12 +340,12 @@ std::string render_report(const ReportInput& in) {
     if (!in.burden_per_night.empty()) {
         BoxChart chart;
         chart.id = "fig-burden";
-        chart.title = "Distribution of " + in.burden_label + ", by plan";
-        chart.value_label = in.burden_label;
+        chart.title = "Distribution of " + in.burden_per_night_label + ", by plan";
+        chart.value_label = in.burden_per_night_label;
         chart.groups = groups_of(in.burden_per_night);
-        chart.limit = in.burden_limit;
+        chart.limit = in.per_night_limit;
         std::string caption = (in.burden_note.empty() ? "" : "One value is " + in.burden_note + ". ") + box_reading;
-        if (in.burden_limit) caption += " The dashed line marks the budget.";
+        if (in.per_night_limit) caption += " The dashed line marks the budget of " + format_for_people(*in.per_night_limit) + ".";
         sections.push_back(distribution_section(
             "burden", "Burden per night, by plan",
             "How the burden spreads over nights: the average hides the bad nights a ward remembers.",

@@ -73,12 +73,14 @@ struct ReportInput {
     // Names of the two figures the frontier trades off.
     std::string burden_label = "pages per unit per night";
     std::string benefit_label = "cases caught with at least the minimum lead";
-    std::optional<double> burden_limit;    // the committee's budget, drawn on the burden charts
+    std::optional<double> burden_limit;    // the committee's budget in burden_label units, drawn on the frontier
     std::string budget_answer;             // plain-word answer to the budget question, if asked
     std::vector<ReportFrontierPoint> frontier;
 
     std::vector<PlanSeries> burden_per_night;
+    std::string burden_per_night_label = "notices per unit per night";
     std::string burden_note;               // what one value is, e.g. "one unit-night of one replication"
+    std::optional<double> per_night_limit; // a budget in burden_per_night_label units, drawn on that chart
 
     std::vector<PlanSeries> lead_times_hours;                  // from the first notice
     std::vector<PlanSeries> lead_times_from_evaluation_hours;  // from the start of the first evaluation

@@ -59,6 +59,8 @@ inline ReportInput sample_report_input(const std::string& hostile = "") {
         diff.add_row({p.name, p.night_mean - 1.6, p.night_mean - 1.6 - 0.1, p.night_mean - 1.6 + 0.1});
     in.differences = diff;
     in.burden_limit = 4;
+    in.per_night_limit = 4;
+    in.burden_per_night_label = "pages per ward per night";
     in.budget_answer = "Within 4 pages per ward per night on 9 nights in 10, page-60-snooze-4h catches the most "
                        "cases; it was best in 172 of 200 replications (86%).";
     boost::random::mt19937 engine(20261201u);
