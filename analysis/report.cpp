@@ -47,12 +47,13 @@ caption{text-align:left;font-weight:bold;padding:0 0 .4em}
 th,td{padding:.38em .7em;border-bottom:1px solid var(--rule);vertical-align:top}
 thead th{background:#e3ecec;border-bottom:2px solid var(--teal);text-align:left}
 tbody tr:nth-child(even){background:#f4f2ec}
-tbody th{text-align:left;font-weight:bold}
+tbody th{text-align:left;font-weight:bold;white-space:nowrap}
 .num{text-align:right}
 .interval{color:var(--muted);white-space:nowrap}
 .note{color:var(--muted);font-size:.92rem}
 .answer{background:#e3ecec;border-left:6px solid var(--teal);padding:10px 16px;font-weight:bold}
 figure{margin:1.2em 0;padding:0}
+.figure-title{font-weight:bold;margin:0 0 .3em}
 figcaption{color:var(--muted);font-size:.92rem;margin-top:.4em;max-width:46em}
 svg.chart{display:block;width:100%;height:auto;font-family:inherit}
 svg.chart.narrow{max-width:620px}
@@ -94,6 +95,11 @@ std::string paragraphs(const std::string& text, const std::string& css_class = "
         start = end + 1;
     }
     return out;
+}
+
+// The chart's title shown above it (the SVG's own <title> is for screen readers and tooltips).
+std::string figure_title(const std::string& title) {
+    return "<p class=\"figure-title\" aria-hidden=\"true\">" + html_escape(title) + "</p>";
 }
 
 std::string list(const std::vector<std::string>& items, const std::string& css_class) {
@@ -153,7 +159,7 @@ Section frontier_section(const ReportInput& in) {
                   "; the other plans are small circles, named when the pointer rests on them.";
     if (in.burden_limit)
         caption += " The dashed line marks the budget of " + format_for_people(*in.burden_limit) + " " + in.burden_label + ".";
-    body += "<figure>" + scatter_svg(chart) + "<figcaption>" + html_escape(caption) + "</figcaption></figure>\n";
+    body += "<figure>" + figure_title(chart.title) + scatter_svg(chart) + "<figcaption>" + html_escape(caption) + "</figcaption></figure>\n";
 
     std::vector<std::string> frontier, beaten;
     for (std::size_t i : frontier_order(chart.points)) frontier.push_back(in.frontier[i].plan);
@@ -178,7 +184,7 @@ Section distribution_section(const std::string& id, const std::string& heading, 
                              const std::vector<std::pair<BoxChart, std::string>>& charts) {
     std::string body = paragraph(intro);
     for (const auto& [chart, caption] : charts)
-        body += "<figure>" + box_svg(chart) + "<figcaption>" + html_escape(caption) + "</figcaption></figure>\n";
+        body += "<figure>" + figure_title(chart.title) + box_svg(chart) + "<figcaption>" + html_escape(caption) + "</figcaption></figure>\n";
     return {id, heading, body};
 }
 
@@ -199,7 +205,7 @@ std::string run_record_body(const RunRecord& r) {
     out += "</dl>\n";
     out += paragraph(
         "The same scenario, seed and number of replications give the same figures, whatever the number of "
-        "threads. Tables behind this report are written beside it as CSV and JSON.",
+        "threads.",
         "note");
     return out;
 }
@@ -383,7 +389,8 @@ std::string render_report(const ReportInput& in) {
             if (given(t)) body += html_table(t, table_options);
         for (std::size_t i = 0; i < in.evaluation_charts.size(); ++i) {
             const LineChart& chart = in.evaluation_charts[i];
-            body += "<figure>" + line_svg(chart, "fig-evaluation-" + std::to_string(i + 1)) + "<figcaption>" +
+            body += "<figure>" + figure_title(chart.title) + line_svg(chart, "fig-evaluation-" + std::to_string(i + 1)) +
+                    "<figcaption>" +
                     html_escape(chart.description) + "</figcaption></figure>\n";
         }
         body += paragraph(in.evaluation_note, "note");

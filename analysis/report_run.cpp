@@ -32,12 +32,19 @@ std::size_t column(const Table& t, const std::string& name) {
 std::vector<std::string> assumptions_of(const Scenario& sc) {
     std::vector<std::string> lines;
     std::istringstream in(describe_scenario(sc));
+    bool after_plan = false;
     for (std::string line; std::getline(in, line);) {
-        const std::size_t first = line.find_first_not_of(' ');
-        if (first == std::string::npos) continue;
-        line.erase(0, first);
-        if (line.rfind("Scenario:", 0) == 0 || line == sc.description) continue;
-        if (line.rfind("- ", 0) == 0) line = "Plan " + line.substr(2);
+        const std::size_t indent = line.find_first_not_of(' ');
+        if (indent == std::string::npos) continue;
+        line.erase(0, indent);
+        if (line.rfind("Scenario:", 0) == 0 || line == sc.description || line.rfind("Plans (", 0) == 0) continue;
+        if (after_plan && indent > 2 && !lines.empty()) {
+            // A plan's own description, printed under it: one line with its rule.
+            lines.back() += " (" + line + ")";
+            continue;
+        }
+        after_plan = line.rfind("- ", 0) == 0;
+        if (after_plan) line = "Plan " + line.substr(2);
         lines.push_back(line);
     }
     return lines;

@@ -187,6 +187,11 @@ TEST_CASE("report.escapes_every_user_string") {
     in.assumptions.push_back("Units: " + hostile);
     in.key_findings.push_back(hostile);
     in.burden_label += hostile;
+    in.burden_per_night_label += hostile;
+    in.benefit_label += hostile;
+    in.lead_time_note = hostile;
+    in.budget_answer += hostile;
+    in.evaluation_tables[0].columns[0] = hostile;
     in.column_labels["caught"] = "Caught " + hostile;
     in.run.scenario_name = hostile;
     in.run.other.emplace_back(hostile, hostile);
