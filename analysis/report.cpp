@@ -49,7 +49,7 @@ thead th{background:#e3ecec;border-bottom:2px solid var(--teal);text-align:left}
 tbody tr:nth-child(even){background:#f4f2ec}
 tbody th{text-align:left;font-weight:bold;white-space:nowrap}
 .num{text-align:right}
-.interval{color:var(--muted);white-space:nowrap}
+.interval{display:block;color:var(--muted);white-space:nowrap;font-size:.86em}
 .note{color:var(--muted);font-size:.92rem}
 .answer{background:#e3ecec;border-left:6px solid var(--teal);padding:10px 16px;font-weight:bold}
 figure{margin:1.2em 0;padding:0}
