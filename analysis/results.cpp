@@ -5,6 +5,7 @@
 
 #include "analysis/cautions.hpp"
 #include "analysis/quantiles.hpp"
+#include "analysis/workload.hpp"
 
 namespace tocsin {
 
@@ -72,8 +73,29 @@ PlanFigures plan_figures(const Scenario& sc, const Population& pop, const ShiftC
         f.per_unit_night_p90 = quantile_sorted(night, 0.9);
         f.per_unit_night_max = night.back();
     }
-    const auto caught_at = first_catch(sc, pop, actions);
-    std::vector<double> leads;
+    const auto noticed_at = first_catch(sc, pop, actions);
+    f.evaluations = f.notices;
+    if (record.staff) {
+        // A case is caught by the start of an evaluation, not by the notice.
+        actions.clear();
+        std::vector<double> waits;
+        std::int64_t never = 0;
+        for (const TaskRecord& t : record.staff->tasks) {
+            never += t.fate == TaskFate::never_taken_up;
+            if (!t.started()) continue;
+            actions.emplace_back(t.encounter, t.started_at);
+            waits.push_back(static_cast<double>(t.wait_seconds()) / 60.0);
+        }
+        f.evaluations = static_cast<std::int64_t>(waits.size());
+        f.never_taken_up = never;
+        if (!waits.empty()) {
+            std::sort(waits.begin(), waits.end());
+            f.wait_median_minutes = quantile_sorted(waits, 0.5);
+            f.wait_p90_minutes = quantile_sorted(waits, 0.9);
+        }
+    }
+    const auto caught_at = record.staff ? first_catch(sc, pop, actions) : noticed_at;
+    std::vector<double> leads, notice_leads;
     for (std::size_t e = 0; e < pop.encounters.size(); ++e) {
         if (!pop.encounters[e].outcome_at) continue;
         ++f.cases;
@@ -81,6 +103,14 @@ PlanFigures plan_figures(const Scenario& sc, const Population& pop, const ShiftC
             ++f.caught;
             leads.push_back(static_cast<double>(*pop.encounters[e].outcome_at - *caught_at[e]) / 3600.0);
         }
+        if (noticed_at[e]) {
+            ++f.caught_by_notice;
+            notice_leads.push_back(static_cast<double>(*pop.encounters[e].outcome_at - *noticed_at[e]) / 3600.0);
+        }
+    }
+    if (!notice_leads.empty()) {
+        std::sort(notice_leads.begin(), notice_leads.end());
+        f.lead_from_notice_median_hours = quantile_sorted(notice_leads, 0.5);
     }
     f.missed = f.cases - f.caught;
     if (f.cases) f.sensitivity = static_cast<double>(f.caught) / static_cast<double>(f.cases);
@@ -96,10 +126,11 @@ PlanFigures plan_figures(const Scenario& sc, const Population& pop, const ShiftC
 
 namespace {
 Cell opt(const std::optional<double>& v) { return v ? Cell(*v) : Cell(); }
+Cell opt(const std::optional<std::int64_t>& v) { return v ? Cell(*v) : Cell(); }
 }  // namespace
 
 RunTables run_tables(const Scenario& sc, const Population& pop, const ShiftCalendar& cal,
-                     const ReplicationRecord& record, bool with_notice_log) {
+                     const ReplicationRecord& record, bool with_notice_log, bool with_task_log) {
     RunTables t;
     const ReportingShifts rep = reporting_shifts(sc, pop, cal);
     t.plan_summary.name = "plan_summary";
@@ -108,7 +139,9 @@ RunTables run_tables(const Scenario& sc, const Population& pop, const ShiftCalen
                               "per_unit_shift_mean", "per_unit_shift_p90", "per_unit_shift_max",
                               "per_unit_night_mean", "per_unit_night_p90", "per_unit_night_max",
                               "cases", "caught", "missed", "sensitivity",
-                              "lead_median_h", "lead_q1_h", "lead_q3_h", "notices_per_catch"};
+                              "lead_median_h", "lead_q1_h", "lead_q3_h", "notices_per_catch",
+                              "evaluations", "caught_by_notice", "lead_from_notice_median_h",
+                              "wait_median_min", "wait_p90_min", "never_taken_up"};
     t.unit_shift_notices.name = "unit_shift_notices";
     t.unit_shift_notices.title = "Notices per unit per shift";
     t.unit_shift_notices.columns = {"plan", "unit", "shift_start", "shift", "night", "notices"};
@@ -119,7 +152,9 @@ RunTables run_tables(const Scenario& sc, const Population& pop, const ShiftCalen
                                 f.per_unit_shift_p90, f.per_unit_shift_max, opt(f.per_unit_night_mean),
                                 opt(f.per_unit_night_p90), opt(f.per_unit_night_max), f.cases, f.caught, f.missed,
                                 opt(f.sensitivity), opt(f.lead_median_hours), opt(f.lead_q1_hours),
-                                opt(f.lead_q3_hours), opt(f.notices_per_catch)});
+                                opt(f.lead_q3_hours), opt(f.notices_per_catch), f.evaluations, f.caught_by_notice,
+                                opt(f.lead_from_notice_median_hours), opt(f.wait_median_minutes),
+                                opt(f.wait_p90_minutes), opt(f.never_taken_up)});
         const std::size_t n_shifts = rep.shifts.size();
         for (std::size_t u = 0; u < pop.units.size(); ++u)
             for (std::size_t k = 0; k < n_shifts; ++k) {
@@ -136,6 +171,23 @@ RunTables run_tables(const Scenario& sc, const Population& pop, const ShiftCalen
     for (const auto& [reason, n] : pop.excluded.encounters_by_reason) t.exclusions.add_row({"encounters", reason, n});
     for (const auto& [reason, n] : pop.excluded.scores_by_reason) t.exclusions.add_row({"scores", reason, n});
     for (const auto& [reason, n] : pop.excluded.notes) t.exclusions.add_row({"notes", reason, n});
+    if (sc.has_staff()) {
+        const StaffModel model = staff_model(sc, static_cast<std::uint32_t>(pop.units.size()));
+        std::vector<PlanStaffRun> runs;
+        for (std::size_t p = 0; p < sc.plans.size(); ++p)
+            runs.push_back({sc.plans[p].name, &model, sc.plans[p].staffing, &*record.plans[p].staff});
+        // Same period as the notice counts: tasks created in it, complete shifts inside it.
+        const ReportPeriod period{rep.from, rep.until};
+        t.staff_workload = staff_workload_table(runs, cal, period);
+        t.staff_escalations = escalation_table(runs, period);
+        t.task_fates = task_fate_table(runs, period);
+        if (with_task_log) {
+            std::vector<std::string> ids;
+            ids.reserve(pop.encounters.size());
+            for (const Encounter& e : pop.encounters) ids.push_back(e.id);
+            t.task_log = task_log_table(runs, ids, pop.units, sc.zone);
+        }
+    }
     if (with_notice_log) {
         Table log;
         log.name = "notice_log";
@@ -166,6 +218,7 @@ std::string run_header_text(const Scenario& sc, const Population& pop, const Run
 }
 
 std::string plan_summary_text(const RunTables& t) {
+    std::ostringstream o;
     // A narrower view for the terminal; the CSV/JSON hold every column.
     Table view;
     view.title = "Plans compared (notices per unit per shift; lead in hours before time zero)";
@@ -180,7 +233,36 @@ std::string plan_summary_text(const RunTables& t) {
                       at(row, "per_unit_shift_p90"), at(row, "per_unit_night_mean"), at(row, "per_unit_night_p90"),
                       at(row, "per_unit_night_max"), at(row, "caught"), at(row, "missed"), at(row, "sensitivity"),
                       at(row, "lead_median_h"), at(row, "notices_per_catch")});
-    return to_text(view);
+    o << to_text(view) << "\n";
+    if (t.staff_workload) {
+        // Staff: the cost of each plan in people and time, and how catches change when
+        // they count from the evaluation start rather than the notice.
+        Table staff;
+        staff.title = "Staff (catches count from the evaluation start; by notice = if evaluation were instant)";
+        staff.columns = {"plan", "evaluations", "wait_median_min", "wait_p90_min", "never_taken_up",
+                         "caught", "caught_by_notice", "lead_median_h", "lead_from_notice_median_h"};
+        for (const auto& row : t.plan_summary.rows)
+            staff.add_row({at(row, "plan"), at(row, "evaluations"), at(row, "wait_median_min"), at(row, "wait_p90_min"),
+                           at(row, "never_taken_up"), at(row, "caught"), at(row, "caught_by_notice"),
+                           at(row, "lead_median_h"), at(row, "lead_from_notice_median_h")});
+        o << to_text(staff) << "\n";
+        const auto& wc = t.staff_workload->columns;
+        auto wat = [&](const std::vector<Cell>& row, const char* name) {
+            return row[static_cast<std::size_t>(std::find(wc.begin(), wc.end(), name) - wc.begin())];
+        };
+        Table roles;
+        roles.title = "Staff by plan and role (minutes per team per shift; waits from notice to start)";
+        roles.columns = {"plan", "role", "team", "minutes_mean", "minutes_p90", "utilisation", "tasks_per_person",
+                         "wait_p90_min", "wait_max_min", "never_taken_up", "overtime_min"};
+        for (const auto& row : t.staff_workload->rows)
+            roles.add_row({wat(row, "plan"), wat(row, "role"), wat(row, "team"), wat(row, "staff_minutes_per_shift_mean"),
+                           wat(row, "staff_minutes_per_shift_p90"), wat(row, "utilisation"),
+                           wat(row, "tasks_per_staff_member_per_shift"), wat(row, "wait_minutes_p90"),
+                           wat(row, "wait_minutes_max"), wat(row, "never_taken_up"), wat(row, "overtime_minutes")});
+        o << to_text(roles) << "\n";
+        if (!t.staff_escalations->rows.empty()) o << to_text(*t.staff_escalations) << "\n";
+    }
+    return o.str();
 }
 
 std::string run_summary_text(const Scenario& sc, const Population& pop, const RunTables& t,

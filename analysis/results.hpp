@@ -29,6 +29,13 @@ struct PlanFigures {
     std::optional<double> sensitivity;
     std::optional<double> lead_median_hours, lead_q1_hours, lead_q3_hours;
     std::optional<double> notices_per_catch;
+    // With staff, catches and lead count from evaluation starts (DESIGN.md);
+    // these say what the notices alone would have caught, had evaluation been instant.
+    std::int64_t evaluations = 0;  // tasks started (= notices without staff)
+    std::int64_t caught_by_notice = 0;
+    std::optional<double> lead_from_notice_median_hours;
+    std::optional<double> wait_median_minutes, wait_p90_minutes;  // notice to evaluation start
+    std::optional<std::int64_t> never_taken_up;
     std::vector<std::int64_t> unit_shift_counts;  // unit-major: [unit * shifts + k]
 };
 
@@ -45,10 +52,13 @@ struct RunTables {
     Table unit_shift_notices;  // the data behind the per-shift distributions
     Table exclusions;
     std::optional<Table> notice_log;  // opt-in: holds encounter ids
+    // When the scenario declares roles (analysis/workload.hpp):
+    std::optional<Table> staff_workload, staff_escalations, task_fates;
+    std::optional<Table> task_log;    // opt-in: holds encounter ids
 };
 
 RunTables run_tables(const Scenario& scenario, const Population& population, const ShiftCalendar& calendar,
-                     const ReplicationRecord& record, bool with_notice_log);
+                     const ReplicationRecord& record, bool with_notice_log, bool with_task_log = false);
 
 // Parts of the terminal summary: the population and exclusions; the plan table.
 std::string run_header_text(const Scenario& scenario, const Population& population, const RunTables& tables,

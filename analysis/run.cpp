@@ -16,7 +16,7 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
                                  "' (expected one of " + metric_names() + ")");
     RunOutput out;
     std::vector<std::vector<PlanFigures>> figures(sc.replications);
-    std::vector<Table> logs(sc.replications);
+    std::vector<Table> logs(sc.replications), task_logs(sc.replications);
     std::mutex first_lock;
     ExperimentOptions options;
     options.replications = sc.replications;
@@ -27,9 +27,16 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
                        const ReportingShifts rep = reporting_shifts(sc, pop, cal);
                        for (const PlanRecord& plan : rec.plans)
                            figures[r].push_back(plan_figures(sc, pop, cal, rep, plan));
-                       if (r == 0 || settings.notice_log) {
-                           RunTables t = run_tables(sc, pop, cal, rec, settings.notice_log);
+                       if (r == 0 || settings.notice_log || settings.task_log) {
+                           RunTables t = run_tables(sc, pop, cal, rec, settings.notice_log, settings.task_log);
                            if (settings.notice_log) logs[r] = std::move(*t.notice_log);
+                           if (t.task_log) {
+                               // Tasks of every replication go in one log, like notices.
+                               Table& log = *t.task_log;
+                               log.columns.insert(log.columns.begin() + 1, "replication");
+                               for (auto& row : log.rows) row.insert(row.begin() + 1, static_cast<std::int64_t>(r));
+                               task_logs[r] = log;
+                           }
                            if (r == 0) {
                                std::lock_guard<std::mutex> guard(first_lock);
                                out.first_replication = std::move(t);
@@ -42,6 +49,12 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
         for (std::uint64_t r = 1; r < sc.replications; ++r)
             for (auto& row : logs[r].rows) all.rows.push_back(std::move(row));
         out.first_replication.notice_log = std::move(all);
+    }
+    if (out.first_replication.task_log) {
+        Table all = std::move(task_logs[0]);
+        for (std::uint64_t r = 1; r < sc.replications; ++r)
+            for (auto& row : task_logs[r].rows) all.rows.push_back(std::move(row));
+        out.first_replication.task_log = std::move(all);
     }
     std::vector<std::string> names;
     for (const Plan& p : sc.plans) names.push_back(p.name);
@@ -89,6 +102,9 @@ std::vector<OutputFile> run_output_files(const RunOutput& out) {
     add_table_files(files, out.comparison.replication_figures);
     add_table_files(files, out.frontier);
     if (out.first_replication.notice_log) add_table_files(files, *out.first_replication.notice_log);
+    const RunTables& t = out.first_replication;
+    for (const auto* staff : {&t.staff_workload, &t.staff_escalations, &t.task_fates, &t.task_log})
+        if (*staff) add_table_files(files, **staff);
     files.push_back({"CAUTIONS.txt", cautions_text() + "\n"});
     return files;
 }

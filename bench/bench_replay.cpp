@@ -117,9 +117,25 @@ Scenario bench_scenario(const std::string& dir) {
         p.rule.snooze = hours(4);
         if (i == 1) p.rule.rise = 10;
         if (i == 2) { p.rule.persistence = 2; p.rule.rearm_below = 45; p.rule.max_per_shift = 2; }
+        if (i == 3) p.staffing.discipline = QueueDiscipline::priority_by_score;
         sc.plans.push_back(p);
     }
     return sc;
+}
+
+// Ward nurses on each unit, a charge nurse on each unit, a hospital rapid-response team.
+std::vector<Role> bench_roles() {
+    auto role = [](std::string name, bool per_unit, std::vector<int> by_shift, ServiceTime minutes) {
+        Role r;
+        r.name = std::move(name);
+        r.per_unit = per_unit;
+        r.roster.by_shift = std::move(by_shift);
+        r.minutes_per_task = std::move(minutes);
+        return r;
+    };
+    return {role("ward nurse", true, {5, 3}, GammaMinutes{15, 8}),
+            role("charge nurse", true, {1, 1}, LognormalMinutes{10, 1.5}),
+            role("rapid response nurse", false, {2, 2}, ExponentialMinutes{30})};
 }
 
 }  // namespace
@@ -162,6 +178,23 @@ int main(int argc, char** argv) {
     t = std::chrono::steady_clock::now();
     const RunTables tables = run_tables(sc, pop, cal, rec, false);
     std::printf("results: tables in %.2f s; replay + results %.2f s\n", seconds_since(t), replay + seconds_since(t));
+    // The same replay with staff and escalation (issue 3's speed goal: under 2x the time without).
+    Scenario staffed = sc;
+    staffed.roles = bench_roles();
+    const std::vector<std::string> role_names = {"ward nurse", "charge nurse", "rapid response nurse"};
+    const std::vector<EscalationEdge> edges = {{"ward nurse", "charge nurse", 10},
+                                               {"charge nurse", "rapid response nurse", 15}};
+    staffed.escalation = build_escalation_graph(role_names, edges, roles_ever_staffed(staffed.roles));
+    t = std::chrono::steady_clock::now();
+    const ReplicationRecord staffed_rec = simulate_replication(staffed, pop, cal, 0, threads);
+    const double with_staff = seconds_since(t);
+    std::size_t tasks = 0;
+    for (const auto& p : staffed_rec.plans) tasks += p.staff->tasks.size();
+    std::printf("replay with staff and escalation: %.2f s = %.2fx the replay without (%zu tasks, staff part %.2f s)\n",
+                with_staff, with_staff / replay, tasks, with_staff - replay);
+    t = std::chrono::steady_clock::now();
+    const RunTables staffed_tables = run_tables(staffed, pop, cal, staffed_rec, false);
+    std::printf("results with staff tables: %.2f s\n", seconds_since(t));
     std::printf("peak RSS: %ld MiB\n", peak_rss_mib());
     if (!keep) std::filesystem::remove_all(dir);
     return 0;

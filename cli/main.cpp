@@ -15,6 +15,7 @@
 #include "analysis/output.hpp"
 #include "analysis/results.hpp"
 #include "analysis/run.hpp"
+#include "analysis/shift_effect.hpp"
 #include "sim/population_source.hpp"
 #include "models/errors.hpp"
 #include "models/fit.hpp"
@@ -32,6 +33,7 @@ struct RunOptions {
     std::string scenario;
     std::string out_dir;
     bool notice_log = false;
+    bool task_log = false;
     unsigned threads = 0;
     std::uint64_t replications = 0;  // 0 = as the scenario says
     std::optional<double> max_burden;
@@ -56,6 +58,7 @@ void add_run_options(CLI::App* cmd, RunOptions& o) {
     cmd->add_option("scenario", o.scenario, "Scenario YAML file")->required();
     cmd->add_option("-o,--out", o.out_dir, "Write tidy CSV and JSON tables to this directory");
     cmd->add_flag("--notice-log", o.notice_log, "Also write every notice with its encounter id (patient-level)");
+    cmd->add_flag("--task-log", o.task_log, "Also write every staff task with its encounter id (patient-level)");
     cmd->add_option("-j,--threads", o.threads, "Worker threads (default: all cores); results do not depend on it");
     cmd->add_option("-r,--replications", o.replications, "Replications (default: the scenario's `replications`)");
     cmd->add_option("--max-burden", o.max_burden, "Budget question: best plan whose mean --budget-metric is at most this");
@@ -125,6 +128,7 @@ int command_run(const RunOptions& opt, bool sweep) {
     RunSettings settings;
     settings.threads = thread_count(opt.threads);
     settings.notice_log = opt.notice_log;
+    settings.task_log = opt.task_log;
     settings.progress = progress_bar();
     settings.burden_metric = opt.burden_metric;
     settings.benefit_metric = opt.benefit_metric;
@@ -132,8 +136,14 @@ int command_run(const RunOptions& opt, bool sweep) {
     settings.budget_metric = opt.budget_metric;
     const RunOutput out = run_scenario(sc, factory, settings);
     std::cout << out.text;
+    std::optional<ShiftEffect> effect;
+    if (sc.shift) {
+        effect = shift_effect(sc, factory, settings.threads);
+        std::cout << "\n" << effect->text;
+    }
     if (!opt.out_dir.empty()) {
         std::vector<OutputFile> files = run_output_files(out);
+        if (effect) add_table_files(files, effect->table);
         files.push_back({"run_record.json",
                          run_record_json(sc, settings, std::chrono::duration<double>(std::chrono::steady_clock::now() - started).count())});
         write_output_files(opt.out_dir, files);

@@ -43,6 +43,124 @@ Rule parse_rule(const Section& s) {
     return r;
 }
 
+constexpr const char* weekday_names[] = {"monday", "tuesday", "wednesday", "thursday", "friday", "saturday", "sunday"};
+
+std::string joined(const std::vector<std::string>& names) {
+    std::string out;
+    for (const std::string& n : names) out += (out.empty() ? "" : ", ") + n;
+    return out;
+}
+
+// Headcount by shift name, e.g. {day: 2, night: 1}: every shift, nothing else.
+std::vector<int> parse_roster_row(const YAML::Node& node, const ShiftPattern& shifts, const std::string& file,
+                                  const std::string& field) {
+    if (!node.IsMap())
+        throw yaml_error(file, node, field, "expected headcount by shift name, e.g. {" + shifts.names.front() + ": 2}");
+    std::vector<int> row(shifts.names.size(), -1);
+    for (auto it = node.begin(); it != node.end(); ++it) {
+        const std::string name = it->first.as<std::string>();
+        const auto at = std::find(shifts.names.begin(), shifts.names.end(), name);
+        if (at == shifts.names.end())
+            throw yaml_error(file, it->first, field + "." + name,
+                             "unknown shift '" + name + "' (declared shifts: " + joined(shifts.names) + ")");
+        long long n = -1;
+        if (!it->second.IsScalar() || !YAML::convert<long long>::decode(it->second, n) || n < 0 || n > 100000)
+            throw yaml_error(file, it->second, field + "." + name, "expected a headcount, a whole number >= 0");
+        row[static_cast<std::size_t>(at - shifts.names.begin())] = static_cast<int>(n);
+    }
+    for (std::size_t k = 0; k < row.size(); ++k)
+        if (row[k] < 0)
+            throw yaml_error(file, node, field, "no headcount for shift '" + shifts.names[k] + "'; give every shift");
+    return row;
+}
+
+ServiceTime parse_minutes(const Section& s) {
+    const std::string d = s.text("distribution");
+    // The keys each distribution takes; any other given key is a mistake.
+    const std::vector<std::pair<std::string, std::vector<std::string_view>>> takes = {
+        {"fixed", {"minutes"}},     {"exponential", {"mean"}},        {"gamma", {"mean", "sd"}},
+        {"lognormal", {"median", "spread"}}, {"empirical", {"values"}}};
+    const auto kind = std::find_if(takes.begin(), takes.end(), [&](const auto& t) { return t.first == d; });
+    if (kind == takes.end())
+        s.fail("distribution", "unknown distribution '" + d + "' (expected fixed, exponential, gamma, lognormal or empirical)");
+    std::string wanted;
+    for (std::string_view k : kind->second) wanted += (wanted.empty() ? "" : ", ") + std::string(k);
+    constexpr std::string_view parameter_keys[] = {"minutes", "mean", "sd", "median", "spread", "values"};
+    for (std::string_view key : parameter_keys)  // a misplaced key first: it often explains a missing one
+        if (s.has(key) && std::find(kind->second.begin(), kind->second.end(), key) == kind->second.end())
+            s.fail(key, "'" + std::string(key) + "' is not used by the " + d + " distribution (it takes: " + wanted + ")");
+    for (std::string_view key : kind->second)
+        if (!s.has(key)) s.fail("distribution", "the " + d + " distribution needs: " + wanted);
+    ServiceTime out;
+    if (d == "fixed") out = FixedMinutes{*s.optional_real("minutes")};
+    else if (d == "exponential") out = ExponentialMinutes{*s.optional_real("mean")};
+    else if (d == "gamma") out = GammaMinutes{*s.optional_real("mean"), *s.optional_real("sd")};
+    else if (d == "lognormal") out = LognormalMinutes{*s.optional_real("median"), *s.optional_real("spread")};
+    else out = EmpiricalMinutes{s.real_list("values")};
+    if (std::string problem = service_time_problem(out); !problem.empty()) s.fail("distribution", problem);
+    return out;
+}
+
+std::vector<Role> parse_roles(const Section& top, const ShiftPattern& shifts, const std::string& file) {
+    std::vector<Role> roles;
+    std::size_t i = 0;
+    for (const auto& node : top.child("roles")) {
+        const std::string where = "roles[" + std::to_string(i++) + "]";
+        Section s(node, "roles[]", file, where);
+        Role r;
+        r.name = s.text("name");
+        if (r.name.empty()) s.fail("name", "role name is empty");
+        for (const Role& other : roles)
+            if (other.name == r.name) s.fail("name", "two roles are named '" + r.name + "'");
+        const std::string team = s.text("team", "hospital");
+        if (team != "hospital" && team != "each_unit")
+            s.fail("team", "unknown team '" + team + "' (expected hospital or each_unit)");
+        r.per_unit = team == "each_unit";
+        r.roster.by_shift = parse_roster_row(s.child("roster"), shifts, file, where + ".roster");
+        if (s.has("roster_by_weekday")) {
+            const YAML::Node days = s.child("roster_by_weekday");
+            r.roster.by_weekday.assign(7, r.roster.by_shift);
+            for (auto it = days.begin(); it != days.end(); ++it) {
+                const std::string day = it->first.as<std::string>();
+                const auto at = std::find(std::begin(weekday_names), std::end(weekday_names), day);
+                if (at == std::end(weekday_names))
+                    throw yaml_error(file, it->first, where + ".roster_by_weekday." + day,
+                                     "unknown weekday '" + day + "' (expected monday ... sunday, lower case)");
+                r.roster.by_weekday[static_cast<std::size_t>(at - std::begin(weekday_names))] =
+                    parse_roster_row(it->second, shifts, file, where + ".roster_by_weekday." + day);
+            }
+        }
+        r.minutes_per_task = parse_minutes(Section(s.child("minutes"), "roles[].minutes", file, where + ".minutes"));
+        roles.push_back(std::move(r));
+    }
+    if (roles.empty()) top.fail("roles", "the roles list is empty; leave it out for no staff model");
+    return roles;
+}
+
+EscalationGraph parse_escalation(const Section& top, const std::vector<Role>& roles, const std::string& file) {
+    std::vector<std::string> names;
+    for (const Role& r : roles) names.push_back(r.name);
+    std::vector<EscalationEdge> edges;
+    std::vector<YAML::Node> nodes;
+    if (top.has("escalation")) {
+        if (roles.empty()) top.fail("escalation", "escalation needs roles; declare the roles first");
+        std::size_t i = 0;
+        for (const auto& node : top.child("escalation")) {
+            Section s(node, "escalation[]", file, "escalation[" + std::to_string(i++) + "]");
+            edges.push_back({s.text("from"), s.text("to"), *s.optional_real("after_minutes")});
+            nodes.push_back(node);
+        }
+    }
+    const auto problems = escalation_problems(names, edges, roles_ever_staffed(roles));
+    if (!problems.empty()) {
+        // Point at the first offending edge; the message names every one.
+        std::string message = problems.front().message;
+        for (std::size_t k = 1; k < problems.size(); ++k) message += "; also: " + problems[k].message;
+        throw yaml_error(file, nodes[problems.front().edges.front()], "escalation", message);
+    }
+    return build_escalation_graph(names, edges, roles_ever_staffed(roles));
+}
+
 Channel parse_channel(const Section& s) {
     const std::string c = s.text("channel", "page");
     if (c == "page") return Channel::page;
@@ -318,6 +436,8 @@ Scenario parse_scenario(const std::string& yaml_text, const std::string& file, c
         if (sc.period_start && sc.period_end && *sc.period_end <= *sc.period_start)
             s.fail("until", "the reporting period ends before it starts");
     }
+    if (top.has("roles")) sc.roles = parse_roles(top, sc.shifts, file);
+    sc.escalation = parse_escalation(top, sc.roles, file);
     {
         YAML::Node list = top.child("plans");
         std::set<std::string> names;
@@ -331,6 +451,28 @@ Scenario parse_scenario(const std::string& yaml_text, const std::string& file, c
             p.description = s.text("description");
             p.channel = parse_channel(s);
             p.role = s.text("role", "responder");
+            if (sc.has_staff()) {
+                std::vector<std::string> names;
+                for (const Role& r : sc.roles) names.push_back(r.name);
+                const auto at = std::find(names.begin(), names.end(), p.role);
+                if (at == names.end()) {
+                    std::string best = names.front();
+                    for (const std::string& n : names)
+                        if (edit_distance(p.role, n) < edit_distance(p.role, best)) best = n;
+                    s.fail("role", "unknown role '" + p.role + "'; did you mean '" + best + "'? (declared roles: " +
+                                       joined(names) + ")");
+                }
+                p.staffing.first_role = static_cast<std::uint32_t>(at - names.begin());
+            }
+            const std::string queue = s.text("queue", "fifo");
+            if (queue == "priority") p.staffing.discipline = QueueDiscipline::priority_by_score;
+            else if (queue != "fifo") s.fail("queue", "unknown queue '" + queue + "' (expected fifo or priority)");
+            const std::string at_end = s.text("at_shift_end", "hand_over");
+            if (at_end == "drop") p.staffing.at_shift_end = ShiftEndPolicy::drop;
+            else if (at_end != "hand_over")
+                s.fail("at_shift_end", "unknown policy '" + at_end + "' (expected hand_over or drop)");
+            if (!sc.has_staff() && (s.has("queue") || s.has("at_shift_end")))
+                s.fail(s.has("queue") ? "queue" : "at_shift_end", "needs roles; declare the roles that answer notices");
             p.rule = parse_rule(Section(s.child("rule"), "plans[].rule", file, "plans[" + std::to_string(i - 1) + "].rule"));
             sc.plans.push_back(std::move(p));
         }
@@ -415,8 +557,40 @@ std::string describe_scenario(const Scenario& sc) {
         o << "  - " << p.name << ": " << to_string(p.channel) << " to " << p.role << " when "
           << describe_rule(p.rule, sc.score_label) << "\n";
         if (!p.description.empty()) o << "      " << p.description << "\n";
+        if (sc.has_staff()) {
+            o << "      escalation: " << describe(sc.escalation, escalation_path(sc.escalation, p.staffing.first_role))
+              << "\n";
+            o << "      queue " << (p.staffing.discipline == QueueDiscipline::fifo ? "first come first served" : "highest score first")
+              << "; at shift end " << (p.staffing.at_shift_end == ShiftEndPolicy::hand_over ? "hand over" : "drop") << "\n";
+        }
+    }
+    if (sc.has_staff()) {
+        o << "Staff (" << sc.roles.size() << " roles):\n";
+        for (const Role& r : sc.roles) {
+            o << "  - " << r.name << (r.per_unit ? " (a team on each unit)" : " (one team for the hospital)") << ": ";
+            for (std::size_t k = 0; k < sc.shifts.names.size(); ++k)
+                o << (k ? ", " : "") << sc.shifts.names[k] << " " << r.roster.by_shift[k];
+            if (!r.roster.by_weekday.empty())
+                for (std::size_t d = 0; d < 7; ++d)
+                    if (r.roster.by_weekday[d] != r.roster.by_shift) {
+                        o << "; " << weekday_names[d];
+                        for (std::size_t k = 0; k < sc.shifts.names.size(); ++k)
+                            o << (k ? ", " : " ") << sc.shifts.names[k] << " " << r.roster.by_weekday[d][k];
+                    }
+            o << "; " << describe(r.minutes_per_task) << " per task\n";
+        }
+    } else {
+        o << "Staff: none declared; every notice counts as evaluated at once.\n";
     }
     return o.str();
+}
+
+StaffModel staff_model(const Scenario& sc, std::uint32_t unit_count) {
+    StaffModel m;
+    m.roles = sc.roles;
+    m.escalation = sc.escalation;
+    m.unit_count = std::max<std::uint32_t>(1, unit_count);
+    return m;
 }
 
 }  // namespace tocsin

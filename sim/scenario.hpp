@@ -15,6 +15,7 @@
 #include "sim/notice.hpp"
 #include "sim/rules.hpp"
 #include "sim/shifts.hpp"
+#include "sim/staff.hpp"
 
 namespace tocsin {
 
@@ -26,6 +27,7 @@ struct Plan {
     Channel channel = Channel::page;
     std::string role;  // who answers
     Rule rule;
+    StaffPlan staffing;  // first_role indexes Scenario::roles (when roles are declared)
 };
 
 enum class PopulationSource { replay, generate };
@@ -60,7 +62,14 @@ struct Scenario {
     KeyLocation shift_at;
     std::optional<Instant> period_start, period_end;  // reporting period, when declared
     std::vector<Plan> plans;
+    // Staff (optional). Without roles a notice counts as evaluated at once.
+    std::vector<Role> roles;
+    EscalationGraph escalation;  // over `roles`, validated at load
+    bool has_staff() const { return !roles.empty(); }
 };
+
+// The staff of a scenario for a population with `unit_count` units.
+StaffModel staff_model(const Scenario& scenario, std::uint32_t unit_count);
 
 // Throws InputError (file:line:column, key) on any problem.
 Scenario load_scenario(const std::string& path);

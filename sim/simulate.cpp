@@ -58,6 +58,23 @@ ReplicationRecord simulate_replication(const Scenario& scenario, const Populatio
         }
         std::stable_sort(out.begin(), out.end(), [](const Notice& a, const Notice& b) { return a.at < b.at; });
     }
+    if (scenario.has_staff()) {
+        // Each plan has a staff of its own: plans are alternatives, not rivals for the same nurses.
+        // Plans are independent here, so they can run side by side with identical results.
+        const StaffModel model = staff_model(scenario, static_cast<std::uint32_t>(population.units.size()));
+        auto staff_plans = [&](std::size_t first, std::size_t step) {
+            for (std::size_t p = first; p < n_plans; p += step) {
+                RandomEngine minutes = make_stream(scenario.seed, replication, StreamPurpose::task_minutes, p);
+                record.plans[p].staff = simulate_staff(record.plans[p].notices, model, scenario.plans[p].staffing,
+                                                       calendar, calendar.shifts().back().end, minutes);
+            }
+        };
+        const std::size_t workers = std::min<std::size_t>(std::max(1u, threads), n_plans);
+        std::vector<std::thread> pool;
+        for (std::size_t w = 1; w < workers; ++w) pool.emplace_back(staff_plans, w, workers);
+        staff_plans(0, workers);
+        for (auto& t : pool) t.join();
+    }
     return record;
 }
 

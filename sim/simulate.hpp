@@ -2,17 +2,22 @@
 // One replication: every plan of a scenario run over the same population
 // (common random numbers), recording every notice.
 #include <cstdint>
+#include <optional>
 #include <vector>
 
 #include "models/population.hpp"
 #include "sim/notice.hpp"
 #include "sim/scenario.hpp"
 #include "sim/shifts.hpp"
+#include "sim/staff.hpp"
 
 namespace tocsin {
 
 struct PlanRecord {
     std::vector<Notice> notices;  // in time order (ties: encounter, then score order)
+    // The tasks those notices gave the staff, one per notice in the same order;
+    // present when the scenario declares roles.
+    std::optional<StaffRun> staff;
 };
 
 struct ReplicationRecord {
@@ -23,7 +28,8 @@ struct ReplicationRecord {
 // The shift calendar covering every stay of the population.
 ShiftCalendar calendar_for(const Scenario& scenario, const Population& population);
 
-// Runs every plan on the population. `threads` splits encounters into blocks;
+// Runs every plan on the population, then (when the scenario declares roles)
+// each plan's notices through its own staff, with the plan's task_minutes stream. `threads` splits encounters into blocks;
 // the record is identical whatever the thread count.
 ReplicationRecord simulate_replication(const Scenario& scenario, const Population& population,
                                        const ShiftCalendar& calendar, std::uint64_t replication,

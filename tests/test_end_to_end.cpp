@@ -38,13 +38,16 @@ TEST_CASE("end_to_end.demo_golden") {
     CHECK(r.output.find("page-70") != std::string::npos);
     check_golden(dir.path("out/plan_summary.csv"), "demo_plan_summary.csv");
     check_golden(dir.path("out/exclusions.csv"), "demo_exclusions.csv");
+    check_golden(dir.path("out/staff_workload.csv"), "demo_staff_workload.csv");
+    check_golden(dir.path("out/staff_escalations.csv"), "demo_staff_escalations.csv");
+    check_golden(dir.path("out/task_fates.csv"), "demo_task_fates.csv");
     CHECK(std::filesystem::exists(dir.path("out/CAUTIONS.txt")));
 }
 
 TEST_CASE("end_to_end.same_bytes_whatever_the_threads") {
     ScratchDir dir;
-    REQUIRE(run_tocsin("run " + demo + " --notice-log --threads 1 --out " + dir.path("one")).exit_code == 0);
-    REQUIRE(run_tocsin("run " + demo + " --notice-log --threads 2 --out " + dir.path("two")).exit_code == 0);
+    REQUIRE(run_tocsin("run " + demo + " --notice-log --task-log --threads 1 --out " + dir.path("one")).exit_code == 0);
+    REQUIRE(run_tocsin("run " + demo + " --notice-log --task-log --threads 2 --out " + dir.path("two")).exit_code == 0);
     int compared = 0;
     for (const auto& entry : std::filesystem::directory_iterator(dir.path("one"))) {
         const std::string name = entry.path().filename().string();
@@ -67,6 +70,10 @@ TEST_CASE("end_to_end.patient_ids_only_on_request") {
     const std::string log = read_file(dir.path("log/notice_log.csv"));
     CHECK(log.rfind("plan,replication,encounter,unit,at,score,reason,channel\n", 0) == 0);
     CHECK(log.find("FH-0") != std::string::npos);
+    REQUIRE(run_tocsin("run " + demo + " --task-log --out " + dir.path("tasks")).exit_code == 0);
+    const std::string tasks = read_file(dir.path("tasks/task_log.csv"));
+    CHECK(tasks.rfind("plan,replication,task,encounter,unit,score,created,first_role,role,started,ended,", 0) == 0);
+    CHECK(tasks.find("FH-0") != std::string::npos);
 }
 
 TEST_CASE("end_to_end.bad_input_writes_nothing") {
@@ -93,4 +100,5 @@ TEST_CASE("end_to_end.check_describes_the_scenario") {
     CHECK(r.exit_code == 0);
     CHECK(r.output.find("page-55-rise: page to rapid response nurse when deterioration score >= 55; snooze 4 h; a rise of 10") != std::string::npos);
     CHECK(r.output.find("The scenario is valid.") != std::string::npos);
+    CHECK(r.output.find("escalation: rapid response nurse -(30 min)-> house physician; worst case 30 min to reach house physician") != std::string::npos);
 }
