@@ -16,6 +16,41 @@ namespace {
 const std::vector<std::string> shown_metrics = {"per_unit_night_mean", "per_unit_night_p90", "caught",
                                                 "sensitivity", "lead_median_h", "notices_per_catch"};
 
+// The staff workload columns the report shows, and their headers.
+const std::vector<std::string> staff_columns = {"plan", "role", "team", "tasks_started", "staff_minutes_per_shift_mean",
+                                                "staff_minutes_per_shift_p90", "utilisation", "wait_minutes_median",
+                                                "wait_minutes_p90", "never_taken_up"};
+const std::vector<std::pair<std::string, std::string>> staff_labels = {
+    {"role", "Role"},
+    {"team", "Team"},
+    {"tasks_started", "evaluations started"},
+    {"staff_minutes_per_shift_mean", "staff minutes per shift"},
+    {"staff_minutes_per_shift_p90", "staff minutes per shift, 90th percentile"},
+    {"utilisation", "share of rostered time busy"},
+    {"wait_minutes_median", "median wait, minutes"},
+    {"wait_minutes_p90", "wait, 90th percentile, minutes"},
+    {"never_taken_up", "never taken up"}};
+
+// The named columns of a table that it has, in the order named.
+Table columns_of(const Table& t, const std::vector<std::string>& names) {
+    Table out;
+    out.name = t.name;
+    out.title = t.title;
+    std::vector<std::size_t> keep;
+    for (const std::string& n : names) {
+        const auto found = std::find(t.columns.begin(), t.columns.end(), n);
+        if (found == t.columns.end()) continue;
+        keep.push_back(static_cast<std::size_t>(found - t.columns.begin()));
+        out.columns.push_back(n);
+    }
+    for (const auto& row : t.rows) {
+        std::vector<Cell> cells;
+        for (std::size_t i : keep) cells.push_back(row[i]);
+        out.add_row(std::move(cells));
+    }
+    return out;
+}
+
 double real_of(const Cell& c) {
     if (std::holds_alternative<double>(c)) return std::get<double>(c);
     if (std::holds_alternative<std::int64_t>(c)) return static_cast<double>(std::get<std::int64_t>(c));
@@ -144,13 +179,24 @@ ReportInput report_input_for_run(const Scenario& sc, const RunOutput& out, const
     }
 
     // Lead times: the run keeps each replication's median, not every case, so
-    // with several replications the chart shows how that median varies.
+    // with several replications the chart shows how that median varies. With
+    // staff, lead time counts from the start of the evaluation (DESIGN.md).
+    const bool with_staff = out.first_replication.staff_workload.has_value();
     if (const Metric* lead = find_metric("lead_median_h"); lead && f.replications > 1) {
+        auto& series = with_staff ? in.lead_times_from_evaluation_hours : in.lead_times_hours;
         for (std::size_t p = 0; p < f.plans.size(); ++p) {
             const auto values = f.of(p, metric_index(*lead));
-            in.lead_times_hours.push_back({f.plans[p], std::vector<double>(values.begin(), values.end())});
+            series.push_back({f.plans[p], std::vector<double>(values.begin(), values.end())});
         }
         in.lead_time_note = "One value is the median lead time of the caught cases in one replication.";
+    }
+
+    if (with_staff) {
+        in.staff_and_waits = columns_of(*out.first_replication.staff_workload, staff_columns);
+        in.staff_and_waits->title = "Staff work and waits by plan and role (first replication)";
+        in.staff_note = "Utilisation is the staff minutes worked over the minutes rostered. A wait runs from the "
+                        "notice to the start of the evaluation; tasks never taken up are counted apart, not as waits.";
+        for (const auto& [name, label] : staff_labels) in.column_labels[name] = label;
     }
 
     char hash[32];

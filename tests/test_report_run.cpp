@@ -26,12 +26,16 @@ std::string demo_report(unsigned threads, std::optional<double> budget) {
 
 TEST_CASE("report_run.demo") {
     const std::string page = demo_report(1, 4.0);
-    for (const char* id : {"question", "assumptions", "comparison", "frontier", "burden", "lead-times", "run"}) {
+    for (const char* id : {"question", "assumptions", "comparison", "frontier", "burden", "lead-times", "staff", "run"}) {
         CAPTURE(id);
         CHECK(page.find("<section id=\"" + std::string(id) + "\"") != std::string::npos);
     }
-    // No staff model or evaluation measures in this run yet.
-    CHECK(page.find("<section id=\"staff\"") == std::string::npos);
+    // The demo declares roles: lead time counts from the evaluation, and the
+    // staff table names the demo's roles.
+    CHECK(page.find("id=\"fig-lead-evaluation\"") != std::string::npos);
+    CHECK(page.find("rapid response nurse") != std::string::npos);
+    CHECK(page.find(">median wait, minutes</th>") != std::string::npos);
+    // No model-evaluation measures in a run yet.
     CHECK(page.find("<section id=\"evaluation\"") == std::string::npos);
     CHECK(page.find("Fernhollow District Hospital") != std::string::npos);
     CHECK(page.find("Time zone: America/Chicago") != std::string::npos);
