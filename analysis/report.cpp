@@ -374,7 +374,10 @@ std::string render_report(const ReportInput& in) {
             chart.title = "Hours from the start of the first evaluation to the outcome, caught cases, by plan";
             chart.value_label = "hours before the outcome (from the first evaluation)";
             chart.groups = groups_of(in.lead_times_from_evaluation_hours);
-            charts.emplace_back(chart, each + "The gap to the chart above is the time spent waiting for staff. " + box_reading);
+            const std::string gap = in.lead_times_hours.empty()
+                                        ? ""
+                                        : "The gap to the chart above is the time spent waiting for staff. ";
+            charts.emplace_back(chart, each + gap + box_reading);
         }
         sections.push_back(distribution_section("lead-times", "How early cases were reached",
                                                  "More hours before the outcome leave more room to act.", charts));

@@ -271,6 +271,13 @@ TEST_CASE("report.sections_present_exactly_when_given") {
         CHECK(page.find("Differences between plans") == std::string::npos);
         CHECK(page.find("id=\"fig-lead-evaluation\"") == std::string::npos);
         CHECK(page.find("id=\"fig-lead-notice\"") != std::string::npos);
+        // Only evaluation lead times: no talk of a gap to a chart that is not there.
+        in = sample_report_input();
+        in.lead_times_hours.clear();
+        const std::string evaluation_only = render_report(in);
+        CHECK(evaluation_only.find("id=\"fig-lead-evaluation\"") != std::string::npos);
+        CHECK(evaluation_only.find("The gap to the chart above") == std::string::npos);
+        CHECK(render_report(sample_report_input()).find("The gap to the chart above") != std::string::npos);
         CHECK(page.find("class=\"answer\"") == std::string::npos);
     }
 }
