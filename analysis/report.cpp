@@ -108,8 +108,8 @@ std::string list(const std::vector<std::string>& items, const std::string& css_c
     return out + "</ul>\n";
 }
 
-std::vector<Group> groups_of(const std::vector<PlanSeries>& series) {
-    std::vector<Group> groups;
+std::vector<BoxGroup> groups_of(const std::vector<PlanSeries>& series) {
+    std::vector<BoxGroup> groups;
     for (const PlanSeries& s : series) groups.push_back({s.plan, s.values});
     return groups;
 }

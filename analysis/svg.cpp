@@ -28,7 +28,7 @@ bool finite(double v) { return std::isfinite(v); }
 
 // Maps a value on an axis to a pixel position between two ends.
 struct Scale {
-    Axis axis;
+    ChartAxis axis;
     double from_px = 0, to_px = 1;
     double operator()(double v) const {
         const double span = axis.hi - axis.lo;
@@ -37,7 +37,7 @@ struct Scale {
     }
 };
 
-std::string tick_label(double v, const Axis& axis) {
+std::string tick_label(double v, const ChartAxis& axis) {
     const double step = axis.ticks.size() > 1 ? axis.ticks[1] - axis.ticks[0] : std::fabs(axis.hi - axis.lo);
     int decimals = 0;
     if (step > 0 && finite(step)) decimals = std::clamp(static_cast<int>(-std::floor(std::log10(step) + 1e-9)), 0, 10);
@@ -123,8 +123,8 @@ std::string svg_number(double v) {
     return s;
 }
 
-Axis nice_axis(double lo, double hi, bool include_zero, int target_ticks) {
-    Axis a;
+ChartAxis nice_axis(double lo, double hi, bool include_zero, int target_ticks) {
+    ChartAxis a;
     if (!finite(lo) || !finite(hi)) {
         lo = 0;
         hi = 1;
@@ -296,7 +296,7 @@ std::string box_svg(const BoxChart& chart) {
     std::vector<Row> rows;
     double lo = INFINITY, hi = -INFINITY;
     std::size_t longest_label = 4, left_out = 0;
-    for (const Group& g : chart.groups) {
+    for (const BoxGroup& g : chart.groups) {
         Row r;
         for (double v : g.values) {
             if (finite(v)) r.sorted.push_back(v);
@@ -374,7 +374,7 @@ std::string box_svg(const BoxChart& chart) {
     }
 
     for (std::size_t i = 0; i < rows.size(); ++i) {
-        const Group& g = chart.groups[i];
+        const BoxGroup& g = chart.groups[i];
         const std::vector<double>& v = rows[i].sorted;
         const std::string& colour = plan_colours()[i % plan_colours().size()];
         const double row_top = top + row_height * static_cast<double>(i);

@@ -14,13 +14,13 @@ namespace tocsin {
 // report's paper colour and to stay apart in greyscale print.
 const std::vector<std::string>& plan_colours();
 
-// Axis range with "nice" tick marks (steps of 1, 2 or 5 x 10^k). A range of
+// ChartAxis range with "nice" tick marks (steps of 1, 2 or 5 x 10^k). A range of
 // identical values is widened around the value; no finite value -> [0, 1].
-struct Axis {
+struct ChartAxis {
     double lo = 0, hi = 1;
     std::vector<double> ticks;
 };
-Axis nice_axis(double lo, double hi, bool include_zero = false, int target_ticks = 5);
+ChartAxis nice_axis(double lo, double hi, bool include_zero = false, int target_ticks = 5);
 
 // A coordinate written into SVG: one decimal, never NaN or infinity (those
 // become 0 so a bad value cannot break the picture; callers drop them first).
@@ -54,13 +54,13 @@ bool frontier_numbered(const ScatterChart& chart);
 // whiskers to the furthest values within 1.5 box lengths (Tukey), a diamond
 // at the mean, a tick at the 90th percentile, and the values themselves as
 // faint points (at most `max_points` per group, evenly spaced order statistics).
-struct Group {
+struct BoxGroup {
     std::string label;
     std::vector<double> values;
 };
 struct BoxChart {
     std::string id, title, description, value_label;
-    std::vector<Group> groups;
+    std::vector<BoxGroup> groups;
     bool include_zero = true;
     std::optional<double> limit;
     std::string limit_label;

@@ -132,7 +132,7 @@ TEST_CASE("report.format_for_people") {
 
 TEST_CASE("report.nice_axis") {
     // 0 to 9.3 in about 5 steps: 1.86 rounds to a step of 2, ends 0 and 10.
-    Axis a = nice_axis(0, 9.3);
+    ChartAxis a = nice_axis(0, 9.3);
     CHECK(a.lo == 0);
     CHECK(a.hi == 10);
     CHECK(a.ticks.size() == 6);
@@ -352,7 +352,7 @@ TEST_CASE("report.box_chart_figures") {
 
 TEST_CASE("report.charts_survive_odd_input") {
     SUBCASE("box charts") {
-        const std::vector<std::vector<Group>> cases = {
+        const std::vector<std::vector<BoxGroup>> cases = {
             {},                                              // no plan
             {{"only plan", {}}},                             // one plan, no values
             {{"only plan", {nan_value, nan_value}}},         // only missing values
