@@ -14,7 +14,7 @@ namespace tocsin {
 // report's paper colour and to stay apart in greyscale print.
 const std::vector<std::string>& plan_colours();
 
-// ChartAxis range with "nice" tick marks (steps of 1, 2 or 5 x 10^k). A range of
+// An axis range with "nice" tick marks (steps of 1, 2 or 5 x 10^k). A range of
 // identical values is widened around the value; no finite value -> [0, 1].
 struct ChartAxis {
     double lo = 0, hi = 1;
