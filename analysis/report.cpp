@@ -64,8 +64,13 @@ footer{margin-top:2.5em;padding-top:.8em;border-top:2px solid var(--rule);color:
 @page{margin:14mm}
 @media print{
 html{background:#fff}
+body{font-size:11pt}
 main{max-width:none;padding:0;border-top:6px solid var(--teal)}
 nav.contents{display:none}
+.table-wrap{overflow:visible}
+table{width:100%;font-size:8pt}
+th,td{padding:.25em .35em}
+tbody th{white-space:normal}
 figure,table,.cautions,dl.record{break-inside:avoid}
 h2,h3{break-after:avoid}
 .cautions,thead th,tbody tr,.answer{-webkit-print-color-adjust:exact;print-color-adjust:exact}

@@ -1,6 +1,7 @@
 #include "analysis/report_run.hpp"
 
 #include <algorithm>
+#include <cctype>
 #include <cmath>
 #include <cstdio>
 #include <map>
@@ -63,23 +64,37 @@ std::size_t column(const Table& t, const std::string& name) {
     return static_cast<std::size_t>(std::find(t.columns.begin(), t.columns.end(), name) - t.columns.begin());
 }
 
-// The plain-word lines of `tocsin check` after the scenario's name and question.
+// The plain-word lines of `tocsin check` after the scenario's name and
+// question, one per item: a list header ("Plans (5):") becomes a prefix of its
+// items ("Plan page-70: ..."), and lines indented under an item join it.
 std::vector<std::string> assumptions_of(const Scenario& sc) {
     std::vector<std::string> lines;
     std::istringstream in(describe_scenario(sc));
-    bool after_plan = false;
+    std::string item_prefix;
+    bool in_item = false;
     for (std::string line; std::getline(in, line);) {
         const std::size_t indent = line.find_first_not_of(' ');
         if (indent == std::string::npos) continue;
         line.erase(0, indent);
-        if (line.rfind("Scenario:", 0) == 0 || line == sc.description || line.rfind("Plans (", 0) == 0) continue;
-        if (after_plan && indent > 2 && !lines.empty()) {
-            // A plan's own description, printed under it: one line with its rule.
-            lines.back() += " (" + line + ")";
+        if (line.rfind("Scenario:", 0) == 0 || line == sc.description) continue;
+        if (indent == 0 && line.back() == ':') {
+            item_prefix = line.rfind("Plans", 0) == 0 ? "Plan " : line.rfind("Staff", 0) == 0 ? "Role " : "";
+            if (item_prefix.empty()) lines.push_back(line);
+            in_item = false;
             continue;
         }
-        after_plan = line.rfind("- ", 0) == 0;
-        if (after_plan) line = "Plan " + line.substr(2);
+        if (line.rfind("- ", 0) == 0) {
+            lines.push_back(item_prefix + line.substr(2));
+            in_item = true;
+            continue;
+        }
+        if (in_item && indent > 2) {
+            line[0] = static_cast<char>(std::toupper(static_cast<unsigned char>(line[0])));
+            lines.back() += (lines.back().back() == '.' ? " " : ". ") + line;
+            continue;
+        }
+        in_item = false;
+        item_prefix.clear();
         lines.push_back(line);
     }
     return lines;

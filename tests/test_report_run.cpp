@@ -39,6 +39,11 @@ TEST_CASE("report_run.demo") {
     CHECK(page.find("<section id=\"evaluation\"") == std::string::npos);
     CHECK(page.find("Fernhollow District Hospital") != std::string::npos);
     CHECK(page.find("Time zone: America/Chicago") != std::string::npos);
+    // Items of the scenario's lists carry their kind; indented details join their item.
+    CHECK(page.find("<li>Plan page-70: page to rapid response nurse when deterioration score &gt;= 70; snooze 4 h. "
+                    "Page at 70, at most every 4 hours per patient. Escalation: ") != std::string::npos);
+    CHECK(page.find("<li>Role house physician (one team for the hospital)") != std::string::npos);
+    CHECK(page.find("<li>Plans (") == std::string::npos);
     for (const char* plan : {"page-70", "page-55-rise", "page-55-twice", "page-45-noisy"}) CHECK(page.find(plan) != std::string::npos);
     // Three wards over the 28 nights of the reporting period (19 October to
     // 16 November): 84 unit-nights per plan in the burden chart's n column.
