@@ -22,13 +22,15 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
     options.replications = sc.replications;
     options.threads = settings.threads;
     options.progress = settings.progress;
+    options.replayed_openings = settings.replayed_openings;
     run_experiment(sc, make_population, options,
                    [&](std::uint64_t r, const Population& pop, const ShiftCalendar& cal, const ReplicationRecord& rec) {
                        const ReportingShifts rep = reporting_shifts(sc, pop, cal);
                        for (const PlanRecord& plan : rec.plans)
                            figures[r].push_back(plan_figures(sc, pop, cal, rep, plan));
                        if (r == 0 || settings.notice_log || settings.task_log) {
-                           RunTables t = run_tables(sc, pop, cal, rec, settings.notice_log, settings.task_log);
+                           RunTables t = run_tables(sc, pop, cal, rec, settings.notice_log, settings.task_log,
+                                                   settings.replayed_openings);
                            if (settings.notice_log) logs[r] = std::move(*t.notice_log);
                            if (t.task_log) {
                                // Tasks of every replication go in one log, like notices.
@@ -97,6 +99,10 @@ std::vector<OutputFile> run_output_files(const RunOutput& out) {
     add_table_files(files, out.first_replication.plan_summary);
     add_table_files(files, out.first_replication.unit_shift_notices);
     add_table_files(files, out.first_replication.exclusions);
+    add_table_files(files, out.first_replication.channel_burden);
+    if (!out.first_replication.rounds.rows.empty()) add_table_files(files, out.first_replication.rounds);
+    if (!out.first_replication.chart_interruptions.rows.empty())
+        add_table_files(files, out.first_replication.chart_interruptions);
     add_table_files(files, out.comparison.comparison);
     add_table_files(files, out.comparison.differences);
     add_table_files(files, out.comparison.replication_figures);
