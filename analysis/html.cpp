@@ -130,25 +130,27 @@ std::string html_table(const Table& table, const HtmlTableOptions& options) {
     std::map<std::string, std::size_t> index;
     for (std::size_t i = 0; i < table.columns.size(); ++i) index.emplace(table.columns[i], i);
     std::vector<ShownColumn> shown;
-    std::set<std::size_t> folded;  // interval columns shown inside their value's cell
-    if (options.combine_intervals) {
-        for (std::size_t i = 0; i < table.columns.size(); ++i) {
-            const auto lo = index.find(table.columns[i] + "_lo");
-            const auto hi = index.find(table.columns[i] + "_hi");
-            if (lo != index.end() && hi != index.end()) folded.insert({lo->second, hi->second});
+    // Interval ends of column i: `x_lo`/`x_hi` or `x_lower`/`x_upper`.
+    auto interval_of = [&](std::size_t i) -> std::optional<std::pair<std::size_t, std::size_t>> {
+        for (const auto& [lo_suffix, hi_suffix] : {std::pair{"_lo", "_hi"}, std::pair{"_lower", "_upper"}}) {
+            const auto lo = index.find(table.columns[i] + lo_suffix);
+            const auto hi = index.find(table.columns[i] + hi_suffix);
+            if (lo != index.end() && hi != index.end()) return std::pair{lo->second, hi->second};
         }
-    }
+        return std::nullopt;
+    };
+    std::set<std::size_t> folded;  // interval columns shown inside their value's cell
+    if (options.combine_intervals)
+        for (std::size_t i = 0; i < table.columns.size(); ++i)
+            if (const auto ends = interval_of(i)) folded.insert({ends->first, ends->second});
     for (std::size_t i = 0; i < table.columns.size(); ++i) {
         if (folded.count(i)) continue;
         ShownColumn column{i, std::nullopt, std::nullopt};
-        if (options.combine_intervals) {
-            const auto lo = index.find(table.columns[i] + "_lo");
-            const auto hi = index.find(table.columns[i] + "_hi");
-            if (lo != index.end() && hi != index.end()) {
-                column.lo = lo->second;
-                column.hi = hi->second;
+        if (options.combine_intervals)
+            if (const auto ends = interval_of(i)) {
+                column.lo = ends->first;
+                column.hi = ends->second;
             }
-        }
         shown.push_back(column);
     }
     // A column is numeric (right-aligned) when no row holds text in it.

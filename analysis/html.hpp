@@ -29,7 +29,7 @@ struct HtmlTableOptions {
     // underscores as spaces. The raw column name stays visible as a tooltip so
     // analysts can find it in the CSV.
     std::map<std::string, std::string> column_labels;
-    // Show columns `x`, `x_lo`, `x_hi` as one cell "x (x_lo to x_hi)".
+    // Show columns `x`, `x_lo`, `x_hi` (or `x_lower`, `x_upper`) as one cell "x (lo to hi)".
     bool combine_intervals = true;
 };
 

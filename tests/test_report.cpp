@@ -175,6 +175,11 @@ TEST_CASE("report.html_table_folds_intervals") {
     // A missing value shows a dash and no empty interval.
     CHECK(html.find("<td class=\"num\">\xE2\x80\x93</td>") != std::string::npos);
     CHECK(count(html, "class=\"interval\"") == 1);
+    // The evaluation tables' spelling, `x_lower` / `x_upper`, folds the same way.
+    Table auc;
+    auc.columns = {"auc", "auc_lower", "auc_upper"};
+    auc.add_row({0.81, 0.75, 0.87});
+    CHECK(html_table(auc).find("0.81 <span class=\"interval\">(0.75 to 0.87)</span>") != std::string::npos);
     // Without folding, all five columns show.
     options.combine_intervals = false;
     CHECK(count(html_table(t, options), "<th scope=\"col\"") == 5);
