@@ -3,6 +3,7 @@
 #include <CLI/CLI.hpp>
 
 #include <chrono>
+#include <filesystem>
 #include <fstream>
 #include <optional>
 #include <iostream>
@@ -16,6 +17,9 @@
 #include "analysis/cautions.hpp"
 #include "analysis/output.hpp"
 #include "analysis/results.hpp"
+#include "analysis/report.hpp"
+#include "analysis/report_evaluation.hpp"
+#include "analysis/report_run.hpp"
 #include "analysis/run.hpp"
 #include "analysis/shift_effect.hpp"
 #include "cli/evaluate_command.hpp"
@@ -44,6 +48,7 @@ struct RunOptions {
     std::string budget_metric = "per_unit_night_p90";
     std::string burden_metric = "per_unit_night_mean";
     std::string benefit_metric = "caught";
+    std::string report_path;
     // sweep only
     std::string sweep_plan;
     std::vector<std::string> vary;
@@ -60,7 +65,8 @@ struct FitCommand {
 
 void add_run_options(CLI::App* cmd, RunOptions& o) {
     cmd->add_option("scenario", o.scenario, "Scenario YAML file")->required();
-    cmd->add_option("-o,--out", o.out_dir, "Write tidy CSV and JSON tables to this directory");
+    cmd->add_option("-o,--out", o.out_dir, "Write tidy CSV and JSON tables and report.html to this directory");
+    cmd->add_option("--report", o.report_path, "Also write the self-contained HTML report to this file");
     cmd->add_flag("--notice-log", o.notice_log, "Also write every notice with its encounter id (patient-level)");
     cmd->add_flag("--task-log", o.task_log, "Also write every staff task with its encounter id (patient-level)");
     cmd->add_option("-j,--threads", o.threads, "Worker threads (default: all cores); results do not depend on it");
@@ -202,8 +208,21 @@ int command_run(const RunOptions& opt, bool sweep) {
         effect = shift_effect(sc, factory, settings.threads);
         std::cout << "\n" << effect->text;
     }
+    std::string report;
+    if (!opt.out_dir.empty() || !opt.report_path.empty()) {
+        ReportInput input = report_input_for_run(sc, out, settings);
+        if (out.evaluation) add_evaluation(input, *out.evaluation, sc.score_label);
+        report = render_report(input);
+    }
+    if (!opt.report_path.empty()) {
+        const std::filesystem::path path(opt.report_path);
+        write_output_files(path.has_parent_path() ? path.parent_path().string() : ".",
+                           {{path.filename().string(), report}});
+        std::cout << "Wrote the report to " << opt.report_path << "\n";
+    }
     if (!opt.out_dir.empty()) {
         std::vector<OutputFile> files = run_output_files(out);
+        files.push_back({"report.html", report});
         if (effect) add_table_files(files, effect->table);
         files.push_back({"run_record.json",
                          run_record_json(sc, settings, std::chrono::duration<double>(std::chrono::steady_clock::now() - started).count())});
