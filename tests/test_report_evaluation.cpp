@@ -11,7 +11,7 @@
 using namespace tocsin;
 
 TEST_CASE("report_evaluation.demo_score") {
-    const Scenario sc = load_scenario(std::string(TOCSIN_SOURCE_DIR) + "/scenarios/demo.yaml");
+    const Scenario sc = load_scenario(std::string(TOCSIN_SOURCE_DIR) + "/scenarios/fernhollow-replay.yaml");
     EvaluationOptions options = evaluation_options_for(sc);
     options.thresholds = {55, 70};
     options.bootstrap_replicates = 20;  // speed; the interval's width is not under test here

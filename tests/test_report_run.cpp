@@ -45,9 +45,9 @@ TEST_CASE("report_run.demo") {
     CHECK(page.find("<li>Role house physician (one team for the hospital)") != std::string::npos);
     CHECK(page.find("<li>Plans (") == std::string::npos);
     for (const char* plan : {"page-70", "page-55-rise", "page-55-twice", "page-45-noisy"}) CHECK(page.find(plan) != std::string::npos);
-    // Three wards over the 28 nights of the reporting period (19 October to
-    // 16 November): 84 unit-nights per plan in the burden chart's n column.
-    CHECK(page.find(" \xC2\xB7 84</text>") != std::string::npos);
+    // Three wards over the 56 nights of the generated period (5 October to
+    // 30 November): 168 unit-nights per plan in the burden chart's n column.
+    CHECK(page.find(" \xC2\xB7 168</text>") != std::string::npos);
     // The budget question is answered in words and drawn on the per-night chart
     // (the budget limits per_unit_night_p90; the frontier's axis is the mean).
     CHECK(page.find("Best within the budget: page-55-twice") != std::string::npos);
