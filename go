@@ -28,38 +28,38 @@ install_missing() {
     DEBIAN_FRONTEND=noninteractive $sudo apt-get install -y -qq --no-install-recommends "${missing[@]}" >&2
 }
 
-build() {  # build DIR [cmake args...]
-    local dir="$1"; shift
+build() {  # build DIR TARGET [cmake args...]
+    local dir="$1" target="$2"; shift 2
     cmake -S . -B "$dir" -DCMAKE_BUILD_TYPE=Release "$@" > /dev/null
-    cmake --build "$dir" -j "$JOBS"
+    cmake --build "$dir" -j "$JOBS" --target "$target"
 }
 
 case "${1:-}" in
     demo)
         install_missing "${BUILD_PACKAGES[@]}"
-        build build -DTOCSIN_TESTS=OFF -DTOCSIN_BENCH=OFF
+        build build tocsin
         ./build/tocsin run scenarios/demo.yaml --out out/demo
         ;;
     test)
         install_missing "${BUILD_PACKAGES[@]}" "${REFERENCE_PACKAGES[@]}"
-        build build
+        build build all -DTOCSIN_TESTS=ON -DTOCSIN_BENCH=ON
         (cd build && ctest -j "$JOBS" --output-on-failure --timeout 600)
         # Second pass: the same tests under AddressSanitizer + UndefinedBehaviorSanitizer.
-        cmake -S . -B build-sanitize -DCMAKE_BUILD_TYPE=RelWithDebInfo -DTOCSIN_SANITIZE=ON -DTOCSIN_BENCH=OFF > /dev/null
+        cmake -S . -B build-sanitize -DCMAKE_BUILD_TYPE=RelWithDebInfo -DTOCSIN_SANITIZE=ON -DTOCSIN_TESTS=ON -DTOCSIN_BENCH=OFF > /dev/null
         cmake --build build-sanitize -j "$JOBS"
         (cd build-sanitize && ASAN_OPTIONS=detect_leaks=1 ctest -j "$JOBS" --output-on-failure --timeout 900 -LE reference)
         ;;
     build)
         install_missing "${BUILD_PACKAGES[@]}"
-        build build
+        build build all -DTOCSIN_TESTS=ON -DTOCSIN_BENCH=ON
         ;;
     bench)
         install_missing "${BUILD_PACKAGES[@]}"
-        build build
+        build build all -DTOCSIN_TESTS=ON -DTOCSIN_BENCH=ON
         for b in build/bench/bench_*; do [ -x "$b" ] && "$b"; done
         ;;
     keys)  # refresh the README's scenario key reference from the built tool
-        build build -DTOCSIN_TESTS=OFF -DTOCSIN_BENCH=OFF
+        build build tocsin
         python3 - <<'PY'
 import subprocess
 readme = open("README.md").read()

@@ -170,7 +170,7 @@ RunTables run_tables(const Scenario& sc, const Population& pop, const ShiftCalen
     t.exclusions.columns = {"what", "reason", "count"};
     for (const auto& [reason, n] : pop.excluded.encounters_by_reason) t.exclusions.add_row({"encounters", reason, n});
     for (const auto& [reason, n] : pop.excluded.scores_by_reason) t.exclusions.add_row({"scores", reason, n});
-    for (const auto& [reason, n] : pop.excluded.notes) t.exclusions.add_row({"timestamps", reason, n});
+    for (const auto& [reason, n] : pop.excluded.notes) t.exclusions.add_row({"notes", reason, n});
     if (sc.has_staff()) {
         const StaffModel model = staff_model(sc, static_cast<std::uint32_t>(pop.units.size()));
         std::vector<PlanStaffRun> runs;
@@ -203,8 +203,7 @@ RunTables run_tables(const Scenario& sc, const Population& pop, const ShiftCalen
     return t;
 }
 
-std::string run_summary_text(const Scenario& sc, const Population& pop, const RunTables& t,
-                             const ReportingShifts& rep) {
+std::string run_header_text(const Scenario& sc, const Population& pop, const RunTables& t, const ReportingShifts& rep) {
     std::ostringstream o;
     std::int64_t cases = 0;
     for (const Encounter& e : pop.encounters) cases += e.outcome_at.has_value();
@@ -214,10 +213,14 @@ std::string run_summary_text(const Scenario& sc, const Population& pop, const Ru
     o << "Per-shift figures cover " << rep.shifts.size() << " complete shifts from " << format_local(rep.from, sc.zone)
       << " to " << format_local(rep.until, sc.zone) << ".\n";
     if (t.exclusions.rows.empty()) o << "Nothing was excluded.\n";
-    else o << "\n" << to_text(t.exclusions) << "";
+    else o << "\n" << to_text(t.exclusions);
+    return o.str();
+}
+
+std::string plan_summary_text(const RunTables& t) {
     // A narrower view for the terminal; the CSV/JSON hold every column.
     Table view;
-    view.title = "\nPlans compared (notices per unit per shift; lead in hours before time zero)";
+    view.title = "Plans compared (notices per unit per shift; lead in hours before time zero)";
     view.columns = {"plan", "notices", "shift_mean", "shift_p90", "night_mean", "night_p90", "night_max",
                     "caught", "missed", "sensitivity", "lead_median_h", "notices_per_catch"};
     const auto& cols = t.plan_summary.columns;
@@ -229,37 +232,49 @@ std::string run_summary_text(const Scenario& sc, const Population& pop, const Ru
                       at(row, "per_unit_shift_p90"), at(row, "per_unit_night_mean"), at(row, "per_unit_night_p90"),
                       at(row, "per_unit_night_max"), at(row, "caught"), at(row, "missed"), at(row, "sensitivity"),
                       at(row, "lead_median_h"), at(row, "notices_per_catch")});
-    o << to_text(view) << "\n";
-    if (t.staff_workload) {
-        // Staff: the cost of each plan in people and time, and how catches change when
-        // they count from the evaluation start rather than the notice.
-        Table staff;
-        staff.title = "Staff (catches count from the evaluation start; by notice = if evaluation were instant)";
-        staff.columns = {"plan", "evaluations", "wait_median_min", "wait_p90_min", "never_taken_up",
-                         "caught", "caught_by_notice", "lead_median_h", "lead_from_notice_median_h"};
-        for (const auto& row : t.plan_summary.rows)
-            staff.add_row({at(row, "plan"), at(row, "evaluations"), at(row, "wait_median_min"), at(row, "wait_p90_min"),
-                           at(row, "never_taken_up"), at(row, "caught"), at(row, "caught_by_notice"),
-                           at(row, "lead_median_h"), at(row, "lead_from_notice_median_h")});
-        o << to_text(staff) << "\n";
-        const auto& wc = t.staff_workload->columns;
-        auto wat = [&](const std::vector<Cell>& row, const char* name) {
-            return row[static_cast<std::size_t>(std::find(wc.begin(), wc.end(), name) - wc.begin())];
-        };
-        Table roles;
-        roles.title = "Staff by plan and role (minutes per team per shift; waits from notice to start)";
-        roles.columns = {"plan", "role", "team", "minutes_mean", "minutes_p90", "utilisation", "tasks_per_person",
-                         "wait_p90_min", "wait_max_min", "never_taken_up", "overtime_min"};
-        for (const auto& row : t.staff_workload->rows)
-            roles.add_row({wat(row, "plan"), wat(row, "role"), wat(row, "team"), wat(row, "staff_minutes_per_shift_mean"),
-                           wat(row, "staff_minutes_per_shift_p90"), wat(row, "utilisation"),
-                           wat(row, "tasks_per_staff_member_per_shift"), wat(row, "wait_minutes_p90"),
-                           wat(row, "wait_minutes_max"), wat(row, "never_taken_up"), wat(row, "overtime_minutes")});
-        o << to_text(roles) << "\n";
-        if (!t.staff_escalations->rows.empty()) o << to_text(*t.staff_escalations) << "\n";
-    }
-    o << cautions_text() << "\n";
+    return to_text(view);
+}
+
+std::string staff_summary_text(const RunTables& t) {
+    if (!t.staff_workload) return "";
+    std::ostringstream o;
+    const auto& cols = t.plan_summary.columns;
+    auto at = [&](const std::vector<Cell>& row, const char* name) {
+    return row[static_cast<std::size_t>(std::find(cols.begin(), cols.end(), name) - cols.begin())];
+    };
+    // The cost of each plan in people and time, and how catches change when
+    // they count from the evaluation start rather than the notice.
+    Table staff;
+    staff.title = "Staff (catches count from the evaluation start; by notice = if evaluation were instant)";
+    staff.columns = {"plan", "evaluations", "wait_median_min", "wait_p90_min", "never_taken_up",
+                     "caught", "caught_by_notice", "lead_median_h", "lead_from_notice_median_h"};
+    for (const auto& row : t.plan_summary.rows)
+        staff.add_row({at(row, "plan"), at(row, "evaluations"), at(row, "wait_median_min"), at(row, "wait_p90_min"),
+                       at(row, "never_taken_up"), at(row, "caught"), at(row, "caught_by_notice"),
+                       at(row, "lead_median_h"), at(row, "lead_from_notice_median_h")});
+    o << to_text(staff) << "\n";
+    const auto& wc = t.staff_workload->columns;
+    auto wat = [&](const std::vector<Cell>& row, const char* name) {
+        return row[static_cast<std::size_t>(std::find(wc.begin(), wc.end(), name) - wc.begin())];
+    };
+    Table roles;
+    roles.title = "Staff by plan and role (minutes per team per shift; waits from notice to start)";
+    roles.columns = {"plan", "role", "team", "minutes_mean", "minutes_p90", "utilisation", "tasks_per_person",
+                     "wait_p90_min", "wait_max_min", "never_taken_up", "overtime_min"};
+    for (const auto& row : t.staff_workload->rows)
+        roles.add_row({wat(row, "plan"), wat(row, "role"), wat(row, "team"), wat(row, "staff_minutes_per_shift_mean"),
+                       wat(row, "staff_minutes_per_shift_p90"), wat(row, "utilisation"),
+                       wat(row, "tasks_per_staff_member_per_shift"), wat(row, "wait_minutes_p90"),
+                       wat(row, "wait_minutes_max"), wat(row, "never_taken_up"), wat(row, "overtime_minutes")});
+    o << to_text(roles) << "\n";
+    if (!t.staff_escalations->rows.empty()) o << to_text(*t.staff_escalations) << "\n";
     return o.str();
+}
+
+std::string run_summary_text(const Scenario& sc, const Population& pop, const RunTables& t,
+                             const ReportingShifts& rep) {
+    return run_header_text(sc, pop, t, rep) + "\n" + plan_summary_text(t) + "\n" + staff_summary_text(t) +
+           cautions_text() + "\n";
 }
 
 }  // namespace tocsin

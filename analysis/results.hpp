@@ -60,7 +60,14 @@ struct RunTables {
 RunTables run_tables(const Scenario& scenario, const Population& population, const ShiftCalendar& calendar,
                      const ReplicationRecord& record, bool with_notice_log, bool with_task_log = false);
 
-// A readable terminal summary of a run.
+// Parts of the terminal summary: the population and exclusions; the plan table.
+std::string run_header_text(const Scenario& scenario, const Population& population, const RunTables& tables,
+                            const ReportingShifts& reporting);
+std::string plan_summary_text(const RunTables& tables);
+// Staff figures of one replication (empty without roles): waits, catches from
+// the evaluation start against catches by notice, work by role, escalations.
+std::string staff_summary_text(const RunTables& tables);
+// A readable terminal summary of a run of one replication.
 std::string run_summary_text(const Scenario& scenario, const Population& population, const RunTables& tables,
                              const ReportingShifts& reporting);
 

@@ -3,17 +3,26 @@
 #include <CLI/CLI.hpp>
 
 #include <chrono>
+#include <fstream>
+#include <optional>
 #include <iostream>
+#include <cstdio>
 #include <thread>
+
+#include <unistd.h>
 
 #include "analysis/cautions.hpp"
 #include "analysis/output.hpp"
 #include "analysis/results.hpp"
+#include "analysis/run.hpp"
+#include "sim/population_source.hpp"
 #include "models/errors.hpp"
+#include "models/fit.hpp"
 #include "models/replay.hpp"
 #include "sim/scenario.hpp"
 #include "sim/scenario_keys.hpp"
 #include "sim/simulate.hpp"
+#include "sim/sweep.hpp"
 
 using namespace tocsin;
 
@@ -25,46 +34,139 @@ struct RunOptions {
     bool notice_log = false;
     bool task_log = false;
     unsigned threads = 0;
+    std::uint64_t replications = 0;  // 0 = as the scenario says
+    std::optional<double> max_burden;
+    std::string budget_metric = "per_unit_night_p90";
+    std::string burden_metric = "per_unit_night_mean";
+    std::string benefit_metric = "caught";
+    // sweep only
+    std::string sweep_plan;
+    std::vector<std::string> vary;
+    bool keep_plans = false;
 };
+
+struct FitCommand {
+    std::string scenario;
+    std::string out_path;
+    std::string scale = "points";
+    std::string stay = "lognormal";
+    bool by_hour_of_day = false;
+};
+
+void add_run_options(CLI::App* cmd, RunOptions& o) {
+    cmd->add_option("scenario", o.scenario, "Scenario YAML file")->required();
+    cmd->add_option("-o,--out", o.out_dir, "Write tidy CSV and JSON tables to this directory");
+    cmd->add_flag("--notice-log", o.notice_log, "Also write every notice with its encounter id (patient-level)");
+    cmd->add_flag("--task-log", o.task_log, "Also write every staff task of replication 0 with its encounter id (patient-level)");
+    cmd->add_option("-j,--threads", o.threads, "Worker threads (default: all cores); results do not depend on it");
+    cmd->add_option("-r,--replications", o.replications, "Replications (default: the scenario's `replications`)");
+    cmd->add_option("--max-burden", o.max_burden, "Budget question: best plan whose mean --budget-metric is at most this");
+    cmd->add_option("--budget-metric", o.budget_metric, "Burden the budget limits (default per_unit_night_p90)");
+    cmd->add_option("--burden", o.burden_metric, "Burden axis of the frontier (default per_unit_night_mean)");
+    cmd->add_option("--benefit", o.benefit_metric, "Benefit axis of the frontier and budget (default caught)");
+}
 
 unsigned thread_count(unsigned requested) {
     if (requested) return requested;
     return std::max(1u, std::thread::hardware_concurrency());
 }
 
+// A progress bar with time left on stderr, only when stderr is a terminal.
+ProgressReport progress_bar() {
+    if (!::isatty(2)) return {};
+    const auto start = std::chrono::steady_clock::now();
+    return [start](std::uint64_t done, std::uint64_t total) {
+        const double elapsed = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
+        const double left = done ? elapsed * static_cast<double>(total - done) / static_cast<double>(done) : 0;
+        const int width = 30, filled = static_cast<int>(width * done / std::max<std::uint64_t>(1, total));
+        std::fprintf(stderr, "\r  replication %llu/%llu [%s%s] %3d%%  ~%.0f s left   ",
+                     static_cast<unsigned long long>(done), static_cast<unsigned long long>(total),
+                     std::string(static_cast<std::size_t>(filled), '#').c_str(),
+                     std::string(static_cast<std::size_t>(width - filled), '.').c_str(),
+                     static_cast<int>(100 * done / std::max<std::uint64_t>(1, total)), left);
+        if (done == total) std::fprintf(stderr, "\r%*s\r", 80, "");
+        std::fflush(stderr);
+    };
+}
+
 int command_check(const std::string& path) {
     const Scenario sc = load_scenario(path);
     std::cout << describe_scenario(sc);
-    const Population pop = load_replay(sc.replay, sc.zone);
+    const PreparedPopulation prepared = prepare_population(sc);
+    std::cout << describe_prepared(sc, prepared);
+    const Population pop = population_for(sc, prepared, 0);
     std::int64_t cases = 0;
     for (const Encounter& e : pop.encounters) cases += e.outcome_at.has_value();
     std::cout << "Input: " << pop.encounters.size() << " encounters on " << pop.units.size() << " units ("
               << cases << " with the outcome), " << pop.scores.size() << " usable scores, "
               << pop.excluded.total_scores() << " scores excluded.\n";
     for (const auto& [reason, n] : pop.excluded.scores_by_reason) std::cout << "  excluded: " << n << " scores " << reason << "\n";
+    for (const auto& [reason, n] : pop.excluded.encounters_by_reason) std::cout << "  excluded: " << n << " encounters " << reason << "\n";
     for (const auto& [reason, n] : pop.excluded.notes) std::cout << "  note: " << n << " " << reason << "\n";
     std::cout << "The scenario is valid.\n";
     return 0;
 }
 
-int command_run(const RunOptions& opt) {
-    const Scenario sc = load_scenario(opt.scenario);
-    const Population pop = load_replay(sc.replay, sc.zone);
-    const ShiftCalendar cal = calendar_for(sc, pop);
-    const ReplicationRecord record = simulate_replication(sc, pop, cal, 0, thread_count(opt.threads));
-    const RunTables tables = run_tables(sc, pop, cal, record, opt.notice_log, opt.task_log);
-    std::cout << run_summary_text(sc, pop, tables, reporting_shifts(sc, pop, cal));
+int command_run(const RunOptions& opt, bool sweep) {
+    const auto started = std::chrono::steady_clock::now();
+    Scenario sc;
+    if (sweep) {
+        SweepRequest request;
+        request.base_plan = opt.sweep_plan;
+        for (const auto& v : opt.vary) request.axes.push_back(parse_sweep_axis(v));
+        request.keep_other_plans = opt.keep_plans;
+        sc = sweep_scenario(opt.scenario, request);
+        std::cout << "Sweep: " << sc.plans.size() << " plans\n";
+    } else {
+        sc = load_scenario(opt.scenario);
+    }
+    if (opt.replications) sc.replications = opt.replications;
+    const PreparedPopulation prepared = prepare_population(sc);
+    std::cout << describe_prepared(sc, prepared);
+    const PopulationFactory factory = population_factory(sc, prepared);
+    RunSettings settings;
+    settings.threads = thread_count(opt.threads);
+    settings.notice_log = opt.notice_log;
+    settings.task_log = opt.task_log;
+    settings.progress = progress_bar();
+    settings.burden_metric = opt.burden_metric;
+    settings.benefit_metric = opt.benefit_metric;
+    settings.budget_limit = opt.max_burden;
+    settings.budget_metric = opt.budget_metric;
+    const RunOutput out = run_scenario(sc, factory, settings);
+    std::cout << out.text;
     if (!opt.out_dir.empty()) {
-        std::vector<OutputFile> files;
-        add_table_files(files, tables.plan_summary);
-        add_table_files(files, tables.unit_shift_notices);
-        add_table_files(files, tables.exclusions);
-        if (tables.notice_log) add_table_files(files, *tables.notice_log);
-        for (const auto* staff : {&tables.staff_workload, &tables.staff_escalations, &tables.task_fates, &tables.task_log})
-            if (*staff) add_table_files(files, **staff);
-        files.push_back({"CAUTIONS.txt", cautions_text() + "\n"});
+        std::vector<OutputFile> files = run_output_files(out);
+        files.push_back({"run_record.json",
+                         run_record_json(sc, settings, std::chrono::duration<double>(std::chrono::steady_clock::now() - started).count())});
         write_output_files(opt.out_dir, files);
-        std::cout << "Wrote " << files.size() << " files to " << opt.out_dir << "\n";
+        std::cout << "Wrote " << files.size() << " files to " << opt.out_dir << " in "
+                  << format_real(std::chrono::duration<double>(std::chrono::steady_clock::now() - started).count(), 1)
+                  << " s\n";
+    }
+    return 0;
+}
+
+// Estimate the generator's knobs from the scenario's replayed log and print
+// (or write) them as an editable `population: generate:` fragment.
+int command_fit(const FitCommand& cmd) {
+    const Scenario sc = load_scenario(cmd.scenario);
+    if (sc.source != PopulationSource::replay)
+        throw InputError(sc.file, 0, 0, "population", "tocsin fit needs a scenario that replays a log (population: replay:)");
+    FitOptions options;
+    options.zone = sc.zone;
+    options.scale = cmd.scale == "probability" ? ScoreScale::probability : ScoreScale::points;
+    options.stay_distribution = cmd.stay == "gamma" ? StayDistribution::gamma : StayDistribution::lognormal;
+    options.arrivals_by_hour_of_day = cmd.by_hour_of_day;
+    const GeneratorFit fit = fit_generator(load_replay(sc.replay, sc.zone), options);
+    const std::string fragment = scenario_fragment(fit.config, fit.notes);
+    if (cmd.out_path.empty()) {
+        std::cout << fragment;
+    } else {
+        std::ofstream out(cmd.out_path, std::ios::binary);
+        if (!(out << fragment)) throw std::runtime_error("cannot write " + cmd.out_path);
+        std::cout << "Fitted " << fit.encounters_admitted << " admissions (" << fit.cases << " cases) and " << fit.scores
+                  << " scores; wrote " << cmd.out_path << "\n";
     }
     return 0;
 }
@@ -82,11 +184,23 @@ int main(int argc, char** argv) {
 
     RunOptions run_opt;
     auto* run = app.add_subcommand("run", "Run every plan of a scenario and print the comparison");
-    run->add_option("scenario", run_opt.scenario, "Scenario YAML file")->required();
-    run->add_option("-o,--out", run_opt.out_dir, "Write tidy CSV and JSON tables to this directory");
-    run->add_flag("--notice-log", run_opt.notice_log, "Also write every notice with its encounter id (patient-level)");
-    run->add_flag("--task-log", run_opt.task_log, "Also write every staff task with its encounter id (patient-level)");
-    run->add_option("-j,--threads", run_opt.threads, "Worker threads (default: all cores); results do not depend on it");
+    add_run_options(run, run_opt);
+
+    RunOptions sweep_opt;
+    auto* sweep = app.add_subcommand("sweep", "Vary plan parameters over a grid and show the trade-off frontier");
+    add_run_options(sweep, sweep_opt);
+    sweep->add_option("--plan", sweep_opt.sweep_plan, "Plan to vary (default: the scenario's sweep.plan, else the first)");
+    sweep->add_option("--vary", sweep_opt.vary,
+                      "PATH=VALUES, e.g. plan.rule.threshold=50:80:5 or plan.rule.snooze_minutes=60,120,240; repeat for a grid");
+    sweep->add_flag("--keep-plans", sweep_opt.keep_plans, "Also run the scenario's plans as written");
+
+    FitCommand fit_cmd;
+    auto* fit = app.add_subcommand("fit", "Fit the population generator to the scenario's log; print a YAML fragment to edit");
+    fit->add_option("scenario", fit_cmd.scenario, "Scenario YAML file that replays a log")->required();
+    fit->add_option("-o,--out", fit_cmd.out_path, "Write the fragment to this file instead of the terminal");
+    fit->add_option("--scale", fit_cmd.scale, "Score scale of the log")->check(CLI::IsMember({"points", "probability"}));
+    fit->add_option("--stay", fit_cmd.stay, "Length-of-stay family")->check(CLI::IsMember({"lognormal", "gamma"}));
+    fit->add_flag("--by-hour-of-day", fit_cmd.by_hour_of_day, "One arrival rate per hour of day, every day alike (steadier for short logs)");
 
     auto* keys = app.add_subcommand("keys", "Print the reference of every scenario key (Markdown)");
 
@@ -97,7 +211,9 @@ int main(int argc, char** argv) {
     }
     try {
         if (*check) return command_check(check_path);
-        if (*run) return command_run(run_opt);
+        if (*run) return command_run(run_opt, false);
+        if (*sweep) return command_run(sweep_opt, true);
+        if (*fit) return command_fit(fit_cmd);
         if (*keys) {
             std::cout << keys_reference_markdown();
             return 0;

@@ -16,6 +16,12 @@ CsvReader::CsvReader(const std::string& path) : path_(path) {
     buffer_.resize(block_size);
 }
 
+CsvReader::CsvReader(const std::string& path, long long begin, long long end) : CsvReader(path) {
+    if (std::fseek(file_, begin, SEEK_SET) != 0)
+        throw InputError(path, 0, 0, "", "cannot seek in file");
+    remaining_ = end - begin;
+}
+
 CsvReader::~CsvReader() {
     if (file_) std::fclose(file_);
 }
@@ -29,7 +35,10 @@ bool CsvReader::refill() {
     begin_ = 0;
     end_ = tail;
     if (end_ == buffer_.size()) buffer_.resize(buffer_.size() * 2);
-    std::size_t got = std::fread(buffer_.data() + end_, 1, buffer_.size() - end_, file_);
+    std::size_t want = buffer_.size() - end_;
+    if (remaining_ >= 0 && static_cast<long long>(want) > remaining_) want = static_cast<std::size_t>(remaining_);
+    std::size_t got = want ? std::fread(buffer_.data() + end_, 1, want, file_) : 0;
+    if (remaining_ >= 0) remaining_ -= static_cast<long long>(got);
     end_ += got;
     if (got == 0) eof_ = true;
     return got > 0;
@@ -54,6 +63,7 @@ bool CsvReader::next(std::vector<std::string_view>& fields) {
         for (;;) {
             if (p < end_ && base[p] == '"') {
                 // Quoted field.
+                saw_quote_ = true;
                 if (unquoted_.size() <= quoted_used) unquoted_.emplace_back();
                 std::string& out = unquoted_[quoted_used];
                 out.clear();

@@ -15,6 +15,9 @@ class CsvReader {
 public:
     // Throws InputError naming the file when it cannot be opened.
     explicit CsvReader(const std::string& path);
+    // Reads only bytes [begin, end) of the file, which must start at a record
+    // boundary; line numbers count from 1 at `begin`.
+    CsvReader(const std::string& path, long long begin, long long end);
     ~CsvReader();
     CsvReader(const CsvReader&) = delete;
     CsvReader& operator=(const CsvReader&) = delete;
@@ -26,6 +29,10 @@ public:
     long line() const { return record_line_; }
     // 1-based column (field number) helper for messages.
     const std::string& path() const { return path_; }
+    // Physical lines consumed so far.
+    long lines_read() const { return next_line_ - 1; }
+    // True once any quoted field was read.
+    bool saw_quote() const { return saw_quote_; }
 
 private:
     bool refill();
@@ -34,6 +41,8 @@ private:
     std::vector<char> buffer_;
     std::size_t begin_ = 0, end_ = 0;
     bool eof_ = false;
+    bool saw_quote_ = false;
+    long long remaining_ = -1;  // bytes left to read in a bounded range; -1 = to end of file
     long next_line_ = 1, record_line_ = 0;
     std::vector<std::string> unquoted_;
     std::vector<std::pair<std::size_t, std::size_t>> spans_;  // storage for fields that needed unescaping

@@ -14,6 +14,6 @@ std::string describe_location(const std::string& file, long line, long column,
 InputError::InputError(std::string file_, long line_, long column_, std::string field_,
                        const std::string& message)
     : std::runtime_error(describe_location(file_, line_, column_, field_).append(": ").append(message)),
-      file(std::move(file_)), line(line_), column(column_), field(std::move(field_)) {}
+      file(std::move(file_)), line(line_), column(column_), field(std::move(field_)), detail(message) {}
 
 }  // namespace tocsin

@@ -11,6 +11,7 @@ struct InputError : std::runtime_error {
     long line = 0;      // 1-based; 0 when unknown
     long column = 0;    // 1-based; 0 when unknown
     std::string field;  // key or CSV column name; may be empty
+    std::string detail; // what was wrong and what was expected, without the location
 
     InputError(std::string file_, long line_, long column_, std::string field_,
                const std::string& message);

@@ -23,6 +23,9 @@ struct ReplaySource {
     std::string scores_path;
     // Used for available_at when a row leaves it empty.
     Seconds latency_when_missing = 0;
+    // Score logs larger than this are parsed in parallel chunks (one per core);
+    // the result is the same either way. Tests set it small to exercise chunking.
+    long long parallel_chunk_bytes = 32LL << 20;
 };
 
 Population load_replay(const ReplaySource& source, const TimeZone& zone);

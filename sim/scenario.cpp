@@ -167,6 +167,173 @@ Channel parse_channel(const Section& s) {
     s.fail("channel", "unknown channel '" + c + "' (expected: page)");
 }
 
+Instant timestamp(const Section& s, std::string_view key, const TimeZone& zone) {
+    auto t = parse_timestamp(s.text(key), zone);
+    if (!t) s.fail(key, "expected a timestamp such as 2026-03-01T07:00:00 (local) or 2026-03-01T06:00:00Z");
+    return *t;
+}
+
+// 1 number (every hour), 24 (every day alike), 168, or 7 rows of 24.
+WeeklyRate weekly_rate(const Section& s, std::string_view key) {
+    const YAML::Node list = s.child(key);
+    std::vector<double> flat;
+    bool rows = list.size() == 7;
+    for (const auto& item : list) rows = rows && item.IsSequence() && item.size() == 24;
+    auto number = [&](const YAML::Node& item) {
+        double d = 0;
+        if (!item.IsScalar() || !YAML::convert<double>::decode(item, d) || !std::isfinite(d) || d < 0)
+            throw s.error(item, key, "expected a number of admissions per hour >= 0");
+        return d;
+    };
+    for (const auto& item : list) {
+        if (rows) {
+            for (const auto& cell : item) flat.push_back(number(cell));
+        } else {
+            flat.push_back(number(item));
+        }
+    }
+    WeeklyRate rate{};
+    if (flat.size() == 1) {
+        rate.fill(flat[0]);
+    } else if (flat.size() == 24) {
+        for (int h = 0; h < hours_per_week; ++h) rate[static_cast<std::size_t>(h)] = flat[static_cast<std::size_t>(h % 24)];
+    } else if (flat.size() == static_cast<std::size_t>(hours_per_week)) {
+        std::copy(flat.begin(), flat.end(), rate.begin());
+    } else {
+        s.fail(key, "expected 1, 24 or 168 numbers, or 7 rows of 24; found " + std::to_string(flat.size()) + " numbers");
+    }
+    return rate;
+}
+
+ScoreScale score_scale(const Section& s, std::string_view key, ScoreScale fallback) {
+    if (!s.has(key)) return fallback;
+    const std::string v = s.text(key);
+    if (v == "points") return ScoreScale::points;
+    if (v == "probability") return ScoreScale::probability;
+    s.fail(key, "unknown scale '" + v + "' (expected: points or probability)");
+}
+
+void parse_generator(const Section& g, Scenario& sc) {
+    GeneratorConfig& c = sc.generator;
+    c.zone = sc.zone;
+    c.period_start = timestamp(g, "start", sc.zone);
+    c.period_end = timestamp(g, "end", sc.zone);
+    if (c.period_end <= c.period_start) g.fail("end", "the generated period ends before it starts");
+    c.warmup_days = g.real("warmup_days", 14);
+    std::size_t i = 0;
+    for (const auto& node : g.child("units")) {
+        Section u(node, "population.generate.units[]", g.file(), "population.generate.units[" + std::to_string(i++) + "]");
+        UnitConfig unit;
+        unit.name = u.text("name");
+        if (unit.name.empty()) u.fail("name", "unit name is empty");
+        for (const UnitConfig& other : c.units)
+            if (other.name == unit.name) u.fail("name", "two units are named '" + unit.name + "'");
+        unit.beds = static_cast<int>(u.integer("beds", 1));
+        unit.arrivals_per_hour = weekly_rate(u, "arrivals_per_hour");
+        c.units.push_back(std::move(unit));
+    }
+    if (c.units.empty()) g.fail("units", "at least one unit is needed");
+    if (g.has("stay")) {
+        Section s(g.child("stay"), "population.generate.stay", g.file(), "population.generate.stay");
+        const std::string d = s.text("distribution", "lognormal");
+        if (d == "lognormal") c.stay.distribution = StayDistribution::lognormal;
+        else if (d == "gamma") c.stay.distribution = StayDistribution::gamma;
+        else s.fail("distribution", "unknown distribution '" + d + "' (expected: lognormal or gamma)");
+        c.stay.median_hours = s.real("median_hours", c.stay.median_hours);
+        c.stay.log_sd = s.real("log_sd", c.stay.log_sd);
+        c.stay.mean_hours = s.real("mean_hours", c.stay.mean_hours);
+        c.stay.sd_hours = s.real("sd_hours", c.stay.sd_hours);
+    }
+    if (g.has("outcome")) {
+        Section s(g.child("outcome"), "population.generate.outcome", g.file(), "population.generate.outcome");
+        c.outcome.probability = s.real("probability", c.outcome.probability);
+        c.outcome.earliest_fraction = s.real("earliest_fraction", c.outcome.earliest_fraction);
+        c.outcome.latest_fraction = s.real("latest_fraction", c.outcome.latest_fraction);
+        c.outcome.ends_stay = s.flag("ends_stay", c.outcome.ends_stay);
+        if (c.outcome.latest_fraction < c.outcome.earliest_fraction)
+            s.fail("latest_fraction", "must be at or above earliest_fraction");
+    }
+    if (g.has("scores")) {
+        const YAML::Node node = g.child("scores");
+        Section s(node, "population.generate.scores", g.file(), "population.generate.scores");
+        ScoreConfig& k = c.scores;
+        k.scale = score_scale(s, "scale", k.scale);
+        k.cadence_minutes = s.real("cadence_minutes", k.cadence_minutes);
+        k.jitter_minutes = s.real("jitter_minutes", k.jitter_minutes);
+        if (k.jitter_minutes >= k.cadence_minutes) s.fail("jitter_minutes", "must be below cadence_minutes");
+        k.missing_probability = s.real("missing_probability", k.missing_probability);
+        k.latency_median_minutes = s.real("latency_median_minutes", k.latency_median_minutes);
+        k.latency_log_sd = s.real("latency_log_sd", k.latency_log_sd);
+        k.baseline = s.real("baseline", k.baseline);
+        k.between_patient_sd = s.real("between_patient_sd", k.between_patient_sd);
+        k.within_patient_sd = s.real("within_patient_sd", k.within_patient_sd);
+        k.drift_size = s.real("drift_size", k.drift_size);
+        k.drift_onset_min_hours = s.real("drift_onset_min_hours", k.drift_onset_min_hours);
+        k.drift_onset_max_hours = s.real("drift_onset_max_hours", k.drift_onset_max_hours);
+        if (k.drift_onset_max_hours < k.drift_onset_min_hours)
+            s.fail("drift_onset_max_hours", "must be at or above drift_onset_min_hours");
+        sc.target_auc = s.optional_real("target_auc");
+        if (sc.target_auc) {
+            const YAML::Node at = node["target_auc"];
+            sc.target_auc_at = {at.Mark().line + 1, at.Mark().column + 1};
+        }
+    }
+    try {
+        validate(c);
+    } catch (const std::invalid_argument& e) {
+        g.fail("units", e.what());
+    }
+}
+
+BootstrapConfig parse_bootstrap(const Section& s) {
+    BootstrapConfig b;
+    b.block_days = static_cast<int>(s.integer("block_days", 1));
+    const std::string scheme = s.text("scheme", "stationary");
+    if (scheme == "stationary") b.scheme = BlockScheme::stationary;
+    else if (scheme == "moving_block") b.scheme = BlockScheme::moving_block;
+    else s.fail("scheme", "unknown scheme '" + scheme + "' (expected: stationary or moving_block)");
+    b.mean_run_blocks = s.real("mean_run_blocks", 7);
+    b.same_weekday = s.flag("same_weekday", true);
+    return b;
+}
+
+ShiftStress parse_shift(const Section& s, const Scenario& sc) {
+    ShiftStress x;
+    x.from = timestamp(s, "from", sc.zone);
+    x.units = s.text_list("units");
+    x.outcome_rate_multiplier = s.real("outcome_rate_multiplier", 1);
+    x.scale = sc.source == PopulationSource::generate ? sc.generator.scores.scale : score_scale(s, "scale", ScoreScale::points);
+    if (sc.source == PopulationSource::generate && s.has("scale") && score_scale(s, "scale", x.scale) != x.scale)
+        s.fail("scale", "differs from population.generate.scores.scale; leave it out for generated populations");
+    x.score_scale = s.real("score_scale", 1);
+    x.score_offset = s.real("score_offset", 0);
+    x.cadence_minutes = s.real("cadence_minutes", 0);
+    x.outage_hours = s.real("outage_hours", 0);
+    x.outage_start = s.has("outage_start") ? timestamp(s, "outage_start", sc.zone) : x.from;
+    if (x.outage_start < x.from) s.fail("outage_start", "must not be before `from` (patients before the shift stay unchanged)");
+    std::size_t i = 0;
+    for (const auto& node : s.child("census")) {
+        Section c(node, "population.shift.census[]", s.file(), "population.shift.census[" + std::to_string(i++) + "]");
+        const std::string unit = c.text("unit");
+        if (x.census_multiplier.count(unit)) c.fail("unit", "unit '" + unit + "' is listed twice");
+        x.census_multiplier[unit] = c.real("multiplier", 1);
+    }
+    if (sc.source == PopulationSource::generate) {
+        std::vector<std::string> known;
+        for (const UnitConfig& u : sc.generator.units) known.push_back(u.name);
+        auto check_unit = [&](const std::string& name, std::string_view key) {
+            if (std::find(known.begin(), known.end(), name) == known.end()) {
+                std::string list;
+                for (const std::string& k : known) list += (list.empty() ? "" : ", ") + k;
+                s.fail(key, "unknown unit '" + name + "' (units: " + list + ")");
+            }
+        };
+        for (const std::string& u : x.units) check_unit(u, "units");
+        for (const auto& [u, m] : x.census_multiplier) check_unit(u, "census");
+    }
+    return x;
+}
+
 }  // namespace
 
 Scenario parse_scenario(const std::string& yaml_text, const std::string& file, const std::string& directory) {
@@ -181,6 +348,8 @@ Scenario parse_scenario(const std::string& yaml_text, const std::string& file, c
     Scenario sc;
     sc.file = file;
     sc.directory = directory;
+    sc.source_hash = 0xcbf29ce484222325ULL;  // FNV-1a, 64 bit
+    for (unsigned char c : yaml_text) sc.source_hash = (sc.source_hash ^ c) * 0x100000001b3ULL;
     if (top.integer("scenario_schema", 0) != scenario_schema_version)
         top.fail("scenario_schema", "unsupported schema version");
     sc.name = top.text("name");
@@ -192,6 +361,7 @@ Scenario parse_scenario(const std::string& yaml_text, const std::string& file, c
         top.fail("time_zone", e.what());
     }
     sc.seed = static_cast<std::uint64_t>(top.integer("seed", 1));
+    sc.replications = static_cast<std::uint64_t>(top.integer("replications", 1));
     sc.score_label = top.text("score_label", "score");
 
     // Shifts, sorted by start time.
@@ -226,10 +396,32 @@ Scenario parse_scenario(const std::string& yaml_text, const std::string& file, c
     }
     {
         Section pop(top.child("population"), "population", file, "population");
-        Section s(pop.child("replay"), "population.replay", file, "population.replay");
-        sc.replay.encounters_path = resolve(directory, s.text("encounters"));
-        sc.replay.scores_path = resolve(directory, s.text("scores"));
-        sc.replay.latency_when_missing = seconds_from_minutes(s.real("latency_minutes", 0));
+        if (pop.has("replay") == pop.has("generate"))
+            pop.fail(pop.has("replay") ? "generate" : "replay",
+                     "give exactly one population source: replay (a log) or generate (invented patients)");
+        if (pop.has("replay")) {
+            Section s(pop.child("replay"), "population.replay", file, "population.replay");
+            sc.replay.encounters_path = resolve(directory, s.text("encounters"));
+            sc.replay.scores_path = resolve(directory, s.text("scores"));
+            sc.replay.latency_when_missing = seconds_from_minutes(s.real("latency_minutes", 0));
+        } else {
+            sc.source = PopulationSource::generate;
+            parse_generator(Section(pop.child("generate"), "population.generate", file, "population.generate"), sc);
+        }
+        if (pop.has("bootstrap")) {
+            if (sc.source != PopulationSource::replay)
+                pop.fail("bootstrap", "bootstrap resamples a replayed log; a generated population makes every "
+                                      "replication afresh, so leave bootstrap out");
+            sc.bootstrap = parse_bootstrap(Section(pop.child("bootstrap"), "population.bootstrap", file, "population.bootstrap"));
+        }
+        if (pop.has("shift")) {
+            const YAML::Node node = pop.child("shift");
+            sc.shift = parse_shift(Section(node, "population.shift", file, "population.shift"), sc);
+            sc.shift_at = {node.Mark().line + 1, node.Mark().column + 1};
+        }
+        if (sc.replications > 1 && sc.source == PopulationSource::replay && !sc.bootstrap)
+            top.fail("replications", "a plain replay is the same in every replication; more than one replication "
+                                     "needs a resampled (population.bootstrap) or generated population");
     }
     if (top.has("reporting")) {
         Section s(top.child("reporting"), "reporting", file, "reporting");
@@ -326,7 +518,8 @@ std::string describe_scenario(const Scenario& sc) {
     std::ostringstream o;
     o << "Scenario: " << sc.name << "\n";
     if (!sc.description.empty()) o << "  " << sc.description << "\n";
-    o << "Time zone: " << sc.time_zone_name << "; seed " << sc.seed << "\n";
+    o << "Time zone: " << sc.time_zone_name << "; seed " << sc.seed << "; " << sc.replications
+      << (sc.replications == 1 ? " replication" : " replications") << "\n";
     o << "Shifts:";
     for (std::size_t i = 0; i < sc.shifts.names.size(); ++i)
         o << " " << sc.shifts.names[i] << " from " << format_clock_minutes(sc.shifts.start_minutes[i])
@@ -334,8 +527,31 @@ std::string describe_scenario(const Scenario& sc) {
     o << "\n";
     o << "Catch: an action starting between " << duration_words(sc.window) << " and " << duration_words(sc.min_lead)
       << " before time zero\n";
-    o << "Population: replay of " << sc.replay.encounters_path << " and " << sc.replay.scores_path;
-    if (sc.replay.latency_when_missing) o << " (latency " << duration_words(sc.replay.latency_when_missing) << " when available_at is empty)";
+    if (sc.source == PopulationSource::replay) {
+        o << "Population: replay of " << sc.replay.encounters_path << " and " << sc.replay.scores_path;
+        if (sc.replay.latency_when_missing) o << " (latency " << duration_words(sc.replay.latency_when_missing) << " when available_at is empty)";
+        if (sc.bootstrap)
+            o << "\nReplications 1, 2, ...: " << (sc.bootstrap->scheme == BlockScheme::stationary ? "stationary" : "moving-block")
+              << " bootstrap of " << sc.bootstrap->block_days << "-day blocks per unit, runs of " << num(sc.bootstrap->mean_run_blocks)
+              << " blocks" << (sc.bootstrap->mean_run_blocks > 1 && sc.bootstrap->scheme == BlockScheme::stationary ? " on average" : "");
+    } else {
+        const GeneratorConfig& g = sc.generator;
+        int beds = 0;
+        for (const UnitConfig& u : g.units) beds += u.beds;
+        o << "Population: generated, " << g.units.size() << " units with " << beds << " beds, " << format_local(g.period_start, sc.zone)
+          << " to " << format_local(g.period_end, sc.zone) << "; outcome in " << num(100 * g.outcome.probability)
+          << " % of stays; scores every " << num(g.scores.cadence_minutes) << " min";
+        if (sc.target_auc) o << "; rise before time zero calibrated to an encounter-level AUC of " << num(*sc.target_auc);
+    }
+    if (sc.shift) {
+        const ShiftStress& x = *sc.shift;
+        o << "\nStress test from " << format_local(x.from, sc.zone) << ":";
+        if (x.outcome_rate_multiplier != 1) o << " outcome rate x " << num(x.outcome_rate_multiplier) << ";";
+        if (x.score_scale != 1 || x.score_offset != 0) o << " scores x " << num(x.score_scale) << " + " << num(x.score_offset) << ";";
+        if (x.cadence_minutes > 0) o << " at most one score per " << num(x.cadence_minutes) << " min;";
+        if (x.outage_hours > 0) o << " feed outage of " << num(x.outage_hours) << " h from " << format_local(x.outage_start, sc.zone) << ";";
+        for (const auto& [unit, m] : x.census_multiplier) o << " " << unit << " admissions x " << num(m) << ";";
+    }
     o << "\nPlans (" << sc.plans.size() << "):\n";
     for (const Plan& p : sc.plans) {
         o << "  - " << p.name << ": " << to_string(p.channel) << " to " << p.role << " when "

@@ -7,7 +7,10 @@
 #include <string>
 #include <vector>
 
+#include "models/bootstrap.hpp"
+#include "models/generator.hpp"
 #include "models/replay.hpp"
+#include "models/stress.hpp"
 #include "models/time.hpp"
 #include "sim/notice.hpp"
 #include "sim/rules.hpp"
@@ -27,19 +30,36 @@ struct Plan {
     StaffPlan staffing;  // first_role indexes Scenario::roles (when roles are declared)
 };
 
+enum class PopulationSource { replay, generate };
+
+// Where a key sits in the scenario file, for errors found after loading.
+struct KeyLocation {
+    long line = 0;
+    long column = 0;
+};
+
 struct Scenario {
     std::string file;         // path as given
+    std::uint64_t source_hash = 0;  // FNV-1a of the scenario text, for the run record
     std::string directory;    // for resolving relative paths
     std::string name;
     std::string description;
     std::string time_zone_name;
     TimeZone zone = TimeZone::utc();
     std::uint64_t seed = 1;
+    std::uint64_t replications = 1;
     ShiftPattern shifts;
     Seconds window = hours(24);   // a catch starts no earlier than window before time zero
     Seconds min_lead = 0;         // ... and at least min_lead before it
     std::string score_label = "score";
-    ReplaySource replay;
+    PopulationSource source = PopulationSource::replay;
+    ReplaySource replay;                       // source == replay
+    std::optional<BootstrapConfig> bootstrap;  // replay: how replications 1, 2, ... resample the log
+    GeneratorConfig generator;                 // source == generate (zone = the scenario's)
+    std::optional<double> target_auc;          // generate: calibrate scores.drift_size to this
+    KeyLocation target_auc_at;
+    std::optional<ShiftStress> shift;          // stress test applied to every replication
+    KeyLocation shift_at;
     std::optional<Instant> period_start, period_end;  // reporting period, when declared
     std::vector<Plan> plans;
     // Staff (optional). Without roles a notice counts as evaluated at once.

@@ -1,0 +1,95 @@
+#pragma once
+// Comparing plans across replications: every figure with an interval, paired
+// differences between plans (the same population in each replication, so the
+// differences are much less noisy than the figures), the trade-off frontier,
+// and the budget question.
+//
+// Interval method: for a figure with values x_1..x_R over R replications, the
+// 95% confidence interval of its expected value is mean +- t(0.975, R-1) * s /
+// sqrt(R) (Student 1908), s the sample standard deviation. Paired differences
+// use the same formula on the per-replication differences. With R < 2 there is
+// no interval. Replications in which a figure is undefined (e.g. a median lead
+// time with no catch) are left out of that figure and the count says so.
+#include <cstdint>
+#include <optional>
+#include <span>
+#include <string>
+#include <string_view>
+#include <vector>
+
+#include "analysis/results.hpp"
+#include "analysis/table.hpp"
+
+namespace tocsin {
+
+enum class Better { lower, higher, neither };
+
+struct Metric {
+    std::string_view name;   // stable column value, e.g. "per_unit_night_mean"
+    std::string_view label;  // for people, e.g. "notices per unit per night"
+    Better better;
+    double (*value)(const PlanFigures&);  // NaN when undefined
+};
+
+// Every per-plan metric reported across replications, in table order.
+const std::vector<Metric>& plan_metrics();
+const Metric* find_metric(std::string_view name);  // nullptr when unknown
+std::size_t metric_index(const Metric& metric);
+std::string metric_names();                        // "a, b, c" for messages
+
+struct MeanInterval {
+    double mean = 0, low = 0, high = 0;  // low/high NaN when n < 2
+    std::size_t n = 0;                   // replications where the figure is defined
+};
+MeanInterval mean_interval(std::span<const double> values, double level = 0.95);
+
+// values[plan][metric][replication]
+struct ReplicatedFigures {
+    std::vector<std::string> plans;
+    std::vector<std::vector<std::vector<double>>> values;
+    std::uint64_t replications = 0;
+
+    std::span<const double> of(std::size_t plan, std::size_t metric) const { return values[plan][metric]; }
+};
+
+ReplicatedFigures collect_figures(const std::vector<std::string>& plan_names,
+                                  const std::vector<std::vector<PlanFigures>>& by_replication);
+
+struct FrontierPoint {
+    std::size_t plan;
+    double burden, benefit;
+    bool on_frontier;
+};
+// A plan is on the frontier when no other plan has burden <= and benefit >=
+// with at least one strictly better (means over replications).
+std::vector<FrontierPoint> frontier(const ReplicatedFigures& f, std::size_t burden_metric, std::size_t benefit_metric);
+
+struct BudgetAnswer {
+    std::optional<std::size_t> best;      // plan index
+    std::vector<std::size_t> within;      // plans whose mean burden is within the limit
+    std::vector<double> share_within;     // per plan: share of replications within the limit
+    double share_best = 0;                // share of replications in which `best` had the most benefit among `within`
+};
+BudgetAnswer best_within_budget(const ReplicatedFigures& f, std::size_t burden_metric, double limit,
+                                std::size_t benefit_metric);
+
+struct ComparisonTables {
+    Table comparison;    // plan, metric, mean, ci_low, ci_high, replications
+    Table differences;   // plan, versus, metric, mean_difference, ci_low, ci_high, replications
+    Table replication_figures;  // plan, replication, metric, value
+};
+// Differences are each plan minus `reference_plan` (default the first).
+ComparisonTables comparison_tables(const ReplicatedFigures& f, std::size_t reference_plan = 0);
+Table frontier_table(const ReplicatedFigures& f, std::size_t burden_metric, std::size_t benefit_metric);
+
+// "1.3 (1.1 to 1.5)" with the given decimals; just the mean when there is no interval.
+std::string with_interval(const MeanInterval& m, int decimals);
+// A compact terminal view: the main figures with intervals, and paired
+// differences from the reference plan.
+std::string comparison_text(const ReplicatedFigures& f, std::size_t reference_plan = 0);
+// The plans on the frontier, lightest first.
+std::string frontier_text(const ReplicatedFigures& f, std::size_t burden_metric, std::size_t benefit_metric);
+std::string budget_text(const ReplicatedFigures& f, const BudgetAnswer& answer, std::size_t burden_metric,
+                        double limit, std::size_t benefit_metric);
+
+}  // namespace tocsin

@@ -1,0 +1,49 @@
+#pragma once
+// A whole run: every plan over every replication, reduced to tables. The
+// command-line tool prints and writes what this returns.
+#include <cstdint>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "analysis/comparison.hpp"
+#include "analysis/output.hpp"
+#include "analysis/results.hpp"
+#include "sim/experiment.hpp"
+#include "sim/scenario.hpp"
+
+namespace tocsin {
+
+struct RunSettings {
+    unsigned threads = 1;
+    bool notice_log = false;          // patient-level rows, only on request
+    bool task_log = false;            // staff tasks of replication 0, patient-level, only on request
+    ProgressReport progress;          // may be empty
+    std::string burden_metric = "per_unit_night_mean";
+    std::string benefit_metric = "caught";
+    // The budget question: the best plan whose mean `budget_metric` is within the limit.
+    std::optional<double> budget_limit;
+    std::string budget_metric = "per_unit_night_p90";
+};
+
+struct RunOutput {
+    Population first_population;      // replication 0, for summaries
+    RunTables first_replication;      // tables of replication 0 (and the notice log of all, when asked)
+    ReplicatedFigures figures;
+    ComparisonTables comparison;
+    Table frontier;
+    std::optional<BudgetAnswer> budget;
+    std::string text;                 // the terminal summary
+};
+
+RunOutput run_scenario(const Scenario& scenario, const PopulationFactory& make_population, const RunSettings& settings);
+
+// The machine-readable record of a run: tool version, scenario file and hash,
+// seed, replications, threads and time taken. It is the one output that
+// differs between identical runs (threads, time).
+std::string run_record_json(const Scenario& scenario, const RunSettings& settings, double seconds);
+
+// Every output file of a run (tables as CSV and JSON, cautions).
+std::vector<OutputFile> run_output_files(const RunOutput& output);
+
+}  // namespace tocsin

@@ -1,0 +1,122 @@
+#include "models/bootstrap.hpp"
+
+#include <algorithm>
+#include <boost/random/uniform_01.hpp>
+#include <boost/random/uniform_int_distribution.hpp>
+#include <cmath>
+#include <numeric>
+#include <stdexcept>
+#include <string>
+
+namespace tocsin {
+
+void validate(const BootstrapConfig& c) {
+    if (c.block_days < 1)
+        throw std::invalid_argument("bootstrap: block_days: must be at least 1, got " + std::to_string(c.block_days));
+    if (!(c.mean_run_blocks >= 1.0) || !std::isfinite(c.mean_run_blocks))
+        throw std::invalid_argument("bootstrap: mean_run_blocks: must be at least 1");
+}
+
+std::vector<int> plan_blocks(int source_blocks, int target_blocks, const BootstrapConfig& c, RandomEngine& engine) {
+    validate(c);
+    if (source_blocks < 1) throw std::invalid_argument("bootstrap: the log holds no whole block to resample");
+    const bool match_weekday = c.same_weekday && c.block_days == 1 && source_blocks >= 7;
+    // A random source block that may stand in for target block t (and, for
+    // moving blocks, still has `room` blocks after it when possible).
+    auto jump = [&](int t, int room) {
+        std::vector<int> candidates;
+        for (int s = 0; s < source_blocks; ++s)
+            if ((!match_weekday || (t - s) % 7 == 0) && s + room <= source_blocks) candidates.push_back(s);
+        if (candidates.empty())
+            for (int s = 0; s < source_blocks; ++s)
+                if (!match_weekday || (t - s) % 7 == 0) candidates.push_back(s);
+        boost::random::uniform_int_distribution<int> pick(0, static_cast<int>(candidates.size()) - 1);
+        return candidates[static_cast<std::size_t>(pick(engine))];
+    };
+    std::vector<int> plan(static_cast<std::size_t>(std::max(0, target_blocks)));
+    const int run = std::max(1, static_cast<int>(std::lround(c.mean_run_blocks)));
+    for (int t = 0; t < target_blocks; ++t) {
+        const int next = t > 0 ? plan[static_cast<std::size_t>(t - 1)] + 1 : source_blocks;
+        bool start_run;
+        if (c.scheme == BlockScheme::stationary) {
+            const double u = boost::random::uniform_01<double>()(engine);
+            start_run = t == 0 || u < 1.0 / c.mean_run_blocks;
+        } else {
+            start_run = t % run == 0;
+        }
+        plan[static_cast<std::size_t>(t)] =
+            (start_run || next >= source_blocks) ? jump(t, c.scheme == BlockScheme::moving_block ? run : 1) : next;
+    }
+    return plan;
+}
+
+Population bootstrap_population(const Population& source, const BootstrapConfig& config, std::uint64_t seed,
+                                std::uint64_t replication) {
+    validate(config);
+    if (replication == 0) return source;
+    const Instant start = source.period_start, end = source.period_end;
+    const Seconds block = days(config.block_days);
+    if (end <= start) throw std::invalid_argument("bootstrap: the source population covers no period");
+    const int source_blocks = static_cast<int>((end - start) / block);
+    const int target_blocks = static_cast<int>((end - start + block - 1) / block);
+    if (source_blocks < 1)
+        throw std::invalid_argument("bootstrap: the log covers " + std::to_string((end - start) / 3600) +
+                                    " hours, less than one block of " + std::to_string(config.block_days) + " days");
+
+    // Encounters by unit and source block; stays admitted before the period are the initial census.
+    const std::size_t n_units = source.units.size();
+    std::vector<std::vector<std::vector<std::size_t>>> admitted_in(
+        n_units, std::vector<std::vector<std::size_t>>(static_cast<std::size_t>(source_blocks)));
+    std::vector<std::size_t> initial;
+    for (std::size_t e = 0; e < source.encounters.size(); ++e) {
+        const Encounter& enc = source.encounters[e];
+        if (enc.admitted < start) {
+            initial.push_back(e);
+            continue;
+        }
+        const Instant b = (enc.admitted - start) / block;
+        if (b < source_blocks) admitted_in[enc.unit][static_cast<std::size_t>(b)].push_back(e);
+    }
+
+    Population out;
+    out.units = source.units;
+    out.period_start = start;
+    out.period_end = end;
+    out.excluded = source.excluded;
+    out.excluded.notes["bootstrap replication: exclusion counts are those of the source log"] += 1;
+    std::vector<Score> scores;
+    std::vector<std::uint32_t> owner;
+    auto copy = [&](std::size_t e, Seconds shift, const std::string& id) {
+        Encounter enc = source.encounters[e];
+        enc.id = id;
+        enc.admitted += shift;
+        enc.discharged += shift;
+        if (enc.outcome_at) *enc.outcome_at += shift;
+        const auto index = static_cast<std::uint32_t>(out.encounters.size());
+        out.encounters.push_back(std::move(enc));
+        for (Score s : source.scores_of(e)) {
+            s.scored_at += shift;
+            s.available_at += shift;
+            scores.push_back(s);
+            owner.push_back(index);
+        }
+    };
+    for (std::uint32_t u = 0; u < n_units; ++u) {
+        for (std::size_t e : initial)
+            if (source.encounters[e].unit == u) copy(e, 0, source.encounters[e].id);
+        RandomEngine engine = make_stream(seed, replication, StreamPurpose::bootstrap, u);
+        const std::vector<int> plan = plan_blocks(source_blocks, target_blocks, config, engine);
+        for (int t = 0; t < target_blocks; ++t) {
+            const int s = plan[static_cast<std::size_t>(t)];
+            const Seconds shift = static_cast<Seconds>(t - s) * block;
+            for (std::size_t e : admitted_in[u][static_cast<std::size_t>(s)]) {
+                if (source.encounters[e].admitted + shift >= end) continue;  // partial last block
+                copy(e, shift, source.encounters[e].id + "~" + std::to_string(t));
+            }
+        }
+    }
+    group_scores_by_encounter(out, scores, owner);
+    return out;
+}
+
+}  // namespace tocsin

@@ -1,0 +1,322 @@
+#include "models/fit.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <numeric>
+#include <sstream>
+#include <stdexcept>
+
+namespace tocsin {
+
+namespace {
+
+double mean_of(const std::vector<double>& x) {
+    return x.empty() ? 0.0 : std::accumulate(x.begin(), x.end(), 0.0) / static_cast<double>(x.size());
+}
+
+double variance_of(const std::vector<double>& x) {  // sample variance (n - 1)
+    if (x.size() < 2) return 0.0;
+    const double m = mean_of(x);
+    double ss = 0.0;
+    for (double v : x) ss += (v - m) * (v - m);
+    return ss / static_cast<double>(x.size() - 1);
+}
+
+double median_of(std::vector<double> x) {
+    if (x.empty()) return 0.0;
+    const std::size_t mid = x.size() / 2;
+    std::nth_element(x.begin(), x.begin() + static_cast<std::ptrdiff_t>(mid), x.end());
+    const double upper = x[mid];
+    if (x.size() % 2 == 1) return upper;
+    return 0.5 * (upper + *std::max_element(x.begin(), x.begin() + static_cast<std::ptrdiff_t>(mid)));
+}
+
+double latent_of(double value, ScoreScale scale) {
+    if (scale == ScoreScale::points) return value;
+    const double p = std::clamp(value, 1e-6, 1.0 - 1e-6);
+    return std::log(p / (1.0 - p));
+}
+
+// Expected share of the full rise still missing h hours before time zero, for
+// an onset uniform on [a, b]: E[max(0, 1 - h / O)].
+double rise_share(double h, double a, double b) {
+    if (h >= b) return 0.0;
+    if (b - a < 1e-9) return 1.0 - h / b;
+    const double m = std::max(a, h);
+    return ((b - m) - h * std::log(b / m)) / (b - a);
+}
+
+std::string number(double x) {
+    std::ostringstream out;
+    out.precision(6);
+    out << x;
+    return out.str();
+}
+
+int highest_census(const Population& pop, std::uint32_t unit) {
+    std::vector<std::pair<Instant, int>> changes;
+    for (const Encounter& e : pop.encounters) {
+        if (e.unit != unit) continue;
+        changes.push_back({e.admitted, +1});
+        changes.push_back({e.discharged, -1});
+    }
+    std::sort(changes.begin(), changes.end());  // at equal instants a discharge (-1) frees the bed first
+    int census = 0, highest = 0;
+    for (const auto& [at, step] : changes) highest = std::max(highest, census += step);
+    return highest;
+}
+
+}  // namespace
+
+GeneratorFit fit_generator(const Population& pop, const FitOptions& options) {
+    GeneratorFit fit;
+    GeneratorConfig& c = fit.config;
+    c.zone = options.zone;
+    c.period_start = pop.period_start;
+    c.period_end = pop.period_end;
+    if (c.period_start == 0 && c.period_end == 0) {
+        Population copy_period;  // default_period reads encounters only
+        copy_period.encounters = pop.encounters;
+        default_period(copy_period);
+        c.period_start = copy_period.period_start;
+        c.period_end = copy_period.period_end;
+    }
+    if (c.period_end <= c.period_start) throw std::invalid_argument("fit_generator: the population covers no period");
+
+    // Arrivals: admissions per local hour of week / hours of that kind in the period.
+    std::vector<std::array<double, hours_per_week>> admissions(pop.units.size());
+    for (const Encounter& e : pop.encounters) {
+        if (e.admitted < c.period_start || e.admitted >= c.period_end) continue;
+        admissions[e.unit][static_cast<std::size_t>(hour_of_week(e.admitted, c.zone))] += 1.0;
+        ++fit.encounters_admitted;
+        if (e.outcome_at) ++fit.cases;
+    }
+    if (fit.encounters_admitted == 0)
+        throw std::invalid_argument("fit_generator: no encounter is admitted inside the population's period");
+    std::array<double, hours_per_week> exposure{};
+    for (Instant t = c.period_start; t < c.period_end; t += 3600)
+        exposure[static_cast<std::size_t>(hour_of_week(t, c.zone))] += 1.0;
+    for (std::uint32_t u = 0; u < pop.units.size(); ++u) {
+        UnitConfig unit;
+        unit.name = pop.units[u];
+        unit.beds = std::max(1, highest_census(pop, u));
+        if (options.arrivals_by_hour_of_day) {
+            for (std::size_t hour = 0; hour < 24; ++hour) {
+                double count = 0, hours = 0;
+                for (std::size_t d = 0; d < 7; ++d) {
+                    count += admissions[u][d * 24 + hour];
+                    hours += exposure[d * 24 + hour];
+                }
+                for (std::size_t d = 0; d < 7; ++d) unit.arrivals_per_hour[d * 24 + hour] = hours > 0 ? count / hours : 0.0;
+            }
+        } else {
+            for (std::size_t h = 0; h < hours_per_week; ++h)
+                unit.arrivals_per_hour[h] = exposure[h] > 0 ? admissions[u][h] / exposure[h] : 0.0;
+        }
+        c.units.push_back(unit);
+    }
+    fit.notes.push_back("arrival rates count admissions only; arrivals turned away when a unit was full are not in a log");
+    fit.notes.push_back("beds = highest census seen in the log (a lower bound)");
+
+    // Stays and outcome, on encounters admitted inside the period (those present at
+    // the start are a length-biased sample: longer stays are more often caught).
+    std::vector<double> control_stays, case_times, case_fractions;
+    for (const Encounter& e : pop.encounters) {
+        if (e.admitted < c.period_start || e.admitted >= c.period_end) continue;
+        const double stay_hours = static_cast<double>(e.discharged - e.admitted) / 3600.0;
+        if (!e.outcome_at) {
+            control_stays.push_back(stay_hours);
+        } else {
+            case_times.push_back(static_cast<double>(*e.outcome_at - e.admitted) / 3600.0);
+            if (!options.outcome_ends_stay && stay_hours > 0) case_fractions.push_back(case_times.back() / stay_hours);
+        }
+    }
+    if (control_stays.size() < 2) throw std::invalid_argument("fit_generator: fewer than two controls admitted in the period");
+    c.stay.distribution = options.stay_distribution;
+    std::vector<double> log_stays;
+    for (double h : control_stays) log_stays.push_back(std::log(std::max(h, 1.0 / 60.0)));
+    c.stay.median_hours = std::exp(mean_of(log_stays));
+    c.stay.log_sd = std::sqrt(variance_of(log_stays));
+    c.stay.mean_hours = mean_of(control_stays);
+    c.stay.sd_hours = std::sqrt(variance_of(control_stays));
+
+    c.outcome.probability = static_cast<double>(fit.cases) / static_cast<double>(fit.encounters_admitted);
+    c.outcome.ends_stay = options.outcome_ends_stay;
+    if (!case_times.empty()) {
+        double m = 0.0, second = 0.0;  // first two moments of the fraction F
+        if (options.outcome_ends_stay) {
+            std::vector<double> squares_t, squares_l;
+            for (double t : case_times) squares_t.push_back(t * t);
+            for (double l : control_stays) squares_l.push_back(l * l);
+            m = mean_of(case_times) / mean_of(control_stays);
+            second = mean_of(squares_t) / mean_of(squares_l);
+        } else {
+            std::vector<double> squares;
+            for (double f : case_fractions) squares.push_back(f * f);
+            m = mean_of(case_fractions);
+            second = mean_of(squares);
+        }
+        const double half_width = std::sqrt(3.0 * std::max(0.0, second - m * m));
+        c.outcome.earliest_fraction = std::clamp(m - half_width, 0.0, 1.0);
+        c.outcome.latest_fraction = std::clamp(m + half_width, c.outcome.earliest_fraction, 1.0);
+    }
+
+    // Cadence and missing scores from the gaps between consecutive scored_at.
+    std::vector<double> gaps_minutes, latencies_seconds;
+    std::int64_t zero_latency = 0;
+    for (std::size_t e = 0; e < pop.encounters.size(); ++e) {
+        std::vector<Instant> times;
+        for (const Score& s : pop.scores_of(e)) {
+            times.push_back(s.scored_at);
+            const Seconds latency = s.available_at - s.scored_at;
+            if (latency > 0) latencies_seconds.push_back(static_cast<double>(latency));
+            else ++zero_latency;
+            ++fit.scores;
+        }
+        std::sort(times.begin(), times.end());
+        for (std::size_t i = 1; i < times.size(); ++i) gaps_minutes.push_back(static_cast<double>(times[i] - times[i - 1]) / 60.0);
+    }
+    if (!gaps_minutes.empty()) {
+        const double typical = median_of(gaps_minutes);
+        std::vector<double> single;
+        for (double g : gaps_minutes)
+            if (g > 0.5 * typical && g < 1.5 * typical) single.push_back(g);
+        const double cadence = single.empty() ? typical : mean_of(single);
+        c.scores.cadence_minutes = std::max(1.0, cadence);
+        c.scores.jitter_minutes = std::min(std::sqrt(3.0 * variance_of(single)), 0.99 * c.scores.cadence_minutes);
+        double slots = 0.0;
+        for (double g : gaps_minutes) slots += std::max(1.0, std::round(g / cadence));
+        c.scores.missing_probability = std::clamp((slots - static_cast<double>(gaps_minutes.size())) / slots, 0.0, 0.99);
+    }
+    if (latencies_seconds.size() > static_cast<std::size_t>(zero_latency)) {
+        std::vector<double> logs;
+        for (double l : latencies_seconds) logs.push_back(std::log(l));
+        c.scores.latency_median_minutes = std::exp(mean_of(logs)) / 60.0;
+        c.scores.latency_log_sd = std::sqrt(variance_of(logs));
+        if (zero_latency > 0) fit.notes.push_back(std::to_string(zero_latency) + " scores had no charting delay; the latency fit uses the others");
+    } else {
+        c.scores.latency_median_minutes = 0.0;
+        c.scores.latency_log_sd = 0.0;
+    }
+
+    // Score levels on controls: one-way random effects by moments.
+    c.scores.scale = options.scale;
+    std::vector<double> encounter_means, within_over_n;
+    double within_ss = 0.0, within_df = 0.0;
+    for (std::size_t e = 0; e < pop.encounters.size(); ++e) {
+        if (pop.encounters[e].outcome_at) continue;
+        std::vector<double> x;
+        for (const Score& s : pop.scores_of(e)) x.push_back(latent_of(s.value, options.scale));
+        if (x.size() < 2) continue;
+        encounter_means.push_back(mean_of(x));
+        within_ss += variance_of(x) * static_cast<double>(x.size() - 1);
+        within_df += static_cast<double>(x.size() - 1);
+        within_over_n.push_back(1.0 / static_cast<double>(x.size()));
+    }
+    if (encounter_means.size() < 2) throw std::invalid_argument("fit_generator: fewer than two controls with two or more scores");
+    const double within_var = within_ss / within_df;
+    c.scores.baseline = mean_of(encounter_means);
+    c.scores.within_patient_sd = std::sqrt(within_var);
+    c.scores.between_patient_sd = std::sqrt(std::max(0.0, variance_of(encounter_means) - within_var * mean_of(within_over_n)));
+
+    // Pre-outcome rise: mean excess over the baseline by hour before time zero,
+    // then least squares over onset ranges [a, b] on a 1-hour grid (the size is
+    // linear given [a, b], so it is solved in closed form).
+    const int bins = std::max(1, static_cast<int>(options.drift_window_hours));
+    std::vector<double> excess_sum(static_cast<std::size_t>(bins)), hours_sum(static_cast<std::size_t>(bins)),
+        count(static_cast<std::size_t>(bins));
+    for (std::size_t e = 0; e < pop.encounters.size(); ++e) {
+        const Encounter& enc = pop.encounters[e];
+        if (!enc.outcome_at) continue;
+        for (const Score& s : pop.scores_of(e)) {
+            const double h = static_cast<double>(*enc.outcome_at - s.scored_at) / 3600.0;
+            if (h < 0 || h >= bins) continue;
+            const auto k = static_cast<std::size_t>(h);
+            excess_sum[k] += latent_of(s.value, options.scale) - c.scores.baseline;
+            hours_sum[k] += h;
+            count[k] += 1.0;
+        }
+    }
+    double best_sse = INFINITY, best_size = 0.0, best_a = 0.0, best_b = 0.0;
+    for (int b = 1; b <= bins; ++b) {
+        for (int a = 0; a <= b; ++a) {
+            double sg = 0.0, gg = 0.0, ee = 0.0;
+            for (std::size_t k = 0; k < excess_sum.size(); ++k) {
+                if (count[k] == 0) continue;
+                const double g = rise_share(hours_sum[k] / count[k], a, b);
+                const double e = excess_sum[k] / count[k];
+                sg += count[k] * e * g;
+                gg += count[k] * g * g;
+                ee += count[k] * e * e;
+            }
+            if (gg <= 0) continue;
+            const double size = sg / gg;
+            const double sse = ee - size * sg;
+            if (sse < best_sse) {
+                best_sse = sse;
+                best_size = size;
+                best_a = a;
+                best_b = b;
+            }
+        }
+    }
+    c.scores.drift_size = best_size;
+    c.scores.drift_onset_min_hours = best_a;
+    c.scores.drift_onset_max_hours = best_b;
+    if (fit.cases < 30) fit.notes.push_back("only " + std::to_string(fit.cases) + " cases: the pre-outcome rise is poorly determined");
+    return fit;
+}
+
+std::string scenario_fragment(const GeneratorConfig& c, const std::vector<std::string>& notes) {
+    static const char* const day_names[] = {"Monday", "Tuesday", "Wednesday", "Thursday", "Friday", "Saturday", "Sunday"};
+    std::ostringstream y;
+    y << "# Generator parameters fitted by tocsin; edit freely.\n";
+    for (const std::string& n : notes) y << "# note: " << n << "\n";
+    y << "# Hours of week are on the " << c.zone.name() << " clock: keep `time_zone: " << c.zone.name()
+      << "` at the top of the scenario.\n";
+    y << "population:\n  generate:\n";
+    y << "    start: " << format_utc(c.period_start) << "\n";
+    y << "    end: " << format_utc(c.period_end) << "\n";
+    y << "    warmup_days: " << number(c.warmup_days) << "\n";
+    y << "    units:\n";
+    for (const UnitConfig& u : c.units) {
+        y << "      - name: \"" << u.name << "\"\n";
+        y << "        beds: " << u.beds << "\n";
+        y << "        arrivals_per_hour:  # admissions per hour by local hour 00..23, one row per weekday\n";
+        for (int d = 0; d < 7; ++d) {
+            y << "          - [";
+            for (int h = 0; h < 24; ++h) y << (h ? ", " : "") << number(u.arrivals_per_hour[static_cast<std::size_t>(d * 24 + h)]);
+            y << "]  # " << day_names[d] << "\n";
+        }
+    }
+    y << "    stay:\n";
+    if (c.stay.distribution == StayDistribution::lognormal) {
+        y << "      distribution: lognormal\n      median_hours: " << number(c.stay.median_hours)
+          << "\n      log_sd: " << number(c.stay.log_sd) << "\n";
+    } else {
+        y << "      distribution: gamma\n      mean_hours: " << number(c.stay.mean_hours)
+          << "\n      sd_hours: " << number(c.stay.sd_hours) << "\n";
+    }
+    y << "    outcome:\n";
+    y << "      probability: " << number(c.outcome.probability) << "\n";
+    y << "      earliest_fraction: " << number(c.outcome.earliest_fraction) << "\n";
+    y << "      latest_fraction: " << number(c.outcome.latest_fraction) << "\n";
+    y << "      ends_stay: " << (c.outcome.ends_stay ? "true" : "false") << "\n";
+    const ScoreConfig& s = c.scores;
+    y << "    scores:\n";
+    y << "      scale: " << (s.scale == ScoreScale::points ? "points" : "probability") << "\n";
+    y << "      cadence_minutes: " << number(s.cadence_minutes) << "\n";
+    y << "      jitter_minutes: " << number(s.jitter_minutes) << "\n";
+    y << "      missing_probability: " << number(s.missing_probability) << "\n";
+    y << "      latency_median_minutes: " << number(s.latency_median_minutes) << "\n";
+    y << "      latency_log_sd: " << number(s.latency_log_sd) << "\n";
+    y << "      baseline: " << number(s.baseline) << "\n";
+    y << "      between_patient_sd: " << number(s.between_patient_sd) << "\n";
+    y << "      within_patient_sd: " << number(s.within_patient_sd) << "\n";
+    y << "      drift_size: " << number(s.drift_size) << "\n";
+    y << "      drift_onset_min_hours: " << number(s.drift_onset_min_hours) << "\n";
+    y << "      drift_onset_max_hours: " << number(s.drift_onset_max_hours) << "\n";
+    return y.str();
+}
+
+}  // namespace tocsin

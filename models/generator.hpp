@@ -1,0 +1,141 @@
+#pragma once
+// A generated population: patients arrive on each unit, stay, sometimes reach
+// the outcome (time zero), and are scored at a regular cadence. Every knob is
+// something a committee can read and argue about (beds, arrivals by hour of
+// week, length of stay, outcome rate, score noise, a rise before time zero).
+//
+// Common random numbers: arrivals of unit u come from stream
+// (seed, replication, arrivals, u); the stay and the score trajectory of the
+// n-th arrival on unit u come from streams (stay, entity) and (trajectory,
+// entity) with entity = encounter_entity(u, n). Every stream draws the same
+// number of values whatever the knob values, so changing one unit's rate, the
+// drift size or the missing-score probability leaves every other draw where
+// it was.
+#include <array>
+#include <cstdint>
+#include <functional>
+#include <span>
+#include <string>
+#include <vector>
+
+#include "models/population.hpp"
+#include "models/time.hpp"
+
+namespace tocsin {
+
+constexpr int hours_per_week = 168;
+
+// Arrivals per hour by local hour of week; index 0 = Monday 00:00-01:00.
+using WeeklyRate = std::array<double, hours_per_week>;
+
+struct UnitConfig {
+    std::string name;
+    int beds = 20;
+    WeeklyRate arrivals_per_hour{};  // mean admissions per hour at each hour of week
+};
+
+enum class StayDistribution { lognormal, gamma };
+
+struct StayConfig {
+    StayDistribution distribution = StayDistribution::lognormal;
+    double median_hours = 72.0;  // lognormal: exp(mu)
+    double log_sd = 0.7;         // lognormal: sigma of log(hours)
+    double mean_hours = 80.0;    // gamma
+    double sd_hours = 60.0;      // gamma
+};
+
+struct OutcomeConfig {
+    double probability = 0.05;      // share of admitted encounters that reach time zero
+    // Time zero falls at a uniform fraction of the drawn stay in [earliest, latest].
+    double earliest_fraction = 0.1;
+    double latest_fraction = 1.0;
+    bool ends_stay = true;  // e.g. unplanned ICU transfer: the ward stay ends at time zero
+};
+
+// Points: values in [0, 100], the latent level is in points and clamped.
+// Probability: values in (0, 1), the latent level is on the logit scale.
+enum class ScoreScale { points, probability };
+
+struct ScoreConfig {
+    ScoreScale scale = ScoreScale::points;
+    double cadence_minutes = 60.0;
+    double jitter_minutes = 10.0;        // each gap is cadence +/- uniform(jitter); must be < cadence
+    double missing_probability = 0.0;    // a scheduled score is never recorded
+    double latency_median_minutes = 0.0; // available_at - scored_at is lognormal; 0 = immediate
+    double latency_log_sd = 0.0;
+    // Latent level = baseline + patient offset (fixed per stay) + noise (per score) + drift.
+    double baseline = 20.0;
+    double between_patient_sd = 6.0;
+    double within_patient_sd = 6.0;
+    // Cases only: a linear rise from 0 to drift_size, starting a uniform number of
+    // hours in [onset_min, onset_max] before time zero and complete at time zero.
+    double drift_size = 20.0;
+    double drift_onset_min_hours = 6.0;
+    double drift_onset_max_hours = 48.0;
+};
+
+struct GeneratorConfig {
+    std::vector<UnitConfig> units;
+    StayConfig stay;
+    OutcomeConfig outcome;
+    ScoreConfig scores;
+    Instant period_start = 0;  // the population covers [period_start, period_end)
+    Instant period_end = 0;
+    // Arrivals start this long before period_start so that the census at the
+    // start is already realistic; stays still present at period_start are kept.
+    double warmup_days = 14.0;
+    TimeZone zone = TimeZone::utc();  // hour of week is read on this local clock
+};
+
+// Throws std::invalid_argument naming the field ("units[2].beds: ...").
+void validate(const GeneratorConfig& config);
+
+// The stream entity of the n-th arrival (counting turned-away arrivals) on a unit.
+constexpr std::uint64_t encounter_entity(std::uint32_t unit, std::uint64_t arrival_index) {
+    return (static_cast<std::uint64_t>(unit) << 40) | arrival_index;
+}
+
+// Local hour of week (0 = Monday 00:00) of an instant.
+int hour_of_week(Instant at, const TimeZone& zone);
+
+// What generation counted besides the encounters themselves.
+struct GenerationSummary {
+    std::vector<std::string> units;
+    Exclusions excluded;
+    std::int64_t encounters = 0;
+    std::int64_t scores = 0;
+};
+
+// Called once per kept encounter, unit by unit, in admission order within a
+// unit. `scores` holds the usable scores only, in rule order; the span is
+// valid during the call only.
+using EncounterSink = std::function<void(const Encounter&, std::span<const Score>)>;
+
+// Streaming form: the population never sits in memory at once (one unit's
+// current occupants and one encounter's scores at a time).
+GenerationSummary generate_streaming(const GeneratorConfig& config, std::uint64_t seed, std::uint64_t replication,
+                                     const EncounterSink& sink);
+
+// The whole population in memory. Encounters are ordered by unit, then admission.
+Population generate_population(const GeneratorConfig& config, std::uint64_t seed, std::uint64_t replication);
+
+// What calibrate_to_auc found.
+struct AucCalibration {
+    GeneratorConfig config;        // the input with drift_size and outcome probability set
+    double achieved_auc = 0.0;     // on the calibration population (seed, replication 0)
+    double drift_size = 0.0;
+    int populations_generated = 0;
+    std::int64_t cases = 0;
+    std::int64_t controls = 0;
+};
+
+// Sets outcome.probability to the target rate and finds scores.drift_size by
+// bisection so that the encounter-level AUC (each encounter's highest usable
+// score; Mann-Whitney) of the population generated with `seed`, replication 0,
+// matches `target_auc` within `auc_tolerance`. With common random numbers the
+// AUC does not decrease as the drift grows, so bisection is safe. Throws
+// std::invalid_argument, saying which AUCs are reachable, when the target is not.
+AucCalibration calibrate_to_auc(const GeneratorConfig& config, double target_auc, double target_outcome_rate,
+                                std::uint64_t seed, double auc_tolerance = 0.002);
+
+}  // namespace tocsin

@@ -1,0 +1,75 @@
+#include "sim/population_source.hpp"
+
+#include <memory>
+#include <sstream>
+#include <stdexcept>
+
+#include "models/bootstrap.hpp"
+#include "models/errors.hpp"
+#include "models/replay.hpp"
+#include "models/stress.hpp"
+
+namespace tocsin {
+
+PreparedPopulation prepare_population(const Scenario& sc) {
+    PreparedPopulation p;
+    if (sc.source == PopulationSource::replay) {
+        p.log = load_replay(sc.replay, sc.zone);
+        if (sc.shift) {
+            try {
+                validate(*sc.shift, *p.log);
+            } catch (const std::invalid_argument& e) {
+                throw InputError(sc.file, sc.shift_at.line, sc.shift_at.column, "population.shift", e.what());
+            }
+        }
+        return p;
+    }
+    p.generator = sc.generator;
+    if (sc.target_auc) {
+        try {
+            p.calibration = calibrate_to_auc(sc.generator, *sc.target_auc, sc.generator.outcome.probability, sc.seed);
+        } catch (const std::invalid_argument& e) {
+            throw InputError(sc.file, sc.target_auc_at.line, sc.target_auc_at.column,
+                             "population.generate.scores.target_auc", e.what());
+        }
+        p.generator = p.calibration->config;
+    }
+    return p;
+}
+
+Population population_for(const Scenario& sc, const PreparedPopulation& prepared, std::uint64_t replication) {
+    Population pop;
+    if (sc.source == PopulationSource::replay) {
+        pop = sc.bootstrap ? bootstrap_population(*prepared.log, *sc.bootstrap, sc.seed, replication) : *prepared.log;
+    } else {
+        pop = generate_population(prepared.generator, sc.seed, replication);
+    }
+    if (sc.shift) pop = apply_shift(pop, *sc.shift, sc.seed, replication);
+    return pop;
+}
+
+std::string describe_prepared(const Scenario& sc, const PreparedPopulation& p) {
+    std::ostringstream o;
+    if (p.calibration) {
+        o.setf(std::ios::fixed);
+        o.precision(3);
+        o << "Calibration: drift_size " << p.calibration->drift_size << " gives an encounter-level AUC of "
+          << p.calibration->achieved_auc << " (target " << *sc.target_auc << ") on " << p.calibration->cases
+          << " cases and " << p.calibration->controls << " controls of replication 0.\n";
+    }
+    return o.str();
+}
+
+PopulationFactory population_factory(const Scenario& scenario) {
+    return population_factory(scenario, prepare_population(scenario));
+}
+
+PopulationFactory population_factory(const Scenario& scenario, const PreparedPopulation& prepared) {
+    auto shared_scenario = std::make_shared<const Scenario>(scenario);
+    auto shared_prepared = std::make_shared<const PreparedPopulation>(prepared);
+    return [shared_scenario, shared_prepared](std::uint64_t replication) {
+        return population_for(*shared_scenario, *shared_prepared, replication);
+    };
+}
+
+}  // namespace tocsin

@@ -1,0 +1,196 @@
+#include "sim/sweep.hpp"
+
+#include <charconv>
+#include <cmath>
+#include <filesystem>
+#include <fstream>
+#include <sstream>
+#include <stdexcept>
+
+#include <yaml-cpp/yaml.h>
+
+#include "models/errors.hpp"
+#include "sim/scenario_keys.hpp"
+
+namespace tocsin {
+
+namespace {
+
+double parse_number(const std::string& text, const std::string& spec) {
+    double v = 0;
+    const char* first = text.data();
+    const char* last = text.data() + text.size();
+    auto [ptr, ec] = std::from_chars(first, last, v);
+    if (text.empty() || ec != std::errc() || ptr != last || !std::isfinite(v))
+        throw std::runtime_error("sweep axis '" + spec + "': '" + text + "' is not a number");
+    return v;
+}
+
+std::vector<std::string> split(const std::string& s, char sep) {
+    std::vector<std::string> out;
+    std::string cur;
+    std::istringstream in(s);
+    while (std::getline(in, cur, sep)) out.push_back(cur);
+    if (!s.empty() && s.back() == sep) out.emplace_back();
+    return out;
+}
+
+std::vector<double> range_values(double from, double to, double step, const std::string& spec) {
+    if (!(step > 0)) throw std::runtime_error("sweep axis '" + spec + "': the step must be positive");
+    if (to < from) throw std::runtime_error("sweep axis '" + spec + "': the range ends before it starts");
+    std::vector<double> out;
+    const long n = std::lround(std::floor((to - from) / step + 1e-9));
+    for (long i = 0; i <= n; ++i) out.push_back(from + static_cast<double>(i) * step);
+    return out;
+}
+
+std::string number_text(double v) {
+    std::ostringstream o;
+    o << v;
+    return o.str();
+}
+
+// Follows `segments` from `node`; a list item is matched by position or name.
+YAML::Node descend(YAML::Node node, const std::vector<std::string>& segments, const std::string& path) {
+    for (std::size_t i = 0; i + 1 < segments.size(); ++i) {
+        const std::string& seg = segments[i];
+        if (node.IsSequence()) {
+            YAML::Node found;
+            bool ok = false;
+            for (std::size_t k = 0; k < node.size(); ++k) {
+                const YAML::Node item = node[k];
+                if (std::to_string(k) == seg || (item.IsMap() && item["name"] && item["name"].IsScalar() &&
+                                                 item["name"].Scalar() == seg)) {
+                    found.reset(item);
+                    ok = true;
+                    break;
+                }
+            }
+            if (!ok) throw std::runtime_error("sweep path '" + path + "': no list item '" + seg + "'");
+            node.reset(found);  // rebind: Node::operator= would overwrite the content
+        } else if (node.IsMap()) {
+            if (!node[seg]) throw std::runtime_error("sweep path '" + path + "': no key '" + seg + "'");
+            YAML::Node next = node[seg];
+            node.reset(next);
+        } else {
+            throw std::runtime_error("sweep path '" + path + "': '" + seg + "' is not a section or list");
+        }
+    }
+    if (!node.IsMap()) throw std::runtime_error("sweep path '" + path + "' does not end in a key of a section");
+    return node;
+}
+
+}  // namespace
+
+SweepAxis parse_sweep_axis(const std::string& spec) {
+    const std::size_t eq = spec.find('=');
+    if (eq == std::string::npos || eq == 0)
+        throw std::runtime_error("sweep axis '" + spec + "': expected PATH=VALUES, e.g. plan.rule.threshold=50:80:5 "
+                                 "or plan.rule.snooze_minutes=60,120,240");
+    SweepAxis axis;
+    axis.path = spec.substr(0, eq);
+    const std::string values = spec.substr(eq + 1);
+    if (values.find(':') != std::string::npos) {
+        const auto parts = split(values, ':');
+        if (parts.size() != 3) throw std::runtime_error("sweep axis '" + spec + "': a range is from:to:step");
+        axis.values = range_values(parse_number(parts[0], spec), parse_number(parts[1], spec),
+                                   parse_number(parts[2], spec), spec);
+    } else {
+        for (const auto& part : split(values, ',')) axis.values.push_back(parse_number(part, spec));
+    }
+    if (axis.values.empty()) throw std::runtime_error("sweep axis '" + spec + "' has no values");
+    return axis;
+}
+
+Scenario sweep_scenario(const std::string& path, const SweepRequest& request) {
+    std::ifstream in(path);
+    if (!in) throw InputError(path, 0, 0, "", "cannot open scenario file");
+    std::stringstream text;
+    text << in.rdbuf();
+    const std::string dir = std::filesystem::path(path).parent_path().string();
+    // Validate the scenario as written first, so its own errors point at its own lines.
+    const Scenario original = parse_scenario(text.str(), path, dir);
+    YAML::Node root = YAML::Load(text.str());
+
+    std::string base = request.base_plan;
+    std::vector<SweepAxis> axes = request.axes;
+    if (root["sweep"]) {
+        Section s(root["sweep"], "sweep", path, "sweep");
+        if (base.empty()) base = s.text("plan");
+        if (axes.empty() && s.has("vary")) {
+            std::size_t i = 0;
+            for (const auto& node : s.child("vary")) {
+                Section v(node, "sweep.vary[]", path, "sweep.vary[" + std::to_string(i++) + "]");
+                SweepAxis axis;
+                axis.path = v.text("key");
+                if (v.has("values")) {
+                    axis.values = v.real_list("values");
+                } else {
+                    if (!v.has("from") || !v.has("to") || !v.has("step"))
+                        v.fail("key", "give either values: [..] or from, to and step");
+                    axis.values = range_values(*v.optional_real("from"), *v.optional_real("to"),
+                                               *v.optional_real("step"), axis.path);
+                }
+                if (axis.values.empty()) v.fail("values", "no values to sweep");
+                axes.push_back(axis);
+            }
+        }
+    }
+    if (base.empty()) base = original.plans.front().name;
+    if (axes.empty()) throw std::runtime_error("nothing to sweep: give --vary PATH=VALUES or a sweep section");
+
+    YAML::Node base_node;
+    bool found = false;
+    for (std::size_t k = 0; k < root["plans"].size(); ++k) {
+        YAML::Node p = root["plans"][k];
+        if (p["name"] && p["name"].Scalar() == base) {
+            base_node.reset(p);
+            found = true;
+        }
+    }
+    if (!found) throw std::runtime_error("sweep: no plan named '" + base + "'");
+
+    std::size_t grid = 1;
+    for (const auto& a : axes) grid *= a.values.size();
+    if (grid > request.max_plans)
+        throw std::runtime_error("sweep: the grid has " + std::to_string(grid) + " plans, more than the limit of " +
+                                 std::to_string(request.max_plans));
+
+    YAML::Node plans(YAML::NodeType::Sequence);
+    if (request.keep_other_plans)
+        for (std::size_t k = 0; k < root["plans"].size(); ++k) plans.push_back(YAML::Clone(root["plans"][k]));
+    std::vector<std::size_t> at(axes.size(), 0);
+    for (std::size_t g = 0; g < grid; ++g) {
+        YAML::Node plan = YAML::Clone(base_node);
+        std::string name = base;
+        for (std::size_t a = 0; a < axes.size(); ++a) {
+            const SweepAxis& axis = axes[a];
+            const double v = axis.values[at[a]];
+            auto segments = split(axis.path, '.');
+            if (segments.size() < 2 || segments[0] != "plan")
+                throw std::runtime_error("sweep path '" + axis.path + "': paths start with 'plan.' (a key of the "
+                                         "swept plan, e.g. plan.rule.threshold)");
+            segments.erase(segments.begin());
+            YAML::Node holder = descend(plan, segments, axis.path);
+            holder[segments.back()] = v;
+            name += (a ? ", " : " ") + segments.back() + "=" + number_text(v);
+        }
+        plan["name"] = name;
+        plans.push_back(plan);
+        for (std::size_t a = axes.size(); a-- > 0;) {
+            if (++at[a] < axes[a].values.size()) break;
+            at[a] = 0;
+        }
+    }
+    root["plans"] = plans;
+    root.remove("sweep");
+    YAML::Emitter out;
+    out << root;
+    try {
+        return parse_scenario(out.c_str(), path + " (swept)", dir);
+    } catch (const InputError& e) {
+        throw std::runtime_error("a swept value is not valid: " + e.field + ": " + e.detail);
+    }
+}
+
+}  // namespace tocsin

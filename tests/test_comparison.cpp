@@ -1,0 +1,121 @@
+// Comparing plans across replications: intervals, paired differences, the
+// frontier and the budget question, on small hand-built figures.
+#include <doctest/doctest.h>
+
+#include <cmath>
+#include <limits>
+
+#include "analysis/comparison.hpp"
+
+using namespace tocsin;
+
+namespace {
+
+constexpr double missing = std::numeric_limits<double>::quiet_NaN();
+
+// Figures for plans with given (burden, benefit) per replication.
+ReplicatedFigures figures(const std::vector<std::string>& plans,
+                          const std::vector<std::vector<std::pair<double, double>>>& per_plan) {
+    const std::size_t burden = metric_index(*find_metric("per_unit_night_mean"));
+    const std::size_t benefit = metric_index(*find_metric("caught"));
+    ReplicatedFigures f;
+    f.plans = plans;
+    f.replications = per_plan.front().size();
+    f.values.assign(plans.size(), std::vector<std::vector<double>>(plan_metrics().size(),
+                                                                   std::vector<double>(f.replications, missing)));
+    for (std::size_t p = 0; p < plans.size(); ++p)
+        for (std::size_t r = 0; r < f.replications; ++r) {
+            f.values[p][burden][r] = per_plan[p][r].first;
+            f.values[p][benefit][r] = per_plan[p][r].second;
+        }
+    return f;
+}
+
+std::size_t burden() { return metric_index(*find_metric("per_unit_night_mean")); }
+std::size_t benefit() { return metric_index(*find_metric("caught")); }
+
+}  // namespace
+
+TEST_CASE("comparison.t_interval") {
+    // 1..5: mean 3, s = sqrt(2.5), s/sqrt(5) = 0.707107; t(0.975, 4) = 2.776445
+    // (Student's t table, e.g. Fisher & Yates, Statistical Tables, Table III;
+    // value from memory, cross-checked against scipy in test_reference_comparison).
+    const std::vector<double> v = {1, 2, 3, 4, 5};
+    const MeanInterval m = mean_interval(v);
+    CHECK(m.mean == doctest::Approx(3));
+    CHECK(m.low == doctest::Approx(3 - 2.776445 * 0.707107).epsilon(1e-6));
+    CHECK(m.high == doctest::Approx(3 + 2.776445 * 0.707107).epsilon(1e-6));
+    CHECK(m.n == 5);
+    // Undefined replications are left out and counted out.
+    const std::vector<double> w = {1, missing, 3};
+    const MeanInterval k = mean_interval(w);
+    CHECK(k.n == 2);
+    CHECK(k.mean == doctest::Approx(2));
+    // One value: a mean, no interval.
+    const std::vector<double> one = {4};
+    CHECK(std::isnan(mean_interval(one).low));
+    CHECK(with_interval(mean_interval(one), 1) == "4");
+    CHECK(with_interval(m, 1) == "3 (1 to 5)");
+}
+
+TEST_CASE("comparison.paired_differences_are_narrower") {
+    // Plan B pages exactly 1.3 more than plan A in every replication, while the
+    // replications themselves vary a lot: the paired difference is 1.3 with no
+    // spread; the figures themselves have wide intervals.
+    std::vector<std::pair<double, double>> a, b;
+    const double level[] = {1.0, 4.0, 2.5, 6.0, 3.0};
+    for (double x : level) {
+        a.push_back({x, 10});
+        b.push_back({x + 1.3, 12});
+    }
+    const ReplicatedFigures f = figures({"A", "B"}, {a, b});
+    const ComparisonTables t = comparison_tables(f);
+    bool found = false;
+    for (const auto& row : t.differences.rows) {
+        if (std::get<std::string>(row[2]) != "per_unit_night_mean") continue;
+        found = true;
+        CHECK(std::get<std::string>(row[0]) == "B");
+        CHECK(std::get<double>(row[3]) == doctest::Approx(1.3));
+        CHECK(std::get<double>(row[4]) == doctest::Approx(1.3));
+        CHECK(std::get<double>(row[5]) == doctest::Approx(1.3));
+    }
+    CHECK(found);
+    const MeanInterval unpaired = mean_interval(f.of(1, burden()));
+    CHECK(unpaired.high - unpaired.low > 3.0);
+    CHECK(comparison_text(f).find("B: 1.3 (1.3 to 1.3) notices per unit per night, 2 (2 to 2) cases caught") != std::string::npos);
+    // Tidy per-replication rows: plans x replications x metrics.
+    CHECK(t.replication_figures.rows.size() == 2 * 5 * plan_metrics().size());
+}
+
+TEST_CASE("comparison.frontier") {
+    // (burden, benefit): A (1, 10); B (2, 9) is beaten by A; C (3, 20);
+    // D (3, 15) is beaten by C; E (4, 20) is beaten by C (same benefit, more
+    // burden); F has no figures.
+    const ReplicatedFigures f = figures({"A", "B", "C", "D", "E", "F"},
+                                        {{{1, 10}}, {{2, 9}}, {{3, 20}}, {{3, 15}}, {{4, 20}}, {{missing, missing}}});
+    const auto points = frontier(f, burden(), benefit());
+    std::vector<bool> on;
+    for (const auto& p : points) on.push_back(p.on_frontier);
+    CHECK(on == std::vector<bool>{true, false, true, false, false, false});
+    CHECK(frontier_text(f, burden(), benefit()).find("2 of 6 plans") != std::string::npos);
+}
+
+TEST_CASE("comparison.budget") {
+    // Limit 3 on the burden. Over four replications:
+    //   A: burden 1,1,1,1 (within), caught 10, 12, 10, 10
+    //   B: burden 2,4,2,3 (mean 2.75, within; within in 3 of 4), caught 11, 11, 11, 11
+    //   C: burden 5,5,5,5 (over), caught 30 each.
+    // Best within: B (mean 11 > A's 10.5); B beats A in replications 1, 3, 4: 75%.
+    const ReplicatedFigures f = figures({"A", "B", "C"}, {{{1, 10}, {1, 12}, {1, 10}, {1, 10}},
+                                                          {{2, 11}, {4, 11}, {2, 11}, {3, 11}},
+                                                          {{5, 30}, {5, 30}, {5, 30}, {5, 30}}});
+    const BudgetAnswer a = best_within_budget(f, burden(), 3.0, benefit());
+    REQUIRE(a.best);
+    CHECK(*a.best == 1);
+    CHECK(a.within == std::vector<std::size_t>{0, 1});
+    CHECK(a.share_within[1] == doctest::Approx(0.75));
+    CHECK(a.share_best == doctest::Approx(0.75));
+    const BudgetAnswer none = best_within_budget(f, burden(), 0.5, benefit());
+    CHECK_FALSE(none.best);
+    CHECK(budget_text(f, none, burden(), 0.5, benefit()).find("No plan keeps") != std::string::npos);
+}

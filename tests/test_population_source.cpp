@@ -1,0 +1,175 @@
+// Population sources from the scenario file: generate, bootstrap and shift
+// keys, their errors, the fitted fragment loading back, and `tocsin fit`.
+#include <doctest/doctest.h>
+
+#include <stdexcept>
+
+#include "models/errors.hpp"
+#include "models/fit.hpp"
+#include "population_fixtures.hpp"
+#include "sim/population_source.hpp"
+#include "sim/scenario.hpp"
+#include "test_support.hpp"
+
+using namespace tocsin;
+
+namespace {
+
+const std::string head =
+    "scenario_schema: 1\n"                             // 1
+    "name: test\n"                                     // 2
+    "time_zone: UTC\n"                                 // 3
+    "seed: 3\n"                                        // 4
+    "shifts:\n"                                        // 5
+    "  - {name: day, starts: \"07:00\"}\n"             // 6
+    "  - {name: night, starts: \"19:00\", night: true}\n"  // 7
+    "outcome: {window_hours: 12}\n"                    // 8
+    "plans:\n"                                         // 9
+    "  - name: p\n"                                    // 10
+    "    rule: {threshold: 60}\n";                     // 11
+
+// Two small wards over four weeks; `extra` lands inside `population:`.
+std::string generated(const std::string& units_extra = "", const std::string& extra = "") {
+    return head +
+           "population:\n"                                  // 12
+           "  generate:\n"                                  // 13
+           "    start: 2026-01-05T00:00:00Z\n"              // 14
+           "    end: 2026-02-02T00:00:00Z\n"                // 15
+           "    units:\n"                                   // 16
+           "      - {name: north, beds: 20, arrivals_per_hour: [0.25]}\n"  // 17
+           "      - name: south\n"                          // 18
+           "        beds: 20\n"                             // 19
+           "        arrivals_per_hour: [0.1, 0.1, 0.1, 0.1, 0.1, 0.1, 0.1, 0.1, 0.4, 0.4, 0.4, 0.4,\n"
+           "                            0.4, 0.4, 0.4, 0.4, 0.4, 0.4, 0.4, 0.4, 0.1, 0.1, 0.1, 0.1]\n" +
+           units_extra + "    scores: {cadence_minutes: 60, jitter_minutes: 5}\n" + extra;
+}
+
+InputError parse_error(const std::string& text) {
+    try {
+        parse_scenario(text, "s.yaml", "");
+    } catch (const InputError& e) {
+        return e;
+    }
+    FAIL("expected an InputError");
+    return InputError("", 0, 0, "", "");
+}
+
+}  // namespace
+
+TEST_CASE("population_source.generate_from_the_scenario") {
+    const Scenario sc = parse_scenario(generated(), "s.yaml", "");
+    REQUIRE(sc.source == PopulationSource::generate);
+    REQUIRE(sc.generator.units.size() == 2);
+    CHECK(sc.generator.units[0].arrivals_per_hour[100] == 0.25);  // one number: every hour
+    CHECK(sc.generator.units[1].arrivals_per_hour[24 * 3 + 9] == 0.4);  // 24 numbers: Thursday 09 h
+    CHECK(sc.generator.units[1].arrivals_per_hour[24 * 6 + 23] == 0.1);
+    CHECK(sc.generator.period_start == testing::midnight_utc(2026, 1, 5));
+    CHECK(sc.generator.scores.jitter_minutes == 5);
+
+    const PreparedPopulation prepared = prepare_population(sc);
+    const std::string first = testing::serialize(population_for(sc, prepared, 0));
+    CHECK(first == testing::serialize(population_for(sc, prepared, 0)));
+    CHECK(first != testing::serialize(population_for(sc, prepared, 1)));
+    // The scenario's seed and replication are the generator's.
+    CHECK(first == testing::serialize(generate_population(sc.generator, 3, 0)));
+}
+
+TEST_CASE("population_source.shift_from_the_scenario") {
+    const Scenario sc = parse_scenario(generated("", "  shift:\n    from: 2026-01-19T00:00:00Z\n    outage_hours: 4\n"
+                                                     "    census: [{unit: south, multiplier: 2}]\n"),
+                                       "s.yaml", "");
+    REQUIRE(sc.shift.has_value());
+    CHECK(sc.shift->outage_start == sc.shift->from);  // defaults to the shift's start
+    const Population pop = population_for(sc, prepare_population(sc), 0);
+    CHECK(pop.excluded.scores_by_reason.at("feed outage (shift stress test)") > 0);
+    CHECK(pop.excluded.notes.at("shift: extra admissions (census raised): south") > 0);
+}
+
+TEST_CASE("population_source.errors_name_the_key") {
+    SUBCASE("both sources") {
+        const InputError e = parse_error(generated("", "  replay: {encounters: e.csv, scores: s.csv}\n"));
+        CHECK(std::string(e.what()).find("exactly one population source") != std::string::npos);
+    }
+    SUBCASE("arrivals of the wrong length") {
+        const InputError e = parse_error(generated("      - {name: east, beds: 4, arrivals_per_hour: [1, 2, 3]}\n"));
+        CHECK(e.line == 22);
+        CHECK(e.field == "population.generate.units[2].arrivals_per_hour");
+        CHECK(std::string(e.what()).find("found 3 numbers") != std::string::npos);
+    }
+    SUBCASE("bootstrap of a generated population") {
+        const InputError e = parse_error(generated("", "  bootstrap: {block_days: 7}\n"));
+        CHECK(std::string(e.what()).find("bootstrap resamples a replayed log") != std::string::npos);
+    }
+    SUBCASE("shift on an unknown unit") {
+        const InputError e = parse_error(generated("", "  shift: {from: 2026-01-19T00:00:00Z, census: [{unit: west, multiplier: 2}]}\n"));
+        CHECK(std::string(e.what()).find("unknown unit 'west' (units: north, south)") != std::string::npos);
+    }
+    SUBCASE("an AUC out of reach") {
+        std::string text = generated();
+        text.replace(text.find("jitter_minutes: 5}"), 18, "jitter_minutes: 5, within_patient_sd: 40, target_auc: 0.99}");
+        const Scenario sc = parse_scenario(text, "s.yaml", "");
+        try {
+            prepare_population(sc);
+            FAIL("expected an InputError");
+        } catch (const InputError& e) {
+            CHECK(e.field == "population.generate.scores.target_auc");
+            CHECK(e.line == 22);
+            CHECK(std::string(e.what()).find("cannot be reached") != std::string::npos);
+        }
+    }
+}
+
+TEST_CASE("population_source.fitted_fragment_loads_back") {
+    // Fit a generated log, write the fragment, splice it into a scenario: the
+    // loader must read back the same knobs (the writer and the key table agree).
+    const GeneratorFit fit = fit_generator(generate_population(testing::two_wards(60), 4, 0));
+    const Scenario sc = parse_scenario(head + scenario_fragment(fit.config, fit.notes), "s.yaml", "");
+    const GeneratorConfig& a = fit.config;
+    const GeneratorConfig& b = sc.generator;
+    REQUIRE(b.units.size() == 2);
+    CHECK(b.units[1].name == "ward-south");
+    CHECK(b.units[1].beds == a.units[1].beds);
+    for (int h = 0; h < hours_per_week; ++h)
+        CHECK(b.units[0].arrivals_per_hour[h] == doctest::Approx(a.units[0].arrivals_per_hour[h]).epsilon(1e-5));
+    CHECK(b.period_start == a.period_start);
+    CHECK(b.stay.median_hours == doctest::Approx(a.stay.median_hours).epsilon(1e-5));
+    CHECK(b.outcome.probability == doctest::Approx(a.outcome.probability).epsilon(1e-5));
+    CHECK(b.scores.drift_size == doctest::Approx(a.scores.drift_size).epsilon(1e-5));
+    CHECK(b.scores.latency_log_sd == doctest::Approx(a.scores.latency_log_sd).epsilon(1e-5));
+}
+
+TEST_CASE("population_source.bootstrap_of_the_demo_log") {
+    Scenario sc = load_scenario(std::string(TOCSIN_SOURCE_DIR) + "/scenarios/demo.yaml");
+    sc.bootstrap = BootstrapConfig{};
+    const PreparedPopulation prepared = prepare_population(sc);
+    CHECK(testing::serialize(population_for(sc, prepared, 0)) == testing::serialize(*prepared.log));
+    const Population rep = population_for(sc, prepared, 1);
+    CHECK(testing::serialize(rep) != testing::serialize(*prepared.log));
+    CHECK(rep.units == prepared.log->units);
+}
+
+TEST_CASE("population_source.cli_fit") {
+    testing::ScratchDir dir;
+    const auto r = testing::run_tocsin("fit " + std::string(TOCSIN_SOURCE_DIR) + "/scenarios/demo.yaml --by-hour-of-day -o " +
+                                       dir.path("fitted.yaml"));
+    INFO(r.output);
+    REQUIRE(r.exit_code == 0);
+    const std::string fragment = testing::read_file(dir.path("fitted.yaml"));
+    CHECK(fragment.find("population:\n  generate:\n") != std::string::npos);
+    CHECK(fragment.find("keep `time_zone: America/Chicago`") != std::string::npos);
+    CHECK_NOTHROW(parse_scenario(head + fragment, "fitted.yaml", ""));
+}
+
+TEST_CASE("population_source.plans_do_not_move_patients") {
+    // Common random numbers: adding a plan or changing who answers leaves every
+    // patient and score of a replication exactly as it was.
+    const Scenario one = parse_scenario(generated(), "s.yaml", "");
+    std::string text = generated();
+    text.replace(text.find("    rule: {threshold: 60}\n"), 26,
+                 "    role: charge nurse\n    rule: {threshold: 60}\n  - name: q\n    rule: {threshold: 40, snooze_minutes: 60}\n");
+    const Scenario two = parse_scenario(text, "s.yaml", "");
+    REQUIRE(two.plans.size() == 2);
+    for (std::uint64_t r : {0, 5})
+        CHECK(testing::serialize(population_for(one, prepare_population(one), r)) ==
+              testing::serialize(population_for(two, prepare_population(two), r)));
+}

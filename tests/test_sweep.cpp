@@ -1,0 +1,70 @@
+// Sweeps build a grid of plans from one plan without editing the scenario.
+#include <doctest/doctest.h>
+
+#include "models/errors.hpp"
+#include "sim/sweep.hpp"
+#include "test_support.hpp"
+
+using namespace tocsin;
+using tocsin::testing::ScratchDir;
+
+TEST_CASE("sweep.axis_forms") {
+    CHECK(parse_sweep_axis("plan.rule.threshold=50:80:10").values == std::vector<double>{50, 60, 70, 80});
+    // A fractional step still includes the end (no floating-point drift).
+    CHECK(parse_sweep_axis("plan.rule.rise=0.1:0.3:0.1").values.size() == 3);
+    CHECK(parse_sweep_axis("plan.rule.snooze_minutes=60,120,240").values == std::vector<double>{60, 120, 240});
+    CHECK_THROWS_WITH_AS(parse_sweep_axis("threshold"), doctest::Contains("PATH=VALUES"), std::runtime_error);
+    CHECK_THROWS_WITH_AS(parse_sweep_axis("plan.rule.threshold=80:50:5"), doctest::Contains("ends before"), std::runtime_error);
+    CHECK_THROWS_WITH_AS(parse_sweep_axis("plan.rule.threshold=50,x"), doctest::Contains("not a number"), std::runtime_error);
+    CHECK_THROWS_WITH_AS(parse_sweep_axis("plan.rule.threshold=1:5:0"), doctest::Contains("positive"), std::runtime_error);
+}
+
+TEST_CASE("sweep.grid") {
+    ScratchDir dir;
+    const std::string base =
+        "scenario_schema: 1\nname: t\ntime_zone: UTC\nshifts: [{name: day, starts: \"07:00\"}]\n"
+        "outcome: {window_hours: 12}\npopulation: {replay: {encounters: e.csv, scores: s.csv}}\n"
+        "plans:\n  - {name: a, rule: {threshold: 60}}\n  - {name: b, rule: {threshold: 70, snooze_minutes: 30}}\n";
+    const std::string path = dir.file("s.yaml", base);
+    SweepRequest req;
+    req.base_plan = "b";
+    req.axes = {parse_sweep_axis("plan.rule.threshold=50,60"), parse_sweep_axis("plan.rule.snooze_minutes=60:180:60")};
+    const Scenario sc = sweep_scenario(path, req);
+    REQUIRE(sc.plans.size() == 6);
+    CHECK(sc.plans[0].name == "b threshold=50, snooze_minutes=60");
+    CHECK(sc.plans[5].name == "b threshold=60, snooze_minutes=180");
+    CHECK(sc.plans[5].rule.threshold == 60);
+    CHECK(sc.plans[5].rule.snooze == minutes(180));
+
+    req.keep_other_plans = true;
+    CHECK(sweep_scenario(path, req).plans.size() == 8);
+
+    SUBCASE("a key the plan does not have yet is added") {
+        SweepRequest r;
+        r.base_plan = "a";
+        r.axes = {parse_sweep_axis("plan.rule.persistence=1,2,3")};
+        const Scenario s = sweep_scenario(path, r);
+        CHECK(s.plans[2].rule.persistence == 3);
+    }
+    SUBCASE("an invalid swept value is reported with its key") {
+        SweepRequest r;
+        r.axes = {parse_sweep_axis("plan.rule.persistence=0,1")};
+        CHECK_THROWS_WITH_AS(sweep_scenario(path, r), doctest::Contains("rule.persistence"), std::runtime_error);
+    }
+    SUBCASE("a misspelt key is caught by the strict loader") {
+        SweepRequest r;
+        r.axes = {parse_sweep_axis("plan.rule.treshold=50")};
+        CHECK_THROWS_WITH_AS(sweep_scenario(path, r), doctest::Contains("did you mean 'threshold'"), std::runtime_error);
+    }
+    SUBCASE("the scenario file can declare the sweep") {
+        const std::string with = dir.file("w.yaml", base + "sweep:\n  plan: a\n  vary:\n    - {key: plan.rule.threshold, from: 40, to: 60, step: 10}\n");
+        const Scenario s = sweep_scenario(with, SweepRequest{});
+        REQUIRE(s.plans.size() == 3);
+        CHECK(s.plans[1].name == "a threshold=50");
+    }
+    SUBCASE("grids beyond the limit are refused") {
+        SweepRequest r;
+        r.axes = {parse_sweep_axis("plan.rule.threshold=1:100:1"), parse_sweep_axis("plan.rule.rise=1:100:1")};
+        CHECK_THROWS_WITH_AS(sweep_scenario(path, r), doctest::Contains("10000 plans"), std::runtime_error);
+    }
+}
