@@ -4,6 +4,8 @@
 #include <sstream>
 
 #include "analysis/cautions.hpp"
+#include "analysis/channel_tables.hpp"
+#include "sim/channels.hpp"
 #include "analysis/quantiles.hpp"
 #include "analysis/workload.hpp"
 
@@ -52,7 +54,7 @@ PlanFigures plan_figures(const Scenario& sc, const Population& pop, const ShiftC
             const std::size_t k = slot[cal.index_of(n.at)];
             if (k != SIZE_MAX) ++f.unit_shift_counts[n.unit * n_shifts + k];
         }
-        actions.emplace_back(n.encounter, n.at);
+        if (n.asks_evaluation) actions.emplace_back(n.encounter, n.at);  // only an evaluation can catch a case
     }
     std::vector<double> all, night;
     for (std::size_t u = 0; u < n_units; ++u)
@@ -74,7 +76,7 @@ PlanFigures plan_figures(const Scenario& sc, const Population& pop, const ShiftC
         f.per_unit_night_max = night.back();
     }
     const auto noticed_at = first_catch(sc, pop, actions);
-    f.evaluations = f.notices;
+    f.evaluations = static_cast<std::int64_t>(actions.size());
     if (record.staff) {
         // A case is caught by the start of an evaluation, not by the notice.
         actions.clear();
@@ -130,7 +132,8 @@ Cell opt(const std::optional<std::int64_t>& v) { return v ? Cell(*v) : Cell(); }
 }  // namespace
 
 RunTables run_tables(const Scenario& sc, const Population& pop, const ShiftCalendar& cal,
-                     const ReplicationRecord& record, bool with_notice_log, bool with_task_log) {
+                     const ReplicationRecord& record, bool with_notice_log, bool with_task_log,
+                     const ChartOpeningLog* replayed_openings) {
     RunTables t;
     const ReportingShifts rep = reporting_shifts(sc, pop, cal);
     t.plan_summary.name = "plan_summary";
@@ -171,6 +174,13 @@ RunTables run_tables(const Scenario& sc, const Population& pop, const ShiftCalen
     for (const auto& [reason, n] : pop.excluded.encounters_by_reason) t.exclusions.add_row({"encounters", reason, n});
     for (const auto& [reason, n] : pop.excluded.scores_by_reason) t.exclusions.add_row({"scores", reason, n});
     for (const auto& [reason, n] : pop.excluded.notes) t.exclusions.add_row({"notes", reason, n});
+    if (replayed_openings) add_chart_opening_exclusions(t.exclusions, *replayed_openings);
+    {
+        ChannelTables c = channel_tables(sc, pop, cal, record);
+        t.channel_burden = std::move(c.channel_burden);
+        t.rounds = std::move(c.rounds);
+        t.chart_interruptions = std::move(c.chart_interruptions);
+    }
     if (sc.has_staff()) {
         const StaffModel model = staff_model(sc, static_cast<std::uint32_t>(pop.units.size()));
         std::vector<PlanStaffRun> runs;
@@ -192,12 +202,18 @@ RunTables run_tables(const Scenario& sc, const Population& pop, const ShiftCalen
         Table log;
         log.name = "notice_log";
         log.title = "Every notice (holds encounter ids)";
-        log.columns = {"plan", "replication", "encounter", "unit", "at", "score", "reason", "channel"};
+        log.columns = {"plan", "replication", "encounter", "unit", "at", "score", "reason", "channel",
+                       "evaluation", "opener", "delivery_minutes"};
         for (std::size_t p = 0; p < sc.plans.size(); ++p)
             for (const Notice& n : record.plans[p].notices)
                 log.add_row({sc.plans[p].name, static_cast<std::int64_t>(record.replication),
                              pop.encounters[n.encounter].id, pop.units[n.unit], format_utc(n.at), n.score,
-                             std::string(to_string(n.reason)), std::string(to_string(n.channel))});
+                             std::string(to_string(n.reason)), std::string(to_string(n.channel)),
+                             std::int64_t{n.asks_evaluation ? 1 : 0},
+                             n.channel == Channel::chart_interruption && sc.chart_openings
+                                 ? Cell(sc.chart_openings->roles[n.opener_role].name)
+                                 : Cell(),
+                             delivery_minutes(sc.plans[p])});
         t.notice_log = std::move(log);
     }
     return t;
@@ -218,6 +234,7 @@ std::string run_header_text(const Scenario& sc, const Population& pop, const Run
 }
 
 std::string plan_summary_text(const RunTables& t) {
+    std::ostringstream o;
     // A narrower view for the terminal; the CSV/JSON hold every column.
     Table view;
     view.title = "Plans compared (notices per unit per shift; lead in hours before time zero)";
@@ -232,49 +249,55 @@ std::string plan_summary_text(const RunTables& t) {
                       at(row, "per_unit_shift_p90"), at(row, "per_unit_night_mean"), at(row, "per_unit_night_p90"),
                       at(row, "per_unit_night_max"), at(row, "caught"), at(row, "missed"), at(row, "sensitivity"),
                       at(row, "lead_median_h"), at(row, "notices_per_catch")});
-    return to_text(view);
-}
-
-std::string staff_summary_text(const RunTables& t) {
-    if (!t.staff_workload) return "";
-    std::ostringstream o;
-    const auto& cols = t.plan_summary.columns;
-    auto at = [&](const std::vector<Cell>& row, const char* name) {
-    return row[static_cast<std::size_t>(std::find(cols.begin(), cols.end(), name) - cols.begin())];
-    };
-    // The cost of each plan in people and time, and how catches change when
-    // they count from the evaluation start rather than the notice.
-    Table staff;
-    staff.title = "Staff (catches count from the evaluation start; by notice = if evaluation were instant)";
-    staff.columns = {"plan", "evaluations", "wait_median_min", "wait_p90_min", "never_taken_up",
-                     "caught", "caught_by_notice", "lead_median_h", "lead_from_notice_median_h"};
-    for (const auto& row : t.plan_summary.rows)
-        staff.add_row({at(row, "plan"), at(row, "evaluations"), at(row, "wait_median_min"), at(row, "wait_p90_min"),
-                       at(row, "never_taken_up"), at(row, "caught"), at(row, "caught_by_notice"),
-                       at(row, "lead_median_h"), at(row, "lead_from_notice_median_h")});
-    o << to_text(staff) << "\n";
-    const auto& wc = t.staff_workload->columns;
-    auto wat = [&](const std::vector<Cell>& row, const char* name) {
-        return row[static_cast<std::size_t>(std::find(wc.begin(), wc.end(), name) - wc.begin())];
-    };
-    Table roles;
-    roles.title = "Staff by plan and role (minutes per team per shift; waits from notice to start)";
-    roles.columns = {"plan", "role", "team", "minutes_mean", "minutes_p90", "utilisation", "tasks_per_person",
-                     "wait_p90_min", "wait_max_min", "never_taken_up", "overtime_min"};
-    for (const auto& row : t.staff_workload->rows)
-        roles.add_row({wat(row, "plan"), wat(row, "role"), wat(row, "team"), wat(row, "staff_minutes_per_shift_mean"),
-                       wat(row, "staff_minutes_per_shift_p90"), wat(row, "utilisation"),
-                       wat(row, "tasks_per_staff_member_per_shift"), wat(row, "wait_minutes_p90"),
-                       wat(row, "wait_minutes_max"), wat(row, "never_taken_up"), wat(row, "overtime_minutes")});
-    o << to_text(roles) << "\n";
-    if (!t.staff_escalations->rows.empty()) o << to_text(*t.staff_escalations) << "\n";
+    o << to_text(view) << "\n";
+    if (t.staff_workload) {
+        // Staff: the cost of each plan in people and time, and how catches change when
+        // they count from the evaluation start rather than the notice.
+        Table staff;
+        staff.title = "Staff (catches count from the evaluation start; by notice = if evaluation were instant)";
+        staff.columns = {"plan", "evaluations", "wait_median_min", "wait_p90_min", "never_taken_up",
+                         "caught", "caught_by_notice", "lead_median_h", "lead_from_notice_median_h"};
+        for (const auto& row : t.plan_summary.rows)
+            staff.add_row({at(row, "plan"), at(row, "evaluations"), at(row, "wait_median_min"), at(row, "wait_p90_min"),
+                           at(row, "never_taken_up"), at(row, "caught"), at(row, "caught_by_notice"),
+                           at(row, "lead_median_h"), at(row, "lead_from_notice_median_h")});
+        o << to_text(staff) << "\n";
+        const auto& wc = t.staff_workload->columns;
+        auto wat = [&](const std::vector<Cell>& row, const char* name) {
+            return row[static_cast<std::size_t>(std::find(wc.begin(), wc.end(), name) - wc.begin())];
+        };
+        Table roles;
+        roles.title = "Staff by plan and role (minutes per team per shift; waits from notice to start)";
+        roles.columns = {"plan", "role", "team", "minutes_mean", "minutes_p90", "utilisation", "tasks_per_person",
+                         "wait_p90_min", "wait_max_min", "never_taken_up", "overtime_min"};
+        for (const auto& row : t.staff_workload->rows)
+            roles.add_row({wat(row, "plan"), wat(row, "role"), wat(row, "team"), wat(row, "staff_minutes_per_shift_mean"),
+                           wat(row, "staff_minutes_per_shift_p90"), wat(row, "utilisation"),
+                           wat(row, "tasks_per_staff_member_per_shift"), wat(row, "wait_minutes_p90"),
+                           wat(row, "wait_minutes_max"), wat(row, "never_taken_up"), wat(row, "overtime_minutes")});
+        o << to_text(roles) << "\n";
+        if (!t.staff_escalations->rows.empty()) o << to_text(*t.staff_escalations) << "\n";
+    }
+    if (!t.channel_burden.rows.empty()) {
+        Table burden;
+        burden.title = "\nBurden in each channel's own unit (mean, 90th percentile, worst; delivery minutes)";
+        burden.columns = {"plan", "channel", "burden", "mean", "p90", "max", "minutes_mean", "evaluations"};
+        const auto& bc = t.channel_burden.columns;
+        auto col = [&](const std::vector<Cell>& row, const char* name) {
+            return row[static_cast<std::size_t>(std::find(bc.begin(), bc.end(), name) - bc.begin())];
+        };
+        for (const auto& row : t.channel_burden.rows)
+            burden.add_row({col(row, "plan"), col(row, "channel"), col(row, "burden"), col(row, "burden_mean"),
+                            col(row, "burden_p90"), col(row, "burden_max"), col(row, "minutes_mean"),
+                            col(row, "evaluations")});
+        o << to_text(burden);
+    }
     return o.str();
 }
 
 std::string run_summary_text(const Scenario& sc, const Population& pop, const RunTables& t,
                              const ReportingShifts& rep) {
-    return run_header_text(sc, pop, t, rep) + "\n" + plan_summary_text(t) + "\n" + staff_summary_text(t) +
-           cautions_text() + "\n";
+    return run_header_text(sc, pop, t, rep) + "\n" + plan_summary_text(t) + "\n" + cautions_text() + "\n";
 }
 
 }  // namespace tocsin

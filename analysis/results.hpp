@@ -55,18 +55,20 @@ struct RunTables {
     // When the scenario declares roles (analysis/workload.hpp):
     std::optional<Table> staff_workload, staff_escalations, task_fates;
     std::optional<Table> task_log;    // opt-in: holds encounter ids
+    Table channel_burden;             // each channel's burden in its own unit (analysis/channel_tables.hpp)
+    Table rounds;                     // handoff lists and review rounds
+    Table chart_interruptions;        // per unit x shift x opening role
 };
 
+// `replayed_openings`: the replayed chart-opening log, for its exclusions.
 RunTables run_tables(const Scenario& scenario, const Population& population, const ShiftCalendar& calendar,
-                     const ReplicationRecord& record, bool with_notice_log, bool with_task_log = false);
+                     const ReplicationRecord& record, bool with_notice_log, bool with_task_log = false,
+                     const ChartOpeningLog* replayed_openings = nullptr);
 
 // Parts of the terminal summary: the population and exclusions; the plan table.
 std::string run_header_text(const Scenario& scenario, const Population& population, const RunTables& tables,
                             const ReportingShifts& reporting);
 std::string plan_summary_text(const RunTables& tables);
-// Staff figures of one replication (empty without roles): waits, catches from
-// the evaluation start against catches by notice, work by role, escalations.
-std::string staff_summary_text(const RunTables& tables);
 // A readable terminal summary of a run of one replication.
 std::string run_summary_text(const Scenario& scenario, const Population& population, const RunTables& tables,
                              const ReportingShifts& reporting);

@@ -16,20 +16,29 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
                                  "' (expected one of " + metric_names() + ")");
     RunOutput out;
     std::vector<std::vector<PlanFigures>> figures(sc.replications);
-    std::vector<Table> logs(sc.replications);
+    std::vector<Table> logs(sc.replications), task_logs(sc.replications);
     std::mutex first_lock;
     ExperimentOptions options;
     options.replications = sc.replications;
     options.threads = settings.threads;
     options.progress = settings.progress;
+    options.replayed_openings = settings.replayed_openings;
     run_experiment(sc, make_population, options,
                    [&](std::uint64_t r, const Population& pop, const ShiftCalendar& cal, const ReplicationRecord& rec) {
                        const ReportingShifts rep = reporting_shifts(sc, pop, cal);
                        for (const PlanRecord& plan : rec.plans)
                            figures[r].push_back(plan_figures(sc, pop, cal, rep, plan));
-                       if (r == 0 || settings.notice_log) {
-                           RunTables t = run_tables(sc, pop, cal, rec, settings.notice_log, settings.task_log && r == 0);
+                       if (r == 0 || settings.notice_log || settings.task_log) {
+                           RunTables t = run_tables(sc, pop, cal, rec, settings.notice_log, settings.task_log,
+                                                   settings.replayed_openings);
                            if (settings.notice_log) logs[r] = std::move(*t.notice_log);
+                           if (t.task_log) {
+                               // Tasks of every replication go in one log, like notices.
+                               Table& log = *t.task_log;
+                               log.columns.insert(log.columns.begin() + 1, "replication");
+                               for (auto& row : log.rows) row.insert(row.begin() + 1, static_cast<std::int64_t>(r));
+                               task_logs[r] = log;
+                           }
                            if (r == 0) {
                                std::lock_guard<std::mutex> guard(first_lock);
                                out.first_replication = std::move(t);
@@ -43,6 +52,12 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
             for (auto& row : logs[r].rows) all.rows.push_back(std::move(row));
         out.first_replication.notice_log = std::move(all);
     }
+    if (out.first_replication.task_log) {
+        Table all = std::move(task_logs[0]);
+        for (std::uint64_t r = 1; r < sc.replications; ++r)
+            for (auto& row : task_logs[r].rows) all.rows.push_back(std::move(row));
+        out.first_replication.task_log = std::move(all);
+    }
     std::vector<std::string> names;
     for (const Plan& p : sc.plans) names.push_back(p.name);
     out.figures = collect_figures(names, figures);
@@ -54,9 +69,6 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
                                reporting_shifts(sc, out.first_population, cal)) + "\n";
     if (sc.replications > 1) out.text += comparison_text(out.figures);
     else out.text += plan_summary_text(out.first_replication);
-    if (out.first_replication.staff_workload)
-        out.text += "\n" + (sc.replications > 1 ? std::string("Replication 0:\n") : std::string()) +
-                    staff_summary_text(out.first_replication);
     if (sc.plans.size() > 2) out.text += "\n" + frontier_text(out.figures, metric_index(*burden), metric_index(*benefit));
     if (settings.budget_limit) {
         const Metric* limited = find_metric(settings.budget_metric);
@@ -87,13 +99,17 @@ std::vector<OutputFile> run_output_files(const RunOutput& out) {
     add_table_files(files, out.first_replication.plan_summary);
     add_table_files(files, out.first_replication.unit_shift_notices);
     add_table_files(files, out.first_replication.exclusions);
+    add_table_files(files, out.first_replication.channel_burden);
+    if (!out.first_replication.rounds.rows.empty()) add_table_files(files, out.first_replication.rounds);
+    if (!out.first_replication.chart_interruptions.rows.empty())
+        add_table_files(files, out.first_replication.chart_interruptions);
     add_table_files(files, out.comparison.comparison);
     add_table_files(files, out.comparison.differences);
     add_table_files(files, out.comparison.replication_figures);
     add_table_files(files, out.frontier);
     if (out.first_replication.notice_log) add_table_files(files, *out.first_replication.notice_log);
-    const RunTables& first = out.first_replication;
-    for (const auto* staff : {&first.staff_workload, &first.staff_escalations, &first.task_fates, &first.task_log})
+    const RunTables& t = out.first_replication;
+    for (const auto* staff : {&t.staff_workload, &t.staff_escalations, &t.task_fates, &t.task_log})
         if (*staff) add_table_files(files, **staff);
     files.push_back({"CAUTIONS.txt", cautions_text() + "\n"});
     return files;

@@ -17,7 +17,8 @@ namespace tocsin {
 struct RunSettings {
     unsigned threads = 1;
     bool notice_log = false;          // patient-level rows, only on request
-    bool task_log = false;            // staff tasks of replication 0, patient-level, only on request
+    bool task_log = false;            // patient-level rows, only on request
+    const ChartOpeningLog* replayed_openings = nullptr;  // see ExperimentOptions
     ProgressReport progress;          // may be empty
     std::string burden_metric = "per_unit_night_mean";
     std::string benefit_metric = "caught";

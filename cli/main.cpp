@@ -7,6 +7,8 @@
 #include <optional>
 #include <iostream>
 #include <cstdio>
+#include <optional>
+#include <sstream>
 #include <thread>
 
 #include <unistd.h>
@@ -15,7 +17,9 @@
 #include "analysis/output.hpp"
 #include "analysis/results.hpp"
 #include "analysis/run.hpp"
+#include "analysis/shift_effect.hpp"
 #include "sim/population_source.hpp"
+#include "analysis/review_size.hpp"
 #include "models/errors.hpp"
 #include "models/fit.hpp"
 #include "models/replay.hpp"
@@ -57,7 +61,7 @@ void add_run_options(CLI::App* cmd, RunOptions& o) {
     cmd->add_option("scenario", o.scenario, "Scenario YAML file")->required();
     cmd->add_option("-o,--out", o.out_dir, "Write tidy CSV and JSON tables to this directory");
     cmd->add_flag("--notice-log", o.notice_log, "Also write every notice with its encounter id (patient-level)");
-    cmd->add_flag("--task-log", o.task_log, "Also write every staff task of replication 0 with its encounter id (patient-level)");
+    cmd->add_flag("--task-log", o.task_log, "Also write every staff task with its encounter id (patient-level)");
     cmd->add_option("-j,--threads", o.threads, "Worker threads (default: all cores); results do not depend on it");
     cmd->add_option("-r,--replications", o.replications, "Replications (default: the scenario's `replications`)");
     cmd->add_option("--max-burden", o.max_burden, "Budget question: best plan whose mean --budget-metric is at most this");
@@ -89,6 +93,50 @@ ProgressReport progress_bar() {
     };
 }
 
+// The replayed chart-opening log, when the scenario replays one.
+std::optional<ChartOpeningLog> replayed_openings(const Scenario& sc, const Population& pop) {
+    if (!sc.chart_openings || sc.chart_openings->replay_path.empty()) return std::nullopt;
+    return load_chart_openings(sc.chart_openings->replay_path, sc.chart_openings->roles, pop, sc.zone);
+}
+
+struct SizeOptions {
+    std::string scenario;
+    std::string plan;
+    std::string sizes = "1-30";
+    double target = 0.8;
+    std::string out_dir;
+};
+
+int command_review_size(const SizeOptions& opt) {
+    const Scenario sc = load_scenario(opt.scenario);
+    std::size_t p = 0;
+    while (p < sc.plans.size() && sc.plans[p].name != opt.plan) ++p;
+    if (p == sc.plans.size()) throw std::invalid_argument("no plan named '" + opt.plan + "' in " + opt.scenario);
+    if (sc.plans[p].channel != Channel::ranked_review)
+        throw std::invalid_argument("plan '" + opt.plan + "' is a " + std::string(to_string(sc.plans[p].channel)) +
+                                    " plan; list sizing needs a ranked_review plan");
+    int from = 0, to = 0;
+    char dash = 0, extra = 0;
+    std::istringstream range(opt.sizes);
+    if (!(range >> from)) throw std::invalid_argument("--sizes: expected N or FROM-TO, e.g. 1-30");
+    to = from;
+    if (range >> dash && (dash != '-' || !(range >> to) || (range >> extra)))
+        throw std::invalid_argument("--sizes: expected N or FROM-TO, e.g. 1-30");
+    const Population pop = population_for(sc, prepare_population(sc), 0);
+    const ShiftCalendar cal = calendar_for(sc, pop);
+    const ReviewSizing sizing = size_review_list(sc, pop, cal, p, from, to, opt.target);
+    const Table table = review_size_table(sizing);
+    std::cout << to_text(table, 3) << "\n" << review_size_answer(sizing) << "\n\n" << cautions_text() << "\n";
+    if (!opt.out_dir.empty()) {
+        std::vector<OutputFile> files;
+        add_table_files(files, table);
+        files.push_back({"CAUTIONS.txt", cautions_text() + "\n"});
+        write_output_files(opt.out_dir, files);
+        std::cout << "Wrote " << files.size() << " files to " << opt.out_dir << "\n";
+    }
+    return 0;
+}
+
 int command_check(const std::string& path) {
     const Scenario sc = load_scenario(path);
     std::cout << describe_scenario(sc);
@@ -103,6 +151,10 @@ int command_check(const std::string& path) {
     for (const auto& [reason, n] : pop.excluded.scores_by_reason) std::cout << "  excluded: " << n << " scores " << reason << "\n";
     for (const auto& [reason, n] : pop.excluded.encounters_by_reason) std::cout << "  excluded: " << n << " encounters " << reason << "\n";
     for (const auto& [reason, n] : pop.excluded.notes) std::cout << "  note: " << n << " " << reason << "\n";
+    if (const auto log = replayed_openings(sc, pop)) {
+        std::cout << "Chart openings: " << log->openings.size() << " usable.\n";
+        for (const auto& [reason, n] : log->excluded_by_reason) std::cout << "  excluded: " << n << " chart openings " << reason << "\n";
+    }
     std::cout << "The scenario is valid.\n";
     return 0;
 }
@@ -124,7 +176,16 @@ int command_run(const RunOptions& opt, bool sweep) {
     const PreparedPopulation prepared = prepare_population(sc);
     std::cout << describe_prepared(sc, prepared);
     const PopulationFactory factory = population_factory(sc, prepared);
+    std::optional<ChartOpeningLog> openings;
+    if (sc.chart_openings && !sc.chart_openings->replay_path.empty()) {
+        if (!prepared.log || sc.bootstrap)
+            throw InputError(sc.file, 0, 0, "chart_openings.replay",
+                             "replayed chart openings belong to the replayed log; with a bootstrapped or generated "
+                             "population, generate chart openings (openings_per_hour) instead");
+        openings = replayed_openings(sc, *prepared.log);
+    }
     RunSettings settings;
+    settings.replayed_openings = openings ? &*openings : nullptr;
     settings.threads = thread_count(opt.threads);
     settings.notice_log = opt.notice_log;
     settings.task_log = opt.task_log;
@@ -135,8 +196,14 @@ int command_run(const RunOptions& opt, bool sweep) {
     settings.budget_metric = opt.budget_metric;
     const RunOutput out = run_scenario(sc, factory, settings);
     std::cout << out.text;
+    std::optional<ShiftEffect> effect;
+    if (sc.shift) {
+        effect = shift_effect(sc, factory, settings.threads);
+        std::cout << "\n" << effect->text;
+    }
     if (!opt.out_dir.empty()) {
         std::vector<OutputFile> files = run_output_files(out);
+        if (effect) add_table_files(files, effect->table);
         files.push_back({"run_record.json",
                          run_record_json(sc, settings, std::chrono::duration<double>(std::chrono::steady_clock::now() - started).count())});
         write_output_files(opt.out_dir, files);
@@ -202,6 +269,14 @@ int main(int argc, char** argv) {
     fit->add_option("--stay", fit_cmd.stay, "Length-of-stay family")->check(CLI::IsMember({"lognormal", "gamma"}));
     fit->add_flag("--by-hour-of-day", fit_cmd.by_hour_of_day, "One arrival rate per hour of day, every day alike (steadier for short logs)");
 
+    SizeOptions size_opt;
+    auto* size = app.add_subcommand("review-size", "How long should a ranked review list be? Catches and staff time for each list length");
+    size->add_option("scenario", size_opt.scenario, "Scenario YAML file")->required();
+    size->add_option("--plan", size_opt.plan, "A ranked_review plan of the scenario")->required();
+    size->add_option("--sizes", size_opt.sizes, "List lengths to try, N or FROM-TO (default 1-30)");
+    size->add_option("--target-catch-rate", size_opt.target, "Catch rate to reach (default 0.8)")->check(CLI::Range(0.0, 1.0));
+    size->add_option("-o,--out", size_opt.out_dir, "Write the table as CSV and JSON to this directory");
+
     auto* keys = app.add_subcommand("keys", "Print the reference of every scenario key (Markdown)");
 
     try {
@@ -214,11 +289,15 @@ int main(int argc, char** argv) {
         if (*run) return command_run(run_opt, false);
         if (*sweep) return command_run(sweep_opt, true);
         if (*fit) return command_fit(fit_cmd);
+        if (*size) return command_review_size(size_opt);
         if (*keys) {
             std::cout << keys_reference_markdown();
             return 0;
         }
     } catch (const InputError& e) {
+        std::cerr << "tocsin: error: " << e.what() << "\n";
+        return 2;
+    } catch (const std::invalid_argument& e) {
         std::cerr << "tocsin: error: " << e.what() << "\n";
         return 2;
     } catch (const std::exception& e) {

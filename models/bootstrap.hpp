@@ -14,9 +14,9 @@
 //   block; run lengths are geometric with that mean.
 // - moving-block bootstrap (Kuensch 1989): runs of exactly mean_run_blocks
 //   consecutive source blocks, each run starting at a random source block.
-// - with same_weekday (day blocks), a jump lands only on a source block that
-//   starts on the same weekday, so the weekly pattern survives; week blocks
-//   keep it by construction.
+// - with same_weekday (day blocks, and a log of at least 7 whole days), a
+//   jump lands only on a source block that starts on the same weekday, so the
+//   weekly pattern survives; week blocks keep it by construction.
 // - an encounter admitted in source block s is copied into target block t,
 //   shifted by (t - s) blocks, with its whole stay, outcome and scores; its id
 //   becomes "<id>~<t>". Stays present at the period start are the initial

@@ -269,7 +269,7 @@ std::string fixed(double x, int decimals) {
 }  // namespace
 
 AucCalibration calibrate_to_auc(const GeneratorConfig& input, double target_auc, double target_outcome_rate,
-                                std::uint64_t seed, double auc_tolerance) {
+                                std::uint64_t seed, double auc_tolerance, double calibration_cases) {
     if (!(target_auc > 0.0 && target_auc < 1.0))
         throw std::invalid_argument("calibrate_to_auc: target AUC must lie strictly between 0 and 1, got " +
                                     fixed(target_auc, 4));
@@ -279,12 +279,21 @@ AucCalibration calibrate_to_auc(const GeneratorConfig& input, double target_auc,
     GeneratorConfig config = input;
     config.outcome.probability = target_outcome_rate;
     validate(config);
+    // Expected cases per hour from the declared rates (an over-estimate when
+    // units are often full, which only lengthens the calibration period).
+    double admissions_per_hour = 0.0;
+    for (const UnitConfig& u : config.units)
+        for (double r : u.arrivals_per_hour) admissions_per_hour += r / hours_per_week;
+    const double hours_needed = calibration_cases / std::max(admissions_per_hour * target_outcome_rate, 1e-9);
+    const double calibration_hours = std::clamp(hours_needed, 28.0 * 24.0, 3.0 * 365.0 * 24.0);
+    GeneratorConfig calibration = config;
+    calibration.period_end = config.period_start + static_cast<Seconds>(calibration_hours * 3600.0);
     // The widest rise that still means something on the scale: the whole points
     // range, or 20 logit units (a probability from 0.5 to 1 - 2e-9).
     const double widest = config.scores.scale == ScoreScale::points ? 100.0 : 20.0;
     AucCalibration result;
-    AucPoint low = auc_with_drift(config, 0.0, seed);
-    AucPoint high = auc_with_drift(config, widest, seed);
+    AucPoint low = auc_with_drift(calibration, 0.0, seed);
+    AucPoint high = auc_with_drift(calibration, widest, seed);
     result.populations_generated = 2;
     if (low.cases == 0 || low.controls == 0)
         throw std::invalid_argument("calibrate_to_auc: the calibration population has " + std::to_string(low.cases) +
@@ -307,7 +316,7 @@ AucCalibration calibrate_to_auc(const GeneratorConfig& input, double target_auc,
     double best_drift = low_closer ? 0.0 : widest;
     for (int step = 0; step < 60 && std::abs(best.auc - target_auc) > auc_tolerance; ++step) {
         const double mid = 0.5 * (lo + hi);
-        AucPoint p = auc_with_drift(config, mid, seed);
+        AucPoint p = auc_with_drift(calibration, mid, seed);
         ++result.populations_generated;
         if (std::abs(p.auc - target_auc) < std::abs(best.auc - target_auc)) {
             best = p;
@@ -322,6 +331,7 @@ AucCalibration calibrate_to_auc(const GeneratorConfig& input, double target_auc,
     result.drift_size = best_drift;
     result.cases = best.cases;
     result.controls = best.controls;
+    result.calibration_period_end = calibration.period_end;
     return result;
 }
 

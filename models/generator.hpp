@@ -82,7 +82,8 @@ struct GeneratorConfig {
     Instant period_start = 0;  // the population covers [period_start, period_end)
     Instant period_end = 0;
     // Arrivals start this long before period_start so that the census at the
-    // start is already realistic; stays still present at period_start are kept.
+    // start is already realistic; stays still present at period_start are kept
+    // with all their scores (like a log extract of everyone on the unit).
     double warmup_days = 14.0;
     TimeZone zone = TimeZone::utc();  // hour of week is read on this local clock
 };
@@ -107,12 +108,17 @@ struct GenerationSummary {
 };
 
 // Called once per kept encounter, unit by unit, in admission order within a
-// unit. `scores` holds the usable scores only, in rule order; the span is
+// unit. An arrival that finds every bed taken is turned away and counted in
+// Exclusions::encounters_by_reason ("arrival turned away, unit full: <unit>";
+// only arrivals inside the period count); a scheduled score that goes missing
+// is counted in notes. `scores` holds the usable scores only, in rule order; the span is
 // valid during the call only.
 using EncounterSink = std::function<void(const Encounter&, std::span<const Score>)>;
 
 // Streaming form: the population never sits in memory at once (one unit's
-// current occupants and one encounter's scores at a time).
+// current occupants and one encounter's scores at a time). Encounters come
+// unit by unit, not in global time order: a consumer that needs time order
+// across units (shared staff queues) must merge per-unit streams itself.
 GenerationSummary generate_streaming(const GeneratorConfig& config, std::uint64_t seed, std::uint64_t replication,
                                      const EncounterSink& sink);
 
@@ -122,20 +128,30 @@ Population generate_population(const GeneratorConfig& config, std::uint64_t seed
 // What calibrate_to_auc found.
 struct AucCalibration {
     GeneratorConfig config;        // the input with drift_size and outcome probability set
-    double achieved_auc = 0.0;     // on the calibration population (seed, replication 0)
+    double achieved_auc = 0.0;     // on the calibration population
     double drift_size = 0.0;
     int populations_generated = 0;
-    std::int64_t cases = 0;
+    std::int64_t cases = 0;        // with a usable score, in the calibration population
     std::int64_t controls = 0;
+    // The calibration population: `config` over [config.period_start,
+    // calibration_period_end), replication 0 of the given seed.
+    Instant calibration_period_end = 0;
 };
 
 // Sets outcome.probability to the target rate and finds scores.drift_size by
 // bisection so that the encounter-level AUC (each encounter's highest usable
-// score; Mann-Whitney) of the population generated with `seed`, replication 0,
-// matches `target_auc` within `auc_tolerance`. With common random numbers the
-// AUC does not decrease as the drift grows, so bisection is safe. Throws
-// std::invalid_argument, saying which AUCs are reachable, when the target is not.
+// score; Mann-Whitney) of a calibration population matches `target_auc`
+// within `auc_tolerance`. With common random numbers the AUC does not
+// decrease as the drift grows, so bisection is safe.
+//
+// The calibration population is not the scenario's period but one long
+// enough for about `calibration_cases` expected cases (at least 28 days, at
+// most 3 years), starting at period_start: the knob should carry the target
+// discrimination, not the sampling noise of a small hospital-month (with
+// 1,000 cases the AUC's standard error is about 0.01), and a large hospital
+// needs only part of its year. Throws std::invalid_argument, saying which
+// AUCs are reachable, when the target is not.
 AucCalibration calibrate_to_auc(const GeneratorConfig& config, double target_auc, double target_outcome_rate,
-                                std::uint64_t seed, double auc_tolerance = 0.002);
+                                std::uint64_t seed, double auc_tolerance = 0.002, double calibration_cases = 1000);
 
 }  // namespace tocsin

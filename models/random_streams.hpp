@@ -23,6 +23,8 @@ enum class StreamPurpose : std::uint64_t {
     evaluation_bootstrap = 9,
     shift = 10,             // entity: unit
     staff = 11,             // entity: plan
+    chart_acceptance = 12,  // entity: encounter; one draw per chart opening, shared by every plan
+    handoff_follow_up = 13, // entity: encounter; one draw per handoff the patient is present for
 };
 
 // SplitMix64 finaliser (Steele, Lea & Flood 2014): a bijective 64-bit mix.

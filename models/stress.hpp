@@ -15,8 +15,9 @@
 // - cadence_minutes: from `from`, at most one score per encounter in each
 //   cadence-long window counted from `from` (the first one). A log can only be
 //   thinned: to score more often, generate with a faster cadence instead.
-// - outage: no score becomes available in [outage_start, outage_start +
-//   outage_hours); those scores are counted as excluded, reason "feed outage".
+// - outage (the whole feed, every unit): no score becomes available in
+//   [outage_start, outage_start + outage_hours); those scores are counted as
+//   excluded, reason "feed outage (shift stress test)".
 // - census_multiplier (per unit, >= 1): extra admissions after `from`, about
 //   (multiplier - 1) per admission, each a copy of a random stay of that unit
 //   admitted within 30 minutes of the one it follows. Beds are not enforced:

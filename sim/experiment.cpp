@@ -4,6 +4,7 @@
 #include <atomic>
 #include <exception>
 #include <mutex>
+#include <stdexcept>
 #include <thread>
 #include <vector>
 
@@ -12,6 +13,9 @@ namespace tocsin {
 void run_experiment(const Scenario& scenario, const PopulationFactory& make_population,
                     const ExperimentOptions& options, const ReplicationObserver& observe) {
     const std::uint64_t total = options.replications;
+    if (options.replayed_openings && total > 1)
+        throw std::invalid_argument("replayed chart openings belong to the replayed log and cannot be used with "
+                                    "more than one replication; generate chart openings instead");
     const unsigned workers =
         static_cast<unsigned>(std::max<std::uint64_t>(1, std::min<std::uint64_t>(options.threads, total)));
     // With fewer replications than threads, the spare threads work inside a replication.
@@ -27,7 +31,8 @@ void run_experiment(const Scenario& scenario, const PopulationFactory& make_popu
             try {
                 const Population population = make_population(r);
                 const ShiftCalendar calendar = calendar_for(scenario, population);
-                const ReplicationRecord record = simulate_replication(scenario, population, calendar, r, inner);
+                const ReplicationRecord record =
+                    simulate_replication(scenario, population, calendar, r, inner, options.replayed_openings);
                 observe(r, population, calendar, record);
             } catch (...) {
                 errors[r] = std::current_exception();

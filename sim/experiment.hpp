@@ -23,6 +23,9 @@ struct ExperimentOptions {
     std::uint64_t replications = 1;
     unsigned threads = 1;
     ProgressReport progress;  // called from worker threads, serialised; may be empty
+    // Chart openings replayed from a log; they belong to the replayed log
+    // itself, so only a plain replay (one replication) may use them.
+    const ChartOpeningLog* replayed_openings = nullptr;
 };
 
 // Runs replications 0 .. replications-1. If any replication throws, the error

@@ -22,6 +22,14 @@ struct Notice {
     std::uint32_t plan = 0;       // index into the scenario's plans
     NoticeReason reason = NoticeReason::first;
     Channel channel = Channel::page;
+    // Whether the notice asks for a bedside evaluation task (the staff model's
+    // input, and the only notices that can catch a case). A page always asks;
+    // a chart interruption asks when accepted, a handoff flag when followed
+    // up; a ranked review is itself the evaluation.
+    bool asks_evaluation = true;
+    // For a chart interruption: the opener's role, an index into the
+    // scenario's chart-opening roles; 0 for other channels.
+    std::uint8_t opener_role = 0;
 };
 
 }  // namespace tocsin

@@ -54,8 +54,9 @@ std::string describe_prepared(const Scenario& sc, const PreparedPopulation& p) {
         o.setf(std::ios::fixed);
         o.precision(3);
         o << "Calibration: drift_size " << p.calibration->drift_size << " gives an encounter-level AUC of "
-          << p.calibration->achieved_auc << " (target " << *sc.target_auc << ") on " << p.calibration->cases
-          << " cases and " << p.calibration->controls << " controls of replication 0.\n";
+          << p.calibration->achieved_auc << " (target " << *sc.target_auc << ") on a calibration population of "
+          << (p.calibration->calibration_period_end - p.generator.period_start) / 86400 << " days with "
+          << p.calibration->cases << " cases and " << p.calibration->controls << " controls.\n";
     }
     return o.str();
 }

@@ -11,45 +11,64 @@ bool in_quiet_hours(const Rule& rule, const TimeZone& zone, Instant at) {
     return minute >= start || minute < end;
 }
 
+void RuleState::see(const Score& s) {
+    seen_ = true;
+    latest_ = s.value;
+    run_ = s.value >= rule_->threshold ? run_ + 1 : 0;
+    if (rule_->rearm_below && s.value < *rule_->rearm_below) armed_ = true;
+}
+
+std::optional<NoticeReason> RuleState::would_fire(Instant at) const {
+    if (!seen_ || run_ < rule_->persistence) return std::nullopt;
+    NoticeReason reason;
+    if (!fired_before_) {
+        reason = NoticeReason::first;
+    } else if (armed_ && (!rule_->snooze || at >= last_fire_ + *rule_->snooze)) {
+        reason = NoticeReason::repeat;
+    } else if (rule_->rise && latest_ >= reference_ + *rule_->rise) {
+        reason = NoticeReason::rise;  // only when the rise is what lets it fire
+    } else {
+        return std::nullopt;
+    }
+    if (clock_.zone && in_quiet_hours(*rule_, *clock_.zone, at)) return std::nullopt;
+    if (rule_->max_per_shift && clock_.shifts->index_of(at) == cap_shift_ &&
+        fired_in_cap_shift_ >= *rule_->max_per_shift)
+        return std::nullopt;
+    return reason;
+}
+
+void RuleState::fired(Instant at, NoticeReason) {
+    if (rule_->max_per_shift) {
+        const std::size_t shift = clock_.shifts->index_of(at);
+        if (shift != cap_shift_) {
+            cap_shift_ = shift;
+            fired_in_cap_shift_ = 0;
+        }
+        ++fired_in_cap_shift_;
+    }
+    fired_before_ = true;
+    last_fire_ = at;
+    reference_ = latest_;
+    armed_ = !rule_->rearm_below.has_value();
+}
+
 void fire_page_rule(const Rule& rule, const RuleClock& clock, std::span<const Score> scores,
                     std::uint32_t encounter, std::uint32_t unit, std::uint32_t plan, Channel channel,
                     std::vector<Notice>& out) {
-    int run = 0;  // consecutive qualifying scores seen
-    bool fired_before = false, armed = true;
-    Instant last_fire = 0;
-    double reference = 0.0;
-    std::size_t cap_shift = SIZE_MAX;
-    int fired_in_cap_shift = 0;
+    RuleState state(rule, clock);
     for (const Score& s : scores) {
-        run = s.value >= rule.threshold ? run + 1 : 0;
-        if (rule.rearm_below && s.value < *rule.rearm_below) armed = true;
-        if (run < rule.persistence) continue;
-
-        NoticeReason reason;
-        if (!fired_before) {
-            reason = NoticeReason::first;
-        } else if (armed && (!rule.snooze || s.available_at >= last_fire + *rule.snooze)) {
-            reason = NoticeReason::repeat;
-        } else if (rule.rise && s.value >= reference + *rule.rise) {
-            reason = NoticeReason::rise;  // only when the rise is what lets it fire
-        } else {
-            continue;
+        state.see(s);
+        if (auto reason = state.fire_if_due(s.available_at)) {
+            Notice n;
+            n.at = s.available_at;
+            n.score = s.value;
+            n.encounter = encounter;
+            n.unit = unit;
+            n.plan = plan;
+            n.reason = *reason;
+            n.channel = channel;
+            out.push_back(n);
         }
-        if (clock.zone && in_quiet_hours(rule, *clock.zone, s.available_at)) continue;
-        if (rule.max_per_shift) {
-            const std::size_t shift = clock.shifts->index_of(s.available_at);
-            if (shift != cap_shift) {
-                cap_shift = shift;
-                fired_in_cap_shift = 0;
-            }
-            if (fired_in_cap_shift >= *rule.max_per_shift) continue;
-            ++fired_in_cap_shift;
-        }
-        out.push_back(Notice{s.available_at, s.value, encounter, unit, plan, reason, channel});
-        fired_before = true;
-        last_fire = s.available_at;
-        reference = s.value;
-        armed = !rule.rearm_below.has_value();
     }
 }
 

@@ -19,6 +19,7 @@
 //   for later.
 // - reason: "first" for the encounter's first firing, then "repeat" when snooze
 //   and re-arm allow it, else "rise" when only the rise override lets it fire.
+#include <cstdint>
 #include <optional>
 #include <span>
 #include <vector>
@@ -50,6 +51,41 @@ struct RuleClock {
 
 // True when the local time of `at` is in [start, end), wrapping midnight when start > end.
 bool in_quiet_hours(const Rule& rule, const TimeZone& zone, Instant at);
+
+// The rule's memory for one encounter and one plan, for channels whose
+// evaluation instants are not the scores themselves (chart openings, handoff
+// and review times). Feed it every score as it becomes available (`see`, in
+// rule order), then ask at an evaluation instant whether the rule fires on the
+// latest score seen. The page rule is this state evaluated at each score.
+class RuleState {
+public:
+    RuleState(const Rule& rule, const RuleClock& clock) : rule_(&rule), clock_(clock) {}
+
+    void see(const Score& score);
+    bool has_seen() const { return seen_; }
+    double latest() const { return latest_; }
+    // Why the rule would fire at `at` on the latest score seen, or nothing; no side effects.
+    std::optional<NoticeReason> would_fire(Instant at) const;
+    // Records a firing at `at` (snooze, rise reference, re-arm and cap follow from it).
+    void fired(Instant at, NoticeReason reason);
+    std::optional<NoticeReason> fire_if_due(Instant at) {
+        auto reason = would_fire(at);
+        if (reason) fired(at, *reason);
+        return reason;
+    }
+
+private:
+    const Rule* rule_;
+    RuleClock clock_;
+    bool seen_ = false;
+    double latest_ = 0.0;
+    int run_ = 0;  // consecutive qualifying scores seen
+    bool fired_before_ = false, armed_ = true;
+    Instant last_fire_ = 0;
+    double reference_ = 0.0;
+    std::size_t cap_shift_ = SIZE_MAX;
+    int fired_in_cap_shift_ = 0;
+};
 
 // Appends the notices this rule fires for one encounter, in time order.
 void fire_page_rule(const Rule& rule, const RuleClock& clock, std::span<const Score> scores,

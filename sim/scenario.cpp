@@ -4,6 +4,7 @@
 #include <cmath>
 #include <filesystem>
 #include <fstream>
+#include <limits>
 #include <numeric>
 #include <set>
 #include <sstream>
@@ -23,9 +24,12 @@ std::string resolve(const std::string& directory, const std::string& path) {
     return (std::filesystem::path(directory) / p).lexically_normal().string();
 }
 
-Rule parse_rule(const Section& s) {
+Rule parse_rule(const Section& s, Channel channel) {
     Rule r;
-    r.threshold = *s.optional_real("threshold");
+    const bool review = channel == Channel::ranked_review;
+    if (s.has("threshold")) r.threshold = *s.optional_real("threshold");
+    else if (review) r.threshold = -std::numeric_limits<double>::infinity();  // no floor
+    else s.fail("threshold", "required key 'threshold' is missing (a score qualifies when >= threshold)");
     r.persistence = static_cast<int>(s.integer("persistence", 1));
     if (auto v = s.optional_real("snooze_minutes")) r.snooze = seconds_from_minutes(*v);
     r.rise = s.optional_real("rise");
@@ -40,6 +44,27 @@ Rule parse_rule(const Section& s) {
         s.fail(r.quiet_start_minute ? "quiet_from" : "quiet_until", "quiet hours need both quiet_from and quiet_until");
     if (r.quiet_start_minute && *r.quiet_start_minute == *r.quiet_end_minute)
         s.fail("quiet_until", "quiet_from and quiet_until are equal; leave both out for no quiet hours");
+    // Clauses that make no sense for a channel whose instants are few and fixed.
+    const char* quiet_key = s.has("quiet_from") ? "quiet_from" : "quiet_until";
+    if (channel == Channel::handoff_list) {
+        if (r.max_per_shift)
+            s.fail("max_per_shift", "a handoff list flags a patient at most once per handoff, so a per-shift cap does "
+                                    "not apply; keep a patient off the next lists with snooze_minutes instead");
+        if (r.quiet_start_minute)
+            s.fail(quiet_key, "a handoff list is read only at its handoff times, so quiet hours do not apply; leave "
+                              "a time out of handoff.times instead");
+    }
+    if (review) {
+        if (r.snooze)
+            s.fail("snooze_minutes", "a ranked review skips recently reviewed patients with review.skip_reviewed_hours, "
+                                     "not snooze_minutes");
+        if (r.max_per_shift)
+            s.fail("max_per_shift", "a patient is reviewed at most once per round, so a per-shift cap does not apply; "
+                                    "cap the team's work with review.max_reviews_per_round");
+        if (r.quiet_start_minute)
+            s.fail(quiet_key, "a ranked review happens only at its review.times, so quiet hours do not apply; choose "
+                              "the review times instead");
+    }
     return r;
 }
 
@@ -163,8 +188,116 @@ EscalationGraph parse_escalation(const Section& top, const std::vector<Role>& ro
 
 Channel parse_channel(const Section& s) {
     const std::string c = s.text("channel", "page");
-    if (c == "page") return Channel::page;
-    s.fail("channel", "unknown channel '" + c + "' (expected: page)");
+    for (Channel k : {Channel::page, Channel::chart_interruption, Channel::handoff_list, Channel::ranked_review})
+        if (c == to_string(k)) return k;
+    s.fail("channel", "unknown channel '" + c + "' (expected: page, chart_interruption, handoff_list or ranked_review)");
+}
+
+std::vector<int> clock_list(const Section& s, std::string_view key) {
+    std::vector<int> out;
+    if (!s.has(key)) return out;
+    for (const auto& item : s.child(key)) {
+        std::optional<int> m;
+        if (item.IsScalar()) m = parse_clock_minutes(item.Scalar());
+        if (!m) throw s.error(item, key, "expected a list of local times of day as \"HH:MM\" (quoted)");
+        if (std::find(out.begin(), out.end(), *m) != out.end()) throw s.error(item, key, "the same time appears twice");
+        out.push_back(*m);
+    }
+    std::sort(out.begin(), out.end());
+    if (out.empty()) s.fail(key, "at least one time is needed");
+    return out;
+}
+
+ChartOpeningSource parse_chart_openings(const Section& s, const std::string& directory) {
+    ChartOpeningSource src;
+    if (s.has("replay")) src.replay_path = resolve(directory, s.text("replay"));
+    std::size_t i = 0;
+    for (const auto& node : s.child("roles")) {
+        Section r(node, "chart_openings.roles[]", s.file(), "chart_openings.roles[" + std::to_string(i++) + "]");
+        ChartOpeningRole role;
+        role.name = r.text("name");
+        if (role.name.empty()) r.fail("name", "role name is empty");
+        for (const auto& other : src.roles)
+            if (other.name == role.name) r.fail("name", "two chart-opening roles are named '" + role.name + "'");
+        role.clinicians_per_unit = r.real("clinicians_per_unit", 1);
+        const std::vector<double> rates = r.real_list("openings_per_hour");
+        if (!r.has("openings_per_hour") && src.replay_path.empty())
+            r.fail("openings_per_hour", "generated chart openings need a rate for each role (or give chart_openings.replay)");
+        if (r.has("openings_per_hour")) {
+            if (rates.size() != 1 && rates.size() != 24)
+                r.fail("openings_per_hour", "expected one rate (all day) or 24 rates (hour 00 first), found " +
+                                                std::to_string(rates.size()));
+            for (double v : rates)
+                if (!std::isfinite(v) || v < 0 || v > 1000)
+                    r.fail("openings_per_hour", "rates must be between 0 and 1000 openings per patient per hour");
+            for (std::size_t h = 0; h < 24; ++h) role.openings_per_hour[h] = rates.size() == 1 ? rates[0] : rates[h];
+        }
+        src.roles.push_back(std::move(role));
+    }
+    if (src.roles.empty()) s.fail("roles", "at least one role is needed");
+    if (src.roles.size() > 255) s.fail("roles", "at most 255 chart-opening roles");
+    return src;
+}
+
+// The channel's own section: required for its channel, rejected for others.
+void parse_channel_settings(const Section& s, Plan& p, const Scenario& sc, const std::string& where) {
+    struct Own { const char* key; Channel channel; };
+    for (Own own : {Own{"chart", Channel::chart_interruption}, Own{"handoff", Channel::handoff_list},
+                    Own{"review", Channel::ranked_review}}) {
+        if (own.channel == p.channel && !s.has(own.key))
+            s.fail("channel", "a " + std::string(to_string(own.channel)) + " plan needs a '" + own.key +
+                                  "' section (see plans[]." + own.key + ")");
+        if (own.channel != p.channel && s.has(own.key))
+            s.fail(own.key, "a '" + std::string(own.key) + "' section applies only to channel " +
+                                std::string(to_string(own.channel)) + ", not " + std::string(to_string(p.channel)));
+    }
+    if (p.channel == Channel::chart_interruption) {
+        Section c(s.child("chart"), "plans[].chart", s.file(), where + ".chart");
+        if (!sc.chart_openings)
+            s.fail("channel", "a chart_interruption plan needs the top-level chart_openings section (when charts are opened)");
+        p.chart.interruption_minutes = c.real("interruption_minutes", 0);
+        p.chart.acceptance_probability = c.real("acceptance_probability", 1);
+        if (s.has("role")) {
+            const auto& roles = sc.chart_openings->roles;
+            std::size_t r = 0;
+            while (r < roles.size() && roles[r].name != p.role) ++r;
+            if (r == roles.size())
+                s.fail("role", "a chart interruption goes to whoever opens the chart: role must be one of the "
+                               "chart_openings roles, or left out for every role");
+            p.chart.role = static_cast<std::uint8_t>(r);
+        }
+    } else if (p.channel == Channel::handoff_list) {
+        Section h(s.child("handoff"), "plans[].handoff", s.file(), where + ".handoff");
+        p.handoff.times_minutes = clock_list(h, "times");
+        p.handoff.minutes_per_flag = h.real("minutes_per_flag", 0);
+        p.handoff.follow_up_probability = h.real("follow_up_probability", 1);
+    } else if (p.channel == Channel::ranked_review) {
+        Section r(s.child("review"), "plans[].review", s.file(), where + ".review");
+        p.review.times_minutes = clock_list(r, "times");
+        p.review.top_n = static_cast<int>(r.integer("top_n", 10));
+        const std::string scope = r.text("scope", "unit");
+        if (scope == "unit") p.review.scope = ReviewScope::unit;
+        else if (scope == "hospital") p.review.scope = ReviewScope::hospital;
+        else r.fail("scope", "unknown scope '" + scope + "' (expected: unit or hospital)");
+        if (auto h = r.optional_real("skip_reviewed_hours")) p.rule.snooze = static_cast<Seconds>(std::llround(*h * 3600));
+        p.review.minutes_per_review = r.real("minutes_per_review", 0);
+        const bool by_max = r.has("max_reviews_per_round");
+        const bool by_team = r.has("team_size") || r.has("team_minutes_per_round");
+        if (by_max && by_team)
+            r.fail("max_reviews_per_round", "give the team's capacity either as max_reviews_per_round or as team_size "
+                                            "with team_minutes_per_round, not both");
+        if (by_max) p.review.max_reviews_per_round = static_cast<int>(*r.optional_integer("max_reviews_per_round"));
+        if (by_team) {
+            if (!r.has("team_size") || !r.has("team_minutes_per_round"))
+                r.fail(r.has("team_size") ? "team_size" : "team_minutes_per_round",
+                       "team capacity needs both team_size and team_minutes_per_round");
+            if (!(p.review.minutes_per_review > 0))
+                r.fail("minutes_per_review", "a capacity in team minutes needs minutes_per_review above 0");
+            const double reviews = static_cast<double>(*r.optional_integer("team_size")) *
+                                   *r.optional_real("team_minutes_per_round") / p.review.minutes_per_review;
+            p.review.max_reviews_per_round = static_cast<int>(std::floor(reviews + 1e-9));
+        }
+    }
 }
 
 Instant timestamp(const Section& s, std::string_view key, const TimeZone& zone) {
@@ -438,6 +571,9 @@ Scenario parse_scenario(const std::string& yaml_text, const std::string& file, c
     }
     if (top.has("roles")) sc.roles = parse_roles(top, sc.shifts, file);
     sc.escalation = parse_escalation(top, sc.roles, file);
+    if (top.has("chart_openings"))
+        sc.chart_openings = parse_chart_openings(Section(top.child("chart_openings"), "chart_openings", file, "chart_openings"),
+                                                 directory);
     {
         YAML::Node list = top.child("plans");
         std::set<std::string> names;
@@ -450,7 +586,7 @@ Scenario parse_scenario(const std::string& yaml_text, const std::string& file, c
             if (!names.insert(p.name).second) s.fail("name", "two plans are named '" + p.name + "'");
             p.description = s.text("description");
             p.channel = parse_channel(s);
-            p.role = s.text("role", "responder");
+            p.role = s.text("role", p.channel == Channel::chart_interruption ? "whoever opens the chart" : "responder");
             if (sc.has_staff()) {
                 std::vector<std::string> names;
                 for (const Role& r : sc.roles) names.push_back(r.name);
@@ -473,7 +609,14 @@ Scenario parse_scenario(const std::string& yaml_text, const std::string& file, c
                 s.fail("at_shift_end", "unknown policy '" + at_end + "' (expected hand_over or drop)");
             if (!sc.has_staff() && (s.has("queue") || s.has("at_shift_end")))
                 s.fail(s.has("queue") ? "queue" : "at_shift_end", "needs roles; declare the roles that answer notices");
-            p.rule = parse_rule(Section(s.child("rule"), "plans[].rule", file, "plans[" + std::to_string(i - 1) + "].rule"));
+            const std::string where = "plans[" + std::to_string(i - 1) + "]";
+            if (s.has("rule"))
+                p.rule = parse_rule(Section(s.child("rule"), "plans[].rule", file, where + ".rule"), p.channel);
+            else if (p.channel == Channel::ranked_review)
+                p.rule.threshold = -std::numeric_limits<double>::infinity();  // no floor
+            else
+                s.fail("rule", "required key 'rule' is missing (when the plan fires)");
+            parse_channel_settings(s, p, sc, where);
             sc.plans.push_back(std::move(p));
         }
         if (sc.plans.empty()) top.fail("plans", "at least one plan is needed");
@@ -503,7 +646,7 @@ std::string duration_words(Seconds s) {
 }  // namespace
 
 std::string describe_rule(const Rule& r, const std::string& label) {
-    std::string out = label + " >= " + num(r.threshold);
+    std::string out = std::isinf(r.threshold) ? "any " + label : label + " >= " + num(r.threshold);
     if (r.persistence > 1) out += " on " + std::to_string(r.persistence) + " scores in a row";
     if (r.snooze) out += "; snooze " + duration_words(*r.snooze);
     if (r.rise) out += "; a rise of " + num(*r.rise) + " fires through snooze";
@@ -554,8 +697,29 @@ std::string describe_scenario(const Scenario& sc) {
     }
     o << "\nPlans (" << sc.plans.size() << "):\n";
     for (const Plan& p : sc.plans) {
+        Rule shown = p.rule;
+        if (p.channel == Channel::ranked_review) shown.snooze.reset();  // shown as the review's skip below
         o << "  - " << p.name << ": " << to_string(p.channel) << " to " << p.role << " when "
-          << describe_rule(p.rule, sc.score_label) << "\n";
+          << describe_rule(shown, sc.score_label) << "\n";
+        if (p.channel == Channel::chart_interruption)
+            o << "      at each chart opening; " << num(p.chart.interruption_minutes) << " min per interruption; "
+              << num(p.chart.acceptance_probability) << " of interruptions lead to an evaluation\n";
+        if (p.channel == Channel::handoff_list) {
+            o << "      flagged at each handoff (";
+            const auto& times = p.handoff.times_minutes.empty() ? sc.shifts.start_minutes : p.handoff.times_minutes;
+            for (std::size_t k = 0; k < times.size(); ++k) o << (k ? ", " : "") << format_clock_minutes(times[k]);
+            o << "); " << num(p.handoff.minutes_per_flag) << " min per flag; " << num(p.handoff.follow_up_probability)
+              << " of flags lead to an evaluation\n";
+        }
+        if (p.channel == Channel::ranked_review) {
+            o << "      top " << p.review.top_n << (p.review.scope == ReviewScope::unit ? " per unit" : " hospital-wide")
+              << " at";
+            for (int t : p.review.times_minutes) o << " " << format_clock_minutes(t);
+            o << "; " << num(p.review.minutes_per_review) << " min per review";
+            if (p.rule.snooze) o << "; skips patients reviewed in the last " << duration_words(*p.rule.snooze);
+            if (p.review.max_reviews_per_round) o << "; at most " << *p.review.max_reviews_per_round << " reviews per round";
+            o << "\n";
+        }
         if (!p.description.empty()) o << "      " << p.description << "\n";
         if (sc.has_staff()) {
             o << "      escalation: " << describe(sc.escalation, escalation_path(sc.escalation, p.staffing.first_role))
@@ -581,6 +745,12 @@ std::string describe_scenario(const Scenario& sc) {
         }
     } else {
         o << "Staff: none declared; every notice counts as evaluated at once.\n";
+    }
+    if (sc.chart_openings) {
+        o << "Chart openings: " << (sc.chart_openings->replay_path.empty() ? "generated" : "replayed from " + sc.chart_openings->replay_path)
+          << "; roles:";
+        for (const auto& r : sc.chart_openings->roles) o << " " << r.name << " (" << num(r.clinicians_per_unit) << " per unit)";
+        o << "\n";
     }
     return o.str();
 }

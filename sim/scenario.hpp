@@ -9,9 +9,11 @@
 
 #include "models/bootstrap.hpp"
 #include "models/generator.hpp"
+#include "models/chart_openings.hpp"
 #include "models/replay.hpp"
 #include "models/stress.hpp"
 #include "models/time.hpp"
+#include "sim/channel_types.hpp"
 #include "sim/notice.hpp"
 #include "sim/rules.hpp"
 #include "sim/shifts.hpp"
@@ -28,6 +30,9 @@ struct Plan {
     std::string role;  // who answers
     Rule rule;
     StaffPlan staffing;  // first_role indexes Scenario::roles (when roles are declared)
+    ChartSettings chart;      // channel chart_interruption
+    HandoffSettings handoff;  // channel handoff_list
+    ReviewSettings review;    // channel ranked_review (its skip window is rule.snooze)
 };
 
 enum class PopulationSource { replay, generate };
@@ -66,6 +71,7 @@ struct Scenario {
     std::vector<Role> roles;
     EscalationGraph escalation;  // over `roles`, validated at load
     bool has_staff() const { return !roles.empty(); }
+    std::optional<ChartOpeningSource> chart_openings;  // needed by chart-interruption plans
 };
 
 // The staff of a scenario for a population with `unit_count` units.

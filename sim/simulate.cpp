@@ -2,7 +2,10 @@
 
 #include <algorithm>
 #include <atomic>
+#include <stdexcept>
 #include <thread>
+
+#include "sim/channels.hpp"
 
 namespace tocsin {
 
@@ -18,24 +21,42 @@ ShiftCalendar calendar_for(const Scenario& scenario, const Population& populatio
 }
 
 ReplicationRecord simulate_replication(const Scenario& scenario, const Population& population,
-                                       const ShiftCalendar& calendar, std::uint64_t replication, unsigned threads) {
+                                       const ShiftCalendar& calendar, std::uint64_t replication, unsigned threads,
+                                       const ChartOpeningLog* replayed_openings) {
     const std::size_t n_plans = scenario.plans.size();
     const std::size_t n_enc = population.encounters.size();
     threads = std::max(1u, std::min<unsigned>(threads, static_cast<unsigned>(std::max<std::size_t>(1, n_enc / 1024))));
     // blocks[b][plan]: notices of encounters in block b, in encounter order.
     std::vector<std::vector<std::vector<Notice>>> blocks(threads, std::vector<std::vector<Notice>>(n_plans));
     const RuleClock clock{&scenario.zone, &calendar};
+    std::vector<std::vector<std::int64_t>> occasions(threads, std::vector<std::int64_t>(n_plans, 0));
+    const bool any_chart = std::any_of(scenario.plans.begin(), scenario.plans.end(),
+                                       [](const Plan& p) { return p.channel == Channel::chart_interruption; });
+    if (any_chart && scenario.chart_openings && !scenario.chart_openings->replay_path.empty() && !replayed_openings)
+        throw std::logic_error("the scenario replays chart openings but none were passed to the simulation");
     auto work = [&](unsigned b) {
         const std::size_t first = n_enc * b / threads, last = n_enc * (b + 1) / threads;
+        EncounterOpenings openings;
         for (std::size_t e = first; e < last; ++e) {
             const auto scores = population.scores_of(e);
-            if (scores.empty()) continue;
+            if (scores.empty() && !any_chart) continue;
             const auto enc = static_cast<std::uint32_t>(e);
             const std::uint32_t unit = population.encounters[e].unit;
+            // Openings are drawn once per encounter and shared by every chart plan.
+            if (any_chart) openings_for_encounter(scenario, population, replayed_openings, e, replication, openings);
             // All plans for one encounter while its scores are in cache.
-            for (std::size_t p = 0; p < n_plans; ++p)
-                fire_page_rule(scenario.plans[p].rule, clock, scores, enc, unit, static_cast<std::uint32_t>(p),
-                               scenario.plans[p].channel, blocks[b][p]);
+            for (std::size_t p = 0; p < n_plans; ++p) {
+                const Plan& plan = scenario.plans[p];
+                const auto pi = static_cast<std::uint32_t>(p);
+                if (plan.channel == Channel::page) {
+                    fire_page_rule(plan.rule, clock, scores, enc, unit, pi, plan.channel, blocks[b][p]);
+                    occasions[b][p] += static_cast<std::int64_t>(scores.size());
+                } else if (plan.channel == Channel::chart_interruption) {
+                    occasions[b][p] += fire_chart_rule(plan, clock, scores, openings, enc, unit, pi, blocks[b][p]);
+                }
+                // Handoff lists and ranked reviews share their instants across
+                // patients: they run below as sweeps over the current inpatients.
+            }
         }
     };
     if (threads == 1) {
@@ -50,8 +71,17 @@ ReplicationRecord simulate_replication(const Scenario& scenario, const Populatio
     record.plans.resize(n_plans);
     for (std::size_t p = 0; p < n_plans; ++p) {
         auto& out = record.plans[p].notices;
+        const Plan& plan = scenario.plans[p];
+        if (plan.channel == Channel::handoff_list || plan.channel == Channel::ranked_review) {
+            record.plans[p] = run_round_channel(scenario, population, calendar, plan, static_cast<std::uint32_t>(p),
+                                                replication);
+            continue;
+        }
         std::size_t total = 0;
-        for (unsigned b = 0; b < threads; ++b) total += blocks[b][p].size();
+        for (unsigned b = 0; b < threads; ++b) {
+            total += blocks[b][p].size();
+            record.plans[p].occasions += occasions[b][p];
+        }
         out.reserve(total);
         for (unsigned b = 0; b < threads; ++b) {
             out.insert(out.end(), blocks[b][p].begin(), blocks[b][p].end());
@@ -74,8 +104,20 @@ ReplicationRecord simulate_replication(const Scenario& scenario, const Populatio
             for (std::size_t k = next++; k < n_plans; k = next++) {
                 const std::size_t p = order[k];
                 RandomEngine minutes = make_stream(scenario.seed, replication, StreamPurpose::task_minutes, p);
-                record.plans[p].staff = simulate_staff(record.plans[p].notices, model, scenario.plans[p].staffing,
-                                                       calendar, calendar.shifts().back().end, minutes);
+                // Only notices that ask for a bedside evaluation become tasks (an
+                // interruption that is dismissed, a flag nobody follows up, do not).
+                const auto& notices = record.plans[p].notices;
+                std::vector<Notice> asked;
+                std::vector<std::uint32_t> original;
+                for (std::uint32_t i = 0; i < notices.size(); ++i)
+                    if (notices[i].asks_evaluation) {
+                        asked.push_back(notices[i]);
+                        original.push_back(i);
+                    }
+                StaffRun run = simulate_staff(asked, model, scenario.plans[p].staffing, calendar,
+                                              calendar.shifts().back().end, minutes);
+                for (TaskRecord& t : run.tasks) t.notice = original[t.notice];
+                record.plans[p].staff = std::move(run);
             }
         };
         const std::size_t workers = std::min<std::size_t>(std::max(1u, threads), n_plans);

@@ -3,6 +3,7 @@
 // (common random numbers), recording every notice.
 #include <cstdint>
 #include <optional>
+#include <utility>
 #include <vector>
 
 #include "models/population.hpp"
@@ -15,9 +16,17 @@ namespace tocsin {
 
 struct PlanRecord {
     std::vector<Notice> notices;  // in time order (ties: encounter, then score order)
-    // The tasks those notices gave the staff, one per notice in the same order;
+    // The tasks those notices gave the staff, one per notice that asks for an
+    // evaluation, in notice order (TaskRecord::notice indexes `notices`);
     // present when the scenario declares roles.
     std::optional<StaffRun> staff;
+    // Evaluation instants the rule was asked at: usable scores (page), chart
+    // openings by the plan's roles, unit handoffs, review rounds per scope.
+    std::int64_t occasions = 0;
+    std::vector<Round> rounds;  // handoff list and ranked review, in time order
+    // Ranked review: (encounter, round instant) for every patient on a top-N
+    // list, reviewed or left over by the team's capacity.
+    std::vector<std::pair<std::uint32_t, Instant>> listed;
 };
 
 struct ReplicationRecord {
@@ -29,10 +38,13 @@ struct ReplicationRecord {
 ShiftCalendar calendar_for(const Scenario& scenario, const Population& population);
 
 // Runs every plan on the population, then (when the scenario declares roles)
-// each plan's notices through its own staff, with the plan's task_minutes stream. `threads` splits encounters into blocks;
-// the record is identical whatever the thread count.
+// each plan's notices through its own staff, with the plan's task_minutes
+// stream. `threads` splits encounters into blocks; the record is identical
+// whatever the thread count. Chart-interruption plans read `replayed_openings`
+// when the scenario replays chart openings (see load_chart_openings), and
+// generate them otherwise.
 ReplicationRecord simulate_replication(const Scenario& scenario, const Population& population,
                                        const ShiftCalendar& calendar, std::uint64_t replication,
-                                       unsigned threads = 1);
+                                       unsigned threads = 1, const ChartOpeningLog* replayed_openings = nullptr);
 
 }  // namespace tocsin

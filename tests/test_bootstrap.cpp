@@ -140,10 +140,12 @@ TEST_CASE("bootstrap.census_and_outcome_rate_stay_realistic") {
     for (BlockScheme scheme : {BlockScheme::stationary, BlockScheme::moving_block}) {
         BootstrapConfig c;
         c.scheme = scheme;
+        std::vector<Population> replications;
+        for (std::uint64_t r = 1; r <= 40; ++r) replications.push_back(bootstrap_population(log, c, 9, r));
         for (std::uint32_t unit = 0; unit < 2; ++unit) {
             const Totals original = totals(log, unit);
             std::vector<Totals> reps;
-            for (std::uint64_t r = 1; r <= 40; ++r) reps.push_back(totals(bootstrap_population(log, c, 9, r), unit));
+            for (const Population& p : replications) reps.push_back(totals(p, unit));
             auto check_mean = [&](double Totals::*field, const char* what) {
                 double m = 0, ss = 0;
                 for (const Totals& t : reps) m += t.*field / 40;

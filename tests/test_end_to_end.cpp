@@ -3,6 +3,7 @@
 // unless asked, and no partial output when the input is bad.
 #include <doctest/doctest.h>
 
+#include <algorithm>
 #include <filesystem>
 
 #include "test_support.hpp"
@@ -41,6 +42,7 @@ TEST_CASE("end_to_end.demo_golden") {
     check_golden(dir.path("out/staff_workload.csv"), "demo_staff_workload.csv");
     check_golden(dir.path("out/staff_escalations.csv"), "demo_staff_escalations.csv");
     check_golden(dir.path("out/task_fates.csv"), "demo_task_fates.csv");
+    check_golden(dir.path("out/channel_burden.csv"), "demo_channel_burden.csv");
     CHECK(std::filesystem::exists(dir.path("out/CAUTIONS.txt")));
 }
 
@@ -68,11 +70,14 @@ TEST_CASE("end_to_end.patient_ids_only_on_request") {
     }
     REQUIRE(run_tocsin("run " + demo + " --notice-log --out " + dir.path("log")).exit_code == 0);
     const std::string log = read_file(dir.path("log/notice_log.csv"));
-    CHECK(log.rfind("plan,replication,encounter,unit,at,score,reason,channel\n", 0) == 0);
+    CHECK(log.rfind("plan,replication,encounter,unit,at,score,reason,channel,evaluation,opener,delivery_minutes\n", 0) == 0);
+    CHECK(log.find(",chart_interruption,") != std::string::npos);
+    CHECK(log.find(",handoff_list,") != std::string::npos);
+    CHECK(log.find(",ranked_review,") != std::string::npos);
     CHECK(log.find("FH-0") != std::string::npos);
     REQUIRE(run_tocsin("run " + demo + " --task-log --out " + dir.path("tasks")).exit_code == 0);
     const std::string tasks = read_file(dir.path("tasks/task_log.csv"));
-    CHECK(tasks.rfind("plan,task,encounter,unit,score,created,first_role,role,started,ended,", 0) == 0);
+    CHECK(tasks.rfind("plan,replication,task,encounter,unit,score,created,first_role,role,started,ended,", 0) == 0);
     CHECK(tasks.find("FH-0") != std::string::npos);
 }
 
@@ -92,6 +97,24 @@ TEST_CASE("end_to_end.bad_input_writes_nothing") {
     CHECK_FALSE(std::filesystem::exists(dir.path("out")));
     const auto c = run_tocsin("check " + dir.path("demo.yaml"));
     CHECK(c.exit_code == 2);
+}
+
+TEST_CASE("end_to_end.review_size") {
+    // The demo's review plan sized from 1 to 6 per unit: one row per size, and
+    // a one-line answer (or the statement that no size in range reaches the target).
+    ScratchDir dir;
+    const auto r = run_tocsin("review-size " + demo + " --plan review-top4 --sizes 1-6 --target-catch-rate 0.6 --out " +
+                              dir.path("size"));
+    INFO(r.output);
+    REQUIRE(r.exit_code == 0);
+    const std::string csv = read_file(dir.path("size/review_size.csv"));
+    CHECK(csv.rfind("top_n,cases,caught,catch_rate,on_list,on_list_share,reviews,reviews_per_round,minutes_per_round,reaches_target\n", 0) == 0);
+    CHECK(std::count(csv.begin(), csv.end(), '\n') == 7);
+    CHECK((r.output.find("The shortest list reaching a catch rate of 0.6 is N = ") != std::string::npos ||
+           r.output.find("No list length from 1 to 6") != std::string::npos));
+    const auto page = run_tocsin("review-size " + demo + " --plan page-70");
+    CHECK(page.exit_code == 2);
+    CHECK(page.output.find("list sizing needs a ranked_review plan") != std::string::npos);
 }
 
 TEST_CASE("end_to_end.check_describes_the_scenario") {

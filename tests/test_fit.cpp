@@ -30,9 +30,8 @@ GeneratorConfig known_year() {
 }  // namespace
 
 TEST_CASE("fit.recovers_known_parameters") {
-    const GeneratorConfig truth = known_year();
-    const Population pop = generate_population(truth, 1, 0);
-    const GeneratorFit fit = fit_generator(pop);
+    // Generated and fitted once; each SUBCASE re-enters this test case.
+    static const GeneratorFit fit = fit_generator(generate_population(known_year(), 1, 0));
     const GeneratorConfig& f = fit.config;
     const double n = static_cast<double>(fit.encounters_admitted);
     const double controls = n - static_cast<double>(fit.cases);

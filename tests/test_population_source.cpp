@@ -2,6 +2,7 @@
 // keys, their errors, the fitted fragment loading back, and `tocsin fit`.
 #include <doctest/doctest.h>
 
+#include <filesystem>
 #include <stdexcept>
 
 #include "models/errors.hpp"
@@ -172,4 +173,26 @@ TEST_CASE("population_source.plans_do_not_move_patients") {
     for (std::uint64_t r : {0, 5})
         CHECK(testing::serialize(population_for(one, prepare_population(one), r)) ==
               testing::serialize(population_for(two, prepare_population(two), r)));
+}
+
+TEST_CASE("population_source.generated_run_same_bytes_whatever_the_threads") {
+    // The generated example with its stress test, 6 replications, on 1 and on
+    // 2 threads: every output file identical.
+    testing::ScratchDir dir;
+    const std::string scenario = std::string(TOCSIN_SOURCE_DIR) + "/scenarios/generated.yaml";
+    const auto one = testing::run_tocsin("run " + scenario + " -r 6 -j 1 --out " + dir.path("one"));
+    const auto two = testing::run_tocsin("run " + scenario + " -r 6 -j 2 --out " + dir.path("two"));
+    INFO(one.output);
+    REQUIRE(one.exit_code == 0);
+    REQUIRE(two.exit_code == 0);
+    CHECK(one.output.find("Stress test from") != std::string::npos);
+    int compared = 0;
+    for (const auto& entry : std::filesystem::directory_iterator(dir.path("one"))) {
+        const std::string name = entry.path().filename().string();
+        if (name == "run_record.json") continue;  // records the thread count and time taken, by design
+        CHECK_MESSAGE(testing::read_file(entry.path().string()) == testing::read_file(dir.path("two/" + name)), name);
+        ++compared;
+    }
+    CHECK(compared > 5);
+    CHECK(std::filesystem::exists(dir.path("one/shift_effect.csv")));
 }

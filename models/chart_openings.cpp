@@ -1,0 +1,143 @@
+#include "models/chart_openings.hpp"
+
+#include <algorithm>
+#include <unordered_map>
+
+#include <boost/random/exponential_distribution.hpp>
+#include <boost/random/uniform_01.hpp>
+
+#include "models/csv.hpp"
+#include "models/errors.hpp"
+
+namespace tocsin {
+
+int local_hour(const TimeZone& zone, Instant at) {
+    const Instant local = zone.to_local_seconds(at);
+    return static_cast<int>(((local % 86400) + 86400) % 86400 / 3600);
+}
+
+ChartOpeningLog load_chart_openings(const std::string& path, const std::vector<ChartOpeningRole>& roles,
+                                    const Population& pop, const TimeZone& zone) {
+    ChartOpeningLog log;
+    std::unordered_map<std::string, std::uint32_t> index;
+    for (std::uint32_t e = 0; e < pop.encounters.size(); ++e) index.emplace(pop.encounters[e].id, e);
+    std::vector<std::string_view> fields;
+    CsvReader reader(path);
+    if (!reader.next(fields)) throw InputError(path, 1, 0, "", "file is empty (expected a header)");
+    const std::vector<std::string_view> required = {"encounter", "opened_at", "role"};
+    std::vector<std::size_t> col(required.size(), SIZE_MAX);
+    for (std::size_t i = 0; i < fields.size(); ++i) {
+        std::string_view name = fields[i];
+        if (i == 0 && name.substr(0, 3) == "\xEF\xBB\xBF") name.remove_prefix(3);  // UTF-8 byte order mark
+        for (std::size_t r = 0; r < required.size(); ++r) {
+            if (name != required[r]) continue;
+            if (col[r] != SIZE_MAX)
+                throw InputError(path, reader.line(), static_cast<long>(i + 1), std::string(name),
+                                 "column appears twice in the header");
+            col[r] = i;
+        }
+    }
+    for (std::size_t r = 0; r < required.size(); ++r)
+        if (col[r] == SIZE_MAX)
+            throw InputError(path, reader.line(), 0, std::string(required[r]),
+                             "required column is missing from the header (expected columns encounter,opened_at,role "
+                             "in any order; extra columns are ignored)");
+    const std::size_t width = fields.size();
+    std::vector<ChartOpening> openings;
+    std::vector<std::uint32_t> owner;
+    std::int64_t before_admission = 0, after_outcome = 0, after_discharge = 0;
+    while (reader.next(fields)) {
+        if (fields.size() == 1 && fields[0].empty()) continue;  // blank line
+        auto fail = [&](std::size_t c, std::string_view name, const std::string& message) {
+            throw InputError(path, reader.line(), static_cast<long>(c + 1), std::string(name), message);
+        };
+        if (fields.size() != width)
+            throw InputError(path, reader.line(), 0, "",
+                             "expected " + std::to_string(width) + " fields as in the header, found " +
+                                 std::to_string(fields.size()));
+        auto it = index.find(std::string(fields[col[0]]));
+        if (it == index.end())
+            fail(col[0], "encounter", "chart opening for an unknown encounter '" + std::string(fields[col[0]]) + "'");
+        TimestampNote note;
+        auto at = parse_timestamp(fields[col[1]], zone, &note);
+        if (!at)
+            fail(col[1], "opened_at",
+                 "expected a timestamp such as 2026-03-03T19:05:00Z, 2026-03-03T20:05:00+01:00 or "
+                 "2026-03-03 20:05:00 (local time), found '" + std::string(fields[col[1]]) + "'");
+        if (note.mapping == LocalMapping::ambiguous_took_earlier)
+            ++log.notes["local time in a repeated hour (daylight saving ended): earlier instant taken"];
+        else if (note.mapping == LocalMapping::nonexistent_moved_forward)
+            ++log.notes["local time in a skipped hour (daylight saving began): moved forward"];
+        const std::string_view role = fields[col[2]];
+        std::size_t r = 0;
+        while (r < roles.size() && roles[r].name != role) ++r;
+        if (r == roles.size()) {
+            std::string declared;
+            for (const auto& d : roles) declared += (declared.empty() ? "" : ", ") + d.name;
+            fail(col[2], "role", "role '" + std::string(role) + "' is not declared in chart_openings.roles (declared: " +
+                                     declared + ")");
+        }
+        const Encounter& enc = pop.encounters[it->second];
+        if (*at < enc.admitted) { ++before_admission; continue; }
+        if (enc.outcome_at && *at >= *enc.outcome_at) { ++after_outcome; continue; }
+        if (*at >= enc.discharged) { ++after_discharge; continue; }
+        openings.push_back({*at, static_cast<std::uint8_t>(r)});
+        owner.push_back(it->second);
+    }
+    // Group by encounter (stable counting sort), then time order within each group.
+    const std::size_t n = pop.encounters.size();
+    log.start.assign(n + 1, 0);
+    for (std::uint32_t e : owner) ++log.start[e + 1];
+    for (std::size_t e = 0; e < n; ++e) log.start[e + 1] += log.start[e];
+    log.openings.resize(openings.size());
+    std::vector<std::size_t> next(log.start.begin(), log.start.end() - 1);
+    for (std::size_t i = 0; i < openings.size(); ++i) log.openings[next[owner[i]]++] = openings[i];
+    for (std::size_t e = 0; e < n; ++e)
+        std::stable_sort(log.openings.begin() + static_cast<std::ptrdiff_t>(log.start[e]),
+                         log.openings.begin() + static_cast<std::ptrdiff_t>(log.start[e + 1]),
+                         [](const ChartOpening& a, const ChartOpening& b) { return a.at < b.at; });
+    if (before_admission) log.excluded_by_reason["opened before admission"] = before_admission;
+    if (after_outcome) log.excluded_by_reason["opened at or after the outcome (time zero)"] = after_outcome;
+    if (after_discharge) log.excluded_by_reason["opened at or after discharge"] = after_discharge;
+    return log;
+}
+
+void generate_chart_openings(const std::vector<ChartOpeningRole>& roles, const Encounter& enc, const TimeZone& zone,
+                             RandomEngine& stream, std::vector<ChartOpening>& out) {
+    const std::size_t first = out.size();
+    const Instant end = Population::usable_until(enc);
+    for (std::size_t r = 0; r < roles.size(); ++r) {
+        const auto& rate = roles[r].openings_per_hour;
+        const double peak = *std::max_element(rate.begin(), rate.end());
+        if (!(peak > 0)) continue;
+        // Candidates from a homogeneous process at the peak rate; each kept with
+        // probability rate(t) / peak (Lewis & Shedler 1979, thinning).
+        boost::random::exponential_distribution<double> gap_hours(peak);
+        boost::random::uniform_01<double> keep;
+        double t = static_cast<double>(enc.admitted);
+        for (;;) {
+            t += gap_hours(stream) * 3600.0;
+            if (t >= static_cast<double>(end)) break;
+            const auto at = static_cast<Instant>(t);
+            if (keep(stream) * peak < rate[static_cast<std::size_t>(local_hour(zone, at))])
+                out.push_back({at, static_cast<std::uint8_t>(r)});
+        }
+    }
+    std::stable_sort(out.begin() + static_cast<std::ptrdiff_t>(first), out.end(),
+                     [](const ChartOpening& a, const ChartOpening& b) { return a.at < b.at; });
+}
+
+double expected_chart_openings(const ChartOpeningRole& role, const TimeZone& zone, Instant from, Instant to) {
+    double total = 0;
+    for (Instant t = from; t < to;) {
+        const Instant local = zone.to_local_seconds(t);
+        const Instant into_hour = ((local % 3600) + 3600) % 3600;
+        const Instant until = std::min(to, t + (3600 - into_hour));
+        total += role.openings_per_hour[static_cast<std::size_t>(local_hour(zone, t))] *
+                 static_cast<double>(until - t) / 3600.0;
+        t = until;
+    }
+    return total;
+}
+
+}  // namespace tocsin

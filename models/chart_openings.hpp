@@ -1,0 +1,75 @@
+#pragma once
+// Chart openings: the instants at which clinicians open a patient's chart,
+// which are the evaluation instants of the chart-interruption channel. They
+// belong to the population, not to a plan: every plan of a replication sees
+// the same openings (common random numbers). Either replayed from a log (CSV
+// `encounter,opened_at,role`) or generated per encounter as a non-homogeneous
+// Poisson process whose rate depends on the opener's role and the local hour
+// of day, by thinning (Lewis & Shedler 1979).
+//
+// Replay, what is fatal and what is counted (as for the score log):
+//   fatal (InputError naming file, line, column): unreadable file; missing or
+//     repeated required column; wrong number of fields; unterminated quote;
+//     an opening for an unknown encounter; an empty or undeclared role; a bad
+//     timestamp.
+//   counted exclusions: openings before admission, at or after time zero, at
+//     or after discharge (no rule sees them).
+#include <array>
+#include <cstdint>
+#include <map>
+#include <span>
+#include <string>
+#include <vector>
+
+#include "models/population.hpp"
+#include "models/random_streams.hpp"
+#include "models/time.hpp"
+
+namespace tocsin {
+
+struct ChartOpeningRole {
+    std::string name;                            // e.g. "ward nurse"
+    double clinicians_per_unit = 1.0;            // headcount of the role on one unit in one shift
+    std::array<double, 24> openings_per_hour{};  // per patient, by local hour 0..23 (generated openings)
+};
+
+struct ChartOpeningSource {
+    std::vector<ChartOpeningRole> roles;
+    std::string replay_path;  // empty: generate from the roles' rates
+};
+
+struct ChartOpening {
+    Instant at = 0;
+    std::uint8_t role = 0;  // index into ChartOpeningSource::roles (at most 255 roles)
+};
+
+struct ChartOpeningLog {
+    std::vector<ChartOpening> openings;  // grouped by encounter; each group in time order (ties: file order)
+    std::vector<std::size_t> start;      // encounters.size() + 1 offsets into openings
+    std::map<std::string, std::int64_t> excluded_by_reason;
+    std::map<std::string, std::int64_t> notes;  // resolved oddities, e.g. ambiguous local times
+
+    std::span<const ChartOpening> of(std::size_t encounter) const {
+        return {openings.data() + start[encounter], start[encounter + 1] - start[encounter]};
+    }
+};
+
+// Reads a replayed log against the population's encounters and the declared roles.
+ChartOpeningLog load_chart_openings(const std::string& path, const std::vector<ChartOpeningRole>& roles,
+                                    const Population& population, const TimeZone& zone);
+
+// Appends one encounter's generated openings over [admitted, usable_until) in
+// time order (ties: role order). Each role is thinned from a homogeneous
+// process at its peak hourly rate; the stream should be
+// make_stream(seed, replication, StreamPurpose::chart_openings, encounter).
+void generate_chart_openings(const std::vector<ChartOpeningRole>& roles, const Encounter& encounter,
+                             const TimeZone& zone, RandomEngine& stream, std::vector<ChartOpening>& out);
+
+// Expected openings by one role for one patient over [from, to): the integral of
+// its rate over the local hours the interval covers.
+double expected_chart_openings(const ChartOpeningRole& role, const TimeZone& zone, Instant from, Instant to);
+
+// Local hour of day (0..23) of an instant.
+int local_hour(const TimeZone& zone, Instant at);
+
+}  // namespace tocsin
