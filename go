@@ -13,7 +13,7 @@ JOBS="${JOBS:-$(nproc)}"
 BUILD_PACKAGES=(g++ cmake make pkgconf tzdata libboost-random-dev libboost-graph-dev libeigen3-dev
                 libyaml-cpp-dev libcli11-dev doctest-dev)
 # Outside references the test suite checks against, and the browser that renders the report.
-REFERENCE_PACKAGES=(python3 python3-sklearn python3-statsmodels python3-scipy r-base-core r-cran-proc chromium fonts-liberation)
+REFERENCE_PACKAGES=(python3 python3-sklearn python3-statsmodels python3-scipy r-base-core r-cran-proc chromium fonts-liberation zlib1g-dev)
 
 install_missing() {
     local missing=() p

@@ -36,15 +36,20 @@ const std::vector<Metric>& plan_metrics() {
          [](const PlanFigures& f) { return or_nan(f.lead_median_hours); }},
         {"notices_per_catch", "notices per case caught", Better::lower,
          [](const PlanFigures& f) { return or_nan(f.notices_per_catch); }},
-        // Staff (with roles, catches above count from the evaluation start; these from the notice).
-        {"caught_by_notice", "cases the notices reached in time, had evaluation been instant", Better::higher,
+        {"evaluations", "bedside evaluations started", Better::neither,
+         [](const PlanFigures& f) { return static_cast<double>(f.evaluations); }},
+        {"evaluated_non_cases", "patients without the outcome who were evaluated", Better::lower,
+         [](const PlanFigures& f) { return static_cast<double>(f.evaluated_non_cases); }},
+        {"caught_by_notice", "cases a notice reached in time (as if evaluation were instant)", Better::higher,
          [](const PlanFigures& f) { return static_cast<double>(f.caught_by_notice); }},
-        {"lead_from_notice_median_h", "median lead time from the first catching notice, hours", Better::higher,
+        {"lead_from_notice_median_h", "median lead time from the first notice, hours", Better::higher,
          [](const PlanFigures& f) { return or_nan(f.lead_from_notice_median_hours); }},
-        {"wait_median_min", "median minutes from notice to evaluation start (with roles)", Better::lower,
+        {"wait_median_min", "median wait from notice to evaluation start, minutes", Better::lower,
          [](const PlanFigures& f) { return or_nan(f.wait_median_minutes); }},
-        {"wait_p90_min", "minutes from notice to evaluation start, 90th percentile (with roles)", Better::lower,
+        {"wait_p90_min", "90th percentile wait from notice to evaluation start, minutes", Better::lower,
          [](const PlanFigures& f) { return or_nan(f.wait_p90_minutes); }},
+        {"never_taken_up", "tasks never taken up", Better::lower,
+         [](const PlanFigures& f) { return f.never_taken_up ? static_cast<double>(*f.never_taken_up) : nan; }},
     };
     return metrics;
 }

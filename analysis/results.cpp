@@ -97,6 +97,12 @@ PlanFigures plan_figures(const Scenario& sc, const Population& pop, const ShiftC
         }
     }
     const auto caught_at = record.staff ? first_catch(sc, pop, actions) : noticed_at;
+    {
+        std::vector<bool> evaluated(pop.encounters.size(), false);
+        for (const auto& [e, at] : actions) evaluated[e] = true;
+        for (std::size_t e = 0; e < evaluated.size(); ++e)
+            f.evaluated_non_cases += evaluated[e] && !pop.encounters[e].outcome_at;
+    }
     std::vector<double> leads, notice_leads;
     for (std::size_t e = 0; e < pop.encounters.size(); ++e) {
         if (!pop.encounters[e].outcome_at) continue;

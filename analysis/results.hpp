@@ -26,6 +26,7 @@ struct PlanFigures {
     double per_unit_shift_mean = 0, per_unit_shift_p90 = 0, per_unit_shift_max = 0;
     std::optional<double> per_unit_night_mean, per_unit_night_p90, per_unit_night_max;
     std::int64_t cases = 0, caught = 0, missed = 0;
+    std::int64_t evaluated_non_cases = 0;  // encounters without the outcome that had an evaluation
     std::optional<double> sensitivity;
     std::optional<double> lead_median_hours, lead_q1_hours, lead_q3_hours;
     std::optional<double> notices_per_catch;

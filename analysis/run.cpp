@@ -5,6 +5,7 @@
 #include <stdexcept>
 
 #include "analysis/cautions.hpp"
+#include "analysis/evaluation_scenario.hpp"
 
 namespace tocsin {
 
@@ -60,6 +61,9 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
     }
     std::vector<std::string> names;
     for (const Plan& p : sc.plans) names.push_back(p.name);
+    out.plan_net_benefit = plan_net_benefit_table(names, figures[0], out.first_population.encounters.size(),
+                                                  {2, 5, 10, 20, 50});
+    if (settings.evaluate) out.evaluation = evaluate(out.first_population, evaluation_options_for(sc));
     out.figures = collect_figures(names, figures);
     out.comparison = comparison_tables(out.figures);
     out.frontier = frontier_table(out.figures, metric_index(*burden), metric_index(*benefit));
@@ -69,6 +73,7 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
                                reporting_shifts(sc, out.first_population, cal)) + "\n";
     if (sc.replications > 1) out.text += comparison_text(out.figures);
     else out.text += plan_summary_text(out.first_replication);
+    if (out.evaluation) out.text += "\nThe score on the same population (replication 0):\n" + evaluation_summary(*out.evaluation);
     if (sc.plans.size() > 2) out.text += "\n" + frontier_text(out.figures, metric_index(*burden), metric_index(*benefit));
     if (settings.budget_limit) {
         const Metric* limited = find_metric(settings.budget_metric);
@@ -79,6 +84,27 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
     }
     out.text += "\n" + cautions_text() + "\n";
     return out;
+}
+
+Table plan_net_benefit_table(const std::vector<std::string>& plans, const std::vector<PlanFigures>& figures,
+                             std::size_t encounters, const std::vector<double>& evaluations_per_case) {
+    Table t;
+    t.name = "plan_net_benefit";
+    t.title = "Net benefit of each plan (an evaluation as the intervention; replication 0)";
+    t.columns = {"plan", "evaluations_per_case", "threshold_probability", "true_positives", "false_positives",
+                 "encounters", "net_benefit", "net_benefit_treat_all"};
+    const double n = static_cast<double>(encounters);
+    for (std::size_t p = 0; p < plans.size(); ++p)
+        for (double per_case : evaluations_per_case) {
+            const double pt = 1.0 / per_case, odds = pt / (1.0 - pt);
+            const PlanFigures& f = figures[p];
+            const double tp = static_cast<double>(f.caught), fp = static_cast<double>(f.evaluated_non_cases);
+            const double prevalence = static_cast<double>(f.cases) / n;
+            t.add_row({plans[p], per_case, pt, f.caught, f.evaluated_non_cases, static_cast<std::int64_t>(encounters),
+                       n > 0 ? Cell(tp / n - fp / n * odds) : Cell(),
+                       n > 0 ? Cell(prevalence - (1.0 - prevalence) * odds) : Cell()});
+        }
+    return t;
 }
 
 std::string run_record_json(const Scenario& sc, const RunSettings& settings, double seconds) {
@@ -107,6 +133,9 @@ std::vector<OutputFile> run_output_files(const RunOutput& out) {
     add_table_files(files, out.comparison.differences);
     add_table_files(files, out.comparison.replication_figures);
     add_table_files(files, out.frontier);
+    add_table_files(files, out.plan_net_benefit);
+    if (out.evaluation)
+        for (const Table* table : evaluation_tables(*out.evaluation)) add_table_files(files, *table);
     if (out.first_replication.notice_log) add_table_files(files, *out.first_replication.notice_log);
     const RunTables& t = out.first_replication;
     for (const auto* staff : {&t.staff_workload, &t.staff_escalations, &t.task_fates, &t.task_log})

@@ -7,6 +7,7 @@
 #include <vector>
 
 #include "analysis/comparison.hpp"
+#include "analysis/evaluation.hpp"
 #include "analysis/output.hpp"
 #include "analysis/results.hpp"
 #include "sim/experiment.hpp"
@@ -25,6 +26,7 @@ struct RunSettings {
     // The budget question: the best plan whose mean `budget_metric` is within the limit.
     std::optional<double> budget_limit;
     std::string budget_metric = "per_unit_night_p90";
+    bool evaluate = true;  // model-evaluation measures on replication 0's population
 };
 
 struct RunOutput {
@@ -34,10 +36,20 @@ struct RunOutput {
     ComparisonTables comparison;
     Table frontier;
     std::optional<BudgetAnswer> budget;
+    std::optional<Evaluation> evaluation;  // on replication 0's population
+    Table plan_net_benefit;                // each plan's net benefit, an evaluation as the intervention
     std::string text;                 // the terminal summary
 };
 
 RunOutput run_scenario(const Scenario& scenario, const PopulationFactory& make_population, const RunSettings& settings);
+
+// Net benefit of each plan (Vickers & Elkin 2006), treating a bedside
+// evaluation as the intervention: a caught case is a true positive, a patient
+// without the outcome who was evaluated a false positive. Thresholds are given
+// as N, the evaluations one would accept per case found (pt = 1 / N), so model
+// and workflow are judged in the same unit as the decision curve.
+Table plan_net_benefit_table(const std::vector<std::string>& plans, const std::vector<PlanFigures>& figures,
+                             std::size_t encounters, const std::vector<double>& evaluations_per_case);
 
 // The machine-readable record of a run: tool version, scenario file and hash,
 // seed, replications, threads and time taken. It is the one output that

@@ -18,6 +18,7 @@
 #include "analysis/results.hpp"
 #include "analysis/run.hpp"
 #include "analysis/shift_effect.hpp"
+#include "cli/evaluate_command.hpp"
 #include "sim/population_source.hpp"
 #include "analysis/review_size.hpp"
 #include "models/errors.hpp"
@@ -276,6 +277,8 @@ int main(int argc, char** argv) {
     size->add_option("--sizes", size_opt.sizes, "List lengths to try, N or FROM-TO (default 1-30)");
     size->add_option("--target-catch-rate", size_opt.target, "Catch rate to reach (default 0.8)")->check(CLI::Range(0.0, 1.0));
     size->add_option("-o,--out", size_opt.out_dir, "Write the table as CSV and JSON to this directory");
+    EvaluateCommand evaluate_cmd;
+    auto* evaluate = add_evaluate_command(app, evaluate_cmd);
 
     auto* keys = app.add_subcommand("keys", "Print the reference of every scenario key (Markdown)");
 
@@ -290,6 +293,7 @@ int main(int argc, char** argv) {
         if (*sweep) return command_run(sweep_opt, true);
         if (*fit) return command_fit(fit_cmd);
         if (*size) return command_review_size(size_opt);
+        if (*evaluate) return run_evaluate_command(evaluate_cmd);
         if (*keys) {
             std::cout << keys_reference_markdown();
             return 0;

@@ -152,7 +152,7 @@ TEST_CASE("chart_openings.replayed_through_the_command_line") {
     // after its outcome and one before its admission, both counted as excluded.
     tocsin::testing::ScratchDir dir;
     const std::string source = std::string(TOCSIN_SOURCE_DIR) + "/scenarios/";
-    std::string yaml = tocsin::testing::read_file(source + "demo.yaml");
+    std::string yaml = tocsin::testing::read_file(source + "fernhollow-replay.yaml");
     yaml.replace(yaml.find("chart_openings:\n"), 16, "chart_openings:\n  replay: openings.csv\n");
     dir.file("demo.yaml", yaml);
     dir.file("demo/encounters.csv", tocsin::testing::read_file(source + "demo/encounters.csv"));

@@ -6,6 +6,7 @@
 #include <limits>
 
 #include "analysis/comparison.hpp"
+#include "analysis/run.hpp"
 
 using namespace tocsin;
 
@@ -118,4 +119,22 @@ TEST_CASE("comparison.budget") {
     const BudgetAnswer none = best_within_budget(f, burden(), 0.5, benefit());
     CHECK_FALSE(none.best);
     CHECK(budget_text(f, none, burden(), 0.5, benefit()).find("No plan keeps") != std::string::npos);
+}
+
+TEST_CASE("comparison.plan_net_benefit") {
+    // Vickers & Elkin (2006): NB = TP/n - FP/n x pt/(1 - pt). A plan that caught
+    // 3 of 5 cases and evaluated 4 of the 15 patients without the outcome, n = 20.
+    // At N = 5 evaluations per case found, pt = 0.2 and pt/(1-pt) = 0.25:
+    // NB = 3/20 - 4/20 x 0.25 = 0.15 - 0.05 = 0.10; treat all: 5/20 - 15/20 x 0.25 = 0.0625.
+    // At N = 2, pt = 0.5 and the odds are 1: NB = 0.15 - 0.20 = -0.05.
+    PlanFigures f;
+    f.cases = 5;
+    f.caught = 3;
+    f.evaluated_non_cases = 4;
+    const Table t = plan_net_benefit_table({"p"}, {f}, 20, {5, 2});
+    REQUIRE(t.rows.size() == 2);
+    CHECK(std::get<double>(t.rows[0][2]) == doctest::Approx(0.2));
+    CHECK(std::get<double>(t.rows[0][6]) == doctest::Approx(0.10));
+    CHECK(std::get<double>(t.rows[0][7]) == doctest::Approx(0.0625));
+    CHECK(std::get<double>(t.rows[1][6]) == doctest::Approx(-0.05));
 }

@@ -1,4 +1,5 @@
-// End to end through the command-line tool on the demo scenario: golden
+// End to end through the command-line tool on the replayed example and the
+// generated demo: golden
 // outputs, byte-identical results whatever the thread count, no patient ids
 // unless asked, and no partial output when the input is bad.
 #include <doctest/doctest.h>
@@ -13,7 +14,8 @@ using namespace tocsin::testing;
 namespace {
 
 const std::string source_dir = TOCSIN_SOURCE_DIR;
-const std::string demo = source_dir + "/scenarios/demo.yaml";
+const std::string demo = source_dir + "/scenarios/fernhollow-replay.yaml";
+const std::string generated_demo = source_dir + "/scenarios/demo.yaml";
 
 // Set TOCSIN_UPDATE_GOLDEN=1 to rewrite the golden files after an intended change.
 void check_golden(const std::string& produced_path, const std::string& golden_name) {
@@ -37,12 +39,12 @@ TEST_CASE("end_to_end.demo_golden") {
     REQUIRE(r.exit_code == 0);
     CHECK(r.output.find("not a medical device") != std::string::npos);
     CHECK(r.output.find("page-70") != std::string::npos);
-    check_golden(dir.path("out/plan_summary.csv"), "demo_plan_summary.csv");
-    check_golden(dir.path("out/exclusions.csv"), "demo_exclusions.csv");
-    check_golden(dir.path("out/staff_workload.csv"), "demo_staff_workload.csv");
-    check_golden(dir.path("out/staff_escalations.csv"), "demo_staff_escalations.csv");
-    check_golden(dir.path("out/task_fates.csv"), "demo_task_fates.csv");
-    check_golden(dir.path("out/channel_burden.csv"), "demo_channel_burden.csv");
+    check_golden(dir.path("out/plan_summary.csv"), "replay_plan_summary.csv");
+    check_golden(dir.path("out/exclusions.csv"), "replay_exclusions.csv");
+    check_golden(dir.path("out/staff_workload.csv"), "replay_staff_workload.csv");
+    check_golden(dir.path("out/staff_escalations.csv"), "replay_staff_escalations.csv");
+    check_golden(dir.path("out/task_fates.csv"), "replay_task_fates.csv");
+    check_golden(dir.path("out/channel_burden.csv"), "replay_channel_burden.csv");
     CHECK(std::filesystem::exists(dir.path("out/CAUTIONS.txt")));
 }
 
@@ -124,4 +126,25 @@ TEST_CASE("end_to_end.check_describes_the_scenario") {
     CHECK(r.output.find("page-55-rise: page to rapid response nurse when deterioration score >= 55; snooze 4 h; a rise of 10") != std::string::npos);
     CHECK(r.output.find("The scenario is valid.") != std::string::npos);
     CHECK(r.output.find("escalation: rapid response nurse -(30 min)-> house physician; worst case 30 min to reach house physician") != std::string::npos);
+}
+
+TEST_CASE("end_to_end.generated_demo_with_replications") {
+    // The demo of `./go demo`: a generated population, 20 replications, every
+    // figure with an interval; the same bytes whatever the thread count.
+    ScratchDir dir;
+    const auto one = run_tocsin("run " + generated_demo + " --threads 1 --out " + dir.path("one"));
+    INFO(one.output);
+    REQUIRE(one.exit_code == 0);
+    CHECK(one.output.find("Plans compared over 20 replications: mean (95% CI)") != std::string::npos);
+    CHECK(one.output.find("Paired differences from page-70") != std::string::npos);
+    CHECK(one.output.find("not a medical device") != std::string::npos);
+    check_golden(dir.path("one/plan_comparison.csv"), "demo_plan_comparison.csv");
+    check_golden(dir.path("one/plan_differences.csv"), "demo_plan_differences.csv");
+    REQUIRE(run_tocsin("run " + generated_demo + " --threads 2 --out " + dir.path("two")).exit_code == 0);
+    for (const auto& entry : std::filesystem::directory_iterator(dir.path("one"))) {
+        const std::string name = entry.path().filename().string();
+        if (name == "run_record.json") continue;  // records the thread count and time taken, by design
+        CAPTURE(name);
+        CHECK(read_file(entry.path().string()) == read_file(dir.path("two/" + name)));
+    }
 }

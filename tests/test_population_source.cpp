@@ -140,7 +140,7 @@ TEST_CASE("population_source.fitted_fragment_loads_back") {
 }
 
 TEST_CASE("population_source.bootstrap_of_the_demo_log") {
-    Scenario sc = load_scenario(std::string(TOCSIN_SOURCE_DIR) + "/scenarios/demo.yaml");
+    Scenario sc = load_scenario(std::string(TOCSIN_SOURCE_DIR) + "/scenarios/fernhollow-replay.yaml");
     sc.bootstrap = BootstrapConfig{};
     const PreparedPopulation prepared = prepare_population(sc);
     CHECK(testing::serialize(population_for(sc, prepared, 0)) == testing::serialize(*prepared.log));
@@ -151,7 +151,7 @@ TEST_CASE("population_source.bootstrap_of_the_demo_log") {
 
 TEST_CASE("population_source.cli_fit") {
     testing::ScratchDir dir;
-    const auto r = testing::run_tocsin("fit " + std::string(TOCSIN_SOURCE_DIR) + "/scenarios/demo.yaml --by-hour-of-day -o " +
+    const auto r = testing::run_tocsin("fit " + std::string(TOCSIN_SOURCE_DIR) + "/scenarios/fernhollow-replay.yaml --by-hour-of-day -o " +
                                        dir.path("fitted.yaml"));
     INFO(r.output);
     REQUIRE(r.exit_code == 0);

@@ -1,0 +1,13 @@
+#pragma once
+// Evaluation options that follow a scenario: its catch window and minimum
+// lead, its time zone (drift months), its seed (bootstrap), and - for a
+// generated population on the probability scale - the score as a probability.
+// The CLI's `evaluate` and a run's results start from the same defaults.
+#include "analysis/evaluation.hpp"
+#include "sim/scenario.hpp"
+
+namespace tocsin {
+
+EvaluationOptions evaluation_options_for(const Scenario& scenario);
+
+}  // namespace tocsin

@@ -1,0 +1,120 @@
+#pragma once
+// The report a committee member opens: one self-contained HTML file (inline
+// style and inline SVG; no script, no font file, no network). The run fills a
+// ReportInput; render_report turns it into the page. Every string in the
+// input is treated as untrusted and escaped. Same input, same bytes.
+//
+// "Empty means not given": a section whose input is empty (an empty vector,
+// a Table without columns, an empty optional) is left out of the page, and so
+// is its entry in the contents. The question, the cautions and the run record
+// are always there.
+#include <cstdint>
+#include <limits>
+#include <map>
+#include <optional>
+#include <string>
+#include <utility>
+#include <vector>
+
+#include "analysis/svg.hpp"
+#include "analysis/table.hpp"
+
+namespace tocsin {
+
+// One plan's values of a figure, e.g. pages per unit per night, one value per
+// unit-night (pooled over replications) or one per replication.
+struct PlanSeries {
+    std::string plan;
+    std::vector<double> values;
+};
+
+// One plan on the burden-benefit plane. `*_lo` / `*_hi` are the ends of the
+// interval of each figure (NaN when there is none); `on_frontier` is true when
+// no other plan has lower-or-equal burden and higher-or-equal benefit with one
+// of them strictly better.
+struct ReportFrontierPoint {
+    std::string plan;
+    static constexpr double none = std::numeric_limits<double>::quiet_NaN();
+    double burden = 0, burden_lo = none, burden_hi = none;
+    double benefit = 0, benefit_lo = none, benefit_hi = none;
+    bool on_frontier = false;
+};
+
+// How the numbers were made, printed at the end of the report. Leave `threads`
+// and `seconds_taken` empty when the report must be byte-identical across
+// thread counts and machines.
+struct RunRecord {
+    std::string tool_version;
+    std::string scenario_name;
+    std::string scenario_hash;
+    std::uint64_t seed = 0;
+    std::int64_t replications = 0;
+    std::optional<unsigned> threads;
+    std::optional<double> seconds_taken;
+    std::vector<std::pair<std::string, std::string>> other;  // further (label, value) lines, in this order
+};
+
+struct ReportInput {
+    std::string title;     // e.g. the scenario's name
+    std::string question;  // the scenario's description: the question in plain words
+    std::vector<std::string> key_findings;  // optional one-line answers shown under the question
+    std::vector<std::string> assumptions;   // one plain-word line each
+    std::string cautions;  // empty: cautions_text(); the report always carries cautions
+
+    // Column headers for people, keyed by column name, used by every table.
+    std::map<std::string, std::string> column_labels;
+
+    // Plans side by side. Columns `x`, `x_lo`, `x_hi` are shown as "x (lo to hi)".
+    Table comparison;
+    std::string interval_note;             // e.g. "Brackets: 95% interval over 200 replications (percentile method)."
+    std::optional<Table> differences;      // paired differences between plans, same interval columns
+    std::string differences_note;
+
+    // Names of the two figures the frontier trades off.
+    std::string burden_label = "pages per unit per night";
+    std::string benefit_label = "cases caught with at least the minimum lead";
+    std::optional<double> burden_limit;    // the committee's budget in burden_label units, drawn on the frontier
+    std::string budget_answer;             // plain-word answer to the budget question, if asked
+    std::vector<ReportFrontierPoint> frontier;
+
+    std::vector<PlanSeries> burden_per_night;
+    std::string burden_per_night_label = "notices per unit per night";
+    std::string burden_note;               // what one value is, e.g. "one unit-night of one replication"
+    std::optional<double> per_night_limit; // a budget in burden_per_night_label units, drawn on that chart
+
+    std::vector<PlanSeries> lead_times_hours;                  // from the first notice
+    std::vector<PlanSeries> lead_times_from_evaluation_hours;  // from the start of the first evaluation
+    std::string lead_time_note;
+
+    std::optional<Table> staff_and_waits;  // staff minutes and task waits by role
+    std::string staff_note;
+
+    std::vector<Table> evaluation_tables;       // model-evaluation measures
+    std::vector<LineChart> evaluation_charts;   // e.g. roc_chart(), calibration_chart(), decision_curve_chart()
+    std::string evaluation_note;
+
+    RunRecord run;
+};
+
+// The report shows intervals in wide tables (columns `x`, `x_lo`, `x_hi`). This
+// turns a long table, one row per (`row_key`, metric) with columns `row_key`,
+// "metric", `value_column`, "ci_low" and "ci_high", into that form: one row per
+// `row_key` value in order of first appearance, and per metric (those listed in
+// `metrics`, in that order, or else all in order of first appearance) the three
+// columns `<metric>`, `<metric>_lo`, `<metric>_hi`. Cells are copied as they are;
+// a missing combination is an empty cell. std::invalid_argument names a missing
+// column or an unknown metric.
+Table wide_intervals(const Table& long_table, const std::string& value_column = "mean",
+                     const std::vector<std::string>& metrics = {}, const std::string& row_key = "plan");
+
+// Ready-made evaluation charts with the usual axes and reference lines.
+LineChart roc_chart(std::vector<CurvePoint> false_positive_rate_vs_sensitivity, const std::string& curve_name = "score");
+LineChart calibration_chart(std::vector<CurvePoint> predicted_vs_observed, const std::string& curve_name = "score");
+// Net benefit against threshold probability for the score, beside "evaluate
+// everyone" (`treat_all`) and "evaluate no one" (net benefit 0).
+LineChart decision_curve_chart(std::vector<CurvePoint> score, std::vector<CurvePoint> treat_all,
+                               const std::string& curve_name = "score");
+
+std::string render_report(const ReportInput& input);
+
+}  // namespace tocsin

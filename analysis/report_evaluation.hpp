@@ -1,0 +1,12 @@
+#pragma once
+// Adds the model-evaluation measures (analysis/evaluation.hpp) to a report:
+// the discrimination and calibration tables, a short threshold table, and
+// the ROC, calibration and decision-curve charts when their data is there.
+#include "analysis/evaluation.hpp"
+#include "analysis/report.hpp"
+
+namespace tocsin {
+
+void add_evaluation(ReportInput& report, const Evaluation& evaluation, const std::string& score_label = "score");
+
+}  // namespace tocsin

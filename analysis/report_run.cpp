@@ -1,0 +1,230 @@
+#include "analysis/report_run.hpp"
+
+#include <algorithm>
+#include <cctype>
+#include <cmath>
+#include <cstdio>
+#include <map>
+#include <sstream>
+
+#include "analysis/html.hpp"
+
+namespace tocsin {
+
+namespace {
+
+// The figures the comparison table shows, in this order, when the run has them.
+const std::vector<std::string> shown_metrics = {"per_unit_night_mean", "per_unit_night_p90", "caught",
+                                                "sensitivity", "lead_median_h", "notices_per_catch"};
+
+// The staff workload columns the report shows, and their headers.
+const std::vector<std::string> staff_columns = {"plan", "role", "team", "tasks_started", "staff_minutes_per_shift_mean",
+                                                "staff_minutes_per_shift_p90", "utilisation", "wait_minutes_median",
+                                                "wait_minutes_p90", "never_taken_up"};
+const std::vector<std::pair<std::string, std::string>> staff_labels = {
+    {"role", "Role"},
+    {"team", "Team"},
+    {"tasks_started", "evaluations started"},
+    {"staff_minutes_per_shift_mean", "staff minutes per shift"},
+    {"staff_minutes_per_shift_p90", "staff minutes per shift, 90th percentile"},
+    {"utilisation", "share of rostered time busy"},
+    {"wait_minutes_median", "median wait, minutes"},
+    {"wait_minutes_p90", "wait, 90th percentile, minutes"},
+    {"never_taken_up", "never taken up"}};
+
+// The named columns of a table that it has, in the order named.
+Table columns_of(const Table& t, const std::vector<std::string>& names) {
+    Table out;
+    out.name = t.name;
+    out.title = t.title;
+    std::vector<std::size_t> keep;
+    for (const std::string& n : names) {
+        const auto found = std::find(t.columns.begin(), t.columns.end(), n);
+        if (found == t.columns.end()) continue;
+        keep.push_back(static_cast<std::size_t>(found - t.columns.begin()));
+        out.columns.push_back(n);
+    }
+    for (const auto& row : t.rows) {
+        std::vector<Cell> cells;
+        for (std::size_t i : keep) cells.push_back(row[i]);
+        out.add_row(std::move(cells));
+    }
+    return out;
+}
+
+double real_of(const Cell& c) {
+    if (std::holds_alternative<double>(c)) return std::get<double>(c);
+    if (std::holds_alternative<std::int64_t>(c)) return static_cast<double>(std::get<std::int64_t>(c));
+    return NAN;
+}
+
+std::string text_of(const Cell& c) { return std::holds_alternative<std::string>(c) ? std::get<std::string>(c) : ""; }
+
+std::size_t column(const Table& t, const std::string& name) {
+    return static_cast<std::size_t>(std::find(t.columns.begin(), t.columns.end(), name) - t.columns.begin());
+}
+
+// The plain-word lines of `tocsin check` after the scenario's name and
+// question, one per item: a list header ("Plans (5):") becomes a prefix of its
+// items ("Plan page-70: ..."), and lines indented under an item join it.
+std::vector<std::string> assumptions_of(const Scenario& sc) {
+    std::vector<std::string> lines;
+    std::istringstream in(describe_scenario(sc));
+    std::string item_prefix;
+    bool in_item = false;
+    for (std::string line; std::getline(in, line);) {
+        const std::size_t indent = line.find_first_not_of(' ');
+        if (indent == std::string::npos) continue;
+        line.erase(0, indent);
+        if (line.rfind("Scenario:", 0) == 0 || line == sc.description) continue;
+        if (indent == 0 && line.back() == ':') {
+            item_prefix = line.rfind("Plans", 0) == 0 ? "Plan " : line.rfind("Staff", 0) == 0 ? "Role " : "";
+            if (item_prefix.empty()) lines.push_back(line);
+            in_item = false;
+            continue;
+        }
+        if (line.rfind("- ", 0) == 0) {
+            lines.push_back(item_prefix + line.substr(2));
+            in_item = true;
+            continue;
+        }
+        if (in_item && indent > 2) {
+            line[0] = static_cast<char>(std::toupper(static_cast<unsigned char>(line[0])));
+            lines.back() += (lines.back().back() == '.' ? " " : ". ") + line;
+            continue;
+        }
+        in_item = false;
+        item_prefix.clear();
+        lines.push_back(line);
+    }
+    return lines;
+}
+
+std::string percent(double share) { return format_real(100 * share, 0) + "%"; }
+
+std::string budget_sentence(const RunOutput& out, const Metric& budget, const Metric& benefit, double limit) {
+    const BudgetAnswer& a = *out.budget;
+    const ReplicatedFigures& f = out.figures;
+    std::string s = "Budget: " + std::string(budget.label) + " at most " + format_for_people(limit) +
+                    " (mean over replications). ";
+    if (!a.best) return s + "No plan keeps within it.";
+    const MeanInterval gain = mean_interval(f.of(*a.best, metric_index(benefit)));
+    s += "Best within the budget: " + f.plans[*a.best] + ", with " + format_for_people(gain.mean) + " " +
+         std::string(benefit.label);
+    if (std::isfinite(gain.low)) s += " (" + format_for_people(gain.low) + " to " + format_for_people(gain.high) + ")";
+    s += ". It had the most " + std::string(benefit.label) + " among the plans within the budget in " +
+         percent(a.share_best) + " of " + std::to_string(f.replications) + " replications.";
+    std::vector<std::string> within;
+    for (std::size_t p : a.within) within.push_back(f.plans[p]);
+    if (within.size() > 1) {
+        s += " Plans within the budget: ";
+        for (std::size_t i = 0; i < within.size(); ++i) s += (i ? ", " : "") + within[i];
+        s += ".";
+    }
+    return s;
+}
+
+}  // namespace
+
+ReportInput report_input_for_run(const Scenario& sc, const RunOutput& out, const RunSettings& settings) {
+    ReportInput in;
+    in.title = sc.name;
+    in.question = sc.description;
+    in.assumptions = assumptions_of(sc);
+    for (const Metric& m : plan_metrics()) in.column_labels[std::string(m.name)] = std::string(m.label);
+    in.column_labels["plan"] = "Plan";
+
+    const ReplicatedFigures& f = out.figures;
+    const Metric* burden = find_metric(settings.burden_metric);
+    const Metric* benefit = find_metric(settings.benefit_metric);
+    std::vector<std::string> metrics;
+    for (const std::string& m : shown_metrics)
+        if (find_metric(m)) metrics.push_back(m);
+    for (const Metric* m : {burden, benefit})
+        if (m && std::find(metrics.begin(), metrics.end(), m->name) == metrics.end()) metrics.emplace_back(m->name);
+
+    in.comparison = wide_intervals(out.comparison.comparison, "mean", metrics);
+    in.comparison.title = "Plans compared over " + std::to_string(f.replications) +
+                          (f.replications == 1 ? " replication" : " replications");
+    if (f.replications > 1) {
+        in.interval_note = "Brackets: 95% confidence interval of the mean over the " + std::to_string(f.replications) +
+                           " replications (mean \xC2\xB1 t \xC3\x97 standard deviation / \xE2\x88\x9A" "replications; "
+                           "Student 1908). Replications in which a figure is undefined are left out of it.";
+        if (f.plans.size() > 1 && !out.comparison.differences.rows.empty()) {
+            in.differences = wide_intervals(out.comparison.differences, "mean_difference", metrics);
+            in.differences_note = "Each figure is the plan's value minus " + f.plans.front() +
+                                  "'s in the same replication, averaged, with its own 95% interval.";
+        }
+    } else {
+        in.interval_note = "One replication: no interval. Set replications in the scenario for intervals.";
+    }
+
+    if (burden && benefit) {
+        in.burden_label = std::string(burden->label);
+        in.benefit_label = std::string(benefit->label);
+        const std::vector<FrontierPoint> points = frontier(f, metric_index(*burden), metric_index(*benefit));
+        for (const FrontierPoint& p : points) {
+            const MeanInterval b = mean_interval(f.of(p.plan, metric_index(*burden)));
+            const MeanInterval g = mean_interval(f.of(p.plan, metric_index(*benefit)));
+            in.frontier.push_back({f.plans[p.plan], b.mean, b.low, b.high, g.mean, g.low, g.high, p.on_frontier});
+        }
+    }
+    const Metric* budget = find_metric(settings.budget_metric);
+    if (settings.budget_limit && budget && benefit && out.budget) {
+        in.budget_answer = budget_sentence(out, *budget, *benefit, *settings.budget_limit);
+        if (budget == burden) in.burden_limit = settings.budget_limit;
+        if (budget->name.rfind("per_unit_night", 0) == 0) in.per_night_limit = settings.budget_limit;
+    }
+
+    // Pages per unit per night: every unit-night of the first replication.
+    const Table& shifts = out.first_replication.unit_shift_notices;
+    const std::size_t plan_col = column(shifts, "plan"), night_col = column(shifts, "night"),
+                      count_col = column(shifts, "notices");
+    if (night_col < shifts.columns.size() && count_col < shifts.columns.size()) {
+        std::map<std::string, std::vector<double>> nights;
+        for (const auto& row : shifts.rows) {
+            const Cell& night = row[night_col];
+            const bool is_night = std::holds_alternative<std::int64_t>(night) ? std::get<std::int64_t>(night) != 0
+                                                                             : text_of(night) == "true" || text_of(night) == "1";
+            if (is_night) nights[text_of(row[plan_col])].push_back(real_of(row[count_col]));
+        }
+        if (!nights.empty())
+            for (const std::string& plan : f.plans) in.burden_per_night.push_back({plan, nights[plan]});
+        in.burden_note = "one unit on one night of the first replication";
+    }
+
+    // Lead times: the run keeps each replication's median, not every case, so
+    // with several replications the chart shows how that median varies. With
+    // staff, lead time counts from the start of the evaluation (DESIGN.md).
+    const bool with_staff = out.first_replication.staff_workload.has_value();
+    if (const Metric* lead = find_metric("lead_median_h"); lead && f.replications > 1) {
+        auto& series = with_staff ? in.lead_times_from_evaluation_hours : in.lead_times_hours;
+        for (std::size_t p = 0; p < f.plans.size(); ++p) {
+            const auto values = f.of(p, metric_index(*lead));
+            series.push_back({f.plans[p], std::vector<double>(values.begin(), values.end())});
+        }
+        in.lead_time_note = "One value is the median lead time of the caught cases in one replication.";
+    }
+
+    if (with_staff) {
+        in.staff_and_waits = columns_of(*out.first_replication.staff_workload, staff_columns);
+        in.staff_and_waits->title = "Staff work and waits by plan and role (first replication)";
+        in.staff_note = "Utilisation is the staff minutes worked over the minutes rostered. A wait runs from the "
+                        "notice to the start of the evaluation; tasks never taken up are counted apart, not as waits.";
+        for (const auto& [name, label] : staff_labels) in.column_labels[name] = label;
+    }
+
+    char hash[32];
+    std::snprintf(hash, sizeof hash, "fnv1a64:%016llx", static_cast<unsigned long long>(sc.source_hash));
+    in.run.tool_version = TOCSIN_VERSION;
+    in.run.scenario_name = sc.name;
+    in.run.scenario_hash = hash;
+    in.run.seed = sc.seed;
+    in.run.replications = static_cast<std::int64_t>(f.replications);
+    in.run.other = {{"Scenario file", sc.file}};
+    if (burden) in.run.other.emplace_back("Burden measure", std::string(burden->name));
+    if (benefit) in.run.other.emplace_back("Benefit measure", std::string(benefit->name));
+    return in;
+}
+
+}  // namespace tocsin

@@ -1,0 +1,95 @@
+#pragma once
+// Discrimination measures for a score against a yes/no outcome: the area under
+// the ROC curve with its DeLong interval, and sensitivity, specificity, PPV,
+// NPV and the share flagged at given thresholds, each with a Wilson interval.
+// Everything here is O(n log n) or better, so a year of scores fits in seconds.
+//
+// Convention used throughout: a higher score means more concern, and a score
+// is "flagged" at threshold t when score >= t.
+#include <cstdint>
+#include <span>
+#include <vector>
+
+#include "analysis/table.hpp"
+
+namespace tocsin {
+
+struct Interval {
+    double lower = 0.0;
+    double upper = 0.0;
+};
+
+// Two-sided standard normal quantile z such that P(|Z| <= z) = confidence.
+double normal_two_sided_z(double confidence);
+
+// Wilson score interval for a binomial proportion (Wilson 1927; recommended by
+// Newcombe 1998, method 3). trials == 0 gives [0, 1].
+Interval wilson_interval(std::int64_t successes, std::int64_t trials, double confidence = 0.95);
+
+// Indices that put `values` in ascending order; ties keep their input order
+// (stable). LSD radix sort on the IEEE-754 bit pattern: O(n), deterministic.
+// NaN is not a score: callers must not pass it.
+std::vector<std::uint32_t> ascending_order(std::span<const double> values);
+
+// Area under the ROC curve by the Mann-Whitney statistic with ties counted
+// one half: P(score of a positive > score of a negative) + 0.5 P(tie).
+// labels: 1 = positive (case), 0 = negative. NaN when either class is empty.
+double auc_mann_whitney(std::span<const double> scores, std::span<const std::uint8_t> labels);
+
+// DeLong, DeLong & Clarke-Pearson (1988) structural components ("placement
+// values"), computed by midranks in O(n log n) as in Sun & Xu (2014):
+//   positive i: share of negatives scoring below it (ties count one half);
+//   negative j: share of positives scoring above it (ties count one half).
+// The mean of either vector is the AUC.
+struct PlacementValues {
+    std::vector<double> of_positives;  // in the input order of the positives
+    std::vector<double> of_negatives;  // in the input order of the negatives
+};
+PlacementValues placement_values(std::span<const double> scores, std::span<const std::uint8_t> labels);
+
+struct AucEstimate {
+    double auc = 0.0;
+    std::int64_t positives = 0;
+    std::int64_t negatives = 0;
+    double standard_error = 0.0;  // DeLong
+    Interval interval;            // auc -/+ z * SE, clipped to [0, 1] (as pROC's ci.auc, method = "delong")
+};
+// AUC with the DeLong (1988) variance: S10 / n_pos + S01 / n_neg, where S10 and
+// S01 are the sample variances (n - 1 divisor) of the placement values.
+AucEstimate auc_delong(std::span<const double> scores, std::span<const std::uint8_t> labels,
+                       double confidence = 0.95);
+
+// Hanley & McNeil (1982, Radiology 143:29-36, eq. 1-2) standard error of an AUC
+// with their approximations Q1 = A / (2 - A), Q2 = 2 A^2 / (1 + A). Kept to
+// compare with their published example; prefer auc_delong for reporting.
+double hanley_mcneil_standard_error(double auc, std::int64_t positives, std::int64_t negatives);
+
+// The 2x2 table at one threshold (flagged = score >= threshold).
+struct ThresholdCounts {
+    double threshold = 0.0;
+    std::int64_t true_positives = 0;
+    std::int64_t false_positives = 0;
+    std::int64_t false_negatives = 0;
+    std::int64_t true_negatives = 0;
+};
+// Counts at each threshold in O((n + k) log n); thresholds in the given order.
+std::vector<ThresholdCounts> counts_at_thresholds(std::span<const double> scores,
+                                                  std::span<const std::uint8_t> labels,
+                                                  std::span<const double> thresholds);
+
+// `points` evenly spaced values from low to high inclusive (one point: low).
+std::vector<double> even_grid(double low, double high, int points);
+
+// One row per threshold. Columns:
+//   threshold_source ("grid" or "given"), threshold, true_positives,
+//   false_positives, false_negatives, true_negatives,
+//   sensitivity, sensitivity_lower, sensitivity_upper,
+//   specificity, specificity_lower, specificity_upper,
+//   ppv, ppv_lower, ppv_upper, npv, npv_lower, npv_upper,
+//   share_flagged, share_flagged_lower, share_flagged_upper.
+// Intervals are Wilson; a proportion with an empty denominator is an empty cell.
+// `source[i]` labels row i; it may be empty (then "given").
+Table threshold_table(const std::vector<ThresholdCounts>& counts, const std::vector<std::string>& source,
+                      double confidence, std::string name, std::string title);
+
+}  // namespace tocsin

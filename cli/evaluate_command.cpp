@@ -1,0 +1,107 @@
+#include "cli/evaluate_command.hpp"
+
+#include <iostream>
+#include <sstream>
+
+#include "analysis/cautions.hpp"
+#include "analysis/evaluation.hpp"
+#include "analysis/evaluation_scenario.hpp"
+#include "analysis/output.hpp"
+#include "models/errors.hpp"
+#include "sim/population_source.hpp"
+#include "sim/scenario.hpp"
+
+namespace tocsin {
+
+namespace {
+
+// "as-is", "divide:100" or "logistic:INTERCEPT:SLOPE".
+// The whole text must be a number ("100abc" is not 100).
+double whole_number(const std::string& text) {
+    std::size_t used = 0;
+    const double v = std::stod(text, &used);
+    if (used != text.size()) throw std::invalid_argument("trailing text");
+    return v;
+}
+
+ProbabilityMapping parse_mapping(const std::string& text) {
+    ProbabilityMapping m;
+    std::vector<std::string> parts;
+    std::stringstream in(text);
+    for (std::string part; std::getline(in, part, ':');) parts.push_back(part);
+    try {
+        if (parts.size() == 1 && parts[0] == "as-is") {
+            m.kind = ProbabilityMapping::Kind::as_is;
+        } else if (parts.size() == 2 && parts[0] == "divide") {
+            m.kind = ProbabilityMapping::Kind::divide;
+            m.divisor = whole_number(parts[1]);
+        } else if (parts.size() == 3 && parts[0] == "logistic") {
+            m.kind = ProbabilityMapping::Kind::logistic;
+            m.intercept = whole_number(parts[1]);
+            m.slope = whole_number(parts[2]);
+        } else {
+            throw std::invalid_argument("form");
+        }
+    } catch (const std::logic_error&) {  // invalid_argument or out_of_range from stod
+        throw InputError("command line", 0, 0, "--probability",
+                         "expected as-is, divide:DIVISOR or logistic:INTERCEPT:SLOPE, got '" + text + "'");
+    }
+    return m;
+}
+
+}  // namespace
+
+CLI::App* add_evaluate_command(CLI::App& app, EvaluateCommand& c) {
+    auto* cmd = app.add_subcommand("evaluate", "Is the score any good here? Discrimination, thresholds, lead time, "
+                                               "calibration, drift and net benefit on the scenario's population");
+    cmd->add_option("scenario", c.scenario, "Scenario YAML file")->required();
+    cmd->add_option("-o,--out", c.out_dir, "Write tidy CSV and JSON tables to this directory");
+    cmd->add_option("--threshold", c.thresholds, "Score threshold to report (repeatable; a grid is always added)");
+    cmd->add_option("--grid-points", c.grid_points, "Thresholds on the grid from lowest to highest encounter score (default 21)");
+    cmd->add_option("--horizon", c.horizons_hours, "Prediction horizon in hours (repeatable; default 4 8 12 24)");
+    cmd->add_option("--window-hours", c.window_hours, "Lead time: ignore crossings earlier than this before time zero (default: the scenario's window)");
+    cmd->add_option("--min-lead-hours", c.min_lead_hours, "Lead time: a first crossing later than this is 'late' (default: the scenario's min_lead)");
+    cmd->add_option("--probability", c.probability,
+                    "The score as a probability: as-is, divide:DIVISOR or logistic:INTERCEPT:SLOPE (enables calibration and the decision curve)");
+    cmd->add_option("--probability-horizon-hours", c.probability_horizon_hours,
+                    "What the probability predicts: the outcome within this many hours (default 0: before discharge)");
+    cmd->add_option("--decision-threshold", c.decision_thresholds, "Threshold probability for the decision curve (repeatable; default 0.01 to 0.50)");
+    cmd->add_option("--evaluate-per-case", c.evaluations_per_case, "Add pt = 1/N to the decision curve: N evaluations one accepts per case found (repeatable)");
+    cmd->add_option("--period-days", c.period_days, "Drift periods of this many days (default: calendar months in the scenario's time zone)");
+    cmd->add_option("--bootstrap", c.bootstrap_replicates, "Encounter-bootstrap replicates for prediction-level intervals (default 200; 0 = none)");
+    cmd->add_option("--replication", c.replication, "Which replication's population to evaluate (default 0: the log as replayed)");
+    return cmd;
+}
+
+int run_evaluate_command(const EvaluateCommand& c) {
+    const Scenario sc = load_scenario(c.scenario);
+    const PreparedPopulation prepared = prepare_population(sc);
+    const Population pop = population_for(sc, prepared, c.replication);
+
+    EvaluationOptions o = evaluation_options_for(sc);
+    o.thresholds = c.thresholds;
+    o.threshold_grid_points = c.grid_points;
+    o.horizons_hours = c.horizons_hours;
+    if (c.window_hours >= 0) o.window_hours = c.window_hours;
+    if (c.min_lead_hours >= 0) o.min_lead_hours = c.min_lead_hours;
+    if (!c.probability.empty()) o.probability = parse_mapping(c.probability);
+    if (o.probability) o.probability->horizon_hours = c.probability_horizon_hours;
+    o.decision_threshold_probabilities = c.decision_thresholds;
+    o.evaluations_per_case = c.evaluations_per_case;
+    o.drift_period_days = c.period_days;
+    o.bootstrap_replicates = c.bootstrap_replicates;
+    o.replication = c.replication;
+
+    const Evaluation ev = evaluate(pop, o);
+    std::cout << evaluation_summary(ev) << "\n" << to_text(ev.encounter_auc, 3) << "\n"
+              << to_text(ev.prediction_auc, 3) << "\n" << cautions_text() << "\n";
+    if (!c.out_dir.empty()) {
+        std::vector<OutputFile> files;
+        for (const Table* t : evaluation_tables(ev)) add_table_files(files, *t);
+        write_output_files(c.out_dir, files);
+        std::cout << "Wrote " << files.size() << " files to " << c.out_dir << "\n";
+    }
+    return 0;
+}
+
+}  // namespace tocsin

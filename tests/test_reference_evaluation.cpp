@@ -1,0 +1,186 @@
+// Cross-checks against general-purpose reference libraries (Debian packages):
+// scikit-learn roc_auc_score, statsmodels proportion_confint(method="wilson")
+// and a binomial GLM, and R's pROC ci.auc(method = "delong"). The scripts are
+// in tests/reference/. When an interpreter or module is missing the case says
+// so in a visible MESSAGE and checks nothing else.
+#include <doctest/doctest.h>
+
+#include <boost/random/bernoulli_distribution.hpp>
+#include <boost/random/normal_distribution.hpp>
+#include <cmath>
+#include <cstdio>
+#include <cstdlib>
+#include <filesystem>
+#include <fstream>
+#include <map>
+#include <sstream>
+#include <string>
+#include <unistd.h>
+#include <vector>
+
+#include "analysis/calibration.hpp"
+#include "analysis/roc.hpp"
+#include "models/random_streams.hpp"
+
+using namespace tocsin;
+
+namespace {
+
+struct DataSet {
+    std::vector<double> score, probability;
+    std::vector<std::uint8_t> label;
+};
+
+// 3,000 encounters, about 1 in 5 a case; scores rounded to one decimal so
+// ties (within and across classes) are common; the probability is a logistic
+// function of the score, deliberately miscalibrated.
+DataSet generated_data() {
+    DataSet d;
+    RandomEngine engine = make_stream(2026, 0, StreamPurpose::trajectory, 77);
+    boost::random::bernoulli_distribution<double> is_case(0.2);
+    boost::random::normal_distribution<double> noise(0.0, 1.0);
+    for (int i = 0; i < 3000; ++i) {
+        const bool c = is_case(engine);
+        const double s = std::round((noise(engine) + (c ? 1.1 : 0.0)) * 10.0) / 10.0;
+        d.score.push_back(s);
+        d.label.push_back(c ? 1 : 0);
+        d.probability.push_back(1.0 / (1.0 + std::exp(-(-1.2 + 0.8 * s))));
+    }
+    return d;
+}
+
+std::filesystem::path write_csv(const DataSet& d, const std::string& stem) {
+    const auto path = std::filesystem::temp_directory_path() /
+                      ("tocsin_" + stem + "_" + std::to_string(::getpid()) + ".csv");
+    std::ofstream out(path);
+    out << "score,label,probability\n";
+    char line[128];
+    for (std::size_t i = 0; i < d.score.size(); ++i) {
+        std::snprintf(line, sizeof line, "%.17g,%d,%.17g\n", d.score[i], d.label[i], d.probability[i]);
+        out << line;
+    }
+    return path;
+}
+
+bool command_succeeds(const std::string& command) { return std::system((command + " >/dev/null 2>&1").c_str()) == 0; }
+
+// Runs a command and returns its standard output.
+std::string run(const std::string& command) {
+    std::string output;
+    FILE* pipe = ::popen(command.c_str(), "r");
+    REQUIRE(pipe != nullptr);
+    char buffer[4096];
+    while (std::fgets(buffer, sizeof buffer, pipe)) output += buffer;
+    const int status = ::pclose(pipe);
+    INFO("command: " << command << "\noutput:\n" << output);
+    REQUIRE(status == 0);
+    return output;
+}
+
+// "key... number..." lines -> map. The key is every leading token named in
+// `key_tokens` (by first word); the rest are numbers.
+std::map<std::string, std::vector<double>> parse(const std::string& output) {
+    const std::map<std::string, int> key_tokens{{"counts", 2}, {"wilson", 3}};
+    std::map<std::string, std::vector<double>> out;
+    std::istringstream lines(output);
+    std::string line;
+    while (std::getline(lines, line)) {
+        std::istringstream words(line);
+        std::string first;
+        if (!(words >> first)) continue;
+        std::string key = first;
+        const auto it = key_tokens.find(first);
+        for (int k = 1; it != key_tokens.end() && k < it->second; ++k) {
+            std::string w;
+            words >> w;
+            key += " " + w;
+        }
+        std::string number;
+        while (words >> number) out[key].push_back(std::stod(number));
+    }
+    return out;
+}
+
+const std::string python = "/usr/bin/python3";
+const std::string reference_dir = std::string(TOCSIN_SOURCE_DIR) + "/tests/reference/";
+
+}  // namespace
+
+TEST_CASE("reference.evaluation_sklearn_statsmodels") {
+    if (!command_succeeds(python + " -c 'import sklearn, statsmodels, numpy'")) {
+        MESSAGE("SKIPPED: scikit-learn / statsmodels not installed for " << python
+                                                                        << " (./go test installs python3-sklearn python3-statsmodels)");
+        return;
+    }
+    const DataSet d = generated_data();
+    const auto csv = write_csv(d, "sklearn");
+    const std::vector<std::string> thresholds{"-0.5", "0.5", "1.25"};
+    std::string command = python + " " + reference_dir + "auc_check.py " + csv.string();
+    for (const auto& t : thresholds) command += " " + t;
+    const auto ref = parse(run(command));
+    std::filesystem::remove(csv);
+
+    // AUC: both sides compute the Mann-Whitney statistic with ties counted
+    // one half, exactly; only floating rounding separates them.
+    REQUIRE(ref.count("auc"));
+    CHECK(std::abs(auc_mann_whitney(d.score, d.label) - ref.at("auc")[0]) < 1e-12);
+    CHECK(std::abs(auc_delong(d.score, d.label).auc - ref.at("auc")[0]) < 1e-12);
+
+    // Threshold counts and Wilson intervals: closed-form on both sides.
+    std::vector<double> t_values;
+    for (const auto& t : thresholds) t_values.push_back(std::stod(t));
+    const auto counts = counts_at_thresholds(d.score, d.label, t_values);
+    const Table table = threshold_table(counts, {}, 0.95, "t", "t");
+    const std::vector<std::pair<std::string, std::size_t>> columns{
+        {"sensitivity", 7}, {"specificity", 10}, {"ppv", 13}, {"npv", 16}, {"share_flagged", 19}};
+    for (std::size_t i = 0; i < thresholds.size(); ++i) {
+        CAPTURE(thresholds[i]);
+        const auto& c = ref.at("counts " + thresholds[i]);
+        CHECK(counts[i].true_positives == c[0]);
+        CHECK(counts[i].false_positives == c[1]);
+        CHECK(counts[i].false_negatives == c[2]);
+        CHECK(counts[i].true_negatives == c[3]);
+        for (const auto& [name, column] : columns) {
+            CAPTURE(name);
+            const auto& w = ref.at("wilson " + name + " " + thresholds[i]);
+            CHECK(std::abs(std::get<double>(table.rows[i][column]) - w[0]) < 1e-12);
+            CHECK(std::abs(std::get<double>(table.rows[i][column + 1]) - w[1]) < 1e-12);
+        }
+    }
+
+    // Logistic recalibration: both fit the same likelihood to convergence
+    // (statsmodels at tol 1e-13, ours at a step below 1e-10 relative), so the
+    // estimates and SEs agree to well within 1e-6 relative.
+    const LogisticRecalibration fit = logistic_recalibration(d.probability, d.label);
+    const auto& r = ref.at("recalibration");
+    REQUIRE(fit.converged);
+    CHECK(fit.intercept == doctest::Approx(r[0]).epsilon(1e-6));
+    CHECK(fit.slope == doctest::Approx(r[1]).epsilon(1e-6));
+    CHECK(fit.intercept_se == doctest::Approx(r[2]).epsilon(1e-6));
+    CHECK(fit.slope_se == doctest::Approx(r[3]).epsilon(1e-6));
+    const auto& citl = ref.at("calibration_in_the_large");
+    CHECK(fit.calibration_in_the_large == doctest::Approx(citl[0]).epsilon(1e-6));
+    CHECK(fit.calibration_in_the_large_se == doctest::Approx(citl[1]).epsilon(1e-6));
+    MESSAGE("sklearn AUC " << ref.at("auc")[0] << "; statsmodels intercept " << r[0] << " slope " << r[1]
+                           << "; tocsin intercept " << fit.intercept << " slope " << fit.slope);
+}
+
+TEST_CASE("reference.evaluation_pROC_delong") {
+    if (!command_succeeds("Rscript -e 'quit(status = !requireNamespace(\"pROC\", quietly = TRUE))'")) {
+        MESSAGE("SKIPPED: R or the pROC package not installed (./go test installs r-base-core r-cran-proc)");
+        return;
+    }
+    const DataSet d = generated_data();
+    const auto csv = write_csv(d, "proc");
+    const auto ref = parse(run("Rscript " + reference_dir + "pROC_delong.R " + csv.string()));
+    std::filesystem::remove(csv);
+    const AucEstimate a = auc_delong(d.score, d.label, 0.95);
+    // Same estimator and the same Wald interval clipped to [0, 1]; agreement is
+    // to floating rounding, checked at 1e-9.
+    CHECK(std::abs(a.auc - ref.at("auc")[0]) < 1e-9);
+    CHECK(std::abs(a.standard_error * a.standard_error - ref.at("variance")[0]) < 1e-9);
+    CHECK(std::abs(a.interval.lower - ref.at("lower")[0]) < 1e-9);
+    CHECK(std::abs(a.interval.upper - ref.at("upper")[0]) < 1e-9);
+    MESSAGE("pROC DeLong: AUC " << ref.at("auc")[0] << " (" << ref.at("lower")[0] << " to " << ref.at("upper")[0]
+                                << "); tocsin " << a.auc << " (" << a.interval.lower << " to " << a.interval.upper << ")");
+}

@@ -1,0 +1,63 @@
+// The report of a real run: the demo scenario through run_scenario, filled in
+// by report_input_for_run and rendered. Checks the wiring (which figures land
+// where), not the figures themselves, which the comparison tests own.
+#include <doctest/doctest.h>
+
+#include "analysis/report_run.hpp"
+#include "sim/population_source.hpp"
+
+using namespace tocsin;
+
+namespace {
+
+const std::string demo = std::string(TOCSIN_SOURCE_DIR) + "/scenarios/demo.yaml";
+
+std::string demo_report(unsigned threads, std::optional<double> budget) {
+    Scenario sc = load_scenario(demo);
+    sc.replications = 3;
+    RunSettings settings;
+    settings.threads = threads;
+    settings.budget_limit = budget;
+    const RunOutput out = run_scenario(sc, population_factory(sc), settings);
+    return render_report(report_input_for_run(sc, out, settings));
+}
+
+}  // namespace
+
+TEST_CASE("report_run.demo") {
+    const std::string page = demo_report(1, 4.0);
+    for (const char* id : {"question", "assumptions", "comparison", "frontier", "burden", "lead-times", "staff", "run"}) {
+        CAPTURE(id);
+        CHECK(page.find("<section id=\"" + std::string(id) + "\"") != std::string::npos);
+    }
+    // The demo declares roles: lead time counts from the evaluation, and the
+    // staff table names the demo's roles.
+    CHECK(page.find("id=\"fig-lead-evaluation\"") != std::string::npos);
+    CHECK(page.find("rapid response nurse") != std::string::npos);
+    CHECK(page.find(">median wait, minutes</th>") != std::string::npos);
+    // No model-evaluation measures in a run yet.
+    CHECK(page.find("<section id=\"evaluation\"") == std::string::npos);
+    CHECK(page.find("Fernhollow District Hospital") != std::string::npos);
+    CHECK(page.find("Time zone: America/Chicago") != std::string::npos);
+    // Items of the scenario's lists carry their kind; indented details join their item.
+    CHECK(page.find("<li>Plan page-70: page to rapid response nurse when deterioration score &gt;= 70; snooze 4 h. "
+                    "Page at 70, at most every 4 hours per patient. Escalation: ") != std::string::npos);
+    CHECK(page.find("<li>Role house physician (one team for the hospital)") != std::string::npos);
+    CHECK(page.find("<li>Plans (") == std::string::npos);
+    for (const char* plan : {"page-70", "page-55-rise", "page-55-twice", "page-45-noisy"}) CHECK(page.find(plan) != std::string::npos);
+    // Three wards over the 28 nights of the reporting period (19 October to
+    // 16 November): 84 unit-nights per plan in the burden chart's n column.
+    CHECK(page.find(" \xC2\xB7 84</text>") != std::string::npos);
+    // The budget question is answered in words and drawn on the per-night chart
+    // (the budget limits per_unit_night_p90; the frontier's axis is the mean).
+    CHECK(page.find("Best within the budget: page-55-twice") != std::string::npos);
+    CHECK(page.find("marks the budget of 4.") != std::string::npos);
+    CHECK(page.find("Paired differences from page-70") != std::string::npos);
+    CHECK(page.find("Replications</dt><dd>3</dd>") != std::string::npos);
+    CHECK(page.find("http") == std::string::npos);
+    CHECK(page.find("<script") == std::string::npos);
+}
+
+TEST_CASE("report_run.same_bytes_whatever_the_threads") {
+    CHECK(demo_report(1, std::nullopt) == demo_report(2, std::nullopt));
+}
