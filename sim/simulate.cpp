@@ -1,6 +1,7 @@
 #include "sim/simulate.hpp"
 
 #include <algorithm>
+#include <atomic>
 #include <stdexcept>
 #include <thread>
 
@@ -92,8 +93,16 @@ ReplicationRecord simulate_replication(const Scenario& scenario, const Populatio
         // Each plan has a staff of its own: plans are alternatives, not rivals for the same nurses.
         // Plans are independent here, so they can run side by side with identical results.
         const StaffModel model = staff_model(scenario, static_cast<std::uint32_t>(population.units.size()));
-        auto staff_plans = [&](std::size_t first, std::size_t step) {
-            for (std::size_t p = first; p < n_plans; p += step) {
+        // Busiest plans first, each taken by the next free worker.
+        std::vector<std::size_t> order(n_plans);
+        for (std::size_t p = 0; p < n_plans; ++p) order[p] = p;
+        std::stable_sort(order.begin(), order.end(), [&](std::size_t a, std::size_t b) {
+            return record.plans[a].notices.size() > record.plans[b].notices.size();
+        });
+        std::atomic<std::size_t> next{0};
+        auto staff_plans = [&] {
+            for (std::size_t k = next++; k < n_plans; k = next++) {
+                const std::size_t p = order[k];
                 RandomEngine minutes = make_stream(scenario.seed, replication, StreamPurpose::task_minutes, p);
                 // Only notices that ask for a bedside evaluation become tasks (an
                 // interruption that is dismissed, a flag nobody follows up, do not).
@@ -113,8 +122,8 @@ ReplicationRecord simulate_replication(const Scenario& scenario, const Populatio
         };
         const std::size_t workers = std::min<std::size_t>(std::max(1u, threads), n_plans);
         std::vector<std::thread> pool;
-        for (std::size_t w = 1; w < workers; ++w) pool.emplace_back(staff_plans, w, workers);
-        staff_plans(0, workers);
+        for (std::size_t w = 1; w < workers; ++w) pool.emplace_back(staff_plans);
+        staff_plans();
         for (auto& t : pool) t.join();
     }
     return record;
