@@ -688,12 +688,15 @@ std::string describe_scenario(const Scenario& sc) {
     }
     if (sc.shift) {
         const ShiftStress& x = *sc.shift;
+        std::vector<std::string> parts;
+        auto part = [&](const std::string& text) { parts.push_back(text); };
+        if (x.outcome_rate_multiplier != 1) part("outcome rate x " + num(x.outcome_rate_multiplier));
+        if (x.score_scale != 1 || x.score_offset != 0) part("scores x " + num(x.score_scale) + " + " + num(x.score_offset));
+        if (x.cadence_minutes > 0) part("at most one score per " + num(x.cadence_minutes) + " min");
+        if (x.outage_hours > 0) part("feed outage of " + num(x.outage_hours) + " h from " + format_local(x.outage_start, sc.zone));
+        for (const auto& [unit, m] : x.census_multiplier) part(unit + " admissions x " + num(m));
         o << "\nStress test from " << format_local(x.from, sc.zone) << ":";
-        if (x.outcome_rate_multiplier != 1) o << " outcome rate x " << num(x.outcome_rate_multiplier) << ";";
-        if (x.score_scale != 1 || x.score_offset != 0) o << " scores x " << num(x.score_scale) << " + " << num(x.score_offset) << ";";
-        if (x.cadence_minutes > 0) o << " at most one score per " << num(x.cadence_minutes) << " min;";
-        if (x.outage_hours > 0) o << " feed outage of " << num(x.outage_hours) << " h from " << format_local(x.outage_start, sc.zone) << ";";
-        for (const auto& [unit, m] : x.census_multiplier) o << " " << unit << " admissions x " << num(m) << ";";
+        for (std::size_t k = 0; k < parts.size(); ++k) o << (k ? "; " : " ") << parts[k];
     }
     o << "\nPlans (" << sc.plans.size() << "):\n";
     for (const Plan& p : sc.plans) {
