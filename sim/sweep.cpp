@@ -1,5 +1,6 @@
 #include "sim/sweep.hpp"
 
+#include <algorithm>
 #include <charconv>
 #include <cmath>
 #include <filesystem>
@@ -156,24 +157,79 @@ Scenario sweep_scenario(const std::string& path, const SweepRequest& request) {
         throw std::runtime_error("sweep: the grid has " + std::to_string(grid) + " plans, more than the limit of " +
                                  std::to_string(request.max_plans));
 
+    // Staffing axes ("roles.<role>.<key>") vary the role the swept plan pages.
+    // Each combination of their values becomes a copy of that role under its
+    // own name (with the escalation edge out of it), which that grid point's
+    // plan pages instead: every plan still has staff of its own, and the
+    // population does not depend on staffing, so all grid points share patients.
+    const std::string plan_role = base_node["role"] && base_node["role"].IsScalar() ? base_node["role"].Scalar() : "";
+    std::vector<bool> staffing(axes.size(), false);
+    for (std::size_t a = 0; a < axes.size(); ++a) {
+        const auto segments = split(axes[a].path, '.');
+        if (segments.size() >= 3 && segments[0] == "roles") {
+            staffing[a] = true;
+            if (!root["roles"] || !root["roles"].IsSequence())
+                throw std::runtime_error("sweep path '" + axes[a].path + "': the scenario declares no roles");
+            if (segments[1] != plan_role)
+                throw std::runtime_error("sweep path '" + axes[a].path + "': a staffing axis varies the role the "
+                                         "swept plan pages ('" + plan_role + "'), not '" + segments[1] + "'");
+        } else if (segments.size() < 2 || segments[0] != "plan") {
+            throw std::runtime_error("sweep path '" + axes[a].path + "': paths start with 'plan.' (a key of the "
+                                     "swept plan, e.g. plan.rule.threshold) or 'roles.<role>.' (the role it pages, "
+                                     "e.g. roles.cover nurse.roster.night)");
+        }
+    }
+    YAML::Node role_node;
+    YAML::Node escalation_out;
+    bool has_escalation_out = false;
+    if (std::find(staffing.begin(), staffing.end(), true) != staffing.end()) {
+        for (std::size_t k = 0; k < root["roles"].size(); ++k) {
+            YAML::Node r = root["roles"][k];
+            if (r["name"] && r["name"].Scalar() == plan_role) role_node.reset(r);
+        }
+        if (root["escalation"])
+            for (std::size_t k = 0; k < root["escalation"].size(); ++k) {
+                YAML::Node e = root["escalation"][k];
+                if (e["from"] && e["from"].Scalar() == plan_role) {
+                    escalation_out.reset(e);
+                    has_escalation_out = true;
+                }
+            }
+    }
+    std::vector<std::string> role_variants;  // names of role copies made so far
+
     YAML::Node plans(YAML::NodeType::Sequence);
     if (request.keep_other_plans)
         for (std::size_t k = 0; k < root["plans"].size(); ++k) plans.push_back(YAML::Clone(root["plans"][k]));
     std::vector<std::size_t> at(axes.size(), 0);
     for (std::size_t g = 0; g < grid; ++g) {
         YAML::Node plan = YAML::Clone(base_node);
-        std::string name = base;
+        std::string name = base, staffing_label;
+        YAML::Node role = role_node ? YAML::Clone(role_node) : YAML::Node();
         for (std::size_t a = 0; a < axes.size(); ++a) {
             const SweepAxis& axis = axes[a];
             const double v = axis.values[at[a]];
             auto segments = split(axis.path, '.');
-            if (segments.size() < 2 || segments[0] != "plan")
-                throw std::runtime_error("sweep path '" + axis.path + "': paths start with 'plan.' (a key of the "
-                                         "swept plan, e.g. plan.rule.threshold)");
-            segments.erase(segments.begin());
-            YAML::Node holder = descend(plan, segments, axis.path);
+            segments.erase(segments.begin(), segments.begin() + (staffing[a] ? 2 : 1));
+            YAML::Node holder = descend(staffing[a] ? role : plan, segments, axis.path);
             holder[segments.back()] = v;
-            name += (a ? ", " : " ") + segments.back() + "=" + number_text(v);
+            const std::string label = segments.back() + "=" + number_text(v);
+            name += (a ? ", " : " ") + label;
+            if (staffing[a]) staffing_label += (staffing_label.empty() ? "" : ", ") + label;
+        }
+        if (!staffing_label.empty()) {
+            const std::string variant = plan_role + " (" + staffing_label + ")";
+            if (std::find(role_variants.begin(), role_variants.end(), variant) == role_variants.end()) {
+                role_variants.push_back(variant);
+                role["name"] = variant;
+                root["roles"].push_back(role);
+                if (has_escalation_out) {
+                    YAML::Node edge = YAML::Clone(escalation_out);
+                    edge["from"] = variant;
+                    root["escalation"].push_back(edge);
+                }
+            }
+            plan["role"] = variant;
         }
         plan["name"] = name;
         plans.push_back(plan);

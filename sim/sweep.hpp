@@ -4,9 +4,11 @@
 // the scenario's YAML, so every generated plan goes through the same strict
 // loader as a hand-written one.
 //
-// An axis is "PATH=VALUES". PATH is dotted and starts with "plan.": a key of
-// the swept plan, e.g. "plan.rule.threshold"; a list item on the way is picked
-// by its position or by its `name`. VALUES is "a,b,c" or "from:to:step" (inclusive).
+// An axis is "PATH=VALUES". PATH is dotted and starts with "plan." (a key of
+// the swept plan, e.g. "plan.rule.threshold") or "roles.<role>." (staffing of
+// the role the swept plan pages, e.g. "roles.cover nurse.roster.night"); a
+// list item on the way is picked by its position or by its `name`. VALUES is
+// "a,b,c" or "from:to:step" (inclusive).
 #include <string>
 #include <vector>
 

@@ -68,3 +68,40 @@ TEST_CASE("sweep.grid") {
         CHECK_THROWS_WITH_AS(sweep_scenario(path, r), doctest::Contains("10000 plans"), std::runtime_error);
     }
 }
+
+TEST_CASE("sweep.staffing_axis") {
+    // Varying the night roster of the role the swept plan pages: each value
+    // becomes a copy of the role under its own name, with the escalation edge
+    // out of it; the plan of that grid point pages the copy.
+    ScratchDir dir;
+    const std::string path = dir.file(
+        "s.yaml",
+        "scenario_schema: 1\nname: t\ntime_zone: UTC\n"
+        "shifts: [{name: day, starts: \"07:00\"}, {name: night, starts: \"19:00\", night: true}]\n"
+        "outcome: {window_hours: 12}\npopulation: {replay: {encounters: e.csv, scores: s.csv}}\n"
+        "roles:\n"
+        "  - {name: cover nurse, roster: {day: 2, night: 1}, minutes: {distribution: fixed, minutes: 20}}\n"
+        "  - {name: physician, roster: {day: 1, night: 1}, minutes: {distribution: fixed, minutes: 30}}\n"
+        "escalation: [{from: cover nurse, to: physician, after_minutes: 30}]\n"
+        "plans:\n  - {name: p, role: cover nurse, rule: {threshold: 60}}\n");
+    SweepRequest req;
+    req.axes = {parse_sweep_axis("roles.cover nurse.roster.night=1,2,3"), parse_sweep_axis("plan.rule.threshold=50,60")};
+    const Scenario sc = sweep_scenario(path, req);
+    REQUIRE(sc.plans.size() == 6);
+    CHECK(sc.plans[0].name == "p night=1, threshold=50");
+    CHECK(sc.plans[0].role == "cover nurse (night=1)");
+    CHECK(sc.plans[5].role == "cover nurse (night=3)");
+    REQUIRE(sc.roles.size() == 5);  // the two declared, one copy per night value
+    CHECK(sc.roles[4].name == "cover nurse (night=3)");
+    CHECK(sc.roles[4].roster.by_shift[1] == 3);
+    CHECK(sc.roles[4].roster.by_shift[0] == 2);  // the day roster is the original's
+    // Each copy escalates like the original.
+    CHECK(describe_scenario(sc).find("cover nurse (night=2) -(30 min)-> physician") != std::string::npos);
+
+    SUBCASE("only the role the plan pages") {
+        SweepRequest r;
+        r.axes = {parse_sweep_axis("roles.physician.roster.night=1,2")};
+        CHECK_THROWS_WITH_AS(sweep_scenario(path, r), doctest::Contains("varies the role the swept plan pages"),
+                             std::runtime_error);
+    }
+}
