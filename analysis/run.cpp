@@ -41,9 +41,14 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
                                task_logs[r] = log;
                            }
                            if (r == 0) {
+                               // The score's own measures are computed here, beside the other
+                               // replications, rather than after them all.
+                               std::optional<Evaluation> evaluation;
+                               if (settings.evaluate) evaluation = evaluate(pop, evaluation_options_for(sc));
                                std::lock_guard<std::mutex> guard(first_lock);
                                out.first_replication = std::move(t);
                                out.first_population = pop;
+                               out.evaluation = std::move(evaluation);
                            }
                        }
                    });
@@ -63,7 +68,6 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
     for (const Plan& p : sc.plans) names.push_back(p.name);
     out.plan_net_benefit = plan_net_benefit_table(names, figures[0], out.first_population.encounters.size(),
                                                   {2, 5, 10, 20, 50});
-    if (settings.evaluate) out.evaluation = evaluate(out.first_population, evaluation_options_for(sc));
     out.figures = collect_figures(names, figures);
     out.comparison = comparison_tables(out.figures);
     out.frontier = frontier_table(out.figures, metric_index(*burden), metric_index(*benefit));
