@@ -98,6 +98,7 @@ int run_evaluate_command(const EvaluateCommand& c) {
     if (!c.out_dir.empty()) {
         std::vector<OutputFile> files;
         for (const Table* t : evaluation_tables(ev)) add_table_files(files, *t);
+        files.push_back({"CAUTIONS.txt", cautions_text() + "\n"});
         write_output_files(c.out_dir, files);
         std::cout << "Wrote " << files.size() << " files to " << c.out_dir << "\n";
     }

@@ -38,6 +38,8 @@ TEST_CASE("evaluate.cli_writes_the_library_tables") {
         CHECK(read_file(dir.path("one/" + t->name + ".csv")) == to_csv(*t));
     }
 
+    CHECK(read_file(dir.path("one/CAUTIONS.txt")).find("not a medical device") != std::string::npos);
+
     // Same scenario and seed: byte-identical files.
     REQUIRE(run_tocsin("evaluate " + demo + " --threshold 60 --bootstrap 20 --out " + dir.path("two")).exit_code == 0);
     CHECK(read_file(dir.path("one/evaluation_prediction_auc.csv")) ==
