@@ -15,6 +15,9 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
     if (!burden || !benefit)
         throw std::runtime_error("unknown metric '" + (burden ? settings.benefit_metric : settings.burden_metric) +
                                  "' (expected one of " + metric_names() + ")");
+    const Metric* limited = find_metric(settings.budget_metric);
+    if (settings.budget_limit && !limited)
+        throw std::runtime_error("unknown metric '" + settings.budget_metric + "' (expected one of " + metric_names() + ")");
     RunOutput out;
     std::vector<std::vector<PlanFigures>> figures(sc.replications);
     std::vector<Table> logs(sc.replications), task_logs(sc.replications);
@@ -37,17 +40,20 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
                                // Tasks of every replication go in one log, like notices.
                                Table& log = *t.task_log;
                                log.columns.insert(log.columns.begin() + 1, "replication");
-                               for (auto& row : log.rows) row.insert(row.begin() + 1, static_cast<std::int64_t>(r));
-                               task_logs[r] = log;
+                               const Cell replication{static_cast<std::int64_t>(r)};
+                               for (auto& row : log.rows) row.insert(row.begin() + 1, replication);
+                               task_logs[r] = std::move(log);
                            }
                            if (r == 0) {
                                // The score's own measures are computed here, beside the other
                                // replications, rather than after them all.
                                std::optional<Evaluation> evaluation;
                                if (settings.evaluate) evaluation = evaluate(pop, evaluation_options_for(sc));
+                               std::string header = run_header_text(sc, pop, t, rep);
                                std::lock_guard<std::mutex> guard(first_lock);
                                out.first_replication = std::move(t);
-                               out.first_population = pop;
+                               out.first_header = std::move(header);
+                               out.first_encounters = pop.encounters.size();
                                out.evaluation = std::move(evaluation);
                            }
                        }
@@ -66,22 +72,18 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
     }
     std::vector<std::string> names;
     for (const Plan& p : sc.plans) names.push_back(p.name);
-    out.plan_net_benefit = plan_net_benefit_table(names, figures[0], out.first_population.encounters.size(),
+    out.plan_net_benefit = plan_net_benefit_table(names, figures[0], out.first_encounters,
                                                   {2, 5, 10, 20, 50});
     out.figures = collect_figures(names, figures);
     out.comparison = comparison_tables(out.figures);
     out.frontier = frontier_table(out.figures, metric_index(*burden), metric_index(*benefit));
 
-    const ShiftCalendar cal = calendar_for(sc, out.first_population);
-    out.text = run_header_text(sc, out.first_population, out.first_replication,
-                               reporting_shifts(sc, out.first_population, cal)) + "\n";
+    out.text = out.first_header + "\n";
     if (sc.replications > 1) out.text += comparison_text(out.figures);
     else out.text += plan_summary_text(out.first_replication);
     if (out.evaluation) out.text += "\nThe score on the same population (replication 0):\n" + evaluation_summary(*out.evaluation);
     if (sc.plans.size() > 2) out.text += "\n" + frontier_text(out.figures, metric_index(*burden), metric_index(*benefit));
     if (settings.budget_limit) {
-        const Metric* limited = find_metric(settings.budget_metric);
-        if (!limited) throw std::runtime_error("unknown metric '" + settings.budget_metric + "' (expected one of " + metric_names() + ")");
         out.budget = best_within_budget(out.figures, metric_index(*limited), *settings.budget_limit, metric_index(*benefit));
         out.text += "\n" + budget_text(out.figures, *out.budget, metric_index(*limited), *settings.budget_limit,
                                        metric_index(*benefit));

@@ -30,7 +30,10 @@ struct RunSettings {
 };
 
 struct RunOutput {
-    Population first_population;      // replication 0, for summaries
+    // Replication 0's population in summary: its header text and size (the
+    // population itself is not kept: a replayed year holds tens of millions of scores).
+    std::string first_header;
+    std::size_t first_encounters = 0;
     RunTables first_replication;      // tables of replication 0 (and the notice log of all, when asked)
     ReplicatedFigures figures;
     ComparisonTables comparison;
