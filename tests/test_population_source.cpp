@@ -45,15 +45,7 @@ std::string generated(const std::string& units_extra = "", const std::string& ex
            units_extra + "    scores: {cadence_minutes: 60, jitter_minutes: 5}\n" + extra;
 }
 
-InputError parse_error(const std::string& text) {
-    try {
-        parse_scenario(text, "s.yaml", "");
-    } catch (const InputError& e) {
-        return e;
-    }
-    FAIL("expected an InputError");
-    return InputError("", 0, 0, "", "");
-}
+InputError parse_error(const std::string& text) { return tocsin::testing::scenario_error(text); }
 
 }  // namespace
 

@@ -32,15 +32,7 @@ std::string scenario_text(const std::string& rule = "{threshold: 60}", const std
            "    rule: " + rule + "\n" + extra;                // 16
 }
 
-InputError parse_error(const std::string& text) {
-    try {
-        parse_scenario(text, "s.yaml", "");
-    } catch (const InputError& e) {
-        return e;
-    }
-    FAIL("expected an InputError");
-    return InputError("", 0, 0, "", "");
-}
+InputError parse_error(const std::string& text) { return tocsin::testing::scenario_error(text); }
 
 }  // namespace
 

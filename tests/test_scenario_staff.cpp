@@ -4,6 +4,7 @@
 
 #include "models/errors.hpp"
 #include "sim/scenario.hpp"
+#include "test_support.hpp"
 
 using namespace tocsin;
 
@@ -40,15 +41,7 @@ const std::string two_roles =
     "    roster: {day: 1, night: 1}\n"
     "    minutes: {distribution: empirical, values: [5, 10, 20]}\n";
 
-InputError load_error(const std::string& text) {
-    try {
-        parse_scenario(text, "s.yaml", "");
-    } catch (const InputError& e) {
-        return e;
-    }
-    FAIL("expected an InputError");
-    return InputError("", 0, 0, "", "");
-}
+InputError load_error(const std::string& text) { return tocsin::testing::scenario_error(text); }
 
 }  // namespace
 

@@ -10,6 +10,11 @@
 #include <sstream>
 #include <string>
 
+#include <doctest/doctest.h>
+
+#include "models/errors.hpp"
+#include "sim/scenario.hpp"
+
 namespace tocsin::testing {
 
 class ScratchDir {
@@ -59,6 +64,18 @@ inline CommandResult run_command(const std::string& command) {
     const int status = ::pclose(pipe);
     r.exit_code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
     return r;
+}
+
+// The InputError that loading `yaml` as a scenario file named s.yaml raises
+// (the test fails when it loads).
+inline InputError scenario_error(const std::string& yaml) {
+    try {
+        parse_scenario(yaml, "s.yaml", "");
+    } catch (const InputError& e) {
+        return e;
+    }
+    FAIL("expected an InputError");
+    return InputError("", 0, 0, "", "");
 }
 
 inline CommandResult run_tocsin(const std::string& args) { return run_command(std::string(TOCSIN_BINARY) + " " + args); }
