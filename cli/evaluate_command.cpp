@@ -74,6 +74,7 @@ CLI::App* add_evaluate_command(CLI::App& app, EvaluateCommand& c) {
 }
 
 int run_evaluate_command(const EvaluateCommand& c) {
+    if (!c.out_dir.empty()) check_output_directory(c.out_dir);
     const Scenario sc = load_scenario(c.scenario);
     const PreparedPopulation prepared = prepare_population(sc);
     const Population pop = population_for(sc, prepared, c.replication);

@@ -119,6 +119,7 @@ int command_review_size(const SizeOptions& opt) {
     std::size_t p = 0;
     while (p < sc.plans.size() && sc.plans[p].name != opt.plan) ++p;
     if (p == sc.plans.size()) throw std::invalid_argument("no plan named '" + opt.plan + "' in " + opt.scenario);
+    if (!opt.out_dir.empty()) check_output_directory(opt.out_dir);
     if (sc.plans[p].channel != Channel::ranked_review)
         throw std::invalid_argument("plan '" + opt.plan + "' is a " + std::string(to_string(sc.plans[p].channel)) +
                                     " plan; list sizing needs a ranked_review plan");
@@ -168,6 +169,7 @@ int command_check(const std::string& path) {
 
 int command_run(const RunOptions& opt, bool sweep) {
     const auto started = std::chrono::steady_clock::now();
+    if (!opt.out_dir.empty()) check_output_directory(opt.out_dir);  // before the long part, not after
     Scenario sc;
     if (sweep) {
         SweepRequest request;
@@ -215,9 +217,7 @@ int command_run(const RunOptions& opt, bool sweep) {
         report = render_report(input);
     }
     if (!opt.report_path.empty()) {
-        const std::filesystem::path path(opt.report_path);
-        write_output_files(path.has_parent_path() ? path.parent_path().string() : ".",
-                           {{path.filename().string(), report}});
+        write_output_file(opt.report_path, report);
         std::cout << "Wrote the report to " << opt.report_path << "\n";
     }
     if (!opt.out_dir.empty()) {
@@ -250,8 +250,7 @@ int command_fit(const FitCommand& cmd) {
     if (cmd.out_path.empty()) {
         std::cout << fragment;
     } else {
-        std::ofstream out(cmd.out_path, std::ios::binary);
-        if (!(out << fragment)) throw std::runtime_error("cannot write " + cmd.out_path);
+        write_output_file(cmd.out_path, fragment);
         std::cout << "Fitted " << fit.encounters_admitted << " admissions (" << fit.cases << " cases) and " << fit.scores
                   << " scores; wrote " << cmd.out_path << "\n";
     }
@@ -301,6 +300,7 @@ int main(int argc, char** argv) {
 
     auto* keys = app.add_subcommand("keys", "Print the reference of every scenario key (Markdown)");
 
+    remove_partial_outputs_on_signals();
     try {
         app.parse(argc, argv);
     } catch (const CLI::ParseError& e) {

@@ -3,10 +3,18 @@
 // bytes a name carried.
 #include <doctest/doctest.h>
 
+#include <algorithm>
 #include <cmath>
 #include <cstdlib>
+#include <filesystem>
 #include <limits>
+#include <sstream>
 #include <string>
+#include <vector>
+
+#include <csignal>
+#include <sys/wait.h>
+#include <unistd.h>
 
 #include "analysis/table.hpp"
 #include "test_support.hpp"
@@ -126,4 +134,149 @@ TEST_CASE("output.json_escapes_control_characters") {
     CHECK(json_escape("tab\tline\ncr\r") == "\"tab\\tline\\ncr\\r\"");
     // U+2028 and U+2029 are valid JSON but end a line in older JavaScript.
     CHECK(json_escape("a\xE2\x80\xA8" "b\xE2\x80\xA9") == "\"a\\u2028b\\u2029\"");
+}
+
+// ---- The output directory: no mix of two runs, no partial files -----------
+
+namespace {
+
+const std::string replay_scenario = std::string(TOCSIN_SOURCE_DIR) + "/scenarios/fernhollow-replay.yaml";
+
+std::vector<std::string> names_in(const std::string& directory) {
+    std::vector<std::string> names;
+    for (const auto& e : std::filesystem::directory_iterator(directory)) names.push_back(e.path().filename().string());
+    std::sort(names.begin(), names.end());
+    return names;
+}
+
+// The file names the manifest lists, sorted (comment lines skipped).
+std::vector<std::string> manifest_entries(const std::string& directory) {
+    std::istringstream in(read_file(directory + "/tocsin-manifest.txt"));
+    std::vector<std::string> names;
+    for (std::string line; std::getline(in, line);)
+        if (!line.empty() && line[0] != '#') names.push_back(line);
+    std::sort(names.begin(), names.end());
+    return names;
+}
+
+}  // namespace
+
+TEST_CASE("output.second_run_replaces_the_first_entirely") {
+    ScratchDir dir;
+    const std::string out = dir.path("out");
+    const auto first = run_tocsin("run " + replay_scenario + " --notice-log --task-log --out " + out);
+    INFO(first.output);
+    REQUIRE(first.exit_code == 0);
+    REQUIRE(std::filesystem::exists(out + "/notice_log.csv"));
+    // The second run asks for no patient-level logs: last run's logs must go,
+    // and every file left is one this run wrote.
+    const auto second = run_tocsin("run " + replay_scenario + " --out " + out);
+    INFO(second.output);
+    REQUIRE(second.exit_code == 0);
+    CHECK_FALSE(std::filesystem::exists(out + "/notice_log.csv"));
+    CHECK_FALSE(std::filesystem::exists(out + "/task_log.json"));
+    std::vector<std::string> expected = manifest_entries(out);
+    expected.push_back("tocsin-manifest.txt");
+    std::sort(expected.begin(), expected.end());
+    CHECK(names_in(out) == expected);
+    CHECK(expected.size() > 20);
+}
+
+TEST_CASE("output.refuses_a_directory_tocsin_did_not_write") {
+    ScratchDir dir;
+    const std::string notes = dir.file("mine/notes.txt", "my own notes\n");
+    const auto r = run_tocsin("run " + replay_scenario + " --out " + dir.path("mine"));
+    CHECK(r.exit_code == 2);
+    CHECK(r.output.find(dir.path("mine")) != std::string::npos);
+    CHECK(r.output.find("tocsin-manifest.txt") != std::string::npos);
+    CHECK(names_in(dir.path("mine")) == std::vector<std::string>{"notes.txt"});
+    CHECK(read_file(notes) == "my own notes\n");
+    // An empty directory is fine.
+    std::filesystem::create_directories(dir.path("empty"));
+    CHECK(run_tocsin("run " + replay_scenario + " --out " + dir.path("empty")).exit_code == 0);
+}
+
+TEST_CASE("output.manifest_entries_stay_inside_the_directory") {
+    ScratchDir dir;
+    const std::string out = dir.path("out");
+    REQUIRE(run_tocsin("run " + replay_scenario + " --out " + out).exit_code == 0);
+    const std::string precious = dir.file("precious.csv", "keep me\n");
+    for (const std::string entry : {"../precious.csv", "sub/x.csv", ".."}) {
+        CAPTURE(entry);
+        const std::string manifest = read_file(out + "/tocsin-manifest.txt");
+        dir.file("out/tocsin-manifest.txt", manifest + entry + "\n");
+        const auto before = names_in(out);
+        const auto r = run_tocsin("run " + replay_scenario + " --out " + out);
+        CHECK(r.exit_code == 2);
+        CHECK(r.output.find("tocsin-manifest.txt") != std::string::npos);
+        CHECK(r.output.find(entry) != std::string::npos);
+        CHECK(read_file(precious) == "keep me\n");
+        CHECK(names_in(out) == before);
+        dir.file("out/tocsin-manifest.txt", manifest);
+    }
+}
+
+namespace {
+
+// Starts `tocsin run` with the test pause (TOCSIN_PAUSE_BEFORE_COMMIT: every
+// partial file is written, nothing renamed yet), waits until it says so on
+// stderr, sends `signal` and returns the wait status.
+int interrupt_before_commit(const std::string& out, int signal) {
+    int err[2];
+    REQUIRE(::pipe(err) == 0);
+    const pid_t pid = ::fork();
+    REQUIRE(pid >= 0);
+    if (pid == 0) {
+        ::dup2(err[1], 2);
+        ::close(err[0]);
+        ::close(err[1]);
+        std::freopen("/dev/null", "w", stdout);
+        ::setenv("TOCSIN_PAUSE_BEFORE_COMMIT", "60", 1);
+        ::execl(TOCSIN_BINARY, TOCSIN_BINARY, "run", replay_scenario.c_str(), "--notice-log", "--out", out.c_str(),
+                static_cast<char*>(nullptr));
+        ::_exit(127);
+    }
+    ::close(err[1]);
+    std::string said;
+    char buf[512];
+    ssize_t n = 0;
+    while (said.find("pausing") == std::string::npos && (n = ::read(err[0], buf, sizeof buf)) > 0) said.append(buf, static_cast<std::size_t>(n));
+    INFO(said);
+    CHECK(said.find("pausing") != std::string::npos);
+    ::kill(pid, signal);
+    int status = 0;
+    ::waitpid(pid, &status, 0);
+    ::close(err[0]);
+    return status;
+}
+
+bool has_partial(const std::string& directory) {
+    for (const auto& e : std::filesystem::directory_iterator(directory))
+        if (e.path().filename().string().find(".partial") != std::string::npos) return true;
+    return false;
+}
+
+}  // namespace
+
+TEST_CASE("output.interrupted_run_leaves_no_partial_files") {
+    for (int signal : {SIGINT, SIGTERM, SIGHUP}) {
+        CAPTURE(signal);
+        ScratchDir dir;
+        // Into a new directory: nothing at all remains.
+        const int status = interrupt_before_commit(dir.path("new/out"), signal);
+        CHECK(WIFSIGNALED(status));
+        CHECK((WIFSIGNALED(status) && WTERMSIG(status) == signal));
+        CHECK_FALSE(std::filesystem::exists(dir.path("new/out")));
+        // Over an earlier run: that run stays whole and untouched.
+        const std::string out = dir.path("earlier");
+        REQUIRE(run_tocsin("run " + replay_scenario + " --out " + out).exit_code == 0);
+        std::vector<std::string> before;
+        for (const std::string& name : names_in(out)) before.push_back(name + "\n" + read_file(out + "/" + name));
+        const int again = interrupt_before_commit(out, signal);
+        CHECK((WIFSIGNALED(again) && WTERMSIG(again) == signal));
+        CHECK_FALSE(has_partial(out));
+        std::vector<std::string> after;
+        for (const std::string& name : names_in(out)) after.push_back(name + "\n" + read_file(out + "/" + name));
+        CHECK(after == before);
+    }
 }
