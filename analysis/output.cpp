@@ -226,6 +226,8 @@ void write_output_files(const std::string& directory_name, const std::vector<Out
     for (const OutputFile& f : files) {
         if (!plain_file_name(f.name) || f.name == manifest_name)
             throw std::logic_error("output file name '" + f.name + "' is not a plain file name");
+        if (std::find(names.begin(), names.end(), f.name) != names.end())
+            throw std::logic_error("output file " + f.name + " would be written twice");
         names.push_back(f.name);
     }
     const std::optional<std::vector<std::string>> earlier = earlier_run(directory);
