@@ -16,6 +16,7 @@
 #include <sys/wait.h>
 #include <unistd.h>
 
+#include "analysis/output.hpp"
 #include "analysis/table.hpp"
 #include "test_support.hpp"
 
@@ -279,4 +280,46 @@ TEST_CASE("output.interrupted_run_leaves_no_partial_files") {
         for (const std::string& name : names_in(out)) after.push_back(name + "\n" + read_file(out + "/" + name));
         CHECK(after == before);
     }
+}
+
+TEST_CASE("output.only_listed_files_are_removed") {
+    ScratchDir dir;
+    const std::string out = dir.path("out");
+    write_output_files(out, {{"a.csv", "1\n"}, {"b.csv", "2\n"}, {"keep", "3\n"}});
+    CHECK(manifest_entries(out) == std::vector<std::string>{"a.csv", "b.csv", "keep"});
+    // Beside tocsin's files: a file of the user's, and a directory under a name
+    // the manifest lists (not tocsin's, so not removed).
+    dir.file("out/notes.txt", "mine\n");
+    std::filesystem::remove(out + "/keep");
+    dir.file("out/keep/inside.txt", "mine too\n");
+    // A link planted at a partial name must not be written through.
+    const std::string outside = dir.file("outside.txt", "untouched\n");
+    std::filesystem::create_symlink(outside, out + "/.a.csv.partial");
+    write_output_files(out, {{"a.csv", "one\n"}});
+    CHECK(names_in(out) == std::vector<std::string>{"a.csv", "keep", "notes.txt", "tocsin-manifest.txt"});
+    CHECK(read_file(out + "/a.csv") == "one\n");
+    CHECK(read_file(out + "/notes.txt") == "mine\n");
+    CHECK(read_file(out + "/keep/inside.txt") == "mine too\n");
+    CHECK(read_file(outside) == "untouched\n");
+    CHECK(manifest_entries(out) == std::vector<std::string>{"a.csv"});
+}
+
+TEST_CASE("output.refusal_writes_nothing") {
+    ScratchDir dir;
+    dir.file("theirs/data.csv", "x\n");
+    CHECK_THROWS_AS(check_output_directory(dir.path("theirs")), std::invalid_argument);
+    CHECK_THROWS_AS(write_output_files(dir.path("theirs"), {{"a.csv", "1\n"}}), std::invalid_argument);
+    CHECK(names_in(dir.path("theirs")) == std::vector<std::string>{"data.csv"});
+    CHECK_THROWS_AS(check_output_directory(dir.path("theirs/data.csv")), std::invalid_argument);  // not a directory
+    CHECK_NOTHROW(check_output_directory(dir.path("not/yet")));
+    CHECK_FALSE(std::filesystem::exists(dir.path("not")));
+}
+
+TEST_CASE("output.single_file_touches_nothing_else") {
+    ScratchDir dir;
+    dir.file("here/other.txt", "mine\n");
+    write_output_file(dir.path("here/report.html"), "<p>report</p>\n");
+    CHECK(names_in(dir.path("here")) == std::vector<std::string>{"other.txt", "report.html"});
+    write_output_file(dir.path("new/deeper/report.html"), "<p>again</p>\n");
+    CHECK(read_file(dir.path("new/deeper/report.html")) == "<p>again</p>\n");
 }
