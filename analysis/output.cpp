@@ -118,12 +118,14 @@ public:
             missing.push_back(p);
             if (p == p.parent_path()) break;
         }
+        // Remembered before they exist (deepest first), so no interruption
+        // falls between making one and remembering it.
+        for (const fs::path& p : missing) remember_for_cleanup('d', p);
         for (auto it = missing.rbegin(); it != missing.rend(); ++it) {
             std::error_code ec;
             fs::create_directory(*it, ec);
             if (ec) throw std::runtime_error("cannot create output directory " + it->string() + ": " + ec.message());
         }
-        for (const fs::path& p : missing) remember_for_cleanup('d', p);  // deepest first
     }
     void commit() { committed_ = true; }
 
@@ -254,9 +256,13 @@ void write_output_files(const std::string& directory_name, const std::vector<Out
     for (const OutputFile& f : files) move_into_place(partial_path(directory, f.name), directory / f.name);
     for (const std::string& n : stale) {
         // Only files and links: a directory under a listed name is not ours.
-        const fs::file_status s = fs::symlink_status(directory / n);
-        std::error_code ec;
-        if (fs::is_regular_file(s) || fs::is_symlink(s)) fs::remove(directory / n, ec);
+        // A partial file of the same name can only be left by a run killed
+        // outright (SIGKILL, power), and goes too.
+        for (const fs::path& p : {directory / n, partial_path(directory, n)}) {
+            const fs::file_status s = fs::symlink_status(p);
+            std::error_code ec;
+            if (fs::is_regular_file(s) || fs::is_symlink(s)) fs::remove(p, ec);
+        }
     }
     write_fresh(manifest_partial, manifest_text(names));
     move_into_place(manifest_partial, directory / manifest_name);

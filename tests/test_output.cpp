@@ -287,6 +287,7 @@ TEST_CASE("output.only_listed_files_are_removed") {
     const std::string out = dir.path("out");
     write_output_files(out, {{"a.csv", "1\n"}, {"b.csv", "2\n"}, {"keep", "3\n"}});
     CHECK(manifest_entries(out) == std::vector<std::string>{"a.csv", "b.csv", "keep"});
+    dir.file("out/.b.csv.partial", "left by a run killed outright\n");
     // Beside tocsin's files: a file of the user's, and a directory under a name
     // the manifest lists (not tocsin's, so not removed).
     dir.file("out/notes.txt", "mine\n");
