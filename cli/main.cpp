@@ -23,6 +23,7 @@
 #include "analysis/run.hpp"
 #include "analysis/shift_effect.hpp"
 #include "cli/evaluate_command.hpp"
+#include "cli/option_specs.hpp"
 #include "sim/population_source.hpp"
 #include "analysis/review_size.hpp"
 #include "models/errors.hpp"
@@ -43,8 +44,10 @@ struct RunOptions {
     bool notice_log = false;
     bool task_log = false;
     unsigned threads = 0;
-    std::uint64_t replications = 0;  // 0 = as the scenario says
-    std::optional<double> max_burden;
+    // As written; read against their ranges (the `replications` key's, and
+    // cli/option_specs.hpp) before anything runs. Empty = not given.
+    std::string replications;
+    std::string max_burden;
     std::string budget_metric = "per_unit_night_p90";
     std::string burden_metric = "per_unit_night_mean";
     std::string benefit_metric = "caught";
@@ -168,6 +171,8 @@ int command_check(const std::string& path) {
 
 int command_run(const RunOptions& opt, bool sweep) {
     const auto started = std::chrono::steady_clock::now();
+    std::optional<double> max_burden;
+    if (!opt.max_burden.empty()) max_burden = option_real(option_specs().max_burden, "--max-burden", opt.max_burden);
     Scenario sc;
     if (sweep) {
         SweepRequest request;
@@ -179,7 +184,7 @@ int command_run(const RunOptions& opt, bool sweep) {
     } else {
         sc = load_scenario(opt.scenario);
     }
-    if (opt.replications) sc.replications = opt.replications;
+    if (!opt.replications.empty()) override_replications(sc, "--replications", opt.replications);
     const PreparedPopulation prepared = prepare_population(sc);
     std::cout << describe_prepared(sc, prepared);
     const PopulationFactory factory = population_factory(sc, prepared);
@@ -199,7 +204,7 @@ int command_run(const RunOptions& opt, bool sweep) {
     settings.progress = progress_bar();
     settings.burden_metric = opt.burden_metric;
     settings.benefit_metric = opt.benefit_metric;
-    settings.budget_limit = opt.max_burden;
+    settings.budget_limit = max_burden;
     settings.budget_metric = opt.budget_metric;
     const RunOutput out = run_scenario(sc, factory, settings);
     std::cout << out.text;
