@@ -90,7 +90,7 @@ std::vector<int> parse_roster_row(const YAML::Node& node, const ShiftPattern& sh
                              "unknown shift '" + name + "' (declared shifts: " + joined(shifts.names) + ")");
         long long n = -1;
         if (!it->second.IsScalar() || !YAML::convert<long long>::decode(it->second, n) || n < 0 || n > 100000)
-            throw yaml_error(file, it->second, field + "." + name, "expected a headcount, a whole number >= 0");
+            throw yaml_error(file, it->second, field + "." + name, "expected a headcount, a whole number from 0 to 100000");
         row[static_cast<std::size_t>(at - shifts.names.begin())] = static_cast<int>(n);
     }
     for (std::size_t k = 0; k < row.size(); ++k)
@@ -314,8 +314,10 @@ WeeklyRate weekly_rate(const Section& s, std::string_view key) {
     for (const auto& item : list) rows = rows && item.IsSequence() && item.size() == 24;
     auto number = [&](const YAML::Node& item) {
         double d = 0;
-        if (!item.IsScalar() || !YAML::convert<double>::decode(item, d) || !std::isfinite(d) || d < 0)
+        if (!item.IsScalar() || !YAML::convert<double>::decode(item, d) || d < 0)
             throw s.error(item, key, "expected a number of admissions per hour >= 0");
+        if (!std::isfinite(d))
+            throw s.error(item, key, "'" + item.Scalar() + "' is not a finite number (expected admissions per hour >= 0)");
         return d;
     };
     for (const auto& item : list) {

@@ -250,8 +250,14 @@ std::optional<std::int64_t> Section::optional_integer(std::string_view key) cons
     if (!has(key)) return std::nullopt;
     YAML::Node v = value(key);
     long long n = 0;
-    if (!v.IsScalar() || !YAML::convert<long long>::decode(v, n))
+    if (!v.IsScalar() || !YAML::convert<long long>::decode(v, n)) {
+        // .inf, .nan and 1e30 read as numbers: say what is wrong with them
+        // rather than only that they are not whole.
+        double d = 0;
+        if (v.IsScalar() && YAML::convert<double>::decode(v, d) && (!std::isfinite(d) || std::fabs(d) > 9.2e18))
+            check_range(key, std::isfinite(d) ? d : std::numeric_limits<double>::quiet_NaN());
         fail(key, "expected a whole number, found '" + (v.IsScalar() ? v.Scalar() : std::string("a list or section")) + "'");
+    }
     check_range(key, static_cast<double>(n));
     return n;
 }

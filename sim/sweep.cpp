@@ -122,7 +122,26 @@ SweepAxis parse_sweep_axis(const std::string& spec, std::size_t max_values) {
     return axis;
 }
 
+namespace {
+
+Scenario build_sweep(const std::string& path, const SweepRequest& request);
+
+}  // namespace
+
 Scenario sweep_scenario(const std::string& path, const SweepRequest& request) {
+    // The scenario's own text is checked by parse_scenario first; a yaml-cpp
+    // exception from a later step is still the file's, and must name it.
+    try {
+        return build_sweep(path, request);
+    } catch (const YAML::Exception& e) {
+        throw InputError(path, e.mark.line >= 0 ? e.mark.line + 1 : 0, e.mark.column >= 0 ? e.mark.column + 1 : 0, "",
+                         "cannot sweep this file: " + e.msg);
+    }
+}
+
+namespace {
+
+Scenario build_sweep(const std::string& path, const SweepRequest& request) {
     std::ifstream in(path);
     if (!in) throw InputError(path, 0, 0, "", "cannot open scenario file");
     std::stringstream text;
@@ -286,5 +305,7 @@ Scenario sweep_scenario(const std::string& path, const SweepRequest& request) {
         throw axis_error(axes.front(), "a swept value is not valid: " + e.field + ": " + e.detail);
     }
 }
+
+}  // namespace
 
 }  // namespace tocsin

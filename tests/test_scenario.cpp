@@ -148,6 +148,12 @@ TEST_CASE("scenario.numbers_are_finite_and_the_range_is_stated") {
     CHECK(says(snooze, "'.nan' is not a finite number (expected 0 to 86400 minutes)"));
     const InputError rise = parse_error(scenario_text("{threshold: 60, rise: -1}"));
     CHECK(says(rise, "'-1' is out of range (expected >= 0 score)"));
+    // Whole-number keys too: a non-finite or huge number is named as such, with the range.
+    const InputError persistence = parse_error(scenario_text("{threshold: 60, persistence: .inf}"));
+    CHECK(says(persistence, "'.inf' is not a finite number (expected 1 to 1000 scores)"));
+    const InputError replications = parse_error(scenario_text() + "replications: 1e30\n");
+    CHECK(replications.line == 17);
+    CHECK(says(replications, "'1e30' is out of range (expected 1 to 100000)"));
 }
 
 TEST_CASE("scenario.every_key_documented_in_readme") {
