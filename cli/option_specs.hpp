@@ -13,6 +13,9 @@ namespace tocsin {
 struct OptionSpecs {
     // run, sweep
     KeySpec max_burden{"--max-burden", KeyKind::real, "", "", false, 0, 1e300, ""};
+    KeySpec threads{"--threads", KeyKind::integer, "", "0", false, 0, 4096, ""};
+    // review-size (its --sizes are values of plans[].review.top_n)
+    KeySpec target_catch_rate{"--target-catch-rate", KeyKind::real, "", "0.8", false, 0, 1, ""};
     // evaluate. The grid and the bootstrap set the work done, so their upper
     // bounds keep a typo from running for hours.
     KeySpec threshold{"--threshold", KeyKind::real, "score", "", false, -1e300, 1e300, ""};

@@ -76,3 +76,17 @@ TEST_CASE("options.sweep_grid_is_sized_first") {
     CHECK(says(refused("sweep " + generated + " --plan nope --vary plan.rule.threshold=60", "--plan"),
                "no plan named 'nope'"));
 }
+
+TEST_CASE("options.threads_and_review_size") {
+    CHECK(says(refused("run " + replayed + " --threads 100000000", "--threads"), "expected 0 to 4096"));
+    CHECK(says(refused("run " + replayed + " --threads two", "--threads"), "expected a whole number"));
+    // --sizes are values of plans[].review.top_n, with its range, and one
+    // simulation each, so no more of them than plans in a sweep.
+    CHECK(says(refused("review-size " + replayed + " --plan review-top4 --sizes 0-5", "--sizes"),
+               "'0' is out of range (expected 1 to 100000 patients)"));
+    CHECK(says(refused("review-size " + replayed + " --plan review-top4 --sizes 1-100000", "--sizes"),
+               "100000 list sizes, more than the limit of 5000"));
+    CHECK(says(refused("review-size " + replayed + " --plan review-top4 --sizes 9-3", "--sizes"), "FROM <= TO"));
+    CHECK(says(refused("review-size " + replayed + " --plan review-top4 --target-catch-rate nan", "--target-catch-rate"),
+               "'nan' is not a finite number (expected 0 to 1)"));
+}
