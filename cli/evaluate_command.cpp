@@ -102,6 +102,11 @@ int run_evaluate_command(const EvaluateCommand& c) {
     replication_index.min = 0;
     replication_index.max -= 1;
     const auto replication = static_cast<std::uint64_t>(option_integer(replication_index, "--replication", c.replication));
+    std::vector<double> decision_thresholds, evaluations_per_case;
+    for (const std::string& t : c.decision_thresholds)
+        decision_thresholds.push_back(option_real(spec.decision_threshold, "--decision-threshold", t));
+    for (const std::string& n : c.evaluations_per_case)
+        evaluations_per_case.push_back(option_real(spec.evaluations_per_case, "--evaluate-per-case", n));
     std::optional<ProbabilityMapping> mapping;
     if (!c.probability.empty()) mapping = parse_mapping(c.probability);
 
@@ -117,8 +122,8 @@ int run_evaluate_command(const EvaluateCommand& c) {
     if (min_lead_hours) o.min_lead_hours = *min_lead_hours;
     if (mapping) o.probability = mapping;
     if (o.probability) o.probability->horizon_hours = probability_horizon;
-    o.decision_threshold_probabilities = c.decision_thresholds;
-    o.evaluations_per_case = c.evaluations_per_case;
+    o.decision_threshold_probabilities = decision_thresholds;
+    o.evaluations_per_case = evaluations_per_case;
     o.drift_period_days = period_days;
     o.bootstrap_replicates = bootstrap;
     o.replication = replication;

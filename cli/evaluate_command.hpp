@@ -21,8 +21,8 @@ struct EvaluateCommand {
     std::string min_lead_hours;  // empty: the scenario's min_lead
     std::string probability;     // "", "as-is", "divide:D", "logistic:A:B"
     std::string probability_horizon_hours = "0";
-    std::vector<double> decision_thresholds;
-    std::vector<double> evaluations_per_case;
+    std::vector<std::string> decision_thresholds;
+    std::vector<std::string> evaluations_per_case;
     std::string period_days = "0";
     std::string bootstrap_replicates = "200";
     std::string replication = "0";

@@ -22,6 +22,11 @@ struct OptionSpecs {
     KeySpec grid_points{"--grid-points", KeyKind::integer, "", "21", false, 0, 10000, ""};
     KeySpec horizon{"--horizon", KeyKind::real, "hours", "", false, 0.0166, 24 * 365, ""};
     KeySpec probability_horizon{"--probability-horizon-hours", KeyKind::real, "hours", "0", false, 0, 24 * 365, ""};
+    // A threshold probability pt and "N evaluations per case found" are the
+    // same choice (pt = 1/N); both stop at accepting 999 needless evaluations
+    // per case, or almost none.
+    KeySpec decision_threshold{"--decision-threshold", KeyKind::real, "probability", "", false, 0.001, 0.999, ""};
+    KeySpec evaluations_per_case{"--evaluate-per-case", KeyKind::real, "evaluations", "", false, 1.001, 1000, ""};
     KeySpec period_days{"--period-days", KeyKind::integer, "days", "0", false, 0, 3660, ""};
     KeySpec bootstrap{"--bootstrap", KeyKind::integer, "replicates", "200", false, 0, 100000, ""};
 };

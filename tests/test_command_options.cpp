@@ -59,6 +59,10 @@ TEST_CASE("options.evaluate_bounds") {
     CHECK(says(refused("evaluate " + replayed + " --bootstrap -1", "--bootstrap"), "expected 0 to 100000"));
     CHECK(says(refused("evaluate " + replayed + " --threshold nan", "--threshold"), "not a finite number"));
     CHECK(says(refused("evaluate " + replayed + " --horizon 0", "--horizon"), "out of range"));
+    CHECK(says(refused("evaluate " + replayed + " --decision-threshold 1", "--decision-threshold"),
+               "expected 0.001 to 0.999 probability"));
+    CHECK(says(refused("evaluate " + replayed + " --evaluate-per-case inf", "--evaluate-per-case"),
+               "'inf' is not a finite number (expected 1.001 to 1000 evaluations)"));
     // Options standing for outcome keys take the keys' ranges (min_lead in hours).
     CHECK(says(refused("evaluate " + replayed + " --window-hours 1e6", "--window-hours"),
                "expected 0.0166 to 8760 hours"));
