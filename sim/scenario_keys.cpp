@@ -4,6 +4,7 @@
 #include <cassert>
 #include <charconv>
 #include <cmath>
+#include <cstdlib>
 #include <limits>
 #include <map>
 
@@ -138,7 +139,13 @@ double option_real(const KeySpec& k, std::string_view option, const std::string&
     const auto [ptr, ec] = std::from_chars(text.data(), last, v);
     if (text.empty() || ptr != last || (ec != std::errc() && ec != std::errc::result_out_of_range))
         throw InputError("command line", 0, 0, std::string(option), "expected a number, found '" + text + "'");
-    if (ec == std::errc::result_out_of_range) v = std::numeric_limits<double>::max();  // too large to hold
+    if (ec == std::errc::result_out_of_range) {
+        // from_chars leaves v unset: strtod tells a too-large value (kept as
+        // the largest double, so it is out of range, not "not finite") from
+        // a too-small one (near zero).
+        v = std::strtod(text.c_str(), nullptr);
+        if (std::isinf(v)) v = std::copysign(std::numeric_limits<double>::max(), v);
+    }
     if (std::string problem = number_problem(k, v, text); !problem.empty())
         throw InputError("command line", 0, 0, std::string(option), problem);
     return v;
