@@ -131,6 +131,25 @@ TEST_CASE("scenario.key_must_be_a_plain_name") {
     CHECK(says(nested, "a key must be a plain name"));
 }
 
+TEST_CASE("scenario.yaml_errors_name_the_file") {
+    for (const std::string& text : {std::string("plans: [\n"), std::string("name: \"open\n"), std::string("a: *nowhere\n"),
+                                     std::string("a: 1\n\tb: 2\n"), std::string("- a\nb: 1\n")}) {
+        CAPTURE(text);
+        const InputError e = parse_error(text);
+        CHECK(e.file == "s.yaml");
+        CHECK(e.line >= 1);
+    }
+    // Walking every mapping for repeated keys must not follow aliases for
+    // ever: forty doublings name one mapping 2^40 times.
+    std::string bomb = "a0: &a0 {k: 1}\n";
+    for (int i = 1; i < 40; ++i)
+        bomb += "a" + std::to_string(i) + ": &a" + std::to_string(i) + " {x: *a" + std::to_string(i - 1) + ", y: *a" +
+                std::to_string(i - 1) + "}\n";
+    const InputError aliases = parse_error(bomb);
+    CHECK(aliases.file == "s.yaml");
+    CHECK(says(aliases, "repeats itself through aliases"));
+}
+
 TEST_CASE("scenario.numbers_are_finite_and_the_range_is_stated") {
     for (const std::string& v : {std::string(".inf"), std::string("-.inf"), std::string(".nan")}) {
         CAPTURE(v);
