@@ -37,12 +37,17 @@ constexpr std::uint64_t mix64(std::uint64_t z) {
     return z ^ (z >> 31);
 }
 
-constexpr std::uint64_t stream_seed(std::uint64_t scenario_seed, std::uint64_t replication, StreamPurpose purpose,
-                                    std::uint64_t entity) {
+// The part of a stream's seed shared by every entity of one purpose, so that
+// code drawing for many entities can compute it once.
+constexpr std::uint64_t purpose_seed(std::uint64_t scenario_seed, std::uint64_t replication, StreamPurpose purpose) {
     std::uint64_t h = mix64(scenario_seed);
     h = mix64(h ^ replication);
-    h = mix64(h ^ static_cast<std::uint64_t>(purpose));
-    return mix64(h ^ entity);
+    return mix64(h ^ static_cast<std::uint64_t>(purpose));
+}
+
+constexpr std::uint64_t stream_seed(std::uint64_t scenario_seed, std::uint64_t replication, StreamPurpose purpose,
+                                    std::uint64_t entity) {
+    return mix64(purpose_seed(scenario_seed, replication, purpose) ^ entity);
 }
 
 // A stable 64-bit key for a name (FNV-1a), so that an entity keyed by a role's

@@ -133,7 +133,8 @@ class Simulation {
 public:
     Simulation(std::span<const Notice> notices, const StaffModel& model, const StaffPlan& plan,
                const ShiftCalendar& calendar, Instant until, ReplicationSeed draws)
-        : notices_(notices), model_(model), plan_(plan), calendar_(calendar), until_(until), draws_(draws) {
+        : notices_(notices), model_(model), plan_(plan), calendar_(calendar), until_(until),
+          minutes_seed_(purpose_seed(draws.seed, draws.replication, StreamPurpose::task_minutes)) {
         for (const Role& role : model.roles) role_keys_.push_back(text_entity(role.name));
         team_base_.resize(model.roles.size());
         std::uint32_t teams = 0;
@@ -253,9 +254,9 @@ private:
     }
 
     Seconds drawn_seconds(std::uint32_t i, const TaskRecord& task) const {
-        SplitMixEngine engine = make_short_stream(
-            draws_, StreamPurpose::task_minutes,
-            minutes_entity(task.encounter, task.created, state_[i].occurrence, role_keys_[task.role]));
+        // make_short_stream(draws, task_minutes, entity), with the part of the seed shared by every task computed once.
+        SplitMixEngine engine{
+            mix64(minutes_seed_ ^ minutes_entity(task.encounter, task.created, state_[i].occurrence, role_keys_[task.role]))};
         return draw_seconds(model_.roles[task.role].minutes_per_task, engine);
     }
 
@@ -420,7 +421,7 @@ private:
     const StaffPlan& plan_;
     const ShiftCalendar& calendar_;
     Instant until_;
-    ReplicationSeed draws_;
+    std::uint64_t minutes_seed_;
     std::vector<std::uint64_t> role_keys_;  // text_entity of each role's name
     std::vector<std::uint32_t> team_base_;  // per role: index of its first team
     std::vector<Team> teams_;
