@@ -222,6 +222,21 @@ TEST_CASE("channels.handoff_follow_up_common_random_numbers") {
     CHECK(shared > 100);
     const double nb = static_cast<double>(b.notices.size());
     CHECK(std::abs(followed - 0.5 * nb) < 5 * std::sqrt(0.25 * nb));
+    // A plan read at 13:00 as well flags patients at more handoffs, but where it
+    // flags one at a handoff the others also hold, it gets the same draw: the
+    // draw is keyed by patient and handoff instant, not by how many handoffs
+    // the patient has been through in this plan.
+    Plan thrice = w.sc.plans[0];
+    thrice.handoff.times_minutes = {7 * 60, 13 * 60, 19 * 60};
+    const PlanRecord d = run_round_channel(w.sc, w.pop, cal, thrice, 2, 0);
+    int shared_with_thrice = 0;
+    for (const Notice& n : d.notices) {
+        auto it = asked.find({n.encounter, n.at});
+        if (it == asked.end()) continue;
+        ++shared_with_thrice;
+        CHECK(it->second == n.asks_evaluation);
+    }
+    CHECK(shared_with_thrice > 100);
     // Another replication draws differently.
     const PlanRecord c = run_round_channel(w.sc, w.pop, cal, w.sc.plans[1], 1, 1);
     int differ = 0;
