@@ -6,13 +6,14 @@
 // in every per-plan table (staff figures and task log included).
 #include <doctest/doctest.h>
 
+#include <algorithm>
 #include <cstdio>
 #include <map>
-#include <set>
+#include <string>
+#include <variant>
+#include <vector>
 
 #include "analysis/run.hpp"
-#include "models/chart_openings.hpp"
-#include "sim/channels.hpp"
 #include "sim/population_source.hpp"
 #include "test_support.hpp"
 
@@ -154,6 +155,8 @@ TEST_CASE("common_random_numbers.a_copied_plan_gets_the_same_figures") {
         CHECK(check_same_rows(b, name, b, std::string("copy-of-") + name) > 50);
 }
 
+namespace {
+
 // `text` without the plan or chart-opening role item that starts with `head`
 // (up to the next item at the same indentation, a blank line or the end).
 std::string without_item(const std::string& text, const std::string& head) {
@@ -164,6 +167,8 @@ std::string without_item(const std::string& text, const std::string& head) {
     to = to == std::string::npos ? text.size() : to + 1;
     return text.substr(0, from) + text.substr(to);
 }
+
+}  // namespace
 
 TEST_CASE("common_random_numbers.an_opening_role_a_plan_never_sees") {
     // chart-60 interrupts ward nurses only; a plan interrupting ward physicians
