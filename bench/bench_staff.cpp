@@ -80,10 +80,10 @@ int main(int argc, char** argv) {
     for (int repeat = 0; repeat < 3; ++repeat) {
         auto t0 = std::chrono::steady_clock::now();
         for (std::uint32_t p = 0; p < 4; ++p) {
-            RandomEngine stream = make_stream(1, 0, StreamPurpose::task_minutes, p);
+            const ReplicationSeed draws{1, 0};
             StaffPlan plan;
             plan.discipline = p % 2 ? QueueDiscipline::priority_by_score : QueueDiscipline::fifo;
-            runs[p] = simulate_staff(notices[p], model, plan, calendar, to, stream);
+            runs[p] = simulate_staff(notices[p], model, plan, calendar, to, draws);
         }
         best_sim = std::min(best_sim, seconds_since(t0));
         t0 = std::chrono::steady_clock::now();

@@ -102,14 +102,17 @@ ChartOpeningLog load_chart_openings(const std::string& path, const std::vector<C
     return log;
 }
 
-void generate_chart_openings(const std::vector<ChartOpeningRole>& roles, const Encounter& enc, const TimeZone& zone,
-                             RandomEngine& stream, std::vector<ChartOpening>& out) {
+void generate_chart_openings(const std::vector<ChartOpeningRole>& roles, const Encounter& enc,
+                             std::uint64_t encounter_index, const TimeZone& zone, ReplicationSeed draws,
+                             std::vector<ChartOpening>& out) {
     const std::size_t first = out.size();
     const Instant end = Population::usable_until(enc);
     for (std::size_t r = 0; r < roles.size(); ++r) {
         const auto& rate = roles[r].openings_per_hour;
         const double peak = *std::max_element(rate.begin(), rate.end());
         if (!(peak > 0)) continue;
+        SplitMixEngine stream = make_short_stream(draws, StreamPurpose::chart_openings,
+                                                  entity_key({encounter_index, text_entity(roles[r].name)}));
         // Candidates from a homogeneous process at the peak rate; each kept with
         // probability rate(t) / peak (Lewis & Shedler 1979, thinning).
         boost::random::exponential_distribution<double> gap_hours(peak);

@@ -60,10 +60,12 @@ ChartOpeningLog load_chart_openings(const std::string& path, const std::vector<C
 
 // Appends one encounter's generated openings over [admitted, usable_until) in
 // time order (ties: role order). Each role is thinned from a homogeneous
-// process at its peak hourly rate; the stream should be
-// make_stream(seed, replication, StreamPurpose::chart_openings, encounter).
+// process at its peak hourly rate, with a stream of its own keyed by the
+// encounter's index and the role's name (StreamPurpose::chart_openings), so
+// adding, removing or reordering another role leaves a role's openings alone.
 void generate_chart_openings(const std::vector<ChartOpeningRole>& roles, const Encounter& encounter,
-                             const TimeZone& zone, RandomEngine& stream, std::vector<ChartOpening>& out);
+                             std::uint64_t encounter_index, const TimeZone& zone, ReplicationSeed draws,
+                             std::vector<ChartOpening>& out);
 
 // Expected openings by one role for one patient over [from, to): the integral of
 // its rate over the local hours the interval covers.

@@ -10,15 +10,6 @@
 
 namespace tocsin {
 
-std::uint64_t text_entity(const std::string& text) {
-    std::uint64_t h = 0xcbf29ce484222325ULL;  // FNV-1a offset basis
-    for (unsigned char ch : text) {
-        h ^= ch;
-        h *= 0x100000001b3ULL;  // FNV prime
-    }
-    return h;
-}
-
 namespace {
 
 int unit_index(const Population& pop, const std::string& name, const std::string& field) {

@@ -53,7 +53,4 @@ void validate(const ShiftStress& stress, const Population& population);
 Population apply_shift(const Population& population, const ShiftStress& stress, std::uint64_t seed,
                        std::uint64_t replication);
 
-// FNV-1a 64-bit hash of a text, used to key per-encounter streams by id.
-std::uint64_t text_entity(const std::string& text);
-
 }  // namespace tocsin

@@ -26,18 +26,31 @@ void openings_for_encounter(const Scenario& sc, const Population& pop, const Cha
     out.openings.clear();
     out.acceptance_draws.clear();
     if (!sc.chart_openings) return;
+    const auto& roles = sc.chart_openings->roles;
     if (!sc.chart_openings->replay_path.empty()) {
         if (!replayed) throw std::logic_error("the scenario replays chart openings but none were loaded");
         const auto span = replayed->of(e);
         out.openings.assign(span.begin(), span.end());
     } else {
-        RandomEngine stream = make_stream(sc.seed, replication, StreamPurpose::chart_openings, e);
-        generate_chart_openings(sc.chart_openings->roles, pop.encounters[e], sc.zone, stream, out.openings);
+        generate_chart_openings(roles, pop.encounters[e], e, sc.zone, ReplicationSeed{sc.seed, replication},
+                                out.openings);
     }
-    RandomEngine accept = make_stream(sc.seed, replication, StreamPurpose::chart_acceptance, e);
+    if (out.role_keys.size() != roles.size()) {
+        out.role_keys.clear();
+        for (const ChartOpeningRole& r : roles) out.role_keys.push_back(text_entity(r.name));
+    }
     boost::random::uniform_01<double> draw;
     out.acceptance_draws.reserve(out.openings.size());
-    for (std::size_t i = 0; i < out.openings.size(); ++i) out.acceptance_draws.push_back(draw(accept));
+    for (std::size_t i = 0; i < out.openings.size(); ++i) {
+        const ChartOpening& o = out.openings[i];
+        // Openings are in time order, so equal (instant, role) pairs sit within one run of equal instants.
+        std::uint64_t occurrence = 0;
+        for (std::size_t j = i; j > 0 && out.openings[j - 1].at == o.at;) occurrence += out.openings[--j].role == o.role;
+        SplitMixEngine accept = make_short_stream(
+            ReplicationSeed{sc.seed, replication}, StreamPurpose::chart_acceptance,
+            entity_key({e, out.role_keys[o.role], static_cast<std::uint64_t>(o.at), occurrence}));
+        out.acceptance_draws.push_back(draw(accept));
+    }
 }
 
 std::int64_t fire_chart_rule(const Plan& plan, const RuleClock& clock, std::span<const Score> scores,
@@ -95,7 +108,6 @@ struct Inpatient {
     Inpatient(const Rule& rule, const RuleClock& clock) : rule(rule, clock) {}
     std::size_t next_score = 0;  // scores before it have been seen
     RuleState rule;
-    std::optional<RandomEngine> follow_up;  // handoff follow-up draws
 };
 
 struct Candidate {
@@ -144,8 +156,7 @@ PlanRecord run_round_channel(const Scenario& sc, const Population& pop, const Sh
              ++next_admission) {
             const std::uint32_t e = by_admission[next_admission];
             if (Population::usable_until(pop.encounters[e]) <= t) continue;
-            auto [it, added] = census.try_emplace(e, plan.rule, clock);
-            if (handoff) it->second.follow_up.emplace(make_stream(sc.seed, replication, StreamPurpose::handoff_follow_up, e));
+            census.try_emplace(e, plan.rule, clock);
         }
         std::erase_if(census, [&](const auto& item) { return Population::usable_until(pop.encounters[item.first]) <= t; });
         for (auto& [e, patient] : census) {
@@ -168,11 +179,15 @@ PlanRecord run_round_channel(const Scenario& sc, const Population& pop, const Sh
             std::vector<Round> rounds(n_units);
             for (std::uint32_t u = 0; u < n_units; ++u) rounds[u] = Round{t, u, 0, 0, 0.0};
             for (auto& [e, patient] : census) {
-                const double u01 = draw(*patient.follow_up);  // drawn whether flagged or not: same draw in every plan
                 const auto reason = patient.rule.fire_if_due(t);
                 if (!reason) continue;
                 Notice n = notice(e, *reason, patient.rule.latest());
-                n.asks_evaluation = u01 < plan.handoff.follow_up_probability;
+                // Keyed by patient and handoff instant: the same draw in every plan
+                // flagging this patient at this handoff, whatever its other handoff times.
+                SplitMixEngine follow_up = make_short_stream(ReplicationSeed{sc.seed, replication},
+                                                             StreamPurpose::handoff_follow_up,
+                                                             entity_key({e, static_cast<std::uint64_t>(t)}));
+                n.asks_evaluation = draw(follow_up) < plan.handoff.follow_up_probability;
                 record.notices.push_back(n);
                 Round& r = rounds[n.unit];
                 ++r.listed;

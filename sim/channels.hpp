@@ -35,9 +35,13 @@ double delivery_minutes(const Plan& plan);
 
 // One encounter's chart openings in one replication, with one acceptance draw
 // (uniform on [0, 1)) per opening shared by every plan (common random numbers).
+// The draw is keyed by the opening itself: (encounter, opening role's name,
+// instant, occurrence among earlier openings by that role at that instant), so
+// it does not move when openings by another role are added or removed.
 struct EncounterOpenings {
     std::vector<ChartOpening> openings;
     std::vector<double> acceptance_draws;
+    std::vector<std::uint64_t> role_keys;  // text_entity of each opening role's name, filled on first use
 };
 
 // Replayed (from `replayed`) or generated openings of encounter `e`.

@@ -41,21 +41,6 @@ std::string service_time_problem(const ServiceTime& distribution);
 // Throws std::invalid_argument with the message above.
 void check_service_time(const ServiceTime& distribution);
 
-// A tiny engine for many short substreams (one per task and escalation step),
-// where seeding a Mersenne Twister each time would cost more than the draw:
-// SplitMix64 (Steele, Lea & Flood 2014), fed to the same Boost distributions.
-struct SplitMixEngine {
-    using result_type = std::uint64_t;
-    std::uint64_t state = 0;
-    static constexpr result_type min() { return 0; }
-    static constexpr result_type max() { return ~result_type{0}; }
-    result_type operator()() {
-        const result_type out = mix64(state);
-        state += 0x9e3779b97f4a7c15ULL;
-        return out;
-    }
-};
-
 // One draw, in minutes (>= 0). The distribution must be valid.
 double draw_minutes(const ServiceTime& distribution, RandomEngine& stream);
 double draw_minutes(const ServiceTime& distribution, SplitMixEngine& stream);

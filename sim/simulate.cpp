@@ -103,7 +103,6 @@ ReplicationRecord simulate_replication(const Scenario& scenario, const Populatio
         auto staff_plans = [&] {
             for (std::size_t k = next++; k < n_plans; k = next++) {
                 const std::size_t p = order[k];
-                RandomEngine minutes = make_stream(scenario.seed, replication, StreamPurpose::task_minutes, p);
                 // Only notices that ask for a bedside evaluation become tasks (an
                 // interruption that is dismissed, a flag nobody follows up, do not).
                 const auto& notices = record.plans[p].notices;
@@ -115,7 +114,7 @@ ReplicationRecord simulate_replication(const Scenario& scenario, const Populatio
                         original.push_back(i);
                     }
                 StaffRun run = simulate_staff(asked, model, scenario.plans[p].staffing, calendar,
-                                              calendar.shifts().back().end, minutes);
+                                              calendar.shifts().back().end, ReplicationSeed{scenario.seed, replication});
                 for (TaskRecord& t : run.tasks) t.notice = original[t.notice];
                 record.plans[p].staff = std::move(run);
             }

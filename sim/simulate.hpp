@@ -38,8 +38,8 @@ struct ReplicationRecord {
 ShiftCalendar calendar_for(const Scenario& scenario, const Population& population);
 
 // Runs every plan on the population, then (when the scenario declares roles)
-// each plan's notices through its own staff, with the plan's task_minutes
-// stream. `threads` splits encounters into blocks; the record is identical
+// each plan's notices through its own staff (task minutes keyed per task, see
+// sim/staff.hpp). `threads` splits encounters into blocks; the record is identical
 // whatever the thread count. Chart-interruption plans read `replayed_openings`
 // when the scenario replays chart openings (see load_chart_openings), and
 // generate them otherwise.

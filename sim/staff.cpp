@@ -76,6 +76,10 @@ std::vector<bool> roles_ever_staffed(std::span<const Role> roles) {
 
 namespace {
 
+std::uint64_t minutes_entity(std::uint32_t encounter, Instant at, std::uint32_t occurrence, std::uint64_t role_key) {
+    return entity_key({encounter, static_cast<std::uint64_t>(at), occurrence, role_key});
+}
+
 enum class Stage : std::uint8_t { waiting, working, overtime, done };
 
 struct TaskState {
@@ -84,7 +88,7 @@ struct TaskState {
     std::uint32_t slot = 0;     // position in the team's `working` list
     Instant finish_at = 0;
     Instant overtime_since = 0;
-    Seconds first_role_seconds = 0;  // drawn at creation
+    std::uint32_t occurrence = 0;  // earlier notices of the same encounter at the same instant
 };
 
 struct QueueEntry {
@@ -128,8 +132,10 @@ constexpr int escalation_priority = 1;
 class Simulation {
 public:
     Simulation(std::span<const Notice> notices, const StaffModel& model, const StaffPlan& plan,
-               const ShiftCalendar& calendar, Instant until, RandomEngine& stream)
-        : notices_(notices), model_(model), plan_(plan), calendar_(calendar), until_(until), stream_(stream) {
+               const ShiftCalendar& calendar, Instant until, ReplicationSeed draws)
+        : notices_(notices), model_(model), plan_(plan), calendar_(calendar), until_(until),
+          minutes_seed_(purpose_seed(draws.seed, draws.replication, StreamPurpose::task_minutes)) {
+        for (const Role& role : model.roles) role_keys_.push_back(text_entity(role.name));
         team_base_.resize(model.roles.size());
         std::uint32_t teams = 0;
         for (std::size_t r = 0; r < model.roles.size(); ++r) {
@@ -148,7 +154,7 @@ public:
         const std::size_t n = notices_.size();
         run_.tasks.resize(n);
         state_.resize(n);
-        escalation_seed_ = stream_();  // before any task's draw, so the first role's draws stay in notice order
+        count_occurrences();
         now_ = run_.start;
         events_.start_at(now_);
         for (Team& t : teams_) t.last_change = now_;
@@ -203,7 +209,6 @@ private:
         task.unit = notice.unit;
         task.first_role = plan_.first_role;
         task.role = plan_.first_role;
-        state_[i].first_role_seconds = draw_seconds(model_.roles[plan_.first_role].minutes_per_task, stream_);
         join(i);
     }
 
@@ -243,16 +248,34 @@ private:
         st.slot = static_cast<std::uint32_t>(team.working.size());
         team.working.push_back(i);
         task.started_at = now_;
-        task.service_seconds = task.escalations == 0 ? st.first_role_seconds : escalated_seconds(i, task);
+        task.service_seconds = drawn_seconds(i, task);
         st.finish_at = now_ + task.service_seconds;
         events_.schedule(st.finish_at, finish_priority, Event{EventKind::finish, 0, i});
     }
 
-    // Minutes at the role reached after `task.escalations` steps: a substream of
-    // (task, step), so they do not depend on which tasks escalated before it.
-    Seconds escalated_seconds(std::uint32_t i, const TaskRecord& task) const {
-        SplitMixEngine engine{mix64(escalation_seed_ ^ mix64((std::uint64_t{i} << 8) | task.escalations))};
+    Seconds drawn_seconds(std::uint32_t i, const TaskRecord& task) const {
+        // make_short_stream(draws, task_minutes, entity), with the part of the seed shared by every task computed once.
+        SplitMixEngine engine{
+            mix64(minutes_seed_ ^ minutes_entity(task.encounter, task.created, state_[i].occurrence, role_keys_[task.role]))};
         return draw_seconds(model_.roles[task.role].minutes_per_task, engine);
+    }
+
+    // Notices are sorted by instant only; within one instant the same encounter
+    // may come more than once (and not necessarily side by side).
+    void count_occurrences() {
+        std::vector<std::pair<std::uint32_t, std::uint32_t>> group;  // (encounter, notice) at one instant
+        for (std::size_t first = 0, last = 0; first < notices_.size(); first = last) {
+            last = first + 1;
+            while (last < notices_.size() && notices_[last].at == notices_[first].at) ++last;
+            if (last - first == 1) continue;
+            group.clear();
+            for (std::size_t i = first; i < last; ++i)
+                group.emplace_back(notices_[i].encounter, static_cast<std::uint32_t>(i));
+            std::sort(group.begin(), group.end());
+            for (std::size_t k = 1; k < group.size(); ++k)
+                if (group[k].first == group[k - 1].first)
+                    state_[group[k].second].occurrence = state_[group[k - 1].second].occurrence + 1;
+        }
     }
 
     void remove_working(Team& team, std::uint32_t i) {
@@ -398,11 +421,11 @@ private:
     const StaffPlan& plan_;
     const ShiftCalendar& calendar_;
     Instant until_;
-    RandomEngine& stream_;
+    std::uint64_t minutes_seed_;
+    std::vector<std::uint64_t> role_keys_;  // text_entity of each role's name
     std::vector<std::uint32_t> team_base_;  // per role: index of its first team
     std::vector<Team> teams_;
     std::vector<TaskState> state_;
-    std::uint64_t escalation_seed_ = 0;
     EventQueue<Event> events_;
     Instant now_ = 0;
     StaffRun run_;
@@ -411,7 +434,7 @@ private:
 }  // namespace
 
 StaffRun simulate_staff(std::span<const Notice> notices, const StaffModel& model, const StaffPlan& plan,
-                        const ShiftCalendar& calendar, Instant until, RandomEngine& minutes_stream) {
+                        const ShiftCalendar& calendar, Instant until, ReplicationSeed draws) {
     if (std::string p = staff_model_problems(model, calendar.pattern()); !p.empty())
         throw std::invalid_argument("staff model: " + p);
     if (plan.first_role >= model.roles.size())
@@ -438,7 +461,12 @@ StaffRun simulate_staff(std::span<const Notice> notices, const StaffModel& model
                                         std::to_string(n.unit) + " but the staff model has " +
                                         std::to_string(model.unit_count) + " units");
     }
-    return Simulation(notices, model, plan, calendar, until, minutes_stream).run();
+    return Simulation(notices, model, plan, calendar, until, draws).run();
+}
+
+std::uint64_t task_minutes_entity(std::uint32_t encounter, Instant at, std::uint32_t occurrence,
+                                  std::string_view role_name) {
+    return minutes_entity(encounter, at, occurrence, text_entity(role_name));
 }
 
 }  // namespace tocsin

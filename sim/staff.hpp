@@ -4,12 +4,15 @@
 // timeout on its role's escalation edge it moves to the next role.
 //
 // Decisions (documented here and in the README):
-// - Minutes per task at its first role are drawn when the task is created, in
-//   notice order, from the plan's task_minutes stream. Minutes at a role it
-//   escalates to come from a substream of (task, escalation step) seeded from
-//   that stream's first draw. The k-th task of a plan therefore needs the same
-//   minutes at each role whatever the roster, the queue discipline or the other
-//   plans (common random numbers).
+// - Minutes per task are keyed by the task, not by its place in any list: the
+//   stream of (seed, replication, task_minutes, entity_key(encounter, notice
+//   instant, occurrence, role name)), drawn when the task starts at that role.
+//   `occurrence` counts earlier notices of the same encounter at the same
+//   instant in this plan (0 almost always). So the same notice for the same
+//   patient needs the same minutes at a given role in every plan, whatever the
+//   roster, the queue discipline, the other plans or the plan's position in the
+//   scenario (common random numbers); an escalated task draws afresh at each
+//   role it reaches.
 // - Simultaneous events run in this order: shift change, task finishes, then
 //   escalation timeouts, then new notices (in input order). So a colleague who
 //   finishes at the instant a timeout falls takes the task up before it
@@ -132,10 +135,13 @@ struct StaffRun {
 };
 
 // Runs one plan's notices (sorted by `at`; each at in [calendar start, until),
-// unit < model.unit_count) through the staff. `minutes_stream` should be
-// make_stream(seed, replication, StreamPurpose::task_minutes, plan).
+// unit < model.unit_count) through the staff, drawing minutes as above from `draws`.
 // Throws std::invalid_argument on unsorted or out-of-range notices or an invalid model.
 StaffRun simulate_staff(std::span<const Notice> notices, const StaffModel& model, const StaffPlan& plan,
-                        const ShiftCalendar& calendar, Instant until, RandomEngine& minutes_stream);
+                        const ShiftCalendar& calendar, Instant until, ReplicationSeed draws);
+
+// The task_minutes entity of a notice's task at a role (see above).
+std::uint64_t task_minutes_entity(std::uint32_t encounter, Instant at, std::uint32_t occurrence,
+                                  std::string_view role_name);
 
 }  // namespace tocsin

@@ -4,6 +4,7 @@
 // before time zero. Each expected list is worked out by hand in its comment.
 #include <doctest/doctest.h>
 
+#include <algorithm>
 #include <cmath>
 #include <string>
 #include <vector>
@@ -221,6 +222,21 @@ TEST_CASE("channels.handoff_follow_up_common_random_numbers") {
     CHECK(shared > 100);
     const double nb = static_cast<double>(b.notices.size());
     CHECK(std::abs(followed - 0.5 * nb) < 5 * std::sqrt(0.25 * nb));
+    // A plan read at 13:00 as well flags patients at more handoffs, but where it
+    // flags one at a handoff the others also hold, it gets the same draw: the
+    // draw is keyed by patient and handoff instant, not by how many handoffs
+    // the patient has been through in this plan.
+    Plan thrice = w.sc.plans[0];
+    thrice.handoff.times_minutes = {7 * 60, 13 * 60, 19 * 60};
+    const PlanRecord d = run_round_channel(w.sc, w.pop, cal, thrice, 2, 0);
+    int shared_with_thrice = 0;
+    for (const Notice& n : d.notices) {
+        auto it = asked.find({n.encounter, n.at});
+        if (it == asked.end()) continue;
+        ++shared_with_thrice;
+        CHECK(it->second == n.asks_evaluation);
+    }
+    CHECK(shared_with_thrice > 100);
     // Another replication draws differently.
     const PlanRecord c = run_round_channel(w.sc, w.pop, cal, w.sc.plans[1], 1, 1);
     int differ = 0;
@@ -499,4 +515,45 @@ TEST_CASE("channels.burden_in_each_channels_unit") {
         expected[1] = 1.0;  // unit A, 3 Mar day, doctor
         CHECK(b.values == expected);
     }
+}
+
+TEST_CASE("channels.replayed_acceptance_keyed_per_opening") {
+    // One patient, a replayed log of nurse and physician openings (two of them
+    // at the same instant, and two nurse openings at one instant). A nurse
+    // opening's acceptance draw is the same whether the physician's openings
+    // and role are there, gone, or the roles listed the other way round; and
+    // the two nurse openings at one instant draw differently.
+    Ward w;
+    const auto e = w.patient("P1", 0, at(2, 0), at(6, 0));
+    w.score(e, at(2, 1), 50);
+    w.done();
+    ChartOpeningRole nurse, physician;
+    nurse.name = "nurse";
+    physician.name = "physician";
+    const std::vector<Instant> nurse_at = {at(2, 8), at(2, 9), at(2, 9), at(3, 8), at(4, 20)};
+    const std::vector<Instant> physician_at = {at(2, 7), at(2, 9), at(3, 10)};
+    auto draws_of_nurse = [&](bool with_physician, bool physician_first) {
+        Scenario sc = w.sc;
+        sc.chart_openings = ChartOpeningSource{{nurse}, "replayed.csv"};
+        if (with_physician) sc.chart_openings->roles.insert(physician_first ? sc.chart_openings->roles.begin()
+                                                                            : sc.chart_openings->roles.end(), physician);
+        const std::uint8_t n_role = with_physician && physician_first ? 1 : 0;
+        ChartOpeningLog log;
+        for (Instant t : nurse_at) log.openings.push_back({t, n_role});
+        if (with_physician)
+            for (Instant t : physician_at) log.openings.push_back({t, static_cast<std::uint8_t>(1 - n_role)});
+        std::stable_sort(log.openings.begin(), log.openings.end(), [](auto& a, auto& b) { return a.at < b.at; });
+        log.start = {0, log.openings.size()};
+        EncounterOpenings out;
+        openings_for_encounter(sc, w.pop, &log, e, 0, out);
+        std::vector<double> mine;
+        for (std::size_t i = 0; i < out.openings.size(); ++i)
+            if (out.openings[i].role == n_role) mine.push_back(out.acceptance_draws[i]);
+        return mine;
+    };
+    const std::vector<double> alone = draws_of_nurse(false, false);
+    REQUIRE(alone.size() == nurse_at.size());
+    CHECK(draws_of_nurse(true, false) == alone);
+    CHECK(draws_of_nurse(true, true) == alone);
+    CHECK(alone[1] != alone[2]);
 }

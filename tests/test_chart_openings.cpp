@@ -52,9 +52,8 @@ TEST_CASE("chart_openings.generated_counts_match_the_rate") {
         Encounter enc;
         enc.admitted = at(3, static_cast<int>(e % 24));
         enc.discharged = enc.admitted + hours(72);
-        RandomEngine stream = make_stream(20261201, 0, StreamPurpose::chart_openings, e);
         std::vector<ChartOpening> out;
-        generate_chart_openings(roles, enc, TimeZone::utc(), stream, out);
+        generate_chart_openings(roles, enc, e, TimeZone::utc(), ReplicationSeed{20261201, 0}, out);
         for (const ChartOpening& o : out) {
             CHECK(o.at >= enc.admitted);
             CHECK(o.at < enc.discharged);
@@ -90,9 +89,8 @@ TEST_CASE("chart_openings.stop_at_time_zero") {
     enc.admitted = at(3, 0);
     enc.discharged = at(10, 0);
     enc.outcome_at = at(4, 0);
-    RandomEngine stream = make_stream(1, 0, StreamPurpose::chart_openings, 0);
     std::vector<ChartOpening> out;
-    generate_chart_openings({nurse()}, enc, TimeZone::utc(), stream, out);
+    generate_chart_openings({nurse()}, enc, 0, TimeZone::utc(), ReplicationSeed{1, 0}, out);
     REQUIRE_FALSE(out.empty());
     CHECK(out.back().at < at(4, 0));
 }

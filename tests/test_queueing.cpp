@@ -73,8 +73,8 @@ QueueRun simulate_queue(int staff, double per_minute, const ServiceTime& minutes
     const ShiftCalendar calendar = calendar_from(start, until + days(1));
     StaffPlan plan;
     plan.when_all_busy = when_all_busy;
-    RandomEngine stream = make_stream(seed, 0, StreamPurpose::task_minutes, 0);
-    q.run = simulate_staff(q.notices, model, plan, calendar, until, stream);
+    const ReplicationSeed draws{seed, 0};
+    q.run = simulate_staff(q.notices, model, plan, calendar, until, draws);
     return q;
 }
 
@@ -134,8 +134,11 @@ TEST_CASE("staff.erlang_c") {
     // utilisation rho = lambda / (c mu) at three loads. 300,000 notices each,
     // 20 batches of 1/21 of them after a one-batch warm-up. Tolerance: 4
     // batch-means standard errors (two-sided t with 19 df: p ~ 0.001), with a
-    // check that the standard error is below 5 % of the target so the test
-    // keeps its power. Seeds fixed.
+    // check that the standard error is below 6 % of the target so the test
+    // keeps its power. The standard error is itself estimated from 20 batches
+    // (relative spread about 1 / sqrt(2 x 19) = 16 %); at rho 0.9 it sits near
+    // 4 % of Wq (1.4 to 3.1 min over eight seeds), so a 5 % bound would fail a
+    // correct simulation on some seeds. Seeds fixed.
     const int c = 3;
     const double mean_minutes = 20.0, mu = 1.0 / mean_minutes;
     for (const double rho : {0.5, 0.75, 0.9}) {
@@ -157,8 +160,8 @@ TEST_CASE("staff.erlang_c") {
                        << wq_minutes << ")");
         CHECK(std::abs(waited.mean - p_wait) < 4 * waited.standard_error);
         CHECK(std::abs(wait.mean - wq_minutes) < 4 * wait.standard_error);
-        CHECK(waited.standard_error < 0.05 * p_wait);
-        CHECK(wait.standard_error < 0.05 * wq_minutes);
+        CHECK(waited.standard_error < 0.06 * p_wait);
+        CHECK(wait.standard_error < 0.06 * wq_minutes);
     }
 }
 
@@ -247,8 +250,8 @@ TEST_CASE("staff.conservation") {
             plan.at_shift_end = policy;
             plan.when_all_busy = busy_rule;
             plan.discipline = QueueDiscipline::priority_by_score;
-            RandomEngine stream = make_stream(5, 0, StreamPurpose::task_minutes, 0);
-            const StaffRun run = simulate_staff(notices, model, plan, calendar, until, stream);
+            const ReplicationSeed draws{5, 0};
+            const StaffRun run = simulate_staff(notices, model, plan, calendar, until, draws);
             REQUIRE(run.tasks.size() == notices.size());
             std::map<TaskFate, int> fates;
             double worked = 0, waited = 0;

@@ -6,6 +6,7 @@
 #include <algorithm>
 #include <cmath>
 #include <map>
+#include <tuple>
 
 #include "analysis/workload.hpp"
 #include "staff_stories.hpp"
@@ -18,8 +19,8 @@ namespace {
 StaffRun run_story(const std::vector<Notice>& notices, const StaffModel& model, const StaffPlan& plan,
                    Instant until, std::uint64_t seed = 1) {
     const ShiftCalendar calendar = calendar_from(march(2, 7, 0), march(4, 7, 0));
-    RandomEngine stream = make_stream(seed, 0, StreamPurpose::task_minutes, 0);
-    return simulate_staff(notices, model, plan, calendar, until, stream);
+    const ReplicationSeed draws{seed, 0};
+    return simulate_staff(notices, model, plan, calendar, until, draws);
 }
 
 // The row of `table` whose first columns equal `keys`.
@@ -264,22 +265,22 @@ TEST_CASE("staff.roster_by_weekday") {
     StaffModel model = model_of({role("ward nurse", {3, 2}, FixedMinutes{30})});
     model.roles[0].roster = roster;
     const ShiftCalendar cal = calendar_from(march(8, 7, 0), march(9, 7, 0));
-    RandomEngine stream = make_stream(1, 0, StreamPurpose::task_minutes, 0);
+    const ReplicationSeed draws{1, 0};
     const StaffRun run = simulate_staff(std::vector<Notice>{notice_at(march(8, 10, 0)), notice_at(march(8, 10, 0))},
-                                        model, StaffPlan{}, cal, march(8, 18, 0), stream);
+                                        model, StaffPlan{}, cal, march(8, 18, 0), draws);
     CHECK(run.tasks[1].started_at == march(8, 10, 30));
 }
 
 TEST_CASE("staff.common_random_numbers") {
-    // The k-th task needs the same minutes whatever the roster: draws happen at
-    // creation, one per role on the path, so a bigger team changes waits only.
+    // A task needs the same minutes whatever the roster: draws are keyed by the
+    // notice and the role, so a bigger team changes waits only.
     std::vector<Notice> notices;
     for (int k = 0; k < 40; ++k) notices.push_back(notice_at(march(2, 8, 0) + k * minutes(7)));
     auto run_with = [&](int nurses, std::uint64_t replication) {
         const StaffModel model = model_of({role("ward nurse", {nurses, nurses}, ExponentialMinutes{20})});
         const ShiftCalendar calendar = calendar_from(march(2, 7, 0), march(4, 7, 0));
-        RandomEngine stream = make_stream(11, replication, StreamPurpose::task_minutes, 0);
-        return simulate_staff(notices, model, StaffPlan{}, calendar, march(3, 7, 0), stream);
+        const ReplicationSeed draws{11, replication};
+        return simulate_staff(notices, model, StaffPlan{}, calendar, march(3, 7, 0), draws);
     };
     const StaffRun one = run_with(1, 0), three = run_with(3, 0), again = run_with(1, 0), other = run_with(1, 1);
     int differ_in_wait = 0, differ_in_minutes_other_rep = 0;
@@ -293,18 +294,93 @@ TEST_CASE("staff.common_random_numbers") {
     CHECK(differ_in_minutes_other_rep == static_cast<int>(notices.size()));
 }
 
+TEST_CASE("staff.minutes_keyed_by_notice_not_by_position") {
+    // Plan b has plan a's notices plus others interleaved (two of them for the
+    // same patient at the same instant as one of a's): every notice of a gets
+    // the same minutes in b, at the first role and, after an escalation, at the
+    // second. Those minutes are the first draw of the task's own stream
+    // (seed, replication, task_minutes, entity of encounter, instant,
+    // occurrence, role name), computed here from the published key.
+    const StaffModel model =
+        model_of({role("ward nurse", {0, 0}, GammaMinutes{15, 6}), role("charge nurse", {3, 3}, ExponentialMinutes{20})},
+                 {{"ward nurse", "charge nurse", 10}});
+    const ShiftCalendar calendar = calendar_from(march(2, 7, 0), march(4, 7, 0));
+    std::vector<Notice> a, b;
+    for (int k = 0; k < 30; ++k) {
+        const Notice n = notice_at(march(2, 8, 0) + k * minutes(11), 0.5, 0, static_cast<std::uint32_t>(k % 7));
+        a.push_back(n);
+        b.push_back(notice_at(n.at, 0.7, 0, 100 + static_cast<std::uint32_t>(k)));  // another patient, same instant
+        b.push_back(n);
+        if (k == 12) b.push_back(n);  // the same patient twice at one instant: the second is occurrence 1
+    }
+    const ReplicationSeed draws{17, 3};
+    const StaffRun ra = simulate_staff(a, model, StaffPlan{}, calendar, march(3, 7, 0), draws);
+    const StaffRun rb = simulate_staff(b, model, StaffPlan{}, calendar, march(3, 7, 0), draws);
+    std::map<std::tuple<std::uint32_t, Instant, int>, Seconds> minutes_in_b;
+    std::map<std::pair<std::uint32_t, Instant>, int> seen;
+    for (const TaskRecord& t : rb.tasks) minutes_in_b[{t.encounter, t.created, seen[{t.encounter, t.created}]++}] = t.service_seconds;
+    for (const TaskRecord& t : ra.tasks) {
+        CAPTURE(t.notice);
+        REQUIRE(t.started());
+        CHECK(t.escalations == 1);  // nobody staffs the ward nurse role: every task reaches the charge nurse
+        CHECK(t.service_seconds == minutes_in_b.at({t.encounter, t.created, 0}));
+        SplitMixEngine own = make_short_stream(draws, StreamPurpose::task_minutes,
+                                               task_minutes_entity(t.encounter, t.created, 0, "charge nurse"));
+        CHECK(t.service_seconds == draw_seconds(ExponentialMinutes{20}, own));
+    }
+    // The repeated notice is a task of its own with its own minutes.
+    const Instant twice = march(2, 8, 0) + 12 * minutes(11);
+    CHECK(minutes_in_b.at({12 % 7, twice, 1}) != minutes_in_b.at({12 % 7, twice, 0}));
+}
+
+TEST_CASE("staff.keyed_minutes_statistics") {
+    // Keying each task's minutes by its own entity replaced one long stream per
+    // plan by many one-task streams. 20,000 tasks (one patient per notice, 3 min
+    // apart, ample staff) at a gamma role of mean 20 min and sd 8 min: the
+    // sample mean is within 4 standard errors (8 / sqrt(20000) = 0.057 min), the
+    // sample sd within 4 of its standard errors (about sd x sqrt((kurtosis - 1) / (4n)),
+    // gamma shape 6.25 so excess kurtosis 6 / 6.25 = 0.96, kurtosis 3.96: 0.049 min),
+    // and neighbouring tasks' minutes are uncorrelated (lag-1 correlation
+    // within 4 / sqrt(n) = 0.028). Seed fixed.
+    const int n = 20000;
+    std::vector<Notice> notices;
+    for (int k = 0; k < n; ++k)
+        notices.push_back(notice_at(march(2, 8, 0) + k * minutes(3), 0.5, 0, static_cast<std::uint32_t>(k)));
+    const StaffModel model = model_of({role("nurse", {40, 40}, GammaMinutes{20, 8})});
+    const ShiftCalendar calendar = calendar_from(march(2, 7, 0), march(5, 7, 0) + days(40));
+    const StaffRun run = simulate_staff(notices, model, StaffPlan{}, calendar, march(5, 7, 0) + days(40),
+                                        ReplicationSeed{2026, 0});
+    std::vector<double> x;
+    for (const TaskRecord& t : run.tasks) {
+        REQUIRE(t.started());
+        x.push_back(static_cast<double>(t.service_seconds) / 60.0);
+    }
+    double mean = 0;
+    for (double v : x) mean += v;
+    mean /= n;
+    double ss = 0, lag = 0;
+    for (int k = 0; k < n; ++k) {
+        ss += (x[k] - mean) * (x[k] - mean);
+        if (k > 0) lag += (x[k] - mean) * (x[k - 1] - mean);
+    }
+    const double sd = std::sqrt(ss / (n - 1));
+    CHECK(std::abs(mean - 20.0) < 4 * 8.0 / std::sqrt(n));
+    CHECK(std::abs(sd - 8.0) < 4 * 8.0 * std::sqrt((3.96 - 1) / (4.0 * n)));
+    CHECK(std::abs(lag / ss) < 4 / std::sqrt(n));
+}
+
 TEST_CASE("staff.bad_input") {
     const StaffModel model = model_of({role("ward nurse", {1, 1}, FixedMinutes{30})});
     const ShiftCalendar calendar = calendar_from(march(2, 7, 0), march(4, 7, 0));
-    RandomEngine stream = make_stream(1, 0, StreamPurpose::task_minutes, 0);
+    const ReplicationSeed draws{1, 0};
     const std::vector<Notice> unsorted = {notice_at(march(2, 21, 0)), notice_at(march(2, 20, 0))};
-    CHECK_THROWS_WITH_AS(simulate_staff(unsorted, model, StaffPlan{}, calendar, march(3, 0, 0), stream),
+    CHECK_THROWS_WITH_AS(simulate_staff(unsorted, model, StaffPlan{}, calendar, march(3, 0, 0), draws),
                          doctest::Contains("sorted by time"), std::invalid_argument);
     const std::vector<Notice> late = {notice_at(march(3, 1, 0))};
-    CHECK_THROWS_WITH_AS(simulate_staff(late, model, StaffPlan{}, calendar, march(3, 0, 0), stream),
+    CHECK_THROWS_WITH_AS(simulate_staff(late, model, StaffPlan{}, calendar, march(3, 0, 0), draws),
                          doctest::Contains("outside the run"), std::invalid_argument);
     const std::vector<Notice> wrong_unit = {notice_at(march(2, 21, 0), 0.5, 4)};
-    CHECK_THROWS_WITH_AS(simulate_staff(wrong_unit, model, StaffPlan{}, calendar, march(3, 0, 0), stream),
+    CHECK_THROWS_WITH_AS(simulate_staff(wrong_unit, model, StaffPlan{}, calendar, march(3, 0, 0), draws),
                          doctest::Contains("names unit 4"), std::invalid_argument);
     StaffModel short_roster = model;
     short_roster.roles[0].roster.by_shift = {1};
