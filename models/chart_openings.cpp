@@ -25,23 +25,7 @@ ChartOpeningLog load_chart_openings(const std::string& path, const std::vector<C
     CsvReader reader(path);
     if (!reader.next(fields)) throw InputError(path, 1, 0, "", "file is empty (expected a header)");
     const std::vector<std::string_view> required = {"encounter", "opened_at", "role"};
-    std::vector<std::size_t> col(required.size(), SIZE_MAX);
-    for (std::size_t i = 0; i < fields.size(); ++i) {
-        std::string_view name = fields[i];
-        if (i == 0 && name.substr(0, 3) == "\xEF\xBB\xBF") name.remove_prefix(3);  // UTF-8 byte order mark
-        for (std::size_t r = 0; r < required.size(); ++r) {
-            if (name != required[r]) continue;
-            if (col[r] != SIZE_MAX)
-                throw InputError(path, reader.line(), static_cast<long>(i + 1), std::string(name),
-                                 "column appears twice in the header");
-            col[r] = i;
-        }
-    }
-    for (std::size_t r = 0; r < required.size(); ++r)
-        if (col[r] == SIZE_MAX)
-            throw InputError(path, reader.line(), 0, std::string(required[r]),
-                             "required column is missing from the header (expected columns encounter,opened_at,role "
-                             "in any order; extra columns are ignored)");
+    const std::vector<std::size_t> col = header_columns(reader, fields, required);
     const std::size_t width = fields.size();
     std::vector<ChartOpening> openings;
     std::vector<std::uint32_t> owner;

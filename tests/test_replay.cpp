@@ -3,6 +3,7 @@
 #include <doctest/doctest.h>
 
 #include "models/errors.hpp"
+#include "models/chart_openings.hpp"
 #include "models/replay.hpp"
 #include "test_support.hpp"
 
@@ -140,11 +141,12 @@ TEST_CASE("replay.errors_name_file_line_and_field") {
 TEST_CASE("replay.quoted_fields_may_span_lines") {
     ScratchDir dir;
     // RFC 4180: a quoted field can hold a line break and doubled quotes; the
-    // line numbers of later rows still count physical lines.
+    // line numbers of later rows still count physical lines. (The break sits in
+    // an extra column: a unit name or id with one is refused.)
     ReplaySource src{dir.file("enc.csv",
-                              "encounter,unit,admitted,discharged,outcome_at\r\n"
-                              "\"A \"\"one\"\"\",\"ward\n1\",2026-03-03T08:00:00Z,2026-03-05T08:00:00Z,\r\n"
-                              "B,ward 2,2026-03-03T09:00:00Z,bad,\r\n"),
+                              "encounter,unit,admitted,discharged,outcome_at,note\r\n"
+                              "\"A \"\"one\"\"\",ward 1,2026-03-03T08:00:00Z,2026-03-05T08:00:00Z,,\"two\nlines\"\r\n"
+                              "B,ward 2,2026-03-03T09:00:00Z,bad,,\r\n"),
                      dir.file("scores.csv", "encounter,scored_at,available_at,score\n"), 0};
     try {
         load_replay(src, TimeZone::utc());
@@ -199,4 +201,117 @@ TEST_CASE("replay.parallel_chunks_match_the_plain_path") {
     quoted.insert(quoted.find("\nA,") + 1, "\"A\",2026-03-03T09:30:00Z,\"\",\"55\"\n");
     ReplaySource q{plain.encounters_path, dir.file("quoted.csv", quoted), 0, 60};
     CHECK(load_replay(q, TimeZone::utc()).scores.size() == a.scores.size() + 1);
+}
+
+namespace {
+
+// The same text with every "\n" replaced by `ending`.
+std::string with_ending(const std::string& text, const std::string& ending) {
+    std::string out;
+    for (char c : text) {
+        if (c == '\n') out += ending;
+        else out += c;
+    }
+    return out;
+}
+
+std::string many_scores() {
+    std::string scores = "encounter,scored_at,available_at,score\n";
+    for (int i = 0; i < 40; ++i) {
+        char row[64];
+        std::snprintf(row, sizeof row, "%s,2026-03-03T%02d:%02d:00Z,,%d\n", i % 2 ? "A" : "B", 8 + i / 4, i % 4 * 15, 40 + i);
+        scores += row;
+    }
+    return scores;
+}
+
+void check_same_population(const Population& a, const Population& b) {
+    REQUIRE(a.encounters.size() == b.encounters.size());
+    for (std::size_t i = 0; i < a.encounters.size(); ++i) {
+        CHECK(a.encounters[i].id == b.encounters[i].id);
+        CHECK(a.encounters[i].admitted == b.encounters[i].admitted);
+        CHECK(a.encounters[i].discharged == b.encounters[i].discharged);
+        CHECK(a.encounters[i].outcome_at == b.encounters[i].outcome_at);
+    }
+    CHECK(a.units == b.units);
+    REQUIRE(a.scores.size() == b.scores.size());
+    for (std::size_t i = 0; i < a.scores.size(); ++i) {
+        CHECK(a.scores[i].value == b.scores[i].value);
+        CHECK(a.scores[i].available_at == b.scores[i].available_at);
+    }
+    CHECK(a.score_start == b.score_start);
+    CHECK(a.excluded.scores_by_reason == b.excluded.scores_by_reason);
+}
+
+}  // namespace
+
+TEST_CASE("replay.line_endings_read_alike") {
+    // LF, CRLF and a lone CR (old Mac exports) end lines alike, in the header
+    // and in rows, whether the scores file is read whole or in chunks.
+    ScratchDir dir;
+    const std::string scores = many_scores();
+    ReplaySource lf{dir.file("enc.csv", good_encounters), dir.file("scores.csv", scores), 0};
+    const Population reference = load_replay(lf, TimeZone::utc());
+    REQUIRE(reference.encounters.size() == 2);
+    REQUIRE(reference.scores.size() > 10);
+    for (const std::string ending : {"\r\n", "\r"}) {
+        CAPTURE(ending.size());
+        ReplaySource other{dir.file("enc_e.csv", with_ending(good_encounters, ending)),
+                           dir.file("scores_e.csv", with_ending(scores, ending)), 0};
+        check_same_population(reference, load_replay(other, TimeZone::utc()));
+        other.parallel_chunk_bytes = 60;
+        check_same_population(reference, load_replay(other, TimeZone::utc()));
+    }
+    // Mixed: a header ending in a lone CR, rows in LF; the first row is kept.
+    std::string mixed = scores;
+    mixed[mixed.find('\n')] = '\r';
+    for (long long chunk : {32LL << 20, 60LL}) {
+        ReplaySource m{lf.encounters_path, dir.file("mixed.csv", mixed), 0, chunk};
+        check_same_population(reference, load_replay(m, TimeZone::utc()));
+    }
+}
+
+TEST_CASE("replay.line_numbers_count_every_ending") {
+    // A bad row is reported at its true line whichever line break the file uses,
+    // including inside chunks.
+    ScratchDir dir;
+    std::string scores = many_scores();
+    std::size_t pos = 0;
+    for (int line = 1; line < 38; ++line) pos = scores.find('\n', pos) + 1;
+    scores.replace(scores.find('\n', pos) - 2, 2, "x1");
+    for (const std::string ending : {"\n", "\r\n", "\r"}) {
+        for (long long chunk : {32LL << 20, 60LL}) {
+            CAPTURE(ending.size());
+            CAPTURE(chunk);
+            ReplaySource src{dir.file("enc.csv", good_encounters), dir.file("s.csv", with_ending(scores, ending)), 0, chunk};
+            try {
+                load_replay(src, TimeZone::utc());
+                FAIL("expected an error");
+            } catch (const InputError& e) {
+                CHECK(e.line == 38);
+                CHECK(e.field == "score");
+            }
+        }
+    }
+}
+
+TEST_CASE("chart_openings.line_endings_read_alike") {
+    ScratchDir dir;
+    ReplaySource src{dir.file("enc.csv", good_encounters), dir.file("scores.csv", many_scores()), 0};
+    const Population pop = load_replay(src, TimeZone::utc());
+    const std::vector<ChartOpeningRole> roles = {{"nurse", 1, {}}};
+    const std::string openings =
+        "encounter,opened_at,role\n"
+        "A,2026-03-03T09:00:00Z,nurse\n"
+        "B,2026-03-03T10:00:00Z,nurse\n"
+        "A,2026-03-03T11:00:00Z,nurse\n";
+    const ChartOpeningLog reference = load_chart_openings(dir.file("o.csv", openings), roles, pop, TimeZone::utc());
+    REQUIRE(reference.openings.size() == 3);
+    for (const std::string ending : {"\r\n", "\r"}) {
+        std::string header_cr = with_ending(openings, ending);
+        const ChartOpeningLog other = load_chart_openings(dir.file("o2.csv", header_cr), roles, pop, TimeZone::utc());
+        REQUIRE(other.openings.size() == reference.openings.size());
+        for (std::size_t i = 0; i < other.openings.size(); ++i) CHECK(other.openings[i].at == reference.openings[i].at);
+        CHECK(other.start == reference.start);
+    }
 }
