@@ -105,21 +105,34 @@ struct ScoreColumns {
     std::size_t width = 0;
 };
 
+// The last id looked up: logs are usually grouped by encounter.
+struct LastLookup {
+    std::string id;
+    std::uint32_t index = 0;
+    bool valid = false;
+};
+
 // Parses one score row into `s` and returns its encounter, or throws RowProblem.
 std::uint32_t parse_score_row(const RowContext& row, const ScoreColumns& c, const IdIndex& index,
-                              const ReplaySource& source, Score& s) {
+                              const ReplaySource& source, LastLookup& lookup, Score& s) {
     const auto& col = c.col;
     row.width(c.width);
     std::string_view id = row.fields[col[0]];
-    auto it = index.find(id);
-    if (it == index.end()) {
-        row.text(col[0], "encounter");
-        row.fail(col[0], "encounter", "score for an unknown encounter",
-                 "score for an unknown encounter '" + std::string(id) + "' (not in " + source.encounters_path + ")");
+    if (!lookup.valid || id != lookup.id) {
+        lookup.valid = false;
+        auto it = index.find(id);
+        if (it == index.end()) {
+            row.text(col[0], "encounter");
+            row.fail(col[0], "encounter", "score for an unknown encounter",
+                     "score for an unknown encounter '" + std::string(id) + "' (not in " + source.encounters_path + ")");
+        }
+        if (it->second == skipped_encounter)
+            row.fail(col[0], "encounter", "score for an encounter whose row was skipped",
+                     "score for encounter '" + std::string(id) + "', whose row was skipped");
+        lookup.id.assign(id);
+        lookup.index = it->second;
+        lookup.valid = true;
     }
-    if (it->second == skipped_encounter)
-        row.fail(col[0], "encounter", "score for an encounter whose row was skipped",
-                 "score for encounter '" + std::string(id) + "', whose row was skipped");
     s.scored_at = row.timestamp(col[1], "scored_at");
     if (row.fields[col[2]].empty()) {
         s.available_at = s.scored_at + source.latency_when_missing;
@@ -140,20 +153,21 @@ std::uint32_t parse_score_row(const RowContext& row, const ScoreColumns& c, cons
         row.fail(col[3], "score", "score outside score_range",
                  "score " + std::string(text) + " is outside score_range [" + format_number(source.score_low) + ", " +
                      format_number(source.score_high) + "]");
-    return it->second;
+    return lookup.index;
 }
 
 // Parses score rows from `reader` (positioned after the header) into `out`.
 void parse_score_rows(CsvReader& reader, const ScoreColumns& c, const IdIndex& index, const ReplaySource& source,
                       const TimeZone& zone, ScoreChunk& out) {
     std::vector<std::string_view> fields;
+    LastLookup last;
     try {
         while (reader.next(fields)) {
             if (blank(fields)) continue;
             RowContext row{reader, fields, zone, out.notes};
             Score s;
             try {
-                const std::uint32_t e = parse_score_row(row, c, index, source, s);
+                const std::uint32_t e = parse_score_row(row, c, index, source, last, s);
                 out.scores.push_back(s);
                 out.owner.push_back(e);
             } catch (const RowProblem& p) {
@@ -263,12 +277,13 @@ std::vector<long> score_lines(const ReplaySource& source, const TimeZone& zone, 
     std::vector<std::string_view> fields;
     reader.next(fields);
     Exclusions ignored;
+    LastLookup last;
     while (reader.next(fields)) {
         if (blank(fields)) continue;
         RowContext row{reader, fields, zone, ignored};
         Score s;
         try {
-            if (parse_score_row(row, c, index, source, s) == e && s.scored_at == at) lines.push_back(reader.line());
+            if (parse_score_row(row, c, index, source, last, s) == e && s.scored_at == at) lines.push_back(reader.line());
         } catch (const RowProblem&) {
             // Skipped (or would have stopped) on the first reading.
         }

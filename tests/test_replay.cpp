@@ -541,3 +541,48 @@ TEST_CASE("replay.skipped_rows_keep_the_first_five_lines") {
     CHECK(rows.first_lines == std::vector<long>{2, 3, 4, 5, 6});
     CHECK(describe_lines(rows) == "lines 2, 3, 4, 5, 6 and 7 more");
 }
+
+TEST_CASE("replay.bad_rows_skip_disagreeing_scores_and_chart_openings") {
+    ScratchDir dir;
+    ReplaySource src{dir.file("enc.csv", good_encounters),
+                     dir.file("scores.csv",
+                              "encounter,scored_at,available_at,score\n"
+                              "A,2026-03-03T09:00:00Z,,40\n"    // 2: disagrees with line 4
+                              "A,2026-03-03T10:00:00Z,,45\n"    // 3: kept
+                              "A,2026-03-03T09:00:00Z,,60\n"),  // 4
+                     0};
+    src.bad_rows = BadRows::skip;
+    const Population pop = load_replay(src, TimeZone::utc());
+    REQUIRE(pop.scores.size() == 1);
+    CHECK(pop.scores[0].value == 45);
+    const SkippedRows& both =
+        pop.excluded.rows_skipped.at("scores.csv: same encounter and scored_at with different scores (every such row skipped)");
+    CHECK(both.count == 2);
+    CHECK(both.first_lines == std::vector<long>{2, 4});
+
+    const std::vector<ChartOpeningRole> roles = {{"nurse", 1, {}}};
+    const std::string openings = dir.file("o.csv",
+                                          "encounter,opened_at,role\n"
+                                          "A,2026-03-03T09:00:00Z,nurse\n"       // 2 kept
+                                          "Q,2026-03-03T10:00:00Z,nurse\n"       // 3 unknown encounter
+                                          "A,2026-03-03T11:00:00Z,doctor\n"      // 4 undeclared role
+                                          "A,2026-03-03T11:00:00Z,nur\x7fse\n"   // 5 control character
+                                          "B,noon,nurse\n");                     // 6 bad timestamp
+    const InputError stop = [&] {
+        try {
+            load_chart_openings(openings, roles, pop, TimeZone::utc());
+        } catch (const InputError& e) {
+            return e;
+        }
+        FAIL("expected an InputError");
+        return InputError("", 0, 0, "", "");
+    }();
+    CHECK(stop.line == 3);
+    const ChartOpeningLog log = load_chart_openings(openings, roles, pop, TimeZone::utc(), BadRows::skip);
+    CHECK(log.openings.size() == 1);
+    CHECK(log.rows_skipped.at("o.csv: chart opening for an unknown encounter").first_lines == std::vector<long>{3});
+    CHECK(log.rows_skipped.at("o.csv: role not declared in chart_openings.roles").first_lines == std::vector<long>{4});
+    CHECK(log.rows_skipped.at("o.csv: text that is not UTF-8 or holds a control character").first_lines ==
+          std::vector<long>{5});
+    CHECK(log.rows_skipped.at("o.csv: bad timestamp in opened_at").first_lines == std::vector<long>{6});
+}
