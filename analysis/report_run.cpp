@@ -136,7 +136,8 @@ ReportInput report_input_for_run(const Scenario& sc, const RunOutput& out, const
     for (const auto& row : out.first_replication.exclusions.rows)
         if (std::get<std::string>(row[0]) == "skipped rows")
             in.assumptions.push_back("Input rows skipped (bad_rows: skip): " + std::to_string(std::get<std::int64_t>(row[2])) +
-                                     " rows, " + std::get<std::string>(row[1]) + ".");
+                                     (std::get<std::int64_t>(row[2]) == 1 ? " row, " : " rows, ") +
+                                     std::get<std::string>(row[1]) + ".");
     for (const Metric& m : plan_metrics()) in.column_labels[std::string(m.name)] = std::string(m.label);
     in.column_labels["plan"] = "Plan";
 

@@ -159,12 +159,12 @@ int command_check(const std::string& path) {
     for (const auto& [reason, n] : pop.excluded.encounters_by_reason) std::cout << "  excluded: " << n << " encounters " << reason << "\n";
     for (const auto& [reason, n] : pop.excluded.notes) std::cout << "  note: " << n << " " << reason << "\n";
     for (const auto& [reason, rows] : pop.excluded.rows_skipped)
-        std::cout << "  skipped: " << rows.count << " rows, " << reason << " (" << describe_lines(rows) << ")\n";
+        std::cout << "  skipped: " << rows.count << (rows.count == 1 ? " row, " : " rows, ") << reason << " (" << describe_lines(rows) << ")\n";
     if (const auto log = replayed_openings(sc, pop)) {
         std::cout << "Chart openings: " << log->openings.size() << " usable.\n";
         for (const auto& [reason, n] : log->excluded_by_reason) std::cout << "  excluded: " << n << " chart openings " << reason << "\n";
         for (const auto& [reason, rows] : log->rows_skipped)
-            std::cout << "  skipped: " << rows.count << " rows, " << reason << " (" << describe_lines(rows) << ")\n";
+            std::cout << "  skipped: " << rows.count << (rows.count == 1 ? " row, " : " rows, ") << reason << " (" << describe_lines(rows) << ")\n";
     }
     std::cout << "The scenario is valid.\n";
     return 0;

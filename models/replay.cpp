@@ -9,7 +9,6 @@
 #include <string_view>
 #include <thread>
 #include <unordered_map>
-#include <unordered_set>
 
 #include "models/csv.hpp"
 #include "models/errors.hpp"

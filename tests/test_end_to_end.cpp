@@ -167,7 +167,7 @@ TEST_CASE("end_to_end.skipped_rows_are_shown_everywhere") {
     const auto c = run_tocsin("check " + dir.path("demo.yaml"));
     INFO(c.output);
     CHECK(c.exit_code == 0);
-    CHECK(c.output.find("skipped: 1 rows, " + expected) != std::string::npos);
+    CHECK(c.output.find("skipped: 1 row, " + expected) != std::string::npos);
     const auto r = run_tocsin("run " + dir.path("demo.yaml") + " --out " + dir.path("out"));
     REQUIRE(r.exit_code == 0);
     CHECK(r.output.find(expected) != std::string::npos);
