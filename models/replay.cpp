@@ -5,7 +5,9 @@
 #include <cstdio>
 #include <cmath>
 #include <filesystem>
+#include <map>
 #include <optional>
+#include <set>
 #include <string_view>
 #include <thread>
 #include <unordered_map>
@@ -266,12 +268,16 @@ void read_scores(const ReplaySource& source, const TimeZone& zone, const IdIndex
     }
 }
 
-// Lines of the score rows (as kept) of encounter `e` scored at `at`, found by
-// reading the file again: only needed when repeated rows disagree, which is
-// rare, so the fast path keeps no line per score.
-std::vector<long> score_lines(const ReplaySource& source, const TimeZone& zone, const IdIndex& index,
-                              const ScoreColumns& c, std::uint32_t e, Instant at) {
-    std::vector<long> lines;
+using ScoreKey = std::pair<std::uint32_t, Instant>;  // encounter, scored_at
+
+// File lines of the score rows (as read, bad rows left out) whose encounter and
+// scored_at are in `wanted`, in file order. Found by reading the file again:
+// only needed when repeated rows disagree, which is rare, so the fast path
+// keeps no line per score.
+std::vector<std::pair<long, ScoreKey>> score_lines(const ReplaySource& source, const TimeZone& zone,
+                                                   const IdIndex& index, const ScoreColumns& c,
+                                                   const std::set<ScoreKey>& wanted) {
+    std::vector<std::pair<long, ScoreKey>> lines;
     CsvReader reader(source.scores_path);
     std::vector<std::string_view> fields;
     reader.next(fields);
@@ -282,7 +288,8 @@ std::vector<long> score_lines(const ReplaySource& source, const TimeZone& zone, 
         RowContext row{reader, fields, zone, ignored};
         Score s;
         try {
-            if (parse_score_row(row, c, index, source, last, s) == e && s.scored_at == at) lines.push_back(reader.line());
+            const ScoreKey key{parse_score_row(row, c, index, source, last, s), s.scored_at};
+            if (wanted.count(key)) lines.emplace_back(reader.line(), key);
         } catch (const RowProblem&) {
             // Skipped (or would have stopped) on the first reading.
         }
@@ -292,10 +299,11 @@ std::vector<long> score_lines(const ReplaySource& source, const TimeZone& zone, 
 
 // Repeated score rows of one encounter at one scored_at: identical values are
 // a resent row (the one available first is kept, the rest counted); different
-// values are a bad row, since nothing says which one the system acted on.
+// values are bad rows, since nothing says which one the system acted on.
 void resolve_repeated_scores(Population& pop, const ReplaySource& source, const TimeZone& zone, const IdIndex& index,
                              const ScoreColumns& columns) {
     std::int64_t repeated = 0;
+    std::set<ScoreKey> conflicts;
     std::vector<std::size_t> start(pop.encounters.size() + 1, 0);
     std::vector<std::size_t> order;
     std::vector<char> drop;
@@ -318,27 +326,10 @@ void resolve_repeated_scores(Population& pop, const ReplaySource& source, const 
                 while (m < order.size() && pop.scores[order[m]].scored_at == pop.scores[order[k]].scored_at) ++m;
                 bool differ = false;
                 for (std::size_t j = k + 1; j < m; ++j) differ = differ || pop.scores[order[j]].value != pop.scores[order[k]].value;
-                if (differ) {
-                    const Instant at = pop.scores[order[k]].scored_at;
-                    const std::vector<long> lines = score_lines(source, zone, index, columns, static_cast<std::uint32_t>(e), at);
-                    const long line = lines.size() > 1 ? lines[1] : lines.empty() ? 1 : lines[0];
-                    const std::string first = lines.empty() ? std::string("another row") : "line " + std::to_string(lines[0]);
-                    const RowProblem p{"same encounter and scored_at with different scores (every such row skipped)",
-                                       InputError(source.scores_path, line, static_cast<long>(columns.col[3] + 1), "score",
-                                                  "encounter '" + pop.encounters[e].id + "' has two scores at scored_at " +
-                                                      format_utc(at) + " that differ (" + first +
-                                                      "); keep one row per encounter and scored_at")};
-                    if (source.bad_rows == BadRows::stop) throw p.error;
-                    auto& skipped = pop.excluded.rows_skipped[file_name(source.scores_path) + ": " + p.reason];
-                    for (long l : lines) skipped.add(l);
-                    for (std::size_t j = k; j < m; ++j) drop[order[j] - a] = 1;
-                } else {
-                    // Stable sort kept available_at order: the first is available first.
-                    for (std::size_t j = k + 1; j < m; ++j) {
-                        drop[order[j] - a] = 1;
-                        ++repeated;
-                    }
-                }
+                if (differ) conflicts.emplace(static_cast<std::uint32_t>(e), pop.scores[order[k]].scored_at);
+                else repeated += static_cast<std::int64_t>(m - k - 1);
+                // Stable sort kept available_at order: the first is available first.
+                for (std::size_t j = differ ? k : k + 1; j < m; ++j) drop[order[j] - a] = 1;
                 k = m;
             }
         }
@@ -349,6 +340,26 @@ void resolve_repeated_scores(Population& pop, const ReplaySource& source, const 
     pop.scores.resize(out);
     pop.score_start = std::move(start);
     if (repeated) pop.excluded.scores_by_reason["repeated row (same encounter, scored_at and score)"] += repeated;
+    if (conflicts.empty()) return;
+
+    const auto lines = score_lines(source, zone, index, columns, conflicts);
+    const std::string reason = "same encounter and scored_at with different scores (every such row skipped)";
+    if (source.bad_rows == BadRows::skip) {
+        auto& skipped = pop.excluded.rows_skipped[file_name(source.scores_path) + ": " + reason];
+        for (const auto& [line, key] : lines) skipped.add(line);
+        return;
+    }
+    // Stop at the first row that repeats an earlier one, naming that one.
+    std::map<ScoreKey, long> first_line;
+    for (const auto& [line, key] : lines) {
+        const auto [seen, fresh] = first_line.emplace(key, line);
+        if (fresh) continue;
+        throw InputError(source.scores_path, line, static_cast<long>(columns.col[3] + 1), "score",
+                         "encounter '" + pop.encounters[key.first].id + "' has two different scores at scored_at " +
+                             format_utc(key.second) + " (the other on line " + std::to_string(seen->second) +
+                             "); keep one row per encounter and scored_at");
+    }
+    throw InputError(source.scores_path, 1, 0, "score", "two different scores at one scored_at of one encounter");
 }
 
 // Quantile by the nearest-rank rule on a copy; precise enough for fences.
