@@ -4,6 +4,7 @@
 
 #include "models/errors.hpp"
 #include "models/chart_openings.hpp"
+#include "models/csv.hpp"
 #include "models/replay.hpp"
 #include "test_support.hpp"
 
@@ -585,4 +586,22 @@ TEST_CASE("replay.bad_rows_skip_disagreeing_scores_and_chart_openings") {
     CHECK(log.rows_skipped.at("o.csv: text that is not UTF-8 or holds a control character").first_lines ==
           std::vector<long>{5});
     CHECK(log.rows_skipped.at("o.csv: bad timestamp in opened_at").first_lines == std::vector<long>{6});
+}
+
+TEST_CASE("csv.next_record_start_at_any_line_end") {
+    // Chunk cuts land just after a line end of any kind, also when a CRLF pair
+    // straddles the reader's 64 KiB blocks.
+    ScratchDir dir;
+    auto cut = [&](const std::string& text, long long from) {
+        return next_record_start(dir.file("c.csv", text), from, static_cast<long long>(text.size()));
+    };
+    CHECK(cut("ab\ncd\n", 0) == 3);
+    CHECK(cut("ab\r\ncd\n", 0) == 4);
+    CHECK(cut("ab\r\ncd\n", 3) == 4);  // between CR and LF: the pair ends there
+    CHECK(cut("ab\rcd\r", 0) == 3);
+    CHECK(cut("abcd", 1) == 4);        // no line end: the end of the file
+    const std::string long_line(65535, 'x');
+    CHECK(cut(long_line + "\r\nyz\n", 0) == 65537);
+    CHECK(cut(long_line + "\ryz\n", 0) == 65536);
+    CHECK(cut(long_line + "\r", 0) == 65536);
 }
