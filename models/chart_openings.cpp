@@ -47,7 +47,7 @@ ChartOpeningLog load_chart_openings(const std::string& path, const std::vector<C
         auto text = [&](std::size_t c, std::string_view name) {
             if (std::string problem = text_problem(fields[c]); !problem.empty())
                 fail(c, name, "text that is not UTF-8 or holds a control character",
-                     "expected UTF-8 text without control characters, found " + problem);
+                     "expected UTF-8 text without control characters: " + problem);
         };
         try {
             if (fields.size() != width)

@@ -75,7 +75,7 @@ struct RowContext {
     void text(std::size_t column, std::string_view name) const {
         if (std::string problem = text_problem(fields[column]); !problem.empty())
             fail(column, name, "text that is not UTF-8 or holds a control character",
-                 "expected UTF-8 text without control characters, found " + problem);
+                 "expected UTF-8 text without control characters: " + problem);
     }
     void width(std::size_t expected) const {
         if (fields.size() != expected)
