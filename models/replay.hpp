@@ -40,8 +40,9 @@ struct ReplaySource {
     double max_stay_days = 365;
     // An admission or discharge more than this many interquartile ranges
     // (at least this many times 30 days) before the first or after the third
-    // quartile of every admission and discharge of the log is a bad row;
-    // Tukey's "far out" fences (k = 3) widened for small logs.
+    // quartile of every admission and discharge of the log is a bad row:
+    // Tukey's outer fences (k = 3, "far out", Tukey 1977), with the 30-day
+    // floor (our choice, no source) so that a short log flags nothing near it.
     double far_out_fence_iqr = 3;
     // Scores outside [score_low, score_high] are bad rows.
     double score_low = 0, score_high = 100;
