@@ -2,10 +2,17 @@
 
 #include <algorithm>
 #include <cassert>
+#include <charconv>
 #include <cmath>
 #include <cstdio>
 
 namespace tocsin {
+
+namespace {
+
+const char* const replacement_character = "\xEF\xBF\xBD";
+
+}  // namespace
 
 void Table::add_row(std::vector<Cell> row) {
     assert(row.size() == columns.size());
@@ -25,7 +32,58 @@ std::string format_real(double v, int max_decimals) {
     return s;
 }
 
-std::string csv_field(const std::string& t) {
+std::size_t utf8_sequence_length(std::string_view text, std::size_t i) {
+    const auto byte = [&](std::size_t k) { return static_cast<unsigned char>(text[k]); };
+    const unsigned char lead = byte(i);
+    if (lead < 0x80) return 1;
+    std::size_t length = 0;
+    unsigned char second_lo = 0x80, second_hi = 0xBF;
+    if (lead >= 0xC2 && lead <= 0xDF) length = 2;
+    else if (lead >= 0xE0 && lead <= 0xEF) {
+        length = 3;
+        if (lead == 0xE0) second_lo = 0xA0;
+        if (lead == 0xED) second_hi = 0x9F;
+    } else if (lead >= 0xF0 && lead <= 0xF4) {
+        length = 4;
+        if (lead == 0xF0) second_lo = 0x90;
+        if (lead == 0xF4) second_hi = 0x8F;
+    } else {
+        return 0;
+    }
+    if (i + length > text.size()) return 0;
+    if (byte(i + 1) < second_lo || byte(i + 1) > second_hi) return 0;
+    for (std::size_t k = 2; k < length; ++k)
+        if (byte(i + k) < 0x80 || byte(i + k) > 0xBF) return 0;
+    return length;
+}
+
+std::string valid_utf8(std::string_view text) {
+    std::string out;
+    out.reserve(text.size());
+    for (std::size_t i = 0; i < text.size();) {
+        const std::size_t length = utf8_sequence_length(text, i);
+        if (length == 0) {
+            out += replacement_character;
+            ++i;
+        } else {
+            out.append(text.substr(i, length));
+            i += length;
+        }
+    }
+    return out;
+}
+
+std::string format_number(double v) {
+    if (!std::isfinite(v)) return "";
+    if (v == 0) return "0";  // -0 too: a zero difference is not negative
+    char buf[32];
+    const auto [end, ec] = std::to_chars(buf, buf + sizeof buf, v);
+    assert(ec == std::errc());
+    return std::string(buf, end);
+}
+
+std::string csv_field(std::string_view raw) {
+    std::string t = valid_utf8(raw);
     if (t.find_first_of(",\"\r\n") == std::string::npos) return t;
     std::string out = "\"";
     for (char c : t) {
@@ -35,9 +93,27 @@ std::string csv_field(const std::string& t) {
     return out + "\"";
 }
 
-std::string json_escape(const std::string& t) {
+std::string json_escape(std::string_view text) {
     std::string out = "\"";
-    for (unsigned char c : t) {
+    out.reserve(text.size() + 2);
+    for (std::size_t i = 0; i < text.size();) {
+        const auto c = static_cast<unsigned char>(text[i]);
+        const std::size_t length = utf8_sequence_length(text, i);
+        if (length == 0) {
+            out += replacement_character;
+            ++i;
+            continue;
+        }
+        if (length > 1) {
+            const std::string_view sequence = text.substr(i, length);
+            // U+2028 and U+2029 are valid JSON but end a line in JavaScript
+            // before ES2019, so a table pasted into a script stays one string.
+            if (sequence == "\xE2\x80\xA8") out += "\\u2028";
+            else if (sequence == "\xE2\x80\xA9") out += "\\u2029";
+            else out.append(sequence);
+            i += length;
+            continue;
+        }
         switch (c) {
             case '"': out += "\\\""; break;
             case '\\': out += "\\\\"; break;
@@ -45,7 +121,7 @@ std::string json_escape(const std::string& t) {
             case '\r': out += "\\r"; break;
             case '\t': out += "\\t"; break;
             default:
-                if (c < 0x20) {
+                if (c < 0x20 || c == 0x7F) {
                     char buf[8];
                     std::snprintf(buf, sizeof buf, "\\u%04x", c);
                     out += buf;
@@ -53,6 +129,7 @@ std::string json_escape(const std::string& t) {
                     out += static_cast<char>(c);
                 }
         }
+        ++i;
     }
     return out + "\"";
 }
@@ -60,7 +137,7 @@ std::string json_escape(const std::string& t) {
 namespace {
 
 std::string cell_text(const Cell& c, int digits) {
-    if (std::holds_alternative<std::string>(c)) return std::get<std::string>(c);
+    if (std::holds_alternative<std::string>(c)) return valid_utf8(std::get<std::string>(c));
     if (std::holds_alternative<std::int64_t>(c)) return std::to_string(std::get<std::int64_t>(c));
     if (std::holds_alternative<double>(c)) return format_real(std::get<double>(c), digits);
     return "";
@@ -76,8 +153,8 @@ std::string to_csv(const Table& t) {
         for (std::size_t i = 0; i < row.size(); ++i) {
             if (i) out += ",";
             const Cell& c = row[i];
-            if (std::holds_alternative<double>(c) && !std::isfinite(std::get<double>(c))) continue;
-            out += csv_field(cell_text(c, 6));
+            if (std::holds_alternative<double>(c)) out += format_number(std::get<double>(c));
+            else out += csv_field(cell_text(c, 0));
         }
         out += "\n";
     }
@@ -95,7 +172,7 @@ std::string to_json(const Table& t) {
             if (std::holds_alternative<std::string>(c)) out += json_escape(std::get<std::string>(c));
             else if (std::holds_alternative<std::int64_t>(c)) out += std::to_string(std::get<std::int64_t>(c));
             else if (std::holds_alternative<double>(c) && std::isfinite(std::get<double>(c)))
-                out += format_real(std::get<double>(c), 6);
+                out += format_number(std::get<double>(c));
             else out += "null";
         }
         out += "}";
@@ -125,7 +202,7 @@ std::string to_text(const Table& t, int digits) {
         for (std::size_t i = 0; i < row.size(); ++i)
             if (std::holds_alternative<std::string>(row[i])) text_column[i] = true;
     std::string out;
-    if (!t.title.empty()) out += t.title + "\n";
+    if (!t.title.empty()) out += valid_utf8(t.title) + "\n";
     for (std::size_t i = 0; i < t.columns.size(); ++i) out += (i ? "  " : "") + pad(t.columns[i], width[i], text_column[i]);
     out += "\n";
     for (std::size_t r = 0; r < cells.size(); ++r) {

@@ -3,6 +3,7 @@
 // reports is a Table, so the terminal view, CSV and JSON always agree.
 #include <cstdint>
 #include <string>
+#include <string_view>
 #include <variant>
 #include <vector>
 
@@ -20,15 +21,31 @@ struct Table {
     void add_row(std::vector<Cell> row);  // asserts the width matches
 };
 
-// RFC 4180 CSV; reals with up to 6 significant decimals, empty cells empty.
+// Files are for programs, so their numbers are exact and their text is valid
+// UTF-8 whatever bytes a name carried (invalid sequences become U+FFFD); the
+// terminal is for people, so its numbers are rounded.
+
+// RFC 4180 CSV; reals as format_number (empty when not finite), empty cells empty.
 std::string to_csv(const Table& table);
-// A JSON array of objects keyed by column; empty cells are null; non-finite reals are null.
+// A JSON array of objects keyed by column; reals as format_number; empty cells
+// and non-finite reals are null.
 std::string to_json(const Table& table);
 // Fixed-width text for a terminal, columns right-aligned except text.
 std::string to_text(const Table& table, int real_digits = 2);
 
-std::string json_escape(const std::string& text);  // quoted JSON string
-std::string csv_field(const std::string& text);    // quoted only when needed
-std::string format_real(double value, int max_decimals = 6);  // shortest, no exponent for ordinary values
+// Quoted JSON string: control characters, U+2028 and U+2029 as \uXXXX.
+std::string json_escape(std::string_view text);
+std::string csv_field(std::string_view text);  // quoted only when needed
+// The shortest text that reads back to the same double (std::to_chars), which
+// may use an exponent (1.2e-05); zero is "0", a non-finite value "".
+std::string format_number(double value);
+// Rounded to at most `max_decimals`, trailing zeros dropped: for people.
+std::string format_real(double value, int max_decimals = 6);
+
+// Length of the valid UTF-8 sequence starting at text[i], or 0 when invalid
+// (RFC 3629: no overlong forms, no surrogates, nothing above U+10FFFF).
+std::size_t utf8_sequence_length(std::string_view text, std::size_t i);
+// The text with every invalid UTF-8 sequence replaced by U+FFFD, byte by byte.
+std::string valid_utf8(std::string_view text);
 
 }  // namespace tocsin

@@ -1,12 +1,14 @@
 #include "cli/evaluate_command.hpp"
 
 #include <iostream>
+#include <optional>
 #include <sstream>
 
 #include "analysis/cautions.hpp"
 #include "analysis/evaluation.hpp"
 #include "analysis/evaluation_scenario.hpp"
 #include "analysis/output.hpp"
+#include "cli/option_specs.hpp"
 #include "models/errors.hpp"
 #include "sim/population_source.hpp"
 #include "sim/scenario.hpp"
@@ -74,23 +76,58 @@ CLI::App* add_evaluate_command(CLI::App& app, EvaluateCommand& c) {
 }
 
 int run_evaluate_command(const EvaluateCommand& c) {
+    // Every option is read before the scenario, so a bad one costs nothing.
+    const OptionSpecs& spec = option_specs();
+    std::vector<double> thresholds, horizons;
+    for (const std::string& t : c.thresholds) thresholds.push_back(option_real(spec.threshold, "--threshold", t));
+    for (const std::string& h : c.horizons_hours) horizons.push_back(option_real(spec.horizon, "--horizon", h));
+    const auto grid_points = static_cast<int>(option_integer(spec.grid_points, "--grid-points", c.grid_points));
+    std::optional<double> window_hours, min_lead_hours;
+    if (!c.window_hours.empty())
+        window_hours = option_real(key_spec("outcome", "window_hours"), "--window-hours", c.window_hours);
+    if (!c.min_lead_hours.empty()) {
+        // The key is in minutes, the option in hours: the same range, rescaled.
+        KeySpec in_hours = key_spec("outcome", "min_lead_minutes");
+        in_hours.min /= 60;
+        in_hours.max /= 60;
+        in_hours.unit = "hours";
+        min_lead_hours = option_real(in_hours, "--min-lead-hours", c.min_lead_hours);
+    }
+    const double probability_horizon =
+        option_real(spec.probability_horizon, "--probability-horizon-hours", c.probability_horizon_hours);
+    const auto period_days = static_cast<int>(option_integer(spec.period_days, "--period-days", c.period_days));
+    const auto bootstrap = static_cast<int>(option_integer(spec.bootstrap, "--bootstrap", c.bootstrap_replicates));
+    // A replication index is below the largest replication count a scenario may ask for.
+    KeySpec replication_index = key_spec("top level", "replications");
+    replication_index.min = 0;
+    replication_index.max -= 1;
+    const auto replication = static_cast<std::uint64_t>(option_integer(replication_index, "--replication", c.replication));
+    std::vector<double> decision_thresholds, evaluations_per_case;
+    for (const std::string& t : c.decision_thresholds)
+        decision_thresholds.push_back(option_real(spec.decision_threshold, "--decision-threshold", t));
+    for (const std::string& n : c.evaluations_per_case)
+        evaluations_per_case.push_back(option_real(spec.evaluations_per_case, "--evaluate-per-case", n));
+    std::optional<ProbabilityMapping> mapping;
+    if (!c.probability.empty()) mapping = parse_mapping(c.probability);
+
+    if (!c.out_dir.empty()) check_output_directory(c.out_dir);
     const Scenario sc = load_scenario(c.scenario);
     const PreparedPopulation prepared = prepare_population(sc);
-    const Population pop = population_for(sc, prepared, c.replication);
+    const Population pop = population_for(sc, prepared, replication);
 
     EvaluationOptions o = evaluation_options_for(sc);
-    o.thresholds = c.thresholds;
-    o.threshold_grid_points = c.grid_points;
-    o.horizons_hours = c.horizons_hours;
-    if (c.window_hours >= 0) o.window_hours = c.window_hours;
-    if (c.min_lead_hours >= 0) o.min_lead_hours = c.min_lead_hours;
-    if (!c.probability.empty()) o.probability = parse_mapping(c.probability);
-    if (o.probability) o.probability->horizon_hours = c.probability_horizon_hours;
-    o.decision_threshold_probabilities = c.decision_thresholds;
-    o.evaluations_per_case = c.evaluations_per_case;
-    o.drift_period_days = c.period_days;
-    o.bootstrap_replicates = c.bootstrap_replicates;
-    o.replication = c.replication;
+    o.thresholds = thresholds;
+    o.threshold_grid_points = grid_points;
+    o.horizons_hours = horizons;
+    if (window_hours) o.window_hours = *window_hours;
+    if (min_lead_hours) o.min_lead_hours = *min_lead_hours;
+    if (mapping) o.probability = mapping;
+    if (o.probability) o.probability->horizon_hours = probability_horizon;
+    o.decision_threshold_probabilities = decision_thresholds;
+    o.evaluations_per_case = evaluations_per_case;
+    o.drift_period_days = period_days;
+    o.bootstrap_replicates = bootstrap;
+    o.replication = replication;
 
     const Evaluation ev = evaluate(pop, o);
     std::cout << evaluation_summary(ev) << "\n" << to_text(ev.encounter_auc, 3) << "\n"

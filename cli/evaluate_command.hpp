@@ -9,21 +9,23 @@
 
 namespace tocsin {
 
+// Numeric options are kept as written and read with their ranges
+// (cli/option_specs.hpp) before anything is loaded.
 struct EvaluateCommand {
     std::string scenario;
     std::string out_dir;
-    std::vector<double> thresholds;
-    int grid_points = 21;
-    std::vector<double> horizons_hours{4.0, 8.0, 12.0, 24.0};
-    double window_hours = -1.0;    // < 0: the scenario's window
-    double min_lead_hours = -1.0;  // < 0: the scenario's min_lead
-    std::string probability;       // "", "as-is", "divide:D", "logistic:A:B"
-    double probability_horizon_hours = 0.0;
-    std::vector<double> decision_thresholds;
-    std::vector<double> evaluations_per_case;
-    int period_days = 0;
-    int bootstrap_replicates = 200;
-    std::uint64_t replication = 0;
+    std::vector<std::string> thresholds;
+    std::string grid_points = "21";
+    std::vector<std::string> horizons_hours{"4", "8", "12", "24"};
+    std::string window_hours;    // empty: the scenario's window
+    std::string min_lead_hours;  // empty: the scenario's min_lead
+    std::string probability;     // "", "as-is", "divide:D", "logistic:A:B"
+    std::string probability_horizon_hours = "0";
+    std::vector<std::string> decision_thresholds;
+    std::vector<std::string> evaluations_per_case;
+    std::string period_days = "0";
+    std::string bootstrap_replicates = "200";
+    std::string replication = "0";
 };
 
 CLI::App* add_evaluate_command(CLI::App& app, EvaluateCommand& command);

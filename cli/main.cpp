@@ -23,6 +23,7 @@
 #include "analysis/run.hpp"
 #include "analysis/shift_effect.hpp"
 #include "cli/evaluate_command.hpp"
+#include "cli/option_specs.hpp"
 #include "sim/population_source.hpp"
 #include "analysis/review_size.hpp"
 #include "models/errors.hpp"
@@ -42,9 +43,11 @@ struct RunOptions {
     std::string out_dir;
     bool notice_log = false;
     bool task_log = false;
-    unsigned threads = 0;
-    std::uint64_t replications = 0;  // 0 = as the scenario says
-    std::optional<double> max_burden;
+    std::string threads = "0";  // 0 = all cores
+    // As written; read against their ranges (the `replications` key's, and
+    // cli/option_specs.hpp) before anything runs. Empty = not given.
+    std::string replications;
+    std::string max_burden;
     std::string budget_metric = "per_unit_night_p90";
     std::string burden_metric = "per_unit_night_mean";
     std::string benefit_metric = "caught";
@@ -77,8 +80,8 @@ void add_run_options(CLI::App* cmd, RunOptions& o) {
     cmd->add_option("--benefit", o.benefit_metric, "Benefit axis of the frontier and budget (default caught)");
 }
 
-unsigned thread_count(unsigned requested) {
-    if (requested) return requested;
+unsigned thread_count(const std::string& requested) {
+    if (const auto n = option_integer(option_specs().threads, "--threads", requested)) return static_cast<unsigned>(n);
     return std::max(1u, std::thread::hardware_concurrency());
 }
 
@@ -110,28 +113,36 @@ struct SizeOptions {
     std::string scenario;
     std::string plan;
     std::string sizes = "1-30";
-    double target = 0.8;
+    std::string target = "0.8";
     std::string out_dir;
 };
 
 int command_review_size(const SizeOptions& opt) {
+    // Each size is a value of plans[].review.top_n, with that key's range;
+    // each is one simulation, so there are no more of them than plans in a sweep.
+    const std::size_t dash_at = opt.sizes.find('-', 1);
+    const KeySpec& top_n = key_spec("plans[].review", "top_n");
+    const auto from = static_cast<int>(option_integer(top_n, "--sizes", opt.sizes.substr(0, dash_at)));
+    const auto to = dash_at == std::string::npos
+                        ? from
+                        : static_cast<int>(option_integer(top_n, "--sizes", opt.sizes.substr(dash_at + 1)));
+    if (to < from) throw InputError("command line", 0, 0, "--sizes", "expected N or FROM-TO with FROM <= TO, e.g. 1-30");
+    if (static_cast<std::size_t>(to - from) + 1 > sweep_plan_limit)
+        throw InputError("command line", 0, 0, "--sizes",
+                         std::to_string(to - from + 1) + " list sizes, more than the limit of " +
+                             std::to_string(sweep_plan_limit) + " (one simulation each)");
+    const double target = option_real(option_specs().target_catch_rate, "--target-catch-rate", opt.target);
     const Scenario sc = load_scenario(opt.scenario);
     std::size_t p = 0;
     while (p < sc.plans.size() && sc.plans[p].name != opt.plan) ++p;
     if (p == sc.plans.size()) throw std::invalid_argument("no plan named '" + opt.plan + "' in " + opt.scenario);
+    if (!opt.out_dir.empty()) check_output_directory(opt.out_dir);
     if (sc.plans[p].channel != Channel::ranked_review)
         throw std::invalid_argument("plan '" + opt.plan + "' is a " + std::string(to_string(sc.plans[p].channel)) +
                                     " plan; list sizing needs a ranked_review plan");
-    int from = 0, to = 0;
-    char dash = 0, extra = 0;
-    std::istringstream range(opt.sizes);
-    if (!(range >> from)) throw std::invalid_argument("--sizes: expected N or FROM-TO, e.g. 1-30");
-    to = from;
-    if (range >> dash && (dash != '-' || !(range >> to) || (range >> extra)))
-        throw std::invalid_argument("--sizes: expected N or FROM-TO, e.g. 1-30");
     const Population pop = population_for(sc, prepare_population(sc), 0);
     const ShiftCalendar cal = calendar_for(sc, pop);
-    const ReviewSizing sizing = size_review_list(sc, pop, cal, p, from, to, opt.target);
+    const ReviewSizing sizing = size_review_list(sc, pop, cal, p, from, to, target);
     const Table table = review_size_table(sizing);
     std::cout << to_text(table, 3) << "\n" << review_size_answer(sizing) << "\n\n" << cautions_text() << "\n";
     if (!opt.out_dir.empty()) {
@@ -172,6 +183,10 @@ int command_check(const std::string& path) {
 
 int command_run(const RunOptions& opt, bool sweep) {
     const auto started = std::chrono::steady_clock::now();
+    std::optional<double> max_burden;
+    if (!opt.max_burden.empty()) max_burden = option_real(option_specs().max_burden, "--max-burden", opt.max_burden);
+    const unsigned threads = thread_count(opt.threads);
+    if (!opt.out_dir.empty()) check_output_directory(opt.out_dir);  // before the long part, not after
     Scenario sc;
     if (sweep) {
         SweepRequest request;
@@ -183,7 +198,7 @@ int command_run(const RunOptions& opt, bool sweep) {
     } else {
         sc = load_scenario(opt.scenario);
     }
-    if (opt.replications) sc.replications = opt.replications;
+    if (!opt.replications.empty()) override_replications(sc, "--replications", opt.replications);
     const PreparedPopulation prepared = prepare_population(sc);
     std::cout << describe_prepared(sc, prepared);
     const PopulationFactory factory = population_factory(sc, prepared);
@@ -197,13 +212,13 @@ int command_run(const RunOptions& opt, bool sweep) {
     }
     RunSettings settings;
     settings.replayed_openings = openings ? &*openings : nullptr;
-    settings.threads = thread_count(opt.threads);
+    settings.threads = threads;
     settings.notice_log = opt.notice_log;
     settings.task_log = opt.task_log;
     settings.progress = progress_bar();
     settings.burden_metric = opt.burden_metric;
     settings.benefit_metric = opt.benefit_metric;
-    settings.budget_limit = opt.max_burden;
+    settings.budget_limit = max_burden;
     settings.budget_metric = opt.budget_metric;
     const RunOutput out = run_scenario(sc, factory, settings);
     std::cout << out.text;
@@ -219,9 +234,7 @@ int command_run(const RunOptions& opt, bool sweep) {
         report = render_report(input);
     }
     if (!opt.report_path.empty()) {
-        const std::filesystem::path path(opt.report_path);
-        write_output_files(path.has_parent_path() ? path.parent_path().string() : ".",
-                           {{path.filename().string(), report}});
+        write_output_file(opt.report_path, report);
         std::cout << "Wrote the report to " << opt.report_path << "\n";
     }
     if (!opt.out_dir.empty()) {
@@ -254,8 +267,7 @@ int command_fit(const FitCommand& cmd) {
     if (cmd.out_path.empty()) {
         std::cout << fragment;
     } else {
-        std::ofstream out(cmd.out_path, std::ios::binary);
-        if (!(out << fragment)) throw std::runtime_error("cannot write " + cmd.out_path);
+        write_output_file(cmd.out_path, fragment);
         std::cout << "Fitted " << fit.encounters_admitted << " admissions (" << fit.cases << " cases) and " << fit.scores
                   << " scores; wrote " << cmd.out_path << "\n";
     }
@@ -298,13 +310,14 @@ int main(int argc, char** argv) {
     size->add_option("scenario", size_opt.scenario, "Scenario YAML file")->required();
     size->add_option("--plan", size_opt.plan, "A ranked_review plan of the scenario")->required();
     size->add_option("--sizes", size_opt.sizes, "List lengths to try, N or FROM-TO (default 1-30)");
-    size->add_option("--target-catch-rate", size_opt.target, "Catch rate to reach (default 0.8)")->check(CLI::Range(0.0, 1.0));
+    size->add_option("--target-catch-rate", size_opt.target, "Catch rate to reach (default 0.8)");
     size->add_option("-o,--out", size_opt.out_dir, "Write the table as CSV and JSON to this directory");
     EvaluateCommand evaluate_cmd;
     auto* evaluate = add_evaluate_command(app, evaluate_cmd);
 
     auto* keys = app.add_subcommand("keys", "Print the reference of every scenario key (Markdown)");
 
+    remove_partial_outputs_on_signals();
     try {
         app.parse(argc, argv);
     } catch (const CLI::ParseError& e) {

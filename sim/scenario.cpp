@@ -90,7 +90,7 @@ std::vector<int> parse_roster_row(const YAML::Node& node, const ShiftPattern& sh
                              "unknown shift '" + name + "' (declared shifts: " + joined(shifts.names) + ")");
         long long n = -1;
         if (!it->second.IsScalar() || !YAML::convert<long long>::decode(it->second, n) || n < 0 || n > 100000)
-            throw yaml_error(file, it->second, field + "." + name, "expected a headcount, a whole number >= 0");
+            throw yaml_error(file, it->second, field + "." + name, "expected a headcount, a whole number from 0 to 100000");
         row[static_cast<std::size_t>(at - shifts.names.begin())] = static_cast<int>(n);
     }
     for (std::size_t k = 0; k < row.size(); ++k)
@@ -314,8 +314,10 @@ WeeklyRate weekly_rate(const Section& s, std::string_view key) {
     for (const auto& item : list) rows = rows && item.IsSequence() && item.size() == 24;
     auto number = [&](const YAML::Node& item) {
         double d = 0;
-        if (!item.IsScalar() || !YAML::convert<double>::decode(item, d) || !std::isfinite(d) || d < 0)
+        if (!item.IsScalar() || !YAML::convert<double>::decode(item, d) || d < 0)
             throw s.error(item, key, "expected a number of admissions per hour >= 0");
+        if (!std::isfinite(d))
+            throw s.error(item, key, "'" + item.Scalar() + "' is not a finite number (expected admissions per hour >= 0)");
         return d;
     };
     for (const auto& item : list) {
@@ -469,14 +471,50 @@ ShiftStress parse_shift(const Section& s, const Scenario& sc) {
 
 }  // namespace
 
+namespace {
+
+InputError located_yaml_error(const std::string& file, const YAML::Exception& e) {
+    // yaml-cpp marks an exception with no position as -1.
+    return InputError(file, e.mark.line >= 0 ? e.mark.line + 1 : 0, e.mark.column >= 0 ? e.mark.column + 1 : 0, "",
+                      "not valid YAML: " + e.msg);
+}
+
+Scenario scenario_from(const YAML::Node& root, const std::string& yaml_text, const std::string& file,
+                       const std::string& directory);
+
+}  // namespace
+
+std::string replications_problem(const Scenario& sc, std::uint64_t replications) {
+    if (replications > 1 && sc.source == PopulationSource::replay && !sc.bootstrap)
+        return "a plain replay is the same in every replication; more than one replication needs a resampled "
+               "(population.bootstrap) or generated population";
+    return {};
+}
+
+void override_replications(Scenario& sc, std::string_view option, const std::string& text) {
+    const std::int64_t n = option_integer(key_spec("top level", "replications"), option, text);
+    if (std::string problem = replications_problem(sc, static_cast<std::uint64_t>(n)); !problem.empty())
+        throw InputError("command line", 0, 0, std::string(option), problem);
+    sc.replications = static_cast<std::uint64_t>(n);
+}
+
 Scenario parse_scenario(const std::string& yaml_text, const std::string& file, const std::string& directory) {
-    YAML::Node root;
+    // Any yaml-cpp exception, while parsing or while reading a node later, is
+    // the file's fault and must name it.
     try {
-        root = YAML::Load(yaml_text);
+        const YAML::Node root = YAML::Load(yaml_text);
+        if (!root || root.IsNull()) throw InputError(file, 1, 1, "", "the scenario file is empty");
+        check_mapping_keys(root, file);
+        return scenario_from(root, yaml_text, file, directory);
     } catch (const YAML::Exception& e) {
-        throw InputError(file, e.mark.line + 1, e.mark.column + 1, "", "not valid YAML: " + e.msg);
+        throw located_yaml_error(file, e);
     }
-    if (!root || root.IsNull()) throw InputError(file, 1, 1, "", "the scenario file is empty");
+}
+
+namespace {
+
+Scenario scenario_from(const YAML::Node& root, const std::string& yaml_text, const std::string& file,
+                       const std::string& directory) {
     Section top(root, "top level", file, "scenario");
     Scenario sc;
     sc.file = file;
@@ -564,9 +602,8 @@ Scenario parse_scenario(const std::string& yaml_text, const std::string& file, c
             sc.shift = parse_shift(Section(node, "population.shift", file, "population.shift"), sc);
             sc.shift_at = {node.Mark().line + 1, node.Mark().column + 1};
         }
-        if (sc.replications > 1 && sc.source == PopulationSource::replay && !sc.bootstrap)
-            top.fail("replications", "a plain replay is the same in every replication; more than one replication "
-                                     "needs a resampled (population.bootstrap) or generated population");
+        if (std::string problem = replications_problem(sc, sc.replications); !problem.empty())
+            top.fail("replications", problem);
     }
     if (top.has("reporting")) {
         Section s(top.child("reporting"), "reporting", file, "reporting");
@@ -635,6 +672,8 @@ Scenario parse_scenario(const std::string& yaml_text, const std::string& file, c
     }
     return sc;
 }
+
+}  // namespace
 
 Scenario load_scenario(const std::string& path) {
     std::ifstream in(path);

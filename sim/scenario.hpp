@@ -5,6 +5,7 @@
 #include <cstdint>
 #include <optional>
 #include <string>
+#include <string_view>
 #include <vector>
 
 #include "models/bootstrap.hpp"
@@ -80,6 +81,13 @@ StaffModel staff_model(const Scenario& scenario, std::uint32_t unit_count);
 // Throws InputError (file:line:column, key) on any problem.
 Scenario load_scenario(const std::string& path);
 Scenario parse_scenario(const std::string& yaml_text, const std::string& file_label, const std::string& directory);
+
+// Why this scenario cannot run `replications` replications; empty when it
+// can. The `replications` key and the command-line override share it.
+std::string replications_problem(const Scenario& scenario, std::uint64_t replications);
+// Sets replications from a command-line option's text, with the key's range
+// and the check above; an InputError names "command line" and the option.
+void override_replications(Scenario& scenario, std::string_view option, const std::string& text);
 
 // Plain-words description of what will be simulated, for `tocsin check`.
 std::string describe_scenario(const Scenario& scenario);

@@ -2,7 +2,11 @@
 
 #include <algorithm>
 #include <cassert>
+#include <charconv>
 #include <cmath>
+#include <cstdlib>
+#include <limits>
+#include <map>
 
 #include "models/time.hpp"
 
@@ -66,7 +70,99 @@ std::string range_text(const KeySpec& k) {
     return "";
 }
 
+std::string location_text(const YAML::Mark& m) {
+    return "line " + std::to_string(m.line + 1) + ", column " + std::to_string(m.column + 1);
+}
+
+std::string node_kind(const YAML::Node& n) {
+    if (n.IsSequence()) return "a list";
+    if (n.IsMap()) return "a section";
+    if (n.IsNull()) return "nothing";
+    return "'" + n.Scalar() + "'";
+}
+
+// Aliases let a short file name the same mapping many times over; past this
+// many visits the walk stops rather than run for ever.
+constexpr std::size_t mapping_walk_budget = 1'000'000;
+
+void check_keys_below(const YAML::Node& node, const std::string& file, std::size_t& visits) {
+    if (++visits > mapping_walk_budget)
+        throw yaml_error(file, node, "", "the document repeats itself through aliases more than " +
+                                             std::to_string(mapping_walk_budget) + " times; write it out plainly");
+    if (node.IsSequence()) {
+        for (const auto& item : node) check_keys_below(item, file, visits);
+        return;
+    }
+    if (!node.IsMap()) return;
+    std::map<std::string, YAML::Mark> seen;
+    for (auto it = node.begin(); it != node.end(); ++it) {
+        if (!it->first.IsScalar())
+            throw yaml_error(file, it->first, "",
+                             "a key must be a plain name, found " + node_kind(it->first) + " used as a key");
+        const std::string key = it->first.Scalar();
+        const auto [first, inserted] = seen.emplace(key, it->first.Mark());
+        if (!inserted)
+            throw yaml_error(file, it->first, key,
+                             "key '" + key + "' is given twice in the same section, first at " +
+                                 location_text(first->second) + " and again at " + location_text(it->first.Mark()) +
+                                 "; keep one");
+        check_keys_below(it->second, file, visits);
+    }
+}
+
 }  // namespace
+
+void check_mapping_keys(const YAML::Node& root, const std::string& file) {
+    std::size_t visits = 0;
+    check_keys_below(root, file, visits);
+}
+
+const KeySpec& key_spec(std::string_view section_path, std::string_view key) {
+    for (const KeySpec& k : section_spec(section_path).keys)
+        if (k.name == key) return k;
+    assert(false && "key not declared in its section spec");
+    throw std::logic_error("undeclared key " + std::string(key));
+}
+
+std::string number_problem(const KeySpec& k, double v, std::string_view as_written) {
+    const std::string range = range_text(k);
+    const std::string expected =
+        range.empty() ? std::string() : " (expected " + range + (k.unit.empty() ? "" : " " + std::string(k.unit)) + ")";
+    if (!std::isfinite(v)) return "'" + std::string(as_written) + "' is not a finite number" + expected;
+    if (v < k.min || v > k.max) return "'" + std::string(as_written) + "' is out of range" + expected;
+    return {};
+}
+
+double option_real(const KeySpec& k, std::string_view option, const std::string& text) {
+    double v = 0;
+    const char* last = text.data() + text.size();
+    const auto [ptr, ec] = std::from_chars(text.data(), last, v);
+    if (text.empty() || ptr != last || (ec != std::errc() && ec != std::errc::result_out_of_range))
+        throw InputError("command line", 0, 0, std::string(option), "expected a number, found '" + text + "'");
+    if (ec == std::errc::result_out_of_range) {
+        // from_chars leaves v unset: strtod tells a too-large value (kept as
+        // the largest double, so it is out of range, not "not finite") from
+        // a too-small one (near zero).
+        v = std::strtod(text.c_str(), nullptr);
+        if (std::isinf(v)) v = std::copysign(std::numeric_limits<double>::max(), v);
+    }
+    if (std::string problem = number_problem(k, v, text); !problem.empty())
+        throw InputError("command line", 0, 0, std::string(option), problem);
+    return v;
+}
+
+std::int64_t option_integer(const KeySpec& k, std::string_view option, const std::string& text) {
+    long long n = 0;
+    const char* last = text.data() + text.size();
+    const auto [ptr, ec] = std::from_chars(text.data(), last, n);
+    if (ec == std::errc::result_out_of_range && ptr == last)
+        throw InputError("command line", 0, 0, std::string(option), number_problem(k, std::numeric_limits<double>::max(), text));
+    if (text.empty() || ptr != last || ec != std::errc())
+        throw InputError("command line", 0, 0, std::string(option), "expected a whole number, found '" + text + "'");
+    if (std::string problem = number_problem(k, static_cast<double>(n), text); !problem.empty())
+        throw InputError("command line", 0, 0, std::string(option), problem);
+    return n;
+}
 
 std::string keys_reference_markdown() {
     std::string out;
@@ -136,10 +232,10 @@ InputError Section::error(const YAML::Node& at, std::string_view key, const std:
 }
 
 double Section::check_range(std::string_view key, double v) const {
-    const KeySpec& k = spec(key);
-    if (!std::isfinite(v) || v < k.min || v > k.max)
-        fail(key, "value " + std::to_string(v) + " is out of range (expected " + range_text(k) +
-                      (k.unit.empty() ? "" : " " + std::string(k.unit)) + ")");
+    const YAML::Node at = value(key);
+    if (std::string problem = number_problem(spec(key), v, at.IsScalar() ? at.Scalar() : std::to_string(v));
+        !problem.empty())
+        fail(key, problem);
     return v;
 }
 
@@ -161,8 +257,14 @@ std::optional<std::int64_t> Section::optional_integer(std::string_view key) cons
     if (!has(key)) return std::nullopt;
     YAML::Node v = value(key);
     long long n = 0;
-    if (!v.IsScalar() || !YAML::convert<long long>::decode(v, n))
+    if (!v.IsScalar() || !YAML::convert<long long>::decode(v, n)) {
+        // .inf, .nan and 1e30 read as numbers: say what is wrong with them
+        // rather than only that they are not whole.
+        double d = 0;
+        if (v.IsScalar() && YAML::convert<double>::decode(v, d) && (!std::isfinite(d) || std::fabs(d) > 9.2e18))
+            check_range(key, std::isfinite(d) ? d : std::numeric_limits<double>::quiet_NaN());
         fail(key, "expected a whole number, found '" + (v.IsScalar() ? v.Scalar() : std::string("a list or section")) + "'");
+    }
     check_range(key, static_cast<double>(n));
     return n;
 }
@@ -223,6 +325,7 @@ std::vector<double> Section::real_list(std::string_view key) const {
     for (const auto& item : v) {
         double d = 0;
         if (!item.IsScalar() || !YAML::convert<double>::decode(item, d)) throw error(item, key, "expected a list of numbers");
+        if (!std::isfinite(d)) throw error(item, key, "'" + item.Scalar() + "' is not a finite number");
         out.push_back(d);
     }
     return out;

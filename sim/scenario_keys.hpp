@@ -73,6 +73,23 @@ private:
     std::string where_;
 };
 
+// What is wrong with `v` as a value of the numeric key `k`, written as
+// `as_written`; empty when nothing is. Scenario keys and the command-line
+// options that stand for them (or carry a KeySpec of their own) all go
+// through this one check, so a range is declared once and worded alike.
+std::string number_problem(const KeySpec& k, double v, std::string_view as_written);
+const KeySpec& key_spec(std::string_view section_path, std::string_view key);
+
+// A command-line option read against a KeySpec; a problem is an InputError
+// naming "command line" and the option.
+double option_real(const KeySpec& k, std::string_view option, const std::string& text);
+std::int64_t option_integer(const KeySpec& k, std::string_view option, const std::string& text);
+
+// Every mapping in the document: each key a plain name, none given twice.
+// yaml-cpp keeps the first of two equal keys and drops nothing visibly, and
+// throws its own exception for a list or section used as a key.
+void check_mapping_keys(const YAML::Node& root, const std::string& file);
+
 // Error for a node that is not where a section expected it.
 InputError yaml_error(const std::string& file, const YAML::Node& at, std::string field, const std::string& message);
 std::size_t edit_distance(std::string_view a, std::string_view b);

@@ -17,13 +17,18 @@ namespace tocsin {
 
 namespace {
 
+InputError axis_error(const SweepAxis& axis, const std::string& message) {
+    return InputError(axis.file, axis.line, axis.column, axis.field, message);
+}
+
 double parse_number(const std::string& text, const std::string& spec) {
     double v = 0;
     const char* first = text.data();
     const char* last = text.data() + text.size();
     auto [ptr, ec] = std::from_chars(first, last, v);
-    if (text.empty() || ec != std::errc() || ptr != last || !std::isfinite(v))
-        throw std::runtime_error("sweep axis '" + spec + "': '" + text + "' is not a number");
+    if (text.empty() || ec != std::errc() || ptr != last)
+        throw axis_error(SweepAxis{}, "sweep axis '" + spec + "': '" + text + "' is not a number");
+    if (!std::isfinite(v)) throw axis_error(SweepAxis{}, "sweep axis '" + spec + "': '" + text + "' is not a finite number");
     return v;
 }
 
@@ -36,23 +41,37 @@ std::vector<std::string> split(const std::string& s, char sep) {
     return out;
 }
 
-std::vector<double> range_values(double from, double to, double step, const std::string& spec) {
-    if (!(step > 0)) throw std::runtime_error("sweep axis '" + spec + "': the step must be positive");
-    if (to < from) throw std::runtime_error("sweep axis '" + spec + "': the range ends before it starts");
-    std::vector<double> out;
-    const long n = std::lround(std::floor((to - from) / step + 1e-9));
-    for (long i = 0; i <= n; ++i) out.push_back(from + static_cast<double>(i) * step);
-    return out;
-}
-
 std::string number_text(double v) {
     std::ostringstream o;
     o << v;
     return o.str();
 }
 
+// A count held in a double, written in full while it is a whole number a
+// reader can take in.
+std::string count_text(double n) {
+    return n < 1e15 ? std::to_string(static_cast<std::uint64_t>(n)) : number_text(n);
+}
+
+// The values from..to by step; their count is worked out first, so a range
+// of billions is refused instead of filling memory.
+std::vector<double> range_values(double from, double to, double step, const SweepAxis& axis, const std::string& spec,
+                                 std::size_t max_values) {
+    if (!(step > 0)) throw axis_error(axis, "sweep axis '" + spec + "': the step must be positive");
+    if (to < from) throw axis_error(axis, "sweep axis '" + spec + "': the range ends before it starts");
+    const double count = std::floor((to - from) / step + 1e-9) + 1;
+    if (!(count <= static_cast<double>(max_values)))
+        throw axis_error(axis, "sweep axis '" + spec + "' has " + count_text(count) + " values, more than the limit of " +
+                                   std::to_string(max_values) + " plans in a sweep; use a larger step");
+    std::vector<double> out;
+    const long n = static_cast<long>(count) - 1;
+    for (long i = 0; i <= n; ++i) out.push_back(from + static_cast<double>(i) * step);
+    return out;
+}
+
 // Follows `segments` from `node`; a list item is matched by position or name.
-YAML::Node descend(YAML::Node node, const std::vector<std::string>& segments, const std::string& path) {
+YAML::Node descend(YAML::Node node, const std::vector<std::string>& segments, const SweepAxis& axis) {
+    const std::string& path = axis.path;
     for (std::size_t i = 0; i + 1 < segments.size(); ++i) {
         const std::string& seg = segments[i];
         if (node.IsSequence()) {
@@ -67,43 +86,62 @@ YAML::Node descend(YAML::Node node, const std::vector<std::string>& segments, co
                     break;
                 }
             }
-            if (!ok) throw std::runtime_error("sweep path '" + path + "': no list item '" + seg + "'");
+            if (!ok) throw axis_error(axis, "sweep path '" + path + "': no list item '" + seg + "'");
             node.reset(found);  // rebind: Node::operator= would overwrite the content
         } else if (node.IsMap()) {
-            if (!node[seg]) throw std::runtime_error("sweep path '" + path + "': no key '" + seg + "'");
+            if (!node[seg]) throw axis_error(axis, "sweep path '" + path + "': no key '" + seg + "'");
             YAML::Node next = node[seg];
             node.reset(next);
         } else {
-            throw std::runtime_error("sweep path '" + path + "': '" + seg + "' is not a section or list");
+            throw axis_error(axis, "sweep path '" + path + "': '" + seg + "' is not a section or list");
         }
     }
-    if (!node.IsMap()) throw std::runtime_error("sweep path '" + path + "' does not end in a key of a section");
+    if (!node.IsMap()) throw axis_error(axis, "sweep path '" + path + "' does not end in a key of a section");
     return node;
 }
 
 }  // namespace
 
-SweepAxis parse_sweep_axis(const std::string& spec) {
+SweepAxis parse_sweep_axis(const std::string& spec, std::size_t max_values) {
     const std::size_t eq = spec.find('=');
-    if (eq == std::string::npos || eq == 0)
-        throw std::runtime_error("sweep axis '" + spec + "': expected PATH=VALUES, e.g. plan.rule.threshold=50:80:5 "
-                                 "or plan.rule.snooze_minutes=60,120,240");
     SweepAxis axis;
+    if (eq == std::string::npos || eq == 0)
+        throw axis_error(axis, "sweep axis '" + spec + "': expected PATH=VALUES, e.g. plan.rule.threshold=50:80:5 "
+                                 "or plan.rule.snooze_minutes=60,120,240");
     axis.path = spec.substr(0, eq);
     const std::string values = spec.substr(eq + 1);
     if (values.find(':') != std::string::npos) {
         const auto parts = split(values, ':');
-        if (parts.size() != 3) throw std::runtime_error("sweep axis '" + spec + "': a range is from:to:step");
+        if (parts.size() != 3) throw axis_error(axis, "sweep axis '" + spec + "': a range is from:to:step");
         axis.values = range_values(parse_number(parts[0], spec), parse_number(parts[1], spec),
-                                   parse_number(parts[2], spec), spec);
+                                   parse_number(parts[2], spec), axis, spec, max_values);
     } else {
         for (const auto& part : split(values, ',')) axis.values.push_back(parse_number(part, spec));
     }
-    if (axis.values.empty()) throw std::runtime_error("sweep axis '" + spec + "' has no values");
+    if (axis.values.empty()) throw axis_error(axis, "sweep axis '" + spec + "' has no values");
     return axis;
 }
 
+namespace {
+
+Scenario build_sweep(const std::string& path, const SweepRequest& request);
+
+}  // namespace
+
 Scenario sweep_scenario(const std::string& path, const SweepRequest& request) {
+    // The scenario's own text is checked by parse_scenario first; a yaml-cpp
+    // exception from a later step is still the file's, and must name it.
+    try {
+        return build_sweep(path, request);
+    } catch (const YAML::Exception& e) {
+        throw InputError(path, e.mark.line >= 0 ? e.mark.line + 1 : 0, e.mark.column >= 0 ? e.mark.column + 1 : 0, "",
+                         "cannot sweep this file: " + e.msg);
+    }
+}
+
+namespace {
+
+Scenario build_sweep(const std::string& path, const SweepRequest& request) {
     std::ifstream in(path);
     if (!in) throw InputError(path, 0, 0, "", "cannot open scenario file");
     std::stringstream text;
@@ -124,13 +162,17 @@ Scenario sweep_scenario(const std::string& path, const SweepRequest& request) {
                 Section v(node, "sweep.vary[]", path, "sweep.vary[" + std::to_string(i++) + "]");
                 SweepAxis axis;
                 axis.path = v.text("key");
+                axis.file = path;
+                axis.line = node.Mark().line + 1;
+                axis.column = node.Mark().column + 1;
+                axis.field = v.where();
                 if (v.has("values")) {
                     axis.values = v.real_list("values");
                 } else {
                     if (!v.has("from") || !v.has("to") || !v.has("step"))
                         v.fail("key", "give either values: [..] or from, to and step");
                     axis.values = range_values(*v.optional_real("from"), *v.optional_real("to"),
-                                               *v.optional_real("step"), axis.path);
+                                               *v.optional_real("step"), axis, axis.path, request.max_plans);
                 }
                 if (axis.values.empty()) v.fail("values", "no values to sweep");
                 axes.push_back(axis);
@@ -138,7 +180,8 @@ Scenario sweep_scenario(const std::string& path, const SweepRequest& request) {
         }
     }
     if (base.empty()) base = original.plans.front().name;
-    if (axes.empty()) throw std::runtime_error("nothing to sweep: give --vary PATH=VALUES or a sweep section");
+    if (axes.empty())
+        throw InputError("command line", 0, 0, "--vary", "nothing to sweep: give --vary PATH=VALUES or a sweep section");
 
     YAML::Node base_node;
     bool found = false;
@@ -149,13 +192,25 @@ Scenario sweep_scenario(const std::string& path, const SweepRequest& request) {
             found = true;
         }
     }
-    if (!found) throw std::runtime_error("sweep: no plan named '" + base + "'");
+    if (!found) {
+        const bool from_file = request.base_plan.empty();
+        throw InputError(from_file ? path : "command line", 0, 0, from_file ? "sweep.plan" : "--plan",
+                         "no plan named '" + base + "'");
+    }
 
-    std::size_t grid = 1;
-    for (const auto& a : axes) grid *= a.values.size();
-    if (grid > request.max_plans)
-        throw std::runtime_error("sweep: the grid has " + std::to_string(grid) + " plans, more than the limit of " +
-                                 std::to_string(request.max_plans));
+    // The size as a product of the axes' counts, in floating point so that
+    // many axes cannot overflow it, before a single plan is built.
+    double grid_size = 1;
+    std::string factors;
+    for (const auto& a : axes) {
+        grid_size *= static_cast<double>(a.values.size());
+        factors += (factors.empty() ? "" : " x ") + std::to_string(a.values.size());
+    }
+    if (grid_size > static_cast<double>(request.max_plans))
+        throw axis_error(axes.front(), "the sweep grid has " + count_text(grid_size) + " plans (" + factors +
+                                           " values), more than the limit of " + std::to_string(request.max_plans) +
+                                           "; use fewer values or larger steps");
+    const auto grid = static_cast<std::size_t>(grid_size);
 
     // Staffing axes ("roles.<role>.<key>") vary the role the swept plan pages.
     // Each combination of their values becomes a copy of that role under its
@@ -169,12 +224,12 @@ Scenario sweep_scenario(const std::string& path, const SweepRequest& request) {
         if (segments.size() >= 3 && segments[0] == "roles") {
             staffing[a] = true;
             if (!root["roles"] || !root["roles"].IsSequence())
-                throw std::runtime_error("sweep path '" + axes[a].path + "': the scenario declares no roles");
+                throw axis_error(axes[a], "sweep path '" + axes[a].path + "': the scenario declares no roles");
             if (segments[1] != plan_role)
-                throw std::runtime_error("sweep path '" + axes[a].path + "': a staffing axis varies the role the "
+                throw axis_error(axes[a], "sweep path '" + axes[a].path + "': a staffing axis varies the role the "
                                          "swept plan pages ('" + plan_role + "'), not '" + segments[1] + "'");
         } else if (segments.size() < 2 || segments[0] != "plan") {
-            throw std::runtime_error("sweep path '" + axes[a].path + "': paths start with 'plan.' (a key of the "
+            throw axis_error(axes[a], "sweep path '" + axes[a].path + "': paths start with 'plan.' (a key of the "
                                      "swept plan, e.g. plan.rule.threshold) or 'roles.<role>.' (the role it pages, "
                                      "e.g. roles.cover nurse.roster.night)");
         }
@@ -211,7 +266,7 @@ Scenario sweep_scenario(const std::string& path, const SweepRequest& request) {
             const double v = axis.values[at[a]];
             auto segments = split(axis.path, '.');
             segments.erase(segments.begin(), segments.begin() + (staffing[a] ? 2 : 1));
-            YAML::Node holder = descend(staffing[a] ? role : plan, segments, axis.path);
+            YAML::Node holder = descend(staffing[a] ? role : plan, segments, axis);
             holder[segments.back()] = v;
             const std::string label = segments.back() + "=" + number_text(v);
             name += (a ? ", " : " ") + label;
@@ -245,8 +300,12 @@ Scenario sweep_scenario(const std::string& path, const SweepRequest& request) {
     try {
         return parse_scenario(out.c_str(), path + " (swept)", dir);
     } catch (const InputError& e) {
-        throw std::runtime_error("a swept value is not valid: " + e.field + ": " + e.detail);
+        // The generated file's lines mean nothing to the user; name the
+        // axes instead, one of which gave the value.
+        throw axis_error(axes.front(), "a swept value is not valid: " + e.field + ": " + e.detail);
     }
 }
+
+}  // namespace
 
 }  // namespace tocsin

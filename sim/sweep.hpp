@@ -16,23 +16,36 @@
 
 namespace tocsin {
 
+// A grid holds at most this many plans. Each plan is simulated in every
+// replication, so a larger grid is almost always a mistyped step; its size is
+// worked out from the axes before any value or plan is built.
+inline constexpr std::size_t sweep_plan_limit = 5000;
+
 struct SweepAxis {
     std::string path;
     std::vector<double> values;
+    // Where the axis was given, for errors: "--vary" on the command line or
+    // an item of the scenario's sweep.vary.
+    std::string file = "command line";
+    long line = 0;
+    long column = 0;
+    std::string field = "--vary";
 };
 
-// Throws std::runtime_error saying what was expected.
-SweepAxis parse_sweep_axis(const std::string& spec);
+// Throws InputError (command line, --vary) saying what was expected; a range
+// with more than `max_values` values is refused before it is built.
+SweepAxis parse_sweep_axis(const std::string& spec, std::size_t max_values = sweep_plan_limit);
 
 struct SweepRequest {
     std::string base_plan;         // name of the plan to vary; empty = the scenario's `sweep.plan` or first plan
     std::vector<SweepAxis> axes;   // empty = the scenario's `sweep.vary`
     bool keep_other_plans = false; // also run the scenario's other plans as they are
-    std::size_t max_plans = 5000;
+    std::size_t max_plans = sweep_plan_limit;
 };
 
 // The scenario with its plans replaced by the grid (each named
-// "<base> key=value, key=value"). Throws InputError / std::runtime_error.
+// "<base> key=value, key=value"). Every problem is an InputError naming the
+// axis (option or scenario line) it comes from.
 Scenario sweep_scenario(const std::string& scenario_path, const SweepRequest& request);
 
 }  // namespace tocsin

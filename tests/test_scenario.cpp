@@ -90,6 +90,91 @@ TEST_CASE("scenario.cross_field_rules") {
     CHECK(parse_error("plans: [\n").line >= 1);  // not YAML at all
 }
 
+bool says(const InputError& e, const std::string& words) { return std::string(e.what()).find(words) != std::string::npos; }
+
+TEST_CASE("scenario.repeated_key_names_both_places") {
+    // Block map at the top level: the second `seed` is on line 18.
+    const InputError top = parse_error(scenario_text() + "seed: 7\nseed: 8\n");
+    CHECK(top.file == "s.yaml");
+    CHECK(top.line == 18);
+    CHECK(top.column == 1);
+    CHECK(says(top, "line 17, column 1"));
+    CHECK(says(top, "line 18, column 1"));
+
+    // Flow map: both `threshold`s are on line 16; their columns from the text.
+    const std::string rule = "{threshold: 70, snooze_minutes: 240, threshold: 90}";
+    const std::string line16 = "    rule: " + rule;
+    const std::size_t first = line16.find("threshold") + 1, second = line16.rfind("threshold") + 1;
+    const InputError flow = parse_error(scenario_text(rule));
+    CHECK(flow.file == "s.yaml");
+    CHECK(flow.line == 16);
+    CHECK(flow.column == static_cast<long>(second));
+    CHECK(says(flow, "line 16, column " + std::to_string(first) + " "));
+    CHECK(says(flow, "line 16, column " + std::to_string(second) + ";"));
+
+    // Deeper, in a block map inside a list item.
+    const InputError deep = parse_error(scenario_text("{threshold: 60}", "    description: a\n    description: b\n"));
+    CHECK(deep.line == 18);
+    CHECK(says(deep, "line 17, column 5"));
+}
+
+TEST_CASE("scenario.key_must_be_a_plain_name") {
+    for (const std::string& key : {std::string("[a]: 1\n"), std::string("{a: 1}: 2\n"), std::string("? [a]\n: 1\n")}) {
+        CAPTURE(key);
+        const InputError e = parse_error(scenario_text() + key);
+        CHECK(e.file == "s.yaml");
+        CHECK(e.line == 17);
+        CHECK(says(e, "a key must be a plain name"));
+    }
+    const InputError nested = parse_error(scenario_text("{[x]: 1, threshold: 60}"));
+    CHECK(nested.line == 16);
+    CHECK(says(nested, "a key must be a plain name"));
+}
+
+TEST_CASE("scenario.yaml_errors_name_the_file") {
+    for (const std::string& text : {std::string("plans: [\n"), std::string("name: \"open\n"), std::string("a: *nowhere\n"),
+                                     std::string("a: 1\n\tb: 2\n"), std::string("- a\nb: 1\n")}) {
+        CAPTURE(text);
+        const InputError e = parse_error(text);
+        CHECK(e.file == "s.yaml");
+        CHECK(e.line >= 1);
+    }
+    // Walking every mapping for repeated keys must not follow aliases for
+    // ever: forty doublings name one mapping 2^40 times.
+    std::string bomb = "a0: &a0 {k: 1}\n";
+    for (int i = 1; i < 40; ++i)
+        bomb += "a" + std::to_string(i) + ": &a" + std::to_string(i) + " {x: *a" + std::to_string(i - 1) + ", y: *a" +
+                std::to_string(i - 1) + "}\n";
+    const InputError aliases = parse_error(bomb);
+    CHECK(aliases.file == "s.yaml");
+    CHECK(says(aliases, "repeats itself through aliases"));
+}
+
+TEST_CASE("scenario.numbers_are_finite_and_the_range_is_stated") {
+    for (const std::string& v : {std::string(".inf"), std::string("-.inf"), std::string(".nan")}) {
+        CAPTURE(v);
+        const InputError e = parse_error(scenario_text("{threshold: " + v + "}"));
+        CHECK(e.line == 16);
+        CHECK(e.field == "plans[0].rule.threshold");
+        CHECK(says(e, "'" + v + "' is not a finite number"));
+        CHECK_FALSE(says(e, "expected  "));  // no empty range
+    }
+    const InputError window = parse_error(scenario_text().replace(scenario_text().find("window_hours: 12"), 16,
+                                                                  "window_hours: 1e10"));
+    CHECK(window.line == 8);
+    CHECK(says(window, "'1e10' is out of range (expected 0.0166 to 8760 hours)"));
+    const InputError snooze = parse_error(scenario_text("{threshold: 60, snooze_minutes: .nan}"));
+    CHECK(says(snooze, "'.nan' is not a finite number (expected 0 to 86400 minutes)"));
+    const InputError rise = parse_error(scenario_text("{threshold: 60, rise: -1}"));
+    CHECK(says(rise, "'-1' is out of range (expected >= 0 score)"));
+    // Whole-number keys too: a non-finite or huge number is named as such, with the range.
+    const InputError persistence = parse_error(scenario_text("{threshold: 60, persistence: .inf}"));
+    CHECK(says(persistence, "'.inf' is not a finite number (expected 1 to 1000 scores)"));
+    const InputError replications = parse_error(scenario_text() + "replications: 1e30\n");
+    CHECK(replications.line == 17);
+    CHECK(says(replications, "'1e30' is out of range (expected 1 to 100000)"));
+}
+
 TEST_CASE("scenario.every_key_documented_in_readme") {
     const std::string readme = tocsin::testing::read_file(std::string(TOCSIN_SOURCE_DIR) + "/README.md");
     REQUIRE_FALSE(readme.empty());

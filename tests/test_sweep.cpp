@@ -69,6 +69,69 @@ TEST_CASE("sweep.grid") {
     }
 }
 
+TEST_CASE("sweep.size_is_checked_before_anything_is_built") {
+    // A range's count is worked out from from, to and step: ten million
+    // values are refused without being made, naming the option and the limit.
+    try {
+        parse_sweep_axis("plan.rule.threshold=0:1e7:1");
+        FAIL("a ten-million-value range was accepted");
+    } catch (const InputError& e) {
+        CHECK(e.file == "command line");
+        CHECK(e.field == "--vary");
+        CHECK(std::string(e.what()).find("10000001 values") != std::string::npos);
+        CHECK(std::string(e.what()).find("limit of 5000") != std::string::npos);
+    }
+    CHECK_THROWS_WITH_AS(parse_sweep_axis("plan.rule.threshold=1,inf"), doctest::Contains("not a finite number"),
+                         InputError);
+
+    ScratchDir dir;
+    const std::string base =
+        "scenario_schema: 1\nname: t\ntime_zone: UTC\nshifts: [{name: day, starts: \"07:00\"}]\n"
+        "outcome: {window_hours: 12}\npopulation: {replay: {encounters: e.csv, scores: s.csv}}\n"
+        "plans:\n  - {name: a, rule: {threshold: 60}}\n";
+    const std::string path = dir.file("s.yaml", base);
+
+    SUBCASE("the grid's size is the product of the axes' counts, whatever its size") {
+        // Six axes of 4096 = 2^12 values make 2^72 plans, which a 64-bit
+        // product wraps to 0.
+        SweepRequest r;
+        for (const char* key : {"threshold", "snooze_minutes", "rise", "persistence", "max_per_shift", "rearm_below"})
+            r.axes.push_back(parse_sweep_axis(std::string("plan.rule.") + key + "=1:4096:1"));
+        try {
+            sweep_scenario(path, r);
+            FAIL("a grid of 2^72 plans was accepted");
+        } catch (const InputError& e) {
+            CHECK(e.field == "--vary");
+            CHECK(std::string(e.what()).find("4096 x 4096 x 4096 x 4096 x 4096 x 4096 values") != std::string::npos);
+            CHECK(std::string(e.what()).find("limit of 5000") != std::string::npos);
+        }
+    }
+    SUBCASE("a range in the scenario's sweep section is refused at its line") {
+        const std::string with = dir.file(
+            "w.yaml", base + "sweep:\n  vary:\n    - {key: plan.rule.threshold, from: 0, to: 1e7, step: 1}\n");
+        try {
+            sweep_scenario(with, SweepRequest{});
+            FAIL("a ten-million-value range was accepted");
+        } catch (const InputError& e) {
+            CHECK(e.file == with);
+            CHECK(e.line == 11);
+            CHECK(e.field == "sweep.vary[0]");
+            CHECK(std::string(e.what()).find("limit of 5000") != std::string::npos);
+        }
+    }
+    SUBCASE("a request that cannot be built is an input error naming its option") {
+        SweepRequest r;
+        r.base_plan = "nope";
+        r.axes = {parse_sweep_axis("plan.rule.threshold=50")};
+        CHECK_THROWS_WITH_AS(sweep_scenario(path, r), doctest::Contains("command line: --plan: no plan named 'nope'"),
+                             InputError);
+        r.base_plan.clear();
+        r.axes = {parse_sweep_axis("plan.rules.threshold=50")};
+        CHECK_THROWS_WITH_AS(sweep_scenario(path, r), doctest::Contains("no key 'rules'"), InputError);
+        CHECK_THROWS_AS(sweep_scenario(path, SweepRequest{}), InputError);  // nothing to sweep
+    }
+}
+
 TEST_CASE("sweep.staffing_axis") {
     // Varying the night roster of the role the swept plan pages: each value
     // becomes a copy of the role under its own name, with the escalation edge
