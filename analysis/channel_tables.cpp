@@ -148,6 +148,8 @@ ChannelTables channel_tables(const Scenario& sc, const Population& pop, const Sh
 void add_chart_opening_exclusions(Table& exclusions, const ChartOpeningLog& log) {
     for (const auto& [reason, n] : log.excluded_by_reason) exclusions.add_row({"chart openings", reason, n});
     for (const auto& [reason, n] : log.notes) exclusions.add_row({"timestamps", "chart openings: " + reason, n});
+    for (const auto& [reason, rows] : log.rows_skipped)
+        exclusions.add_row({"skipped rows", reason + " (" + describe_lines(rows) + ")", rows.count});
 }
 
 }  // namespace tocsin

@@ -6,6 +6,8 @@
 #include <set>
 #include <vector>
 
+#include "models/text.hpp"
+
 namespace tocsin {
 
 namespace {

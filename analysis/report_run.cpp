@@ -131,6 +131,13 @@ ReportInput report_input_for_run(const Scenario& sc, const RunOutput& out, const
     in.title = sc.name;
     in.question = sc.description;
     in.assumptions = assumptions_of(sc);
+    // Rows a dirty log lost under bad_rows: skip change every figure, so the
+    // report says so where it states what the figures rest on.
+    for (const auto& row : out.first_replication.exclusions.rows)
+        if (std::get<std::string>(row[0]) == "skipped rows")
+            in.assumptions.push_back("Input rows skipped (bad_rows: skip): " + std::to_string(std::get<std::int64_t>(row[2])) +
+                                     (std::get<std::int64_t>(row[2]) == 1 ? " row, " : " rows, ") +
+                                     std::get<std::string>(row[1]) + ".");
     for (const Metric& m : plan_metrics()) in.column_labels[std::string(m.name)] = std::string(m.label);
     in.column_labels["plan"] = "Plan";
 

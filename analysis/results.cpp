@@ -180,6 +180,8 @@ RunTables run_tables(const Scenario& sc, const Population& pop, const ShiftCalen
     for (const auto& [reason, n] : pop.excluded.encounters_by_reason) t.exclusions.add_row({"encounters", reason, n});
     for (const auto& [reason, n] : pop.excluded.scores_by_reason) t.exclusions.add_row({"scores", reason, n});
     for (const auto& [reason, n] : pop.excluded.notes) t.exclusions.add_row({"notes", reason, n});
+    for (const auto& [reason, rows] : pop.excluded.rows_skipped)
+        t.exclusions.add_row({"skipped rows", reason + " (" + describe_lines(rows) + ")", rows.count});
     if (replayed_openings) add_chart_opening_exclusions(t.exclusions, *replayed_openings);
     {
         ChannelTables c = channel_tables(sc, pop, cal, record);

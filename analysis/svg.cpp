@@ -7,6 +7,7 @@
 #include <set>
 
 #include "analysis/html.hpp"
+#include "models/text.hpp"
 #include "analysis/quantiles.hpp"
 #include "analysis/table.hpp"
 
@@ -98,7 +99,7 @@ std::string nothing_to_draw(const std::string& id, const std::string& title, con
 
 std::size_t character_count(const std::string& utf8) {
     std::size_t n = 0;
-    for (unsigned char c : utf8) n += (c & 0xC0) != 0x80;
+    for (std::size_t i = 0; i < utf8.size(); ++n) i += std::max<std::size_t>(1, utf8_sequence_length(utf8, i));
     return n;
 }
 

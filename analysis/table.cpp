@@ -6,6 +6,8 @@
 #include <cmath>
 #include <cstdio>
 
+#include "models/text.hpp"
+
 namespace tocsin {
 
 namespace {
@@ -30,31 +32,6 @@ std::string format_real(double v, int max_decimals) {
     }
     if (s == "-0") s = "0";
     return s;
-}
-
-std::size_t utf8_sequence_length(std::string_view text, std::size_t i) {
-    const auto byte = [&](std::size_t k) { return static_cast<unsigned char>(text[k]); };
-    const unsigned char lead = byte(i);
-    if (lead < 0x80) return 1;
-    std::size_t length = 0;
-    unsigned char second_lo = 0x80, second_hi = 0xBF;
-    if (lead >= 0xC2 && lead <= 0xDF) length = 2;
-    else if (lead >= 0xE0 && lead <= 0xEF) {
-        length = 3;
-        if (lead == 0xE0) second_lo = 0xA0;
-        if (lead == 0xED) second_hi = 0x9F;
-    } else if (lead >= 0xF0 && lead <= 0xF4) {
-        length = 4;
-        if (lead == 0xF0) second_lo = 0x90;
-        if (lead == 0xF4) second_hi = 0x8F;
-    } else {
-        return 0;
-    }
-    if (i + length > text.size()) return 0;
-    if (byte(i + 1) < second_lo || byte(i + 1) > second_hi) return 0;
-    for (std::size_t k = 2; k < length; ++k)
-        if (byte(i + k) < 0x80 || byte(i + k) > 0xBF) return 0;
-    return length;
 }
 
 std::string valid_utf8(std::string_view text) {

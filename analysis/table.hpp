@@ -42,10 +42,8 @@ std::string format_number(double value);
 // Rounded to at most `max_decimals`, trailing zeros dropped: for people.
 std::string format_real(double value, int max_decimals = 6);
 
-// Length of the valid UTF-8 sequence starting at text[i], or 0 when invalid
-// (RFC 3629: no overlong forms, no surrogates, nothing above U+10FFFF).
-std::size_t utf8_sequence_length(std::string_view text, std::size_t i);
-// The text with every invalid UTF-8 sequence replaced by U+FFFD, byte by byte.
+// The text with every invalid UTF-8 sequence (utf8_sequence_length in
+// models/text.hpp, the one decoder) replaced by U+FFFD, byte by byte.
 std::string valid_utf8(std::string_view text);
 
 }  // namespace tocsin

@@ -106,7 +106,7 @@ ProgressReport progress_bar() {
 // The replayed chart-opening log, when the scenario replays one.
 std::optional<ChartOpeningLog> replayed_openings(const Scenario& sc, const Population& pop) {
     if (!sc.chart_openings || sc.chart_openings->replay_path.empty()) return std::nullopt;
-    return load_chart_openings(sc.chart_openings->replay_path, sc.chart_openings->roles, pop, sc.zone);
+    return load_chart_openings(sc.chart_openings->replay_path, sc.chart_openings->roles, pop, sc.zone, sc.replay.bad_rows);
 }
 
 struct SizeOptions {
@@ -169,9 +169,13 @@ int command_check(const std::string& path) {
     for (const auto& [reason, n] : pop.excluded.scores_by_reason) std::cout << "  excluded: " << n << " scores " << reason << "\n";
     for (const auto& [reason, n] : pop.excluded.encounters_by_reason) std::cout << "  excluded: " << n << " encounters " << reason << "\n";
     for (const auto& [reason, n] : pop.excluded.notes) std::cout << "  note: " << n << " " << reason << "\n";
+    for (const auto& [reason, rows] : pop.excluded.rows_skipped)
+        std::cout << "  skipped: " << rows.count << (rows.count == 1 ? " row, " : " rows, ") << reason << " (" << describe_lines(rows) << ")\n";
     if (const auto log = replayed_openings(sc, pop)) {
         std::cout << "Chart openings: " << log->openings.size() << " usable.\n";
         for (const auto& [reason, n] : log->excluded_by_reason) std::cout << "  excluded: " << n << " chart openings " << reason << "\n";
+        for (const auto& [reason, rows] : log->rows_skipped)
+            std::cout << "  skipped: " << rows.count << (rows.count == 1 ? " row, " : " rows, ") << reason << " (" << describe_lines(rows) << ")\n";
     }
     std::cout << "The scenario is valid.\n";
     return 0;

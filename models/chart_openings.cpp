@@ -1,6 +1,7 @@
 #include "models/chart_openings.hpp"
 
 #include <algorithm>
+#include <filesystem>
 #include <unordered_map>
 
 #include <boost/random/exponential_distribution.hpp>
@@ -8,6 +9,7 @@
 
 #include "models/csv.hpp"
 #include "models/errors.hpp"
+#include "models/text.hpp"
 
 namespace tocsin {
 
@@ -17,7 +19,7 @@ int local_hour(const TimeZone& zone, Instant at) {
 }
 
 ChartOpeningLog load_chart_openings(const std::string& path, const std::vector<ChartOpeningRole>& roles,
-                                    const Population& pop, const TimeZone& zone) {
+                                    const Population& pop, const TimeZone& zone, BadRows bad_rows) {
     ChartOpeningLog log;
     std::unordered_map<std::string, std::uint32_t> index;
     for (std::uint32_t e = 0; e < pop.encounters.size(); ++e) index.emplace(pop.encounters[e].id, e);
@@ -25,64 +27,71 @@ ChartOpeningLog load_chart_openings(const std::string& path, const std::vector<C
     CsvReader reader(path);
     if (!reader.next(fields)) throw InputError(path, 1, 0, "", "file is empty (expected a header)");
     const std::vector<std::string_view> required = {"encounter", "opened_at", "role"};
-    std::vector<std::size_t> col(required.size(), SIZE_MAX);
-    for (std::size_t i = 0; i < fields.size(); ++i) {
-        std::string_view name = fields[i];
-        if (i == 0 && name.substr(0, 3) == "\xEF\xBB\xBF") name.remove_prefix(3);  // UTF-8 byte order mark
-        for (std::size_t r = 0; r < required.size(); ++r) {
-            if (name != required[r]) continue;
-            if (col[r] != SIZE_MAX)
-                throw InputError(path, reader.line(), static_cast<long>(i + 1), std::string(name),
-                                 "column appears twice in the header");
-            col[r] = i;
-        }
-    }
-    for (std::size_t r = 0; r < required.size(); ++r)
-        if (col[r] == SIZE_MAX)
-            throw InputError(path, reader.line(), 0, std::string(required[r]),
-                             "required column is missing from the header (expected columns encounter,opened_at,role "
-                             "in any order; extra columns are ignored)");
+    const std::vector<std::size_t> col = header_columns(reader, fields, required);
     const std::size_t width = fields.size();
     std::vector<ChartOpening> openings;
     std::vector<std::uint32_t> owner;
     std::int64_t before_admission = 0, after_outcome = 0, after_discharge = 0;
+    // A row that cannot be used stops the run or, with bad_rows: skip, is
+    // counted under `reason` with its line.
+    struct BadRow {
+        std::string reason;
+        InputError error;
+    };
     while (reader.next(fields)) {
         if (fields.size() == 1 && fields[0].empty()) continue;  // blank line
-        auto fail = [&](std::size_t c, std::string_view name, const std::string& message) {
-            throw InputError(path, reader.line(), static_cast<long>(c + 1), std::string(name), message);
+        auto fail = [&](std::size_t c, std::string_view name, std::string reason, const std::string& message) {
+            throw BadRow{std::move(reason),
+                         InputError(path, reader.line(), static_cast<long>(c + 1), std::string(name), message)};
         };
-        if (fields.size() != width)
-            throw InputError(path, reader.line(), 0, "",
-                             "expected " + std::to_string(width) + " fields as in the header, found " +
-                                 std::to_string(fields.size()));
-        auto it = index.find(std::string(fields[col[0]]));
-        if (it == index.end())
-            fail(col[0], "encounter", "chart opening for an unknown encounter '" + std::string(fields[col[0]]) + "'");
-        TimestampNote note;
-        auto at = parse_timestamp(fields[col[1]], zone, &note);
-        if (!at)
-            fail(col[1], "opened_at",
-                 "expected a timestamp such as 2026-03-03T19:05:00Z, 2026-03-03T20:05:00+01:00 or "
-                 "2026-03-03 20:05:00 (local time), found '" + std::string(fields[col[1]]) + "'");
-        if (note.mapping == LocalMapping::ambiguous_took_earlier)
-            ++log.notes["local time in a repeated hour (daylight saving ended): earlier instant taken"];
-        else if (note.mapping == LocalMapping::nonexistent_moved_forward)
-            ++log.notes["local time in a skipped hour (daylight saving began): moved forward"];
-        const std::string_view role = fields[col[2]];
-        std::size_t r = 0;
-        while (r < roles.size() && roles[r].name != role) ++r;
-        if (r == roles.size()) {
-            std::string declared;
-            for (const auto& d : roles) declared += (declared.empty() ? "" : ", ") + d.name;
-            fail(col[2], "role", "role '" + std::string(role) + "' is not declared in chart_openings.roles (declared: " +
-                                     declared + ")");
+        auto text = [&](std::size_t c, std::string_view name) {
+            if (std::string problem = text_problem(fields[c]); !problem.empty())
+                fail(c, name, "text that is not UTF-8 or holds a control character",
+                     "expected UTF-8 text without control characters: " + problem);
+        };
+        try {
+            if (fields.size() != width)
+                throw BadRow{"wrong number of fields",
+                             InputError(path, reader.line(), 0, "",
+                                        "expected " + std::to_string(width) + " fields as in the header, found " +
+                                            std::to_string(fields.size()))};
+            auto it = index.find(std::string(fields[col[0]]));
+            if (it == index.end()) {
+                text(col[0], "encounter");
+                fail(col[0], "encounter", "chart opening for an unknown encounter",
+                     "chart opening for an unknown encounter '" + std::string(fields[col[0]]) + "'");
+            }
+            TimestampNote note;
+            auto at = parse_timestamp(fields[col[1]], zone, &note);
+            if (!at)
+                fail(col[1], "opened_at", "bad timestamp in opened_at",
+                     "expected a timestamp such as 2026-03-03T19:05:00Z, 2026-03-03T20:05:00+01:00 or "
+                     "2026-03-03 20:05:00 (local time), found '" + std::string(fields[col[1]]) + "'");
+            const std::string_view role = fields[col[2]];
+            std::size_t r = 0;
+            while (r < roles.size() && roles[r].name != role) ++r;
+            if (r == roles.size()) {
+                text(col[2], "role");
+                std::string declared;
+                for (const auto& d : roles) declared += (declared.empty() ? "" : ", ") + d.name;
+                fail(col[2], "role", "role not declared in chart_openings.roles",
+                     "role '" + std::string(role) + "' is not declared in chart_openings.roles (declared: " + declared +
+                         ")");
+            }
+            if (note.mapping == LocalMapping::ambiguous_took_earlier)
+                ++log.notes["local time in a repeated hour (daylight saving ended): earlier instant taken"];
+            else if (note.mapping == LocalMapping::nonexistent_moved_forward)
+                ++log.notes["local time in a skipped hour (daylight saving began): moved forward"];
+            const Encounter& enc = pop.encounters[it->second];
+            if (*at < enc.admitted) { ++before_admission; continue; }
+            if (enc.outcome_at && *at >= *enc.outcome_at) { ++after_outcome; continue; }
+            if (*at >= enc.discharged) { ++after_discharge; continue; }
+            openings.push_back({*at, static_cast<std::uint8_t>(r)});
+            owner.push_back(it->second);
+        } catch (const BadRow& bad) {
+            if (bad_rows == BadRows::stop) throw bad.error;
+            log.rows_skipped[std::filesystem::path(path).filename().string() + ": " + bad.reason].add(bad.error.line);
         }
-        const Encounter& enc = pop.encounters[it->second];
-        if (*at < enc.admitted) { ++before_admission; continue; }
-        if (enc.outcome_at && *at >= *enc.outcome_at) { ++after_outcome; continue; }
-        if (*at >= enc.discharged) { ++after_discharge; continue; }
-        openings.push_back({*at, static_cast<std::uint8_t>(r)});
-        owner.push_back(it->second);
     }
     // Group by encounter (stable counting sort), then time order within each group.
     const std::size_t n = pop.encounters.size();

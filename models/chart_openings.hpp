@@ -8,10 +8,14 @@
 // of day, by thinning (Lewis & Shedler 1979).
 //
 // Replay, what is fatal and what is counted (as for the score log):
-//   fatal (InputError naming file, line, column): unreadable file; missing or
-//     repeated required column; wrong number of fields; unterminated quote;
-//     an opening for an unknown encounter; an empty or undeclared role; a bad
-//     timestamp.
+//   fatal (InputError naming file and line 1 or the header line): unreadable
+//     file or a directory; missing or repeated required column; unterminated
+//     or stray quote.
+//   bad rows (InputError naming file, line, column; with bad_rows: skip,
+//     skipped and counted by reason): wrong number of fields; an opening for
+//     an unknown encounter (including one whose row the replay skipped); an empty or
+//     undeclared role; an id or role that is not UTF-8 or holds a control
+//     character; a bad timestamp.
 //   counted exclusions: openings before admission, at or after time zero, at
 //     or after discharge (no rule sees them).
 #include <array>
@@ -48,6 +52,7 @@ struct ChartOpeningLog {
     std::vector<std::size_t> start;      // encounters.size() + 1 offsets into openings
     std::map<std::string, std::int64_t> excluded_by_reason;
     std::map<std::string, std::int64_t> notes;  // resolved oddities, e.g. ambiguous local times
+    std::map<std::string, SkippedRows> rows_skipped;  // bad_rows: skip, by "<file name>: <reason>"
 
     std::span<const ChartOpening> of(std::size_t encounter) const {
         return {openings.data() + start[encounter], start[encounter + 1] - start[encounter]};
@@ -55,8 +60,10 @@ struct ChartOpeningLog {
 };
 
 // Reads a replayed log against the population's encounters and the declared roles.
+// `bad_rows` is the replay's setting (population.replay.bad_rows).
 ChartOpeningLog load_chart_openings(const std::string& path, const std::vector<ChartOpeningRole>& roles,
-                                    const Population& population, const TimeZone& zone);
+                                    const Population& population, const TimeZone& zone,
+                                    BadRows bad_rows = BadRows::stop);
 
 // Appends one encounter's generated openings over [admitted, usable_until) in
 // time order (ties: role order). Each role is thinned from a homogeneous

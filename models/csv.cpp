@@ -1,6 +1,8 @@
 #include "models/csv.hpp"
 
+#include <algorithm>
 #include <cstring>
+#include <filesystem>
 
 #include "models/errors.hpp"
 
@@ -11,14 +13,20 @@ constexpr std::size_t block_size = std::size_t{8} << 20;
 }
 
 CsvReader::CsvReader(const std::string& path) : path_(path) {
+    // fopen succeeds on a directory on Linux and the first read fails, which
+    // would read as an empty file.
+    std::error_code ec;
+    if (std::filesystem::is_directory(path, ec))
+        throw InputError(path, 1, 0, "", "is a directory, not a CSV file");
     file_ = std::fopen(path.c_str(), "rb");
-    if (!file_) throw InputError(path, 0, 0, "", std::string("cannot open file: ") + std::strerror(errno));
+    if (!file_) throw InputError(path, 1, 0, "", std::string("cannot open file: ") + std::strerror(errno));
     buffer_.resize(block_size);
 }
 
 CsvReader::CsvReader(const std::string& path, long long begin, long long end) : CsvReader(path) {
     if (std::fseek(file_, begin, SEEK_SET) != 0)
-        throw InputError(path, 0, 0, "", "cannot seek in file");
+        throw InputError(path, 1, 0, "", "cannot seek in file");
+    buffer_origin_ = begin;
     remaining_ = end - begin;
 }
 
@@ -32,6 +40,7 @@ bool CsvReader::refill() {
     // longer than the buffer.
     std::size_t tail = end_ - begin_;
     if (begin_ > 0) std::memmove(buffer_.data(), buffer_.data() + begin_, tail);
+    buffer_origin_ += static_cast<long long>(begin_);
     begin_ = 0;
     end_ = tail;
     if (end_ == buffer_.size()) buffer_.resize(buffer_.size() * 2);
@@ -82,7 +91,14 @@ bool CsvReader::next(std::vector<std::string_view>& fields) {
                         ++p;
                         break;
                     }
-                    if (c == '\n') ++lines;
+                    // A line break inside quotes counts like one between records:
+                    // CRLF once, LF or a lone CR once each.
+                    if (c == '\r') {
+                        if (p + 1 == end_ && !eof_) break;  // need to see whether LF follows
+                        if (p + 1 == end_ || base[p + 1] != '\n') ++lines;
+                    } else if (c == '\n') {
+                        ++lines;
+                    }
                     out += c;
                     ++p;
                 }
@@ -149,6 +165,73 @@ bool CsvReader::next(std::vector<std::string_view>& fields) {
         }
         return true;
     }
+}
+
+long long next_record_start(const std::string& path, long long from, long long size) {
+    std::FILE* f = std::fopen(path.c_str(), "rb");
+    if (!f || std::fseek(f, from, SEEK_SET) != 0) {
+        if (f) std::fclose(f);
+        throw InputError(path, 1, 0, "", "cannot seek in file");
+    }
+    std::vector<char> block(1 << 16);
+    long long at = from;
+    bool after_cr = false;  // the previous byte was a CR: a following LF belongs to it
+    long long found = size;
+    for (;;) {
+        const std::size_t got = std::fread(block.data(), 1, block.size(), f);
+        if (got == 0) {
+            if (after_cr) found = at;
+            break;
+        }
+        std::size_t i = 0;
+        if (after_cr) {
+            found = block[0] == '\n' ? at + 1 : at;
+            break;
+        }
+        for (; i < got; ++i)
+            if (block[i] == '\n' || block[i] == '\r') break;
+        if (i == got) {
+            at += static_cast<long long>(got);
+            continue;
+        }
+        if (block[i] == '\n') {
+            found = at + static_cast<long long>(i) + 1;
+            break;
+        }
+        if (i + 1 < got) {
+            found = at + static_cast<long long>(i) + (block[i + 1] == '\n' ? 2 : 1);
+            break;
+        }
+        after_cr = true;
+        at += static_cast<long long>(got);
+    }
+    std::fclose(f);
+    return std::min(found, size);
+}
+
+std::vector<std::size_t> header_columns(const CsvReader& reader, const std::vector<std::string_view>& header,
+                                        const std::vector<std::string_view>& required) {
+    std::vector<std::size_t> at(required.size(), SIZE_MAX);
+    for (std::size_t i = 0; i < header.size(); ++i) {
+        std::string_view name = header[i];
+        if (i == 0 && name.substr(0, 3) == "\xEF\xBB\xBF") name.remove_prefix(3);  // UTF-8 byte order mark
+        for (std::size_t r = 0; r < required.size(); ++r) {
+            if (name != required[r]) continue;
+            if (at[r] != SIZE_MAX)
+                throw InputError(reader.path(), reader.line(), static_cast<long>(i + 1), std::string(name),
+                                 "column appears twice in the header");
+            at[r] = i;
+        }
+    }
+    for (std::size_t r = 0; r < required.size(); ++r) {
+        if (at[r] != SIZE_MAX) continue;
+        std::string expected;
+        for (auto n : required) expected += (expected.empty() ? "" : ",") + std::string(n);
+        throw InputError(reader.path(), reader.line(), 0, std::string(required[r]),
+                         "required column is missing from the header (expected columns " + expected +
+                             " in any order; extra columns are ignored)");
+    }
+    return at;
 }
 
 }  // namespace tocsin

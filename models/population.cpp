@@ -5,6 +5,21 @@
 
 namespace tocsin {
 
+void SkippedRows::merge(const SkippedRows& later, long line_offset) {
+    count += later.count;
+    for (long line : later.first_lines)
+        if (first_lines.size() < lines_kept) first_lines.push_back(line + line_offset);
+}
+
+std::string describe_lines(const SkippedRows& rows) {
+    std::string out = rows.first_lines.size() == 1 ? "line " : "lines ";
+    for (std::size_t i = 0; i < rows.first_lines.size(); ++i)
+        out += (i ? ", " : "") + std::to_string(rows.first_lines[i]);
+    const auto more = rows.count - static_cast<std::int64_t>(rows.first_lines.size());
+    if (more > 0) out += " and " + std::to_string(more) + " more";
+    return out;
+}
+
 std::int64_t Exclusions::total_scores() const {
     std::int64_t n = 0;
     for (const auto& [reason, count] : scores_by_reason) n += count;

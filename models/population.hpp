@@ -28,11 +28,36 @@ struct Score {
     double value = 0.0;
 };
 
+// What a loader does with a row it cannot use (a bad timestamp, a score out of
+// range, an unknown encounter, ...): stop with the row's file:line (the
+// default), or skip it and count it by reason (`bad_rows: skip`, for a dirty
+// log that must be run anyway; the counts are always reported).
+enum class BadRows { stop, skip };
+
+// Rows of one input file skipped for one reason under `bad_rows: skip`.
+struct SkippedRows {
+    static constexpr std::size_t lines_kept = 5;  // enough to find the pattern in the file
+    std::int64_t count = 0;
+    std::vector<long> first_lines;  // the first few, in file order
+
+    void add(long line) {
+        ++count;
+        if (first_lines.size() < lines_kept) first_lines.push_back(line);
+    }
+    // Adds rows skipped in a later part of the same file.
+    void merge(const SkippedRows& later, long line_offset);
+};
+
+// "lines 4, 9, 12 and 3 more" for tables and messages.
+std::string describe_lines(const SkippedRows& rows);
+
 // Why a score or encounter was not used. Counted, never silently dropped.
 struct Exclusions {
     std::map<std::string, std::int64_t> scores_by_reason;
     std::map<std::string, std::int64_t> encounters_by_reason;
     std::map<std::string, std::int64_t> notes;  // resolved oddities, e.g. ambiguous local times
+    // Rows skipped under `bad_rows: skip`, by "<file name>: <reason>".
+    std::map<std::string, SkippedRows> rows_skipped;
     std::int64_t total_scores() const;
 };
 

@@ -1,14 +1,24 @@
 #pragma once
 // Replay of a silent-mode log: an encounters CSV and a scores CSV, read into a
 // Population. What is fatal and what is a counted exclusion:
-//   fatal (InputError naming file, line, column): unreadable file; missing or
-//     repeated required column; wrong number of fields; unterminated quote;
-//     empty encounter id or unit; bad timestamp; discharged not after
-//     admitted; outcome outside [admitted, discharged]; duplicate encounter
-//     id; score for an unknown encounter; non-numeric or non-finite score;
-//     available_at before scored_at.
+//   fatal whole-file problems (InputError naming the file and line 1 or the
+//     header line): unreadable file or a directory; missing or repeated
+//     required column; no encounter rows; unterminated or stray quote.
+//   bad rows (InputError naming file, line, column; or, with bad_rows: skip,
+//     skipped and counted by reason with their first line numbers): wrong
+//     number of fields; empty encounter id or unit; id or unit that is not
+//     UTF-8 or holds a control character; bad timestamp; discharged not after
+//     admitted; a stay longer than max_stay_days; an admission or discharge
+//     far outside the rest of the log (see far_out_fence_iqr); outcome outside
+//     [admitted, discharged]; repeated encounter id (skip keeps the first);
+//     score for an unknown encounter (or one whose row was skipped); a score
+//     that is not a finite number or lies outside score_range; available_at
+//     before scored_at; two rows of one encounter with the same scored_at and
+//     different scores (skip drops every row of the pair).
 //   counted exclusions (reported by reason): scores available before
-//     admission, at or after time zero, at or after discharge.
+//     admission, at or after time zero, at or after discharge; a repeated
+//     score row (same encounter, scored_at and score: the one available first
+//     is kept).
 //   counted notes: naive local times in a repeated hour (earlier taken) or a
 //     skipped hour (moved forward); blank lines are skipped.
 #include <string>
@@ -26,6 +36,17 @@ struct ReplaySource {
     // Score logs larger than this are parsed in parallel chunks (one per core);
     // the result is the same either way. Tests set it small to exercise chunking.
     long long parallel_chunk_bytes = 32LL << 20;
+    // A longer stay is a bad row (a mistyped year stretches the period).
+    double max_stay_days = 365;
+    // An admission or discharge more than this many interquartile ranges
+    // (at least this many times 30 days) before the first or after the third
+    // quartile of every admission and discharge of the log is a bad row:
+    // Tukey's outer fences (k = 3, "far out", Tukey 1977), with the 30-day
+    // floor (our choice, no source) so that a short log flags nothing near it.
+    double far_out_fence_iqr = 3;
+    // Scores outside [score_low, score_high] are bad rows.
+    double score_low = 0, score_high = 100;
+    BadRows bad_rows = BadRows::stop;
 };
 
 Population load_replay(const ReplaySource& source, const TimeZone& zone);

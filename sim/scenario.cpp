@@ -575,6 +575,18 @@ Scenario scenario_from(const YAML::Node& root, const std::string& yaml_text, con
             sc.replay.encounters_path = resolve(directory, s.text("encounters"));
             sc.replay.scores_path = resolve(directory, s.text("scores"));
             sc.replay.latency_when_missing = seconds_from_minutes(s.real("latency_minutes", 0));
+            sc.replay.max_stay_days = s.real("max_stay_days", sc.replay.max_stay_days);
+            sc.replay.far_out_fence_iqr = s.real("far_out_fence_iqr", sc.replay.far_out_fence_iqr);
+            if (s.has("score_range")) {
+                const std::vector<double> range = s.real_list("score_range");
+                if (range.size() != 2 || !std::isfinite(range[0]) || !std::isfinite(range[1]) || !(range[0] < range[1]))
+                    s.fail("score_range", "expected [low, high] with two finite numbers, low below high");
+                sc.replay.score_low = range[0];
+                sc.replay.score_high = range[1];
+            }
+            const std::string bad_rows = s.text("bad_rows", "stop");
+            if (bad_rows == "skip") sc.replay.bad_rows = BadRows::skip;
+            else if (bad_rows != "stop") s.fail("bad_rows", "unknown value '" + bad_rows + "' (expected stop or skip)");
         } else {
             sc.source = PopulationSource::generate;
             parse_generator(Section(pop.child("generate"), "population.generate", file, "population.generate"), sc);
@@ -712,6 +724,7 @@ std::string describe_scenario(const Scenario& sc) {
     if (sc.source == PopulationSource::replay) {
         o << "Population: replay of " << sc.replay.encounters_path << " and " << sc.replay.scores_path;
         if (sc.replay.latency_when_missing) o << " (latency " << duration_words(sc.replay.latency_when_missing) << " when available_at is empty)";
+        if (sc.replay.bad_rows == BadRows::skip) o << "; bad rows are skipped and counted (bad_rows: skip)";
         if (sc.bootstrap)
             o << "\nReplications 1, 2, ...: " << (sc.bootstrap->scheme == BlockScheme::stationary ? "stationary" : "moving-block")
               << " bootstrap of " << sc.bootstrap->block_days << "-day blocks per unit, runs of " << num(sc.bootstrap->mean_run_blocks)

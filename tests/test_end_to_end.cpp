@@ -148,3 +148,51 @@ TEST_CASE("end_to_end.generated_demo_with_replications") {
         CHECK(read_file(entry.path().string()) == read_file(dir.path("two/" + name)));
     }
 }
+
+TEST_CASE("end_to_end.skipped_rows_are_shown_everywhere") {
+    // The replayed example with one bad score on line 3, run with bad_rows: skip:
+    // the row is skipped, and `check`, the terminal, exclusions.csv/.json and the
+    // report all say so with its line.
+    ScratchDir dir;
+    std::string scores = read_file(source_dir + "/scenarios/demo/scores.csv");
+    const std::size_t line3 = scores.find('\n', scores.find('\n') + 1) + 1;
+    const std::size_t comma = scores.rfind(',', scores.find('\n', line3));
+    scores.replace(comma + 1, scores.find('\n', line3) - comma - 1, "n/a");
+    dir.file("demo/scores.csv", scores);
+    dir.file("demo/encounters.csv", read_file(source_dir + "/scenarios/demo/encounters.csv"));
+    std::string yaml = read_file(demo);
+    yaml.replace(yaml.find("    scores: demo/scores.csv\n"), 28, "    scores: demo/scores.csv\n    bad_rows: skip\n");
+    dir.file("demo.yaml", yaml);
+    const std::string expected = "scores.csv: score that is not a finite number (line 3)";
+    const auto c = run_tocsin("check " + dir.path("demo.yaml"));
+    INFO(c.output);
+    CHECK(c.exit_code == 0);
+    CHECK(c.output.find("skipped: 1 row, " + expected) != std::string::npos);
+    const auto r = run_tocsin("run " + dir.path("demo.yaml") + " --out " + dir.path("out"));
+    REQUIRE(r.exit_code == 0);
+    CHECK(r.output.find(expected) != std::string::npos);
+    CHECK(read_file(dir.path("out/exclusions.csv")).find("skipped rows," + expected + ",1") != std::string::npos);
+    CHECK(read_file(dir.path("out/exclusions.json")).find(expected) != std::string::npos);
+    CHECK(read_file(dir.path("out/report.html")).find(expected) != std::string::npos);
+}
+
+TEST_CASE("end_to_end.lone_cr_log_checks_like_the_original") {
+    // The replayed example saved with lone CR line ends reads the same rows.
+    ScratchDir dir;
+    for (const std::string name : {"scores.csv", "encounters.csv"}) {
+        std::string text = read_file(source_dir + "/scenarios/demo/" + name);
+        std::replace(text.begin(), text.end(), '\n', '\r');
+        dir.file("demo/" + name, text);
+    }
+    dir.file("demo.yaml", read_file(demo));
+    const auto original = run_tocsin("check " + demo);
+    const auto cr = run_tocsin("check " + dir.path("demo.yaml"));
+    REQUIRE(original.exit_code == 0);
+    CHECK(cr.exit_code == 0);
+    const auto input_line = [](const std::string& out) {
+        const std::size_t at = out.find("Input: ");
+        return at == std::string::npos ? std::string() : out.substr(at, out.find('\n', at) - at);
+    };
+    CHECK_FALSE(input_line(original.output).empty());
+    CHECK(input_line(cr.output) == input_line(original.output));
+}

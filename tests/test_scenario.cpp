@@ -188,3 +188,33 @@ TEST_CASE("scenario.every_key_documented_in_readme") {
     for (const SectionSpec& section : scenario_sections())
         for (const KeySpec& key : section.keys) CHECK(readme.find("| `" + std::string(key.name) + "` |") != std::string::npos);
 }
+
+TEST_CASE("scenario.replay_input_keys") {
+    std::string text = scenario_text();
+    text.replace(text.find("    scores: s.csv\n"), 18,
+                 "    scores: s.csv\n    max_stay_days: 90\n    far_out_fence_iqr: 5\n    score_range: [0, 1]\n    bad_rows: skip\n");
+    const Scenario sc = parse_scenario(text, "s.yaml", "");
+    CHECK(sc.replay.max_stay_days == 90);
+    CHECK(sc.replay.far_out_fence_iqr == 5);
+    CHECK(sc.replay.score_low == 0);
+    CHECK(sc.replay.score_high == 1);
+    CHECK(sc.replay.bad_rows == BadRows::skip);
+    // Defaults: stop at a bad row, a year of stay, the points scale.
+    const Scenario plain = parse_scenario(scenario_text(), "s.yaml", "");
+    CHECK(plain.replay.bad_rows == BadRows::stop);
+    CHECK(plain.replay.max_stay_days == 365);
+    CHECK(plain.replay.score_high == 100);
+
+    auto with = [&](const std::string& line) {
+        std::string t = scenario_text();
+        t.replace(t.find("    scores: s.csv\n"), 18, "    scores: s.csv\n" + line + "\n");
+        return parse_error(t);
+    };
+    const InputError bad_mode = with("    bad_rows: maybe");
+    CHECK(bad_mode.line == 13);
+    CHECK(std::string(bad_mode.what()).find("stop or skip") != std::string::npos);
+    CHECK(std::string(with("    score_range: [5]").what()).find("[low, high]") != std::string::npos);
+    CHECK(std::string(with("    score_range: [10, 1]").what()).find("low below high") != std::string::npos);
+    CHECK(std::string(with("    score_range: [0, .inf]").what()).find("finite") != std::string::npos);
+    CHECK(std::string(with("    max_stay_days: 0").what()).find("out of range") != std::string::npos);
+}
