@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <array>
+#include <cctype>
 #include <charconv>
 #include <cstdio>
 #include <cstdlib>
@@ -54,7 +55,147 @@ std::int64_t read_be(const unsigned char* p, int bytes) {
     return static_cast<std::int64_t>(v);
 }
 
+// POSIX TZ string pieces (POSIX.1-2017 section 8.3, "TZ"; RFC 8536 section 3.3).
+class TzText {
+public:
+    explicit TzText(std::string_view s) : s_(s) {}
+    bool done() const { return p_ == s_.size(); }
+    bool eat(char c) {
+        if (p_ < s_.size() && s_[p_] == c) return ++p_, true;
+        return false;
+    }
+    char peek() const { return p_ < s_.size() ? s_[p_] : '\0'; }
+    // std or dst name: three or more letters, or <...> of letters, digits, + and -.
+    bool name() {
+        std::size_t n = 0;
+        if (eat('<')) {
+            while (p_ < s_.size() && (std::isalnum(static_cast<unsigned char>(s_[p_])) || s_[p_] == '+' || s_[p_] == '-'))
+                ++p_, ++n;
+            return eat('>') && n >= 3;
+        }
+        while (p_ < s_.size() && std::isalpha(static_cast<unsigned char>(s_[p_]))) ++p_, ++n;
+        return n >= 3;
+    }
+    bool number(int max_digits, int max_value, int& out) {
+        int n = 0, v = 0;
+        while (n < max_digits && p_ < s_.size() && s_[p_] >= '0' && s_[p_] <= '9') v = v * 10 + (s_[p_++] - '0'), ++n;
+        out = v;
+        return n > 0 && v <= max_value;
+    }
+    // [+-]hh[:mm[:ss]]; `max_hours` is 24 for offsets and 167 for transition
+    // times, which RFC 8536 section 3.3.1 extends from POSIX's 0..24.
+    bool clock(int max_hours, Seconds& out) {
+        const int sign = eat('-') ? -1 : (eat('+'), 1);
+        int h = 0, m = 0, sec = 0;
+        if (!number(3, max_hours, h)) return false;
+        if (eat(':')) {
+            if (!number(2, 59, m)) return false;
+            if (eat(':') && !number(2, 59, sec)) return false;
+        }
+        out = sign * (Seconds{h} * 3600 + m * 60 + sec);
+        return true;
+    }
+    bool date(PosixTzRule::Date& d) {
+        using Kind = PosixTzRule::Date::Kind;
+        if (eat('M')) {
+            d.kind = Kind::month_week_day;
+            if (!number(2, 12, d.month) || d.month < 1 || !eat('.') || !number(1, 5, d.week) || d.week < 1 ||
+                !eat('.') || !number(1, 6, d.day))
+                return false;
+        } else if (eat('J')) {
+            d.kind = Kind::julian_no_leap;
+            if (!number(3, 365, d.day) || d.day < 1) return false;
+        } else {
+            d.kind = Kind::zero_based;
+            if (!number(3, 365, d.day)) return false;
+        }
+        d.time = 7200;  // POSIX: 02:00:00 when no time is given
+        return !eat('/') || clock(167, d.time);
+    }
+
+private:
+    std::string_view s_;
+    std::size_t p_ = 0;
+};
+
+// Day (days since the epoch) on which a rule date falls in `year`.
+std::int64_t rule_day(const PosixTzRule::Date& d, int year) {
+    using Kind = PosixTzRule::Date::Kind;
+    const std::int64_t jan1 = days_from_civil(year, 1, 1);
+    const bool leap = (year % 4 == 0 && year % 100 != 0) || year % 400 == 0;
+    switch (d.kind) {
+        case Kind::julian_no_leap:  // February 29 is never counted
+            return jan1 + d.day - 1 + (leap && d.day >= 60 ? 1 : 0);
+        case Kind::zero_based:
+            return jan1 + d.day;
+        case Kind::month_week_day: break;
+    }
+    const std::int64_t first = days_from_civil(year, d.month, 1);
+    const std::int64_t next = d.month == 12 ? days_from_civil(year + 1, 1, 1) : days_from_civil(year, d.month + 1, 1);
+    const int first_weekday = (weekday_from_days(first) + 1) % 7;  // POSIX counts 0 = Sunday
+    std::int64_t day = first + (d.day - first_weekday + 7) % 7 + 7 * (d.week - 1);
+    while (day >= next) day -= 7;  // week 5 means the last such weekday of the month
+    return day;
+}
+
 }  // namespace
+
+std::optional<PosixTzRule> PosixTzRule::parse(std::string_view text) {
+    TzText in(text);
+    PosixTzRule r;
+    Seconds west = 0;
+    if (!in.name() || !in.clock(24, west)) return std::nullopt;
+    r.std_offset = static_cast<std::int32_t>(-west);
+    if (in.done()) return r;
+    if (!in.name()) return std::nullopt;
+    r.has_dst = true;
+    r.dst_offset = r.std_offset + 3600;  // POSIX: one hour ahead of standard time when not given
+    if (in.peek() != ',') {
+        if (!in.clock(24, west)) return std::nullopt;
+        r.dst_offset = static_cast<std::int32_t>(-west);
+    }
+    if (!in.eat(',') || !in.date(r.dst_start) || !in.eat(',') || !in.date(r.dst_end) || !in.done())
+        return std::nullopt;
+    return r;
+}
+
+std::int32_t PosixTzRule::offset_at(Instant t) const {
+    if (!has_dst) return std_offset;
+    // The changes of the year around t and of the years either side, in time
+    // order; the last one at or before t says which offset is in force. Three
+    // years cover change times up to 167 hours from midnight (RFC 8536 3.3.1).
+    // Within a year the changes keep their calendar order, so a daylight time
+    // that ends as the next one begins (RFC 8536's all-year "0/0,J365/25")
+    // leaves daylight time in force.
+    struct Change {
+        Instant at;
+        bool to_dst;
+    };
+    std::array<Change, 6> changes{};
+    const int year = civil_from_instant(t + std_offset).year;
+    for (int k = 0; k < 3; ++k) {
+        const int y = year - 1 + k;
+        const Change start{rule_day(dst_start, y) * 86400 + dst_start.time - std_offset, true};
+        const Change end{rule_day(dst_end, y) * 86400 + dst_end.time - dst_offset, false};
+        changes[2 * k] = start.at <= end.at ? start : end;
+        changes[2 * k + 1] = start.at <= end.at ? end : start;
+    }
+    std::stable_sort(changes.begin(), changes.end(), [](const Change& a, const Change& b) { return a.at < b.at; });
+    bool dst = !changes.front().to_dst;
+    for (const Change& c : changes)
+        if (c.at <= t) dst = c.to_dst;
+    return dst ? dst_offset : std_offset;
+}
+
+std::optional<TimeZone> TimeZone::from_posix_rule(std::string_view tz) {
+    auto rule = PosixTzRule::parse(tz);
+    if (!rule) return std::nullopt;
+    TimeZone z;
+    z.name_ = std::string(tz);
+    z.initial_offset_ = rule->std_offset;
+    z.rule_ = rule;
+    return z;
+}
 
 TimeZone TimeZone::utc() {
     TimeZone z;
@@ -114,11 +255,19 @@ TimeZone TimeZone::load(const std::string& name) {
         z.transitions_.push_back(times[i]);
         z.offsets_.push_back(type_offset[idx[i]]);
     }
-    // A zone whose table still changes offsets relies on its footer rule after
-    // the last transition; we do not evaluate footer rules, so we refuse to
-    // answer past the table rather than guess. Debian ships "fat" files whose
-    // tables run to 2037.
-    if (!z.transitions_.empty()) {
+    // Version 2+ files end with a footer, "\n<POSIX TZ string>\n", that
+    // gives the rule after the last transition (RFC 8536 section 3.3).
+    if (time_bytes == 8) {
+        const std::size_t footer = p + typecnt * 6 + c[5] + c[2] * 12 + c[1] + c[0];
+        if (footer < data.size() && data[footer] == '\n') {
+            const auto begin = data.begin() + static_cast<std::ptrdiff_t>(footer) + 1;
+            const auto end = std::find(begin, data.end(), '\n');
+            if (end != data.end() && begin != end) z.rule_ = PosixTzRule::parse(std::string(begin, end));
+        }
+    }
+    // Without a rule, a zone whose table still changes offsets cannot be
+    // answered past the table; say where the table ends.
+    if (!z.rule_ && !z.transitions_.empty()) {
         bool has_dst_rule = false;
         for (std::size_t i = 1; i < z.offsets_.size(); ++i)
             if (z.transitions_[i] > z.transitions_.back() - days(3 * 365) && z.offsets_[i] != z.offsets_[i - 1])
@@ -129,6 +278,7 @@ TimeZone TimeZone::load(const std::string& name) {
 }
 
 std::int32_t TimeZone::offset_at(Instant t) const {
+    if (rule_ && (transitions_.empty() || t > transitions_.back())) return rule_->offset_at(t);
     if (transitions_.empty() || t < transitions_.front()) return initial_offset_;
     auto it = std::upper_bound(transitions_.begin(), transitions_.end(), t);
     return offsets_[static_cast<std::size_t>(it - transitions_.begin()) - 1];
