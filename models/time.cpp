@@ -286,22 +286,37 @@ std::int32_t TimeZone::offset_at(Instant t) const {
 
 Instant TimeZone::from_local(const CivilTime& l, LocalMapping* mapping) const {
     const Instant local = days_from_civil(l.year, l.month, l.day) * 86400 + l.hour * 3600 + l.minute * 60 + l.second;
-    // Candidate UTC instants: local - offset for each offset in force near it.
-    // Offsets never differ by more than a day, so probing +-1 day is enough.
-    const std::int32_t before = offset_at(local - 86400), after = offset_at(local + 86400);
-    Instant first = local - before, second = local - after;
-    bool first_ok = offset_at(first) == before, second_ok = offset_at(second) == after;
-    if (mapping) *mapping = LocalMapping::unique;
-    if (first_ok && second_ok) {
-        if (first != second && mapping) *mapping = LocalMapping::ambiguous_took_earlier;
-        return std::min(first, second);
+    // An instant t shows `local` when t + offset_at(t) == local, so candidates
+    // are local - o for the offsets o in force near it. Start from the offsets
+    // a day either side (offsets never differ by more than a day) and add the
+    // offset at each candidate until none is new: two changes within a day or
+    // two (a short break in daylight time) are then still seen.
+    std::array<std::int32_t, 8> offsets{offset_at(local - 86400), offset_at(local + 86400)};
+    std::size_t n = offsets[0] == offsets[1] ? 1 : 2;
+    for (std::size_t i = 0; i < n && n < offsets.size(); ++i) {
+        const std::int32_t o = offset_at(local - offsets[i]);
+        if (std::find(offsets.begin(), offsets.begin() + static_cast<std::ptrdiff_t>(n), o) ==
+            offsets.begin() + static_cast<std::ptrdiff_t>(n))
+            offsets[n++] = o;
     }
-    if (first_ok) return first;
-    if (second_ok) return second;
+    std::optional<Instant> earliest, latest;
+    for (std::size_t i = 0; i < n; ++i) {
+        const Instant t = local - offsets[i];
+        if (offset_at(t) != offsets[i]) continue;
+        earliest = std::min(earliest.value_or(t), t);
+        latest = std::max(latest.value_or(t), t);
+    }
+    if (mapping) *mapping = LocalMapping::unique;
+    if (earliest) {
+        if (*latest != *earliest && mapping) *mapping = LocalMapping::ambiguous_took_earlier;
+        return *earliest;
+    }
     // Skipped by a forward change: read with the offset before the change, which
     // lands the same distance past the change as the time was past its start.
     if (mapping) *mapping = LocalMapping::nonexistent_moved_forward;
-    return local - before;
+    for (std::size_t i = 0; i < n; ++i)
+        if (offset_at(local - offsets[i]) > offsets[i]) return local - offsets[i];
+    return local - offsets[0];
 }
 
 namespace {

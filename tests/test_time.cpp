@@ -160,6 +160,22 @@ TEST_CASE("time.posix_rule_forms") {
         CHECK(n.offset_at(at(2041, 3, 1, 2) - 1) == 0);
         CHECK(n.offset_at(at(2041, 3, 1, 2)) == 3600);
     }
+    SUBCASE("a standard-time break shorter than two days") {
+        // AAA0BBB,J61/2,J60/1: daylight time (+1) ends on 1 March at 01:00
+        // daylight (00:00Z) and starts again on 2 March at 02:00 standard
+        // (02:00Z). Noon on 1 March is standard time, 12:00Z, although the
+        // offsets a day either side are both daylight time.
+        const TimeZone z = zone("AAA0BBB,J61/2,J60/1");
+        LocalMapping mapping{};
+        CHECK(z.from_local({2041, 3, 1, 12, 0, 0}, &mapping) == at(2041, 3, 1, 12));
+        CHECK(mapping == LocalMapping::unique);
+        // 00:30 on 1 March is shown twice: 23:30Z the day before, then 00:30Z.
+        CHECK(z.from_local({2041, 3, 1, 0, 30, 0}, &mapping) == at(2041, 2, 28, 23) + 1800);
+        CHECK(mapping == LocalMapping::ambiguous_took_earlier);
+        // 02:30 on 2 March is skipped; read at the standard offset it is 02:30Z.
+        CHECK(z.from_local({2041, 3, 2, 2, 30, 0}, &mapping) == at(2041, 3, 2, 2) + 1800);
+        CHECK(mapping == LocalMapping::nonexistent_moved_forward);
+    }
     SUBCASE("offsets with minutes, and standard time only") {
         CHECK(zone("<+0545>-5:45").offset_at(at(2044, 6, 1, 0)) == 5 * 3600 + 45 * 60);
         CHECK(zone("JST-9").offset_at(at(2044, 6, 1, 0)) == 9 * 3600);
