@@ -368,8 +368,12 @@ std::optional<Instant> parse_timestamp(std::string_view s, const TimeZone& zone,
         if (!digits(s, p, 2, oh)) return std::nullopt;
         p += 2;
         if (p < s.size() && s[p] == ':') ++p;
-        if (!digits(s, p, 2, om) || p + 2 != s.size() || oh > 23 || om > 59) return std::nullopt;
-        return as_utc - sign * (oh * 3600 + om * 60);
+        if (!digits(s, p, 2, om) || oh > 23 || om > 59) return std::nullopt;
+        p += 2;
+        int os = 0;  // seconds, as format_local writes for local mean time offsets
+        if (p < s.size() && (s[p] != ':' || !digits(s, p + 1, 2, os) || os > 59 || (p += 3) != s.size()))
+            return std::nullopt;
+        return as_utc - sign * (oh * 3600 + om * 60 + os);
     }
     return std::nullopt;
 }
@@ -393,10 +397,18 @@ std::string format_local(Instant at, const TimeZone& zone) {
     const std::int32_t off = zone.offset_at(at);
     CivilTime c = civil_from_instant(at + off);
     const int a = off < 0 ? -off : off;
-    char buf[40];
+    char buf[48];
     std::snprintf(buf, sizeof buf, "%04d-%02d-%02dT%02d:%02d:%02d%c%02d:%02d", c.year, c.month, c.day, c.hour,
                   c.minute, c.second, off < 0 ? '-' : '+', a / 3600, (a % 3600) / 60);
-    return buf;
+    std::string out = buf;
+    // Local mean time offsets (before a zone's standard time) have seconds;
+    // dropping them would name another instant. Written as Python's
+    // datetime.isoformat writes them.
+    if (a % 60) {
+        std::snprintf(buf, sizeof buf, ":%02d", a % 60);
+        out += buf;
+    }
+    return out;
 }
 
 std::string format_clock_minutes(int m) {

@@ -87,8 +87,8 @@ struct TimestampNote {
 };
 
 // Parses "YYYY-MM-DDTHH:MM:SS" or "YYYY-MM-DD HH:MM:SS", optionally with
-// fractional seconds (truncated), followed by "Z", "+HH:MM", "-HH:MM", "+HHMM"
-// or nothing (then read in `zone`). Returns nothing when the text is not such
+// fractional seconds (truncated), followed by "Z", "+HH:MM", "-HH:MM", "+HHMM",
+// "+HH:MM:SS" or nothing (then read in `zone`). Returns nothing when the text is not such
 // a timestamp or names an impossible date.
 std::optional<Instant> parse_timestamp(std::string_view text, const TimeZone& zone,
                                        TimestampNote* note = nullptr);
@@ -97,7 +97,7 @@ std::optional<Instant> parse_timestamp(std::string_view text, const TimeZone& zo
 std::optional<int> parse_clock_minutes(std::string_view text);
 
 std::string format_utc(Instant at);                          // 2026-03-03T19:00:00Z
-std::string format_local(Instant at, const TimeZone& zone);  // 2026-03-03T19:00:00+01:00
+std::string format_local(Instant at, const TimeZone& zone);  // 2026-03-03T19:00:00+01:00 (+HH:MM:SS if needed)
 std::string format_clock_minutes(int minutes_after_midnight);  // 07:30
 
 }  // namespace tocsin

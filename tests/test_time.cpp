@@ -34,6 +34,19 @@ TEST_CASE("time.parse_forms") {
     CHECK_FALSE(parse_timestamp("03/03/2026 19:05", utc));
     CHECK_FALSE(parse_timestamp("2026-03-03T19:05:00Q", utc));
     CHECK_FALSE(parse_timestamp("", utc));
+    CHECK(parse_timestamp("2026-03-03T19:05:30+00:00:30", utc) == t);
+    CHECK_FALSE(parse_timestamp("2026-03-03T19:05:30+00:00:", utc));
+    CHECK_FALSE(parse_timestamp("2026-03-03T19:05:30+00:00:60", utc));
+}
+
+TEST_CASE("time.local_mean_time_offsets_keep_their_seconds") {
+    // London kept local mean time, 0:01:15 behind Greenwich, until 1847
+    // (tz database, europe file: "Europe/London -0:01:15 - LMT 1847 Dec 1").
+    // 18:05:00Z on 3 January 1013 showed 18:03:45 there; found by fuzzing.
+    const TimeZone london = TimeZone::load("Europe/London");
+    const Instant t = days_from_civil(1013, 1, 3) * 86400 + 18 * 3600 + 5 * 60;
+    CHECK(format_local(t, london) == "1013-01-03T18:03:45-00:01:15");
+    CHECK(parse_timestamp(format_local(t, london), TimeZone::utc()) == t);
 }
 
 TEST_CASE("time.daylight_saving") {
