@@ -8,6 +8,7 @@
 #include <cstdlib>
 #include <fstream>
 #include <iterator>
+#include <span>
 #include <stdexcept>
 
 namespace tocsin {
@@ -286,23 +287,29 @@ std::int32_t TimeZone::offset_at(Instant t) const {
 
 Instant TimeZone::from_local(const CivilTime& l, LocalMapping* mapping) const {
     const Instant local = days_from_civil(l.year, l.month, l.day) * 86400 + l.hour * 3600 + l.minute * 60 + l.second;
-    // An instant t shows `local` when t + offset_at(t) == local, so candidates
-    // are local - o for the offsets o in force near it. Start from the offsets
-    // a day either side (offsets never differ by more than a day) and add the
-    // offset at each candidate until none is new: two changes within a day or
-    // two (a short break in daylight time) are then still seen.
-    std::array<std::int32_t, 8> offsets{offset_at(local - 86400), offset_at(local + 86400)};
-    std::size_t n = offsets[0] == offsets[1] ? 1 : 2;
-    for (std::size_t i = 0; i < n && n < offsets.size(); ++i) {
-        const std::int32_t o = offset_at(local - offsets[i]);
-        if (std::find(offsets.begin(), offsets.begin() + static_cast<std::ptrdiff_t>(n), o) ==
-            offsets.begin() + static_cast<std::ptrdiff_t>(n))
-            offsets[n++] = o;
+    // An instant t shows `local` when t + offset_at(t) == local. Offsets are
+    // under a day, so t lies within a day of `local` and its offset is one in
+    // force within two days of it: the one two days before, those the table
+    // changes to in between and, where the footer rule governs, the rule's
+    // two. Taking them all (not only the offsets a day either side) also
+    // sees two changes close together, such as one hour of daylight time.
+    const Instant lo = local - days(2), hi = local + days(2);
+    // In time order; a fixed array, since this runs for every naive timestamp
+    // of a log. Real tables change at most a few times in four days.
+    std::array<std::int32_t, 16> offset_list{offset_at(lo)};
+    std::size_t n = 1;
+    for (auto it = std::upper_bound(transitions_.begin(), transitions_.end(), lo);
+         it != transitions_.end() && *it <= hi && n + 2 < offset_list.size(); ++it)
+        offset_list[n++] = offsets_[static_cast<std::size_t>(it - transitions_.begin())];
+    if (rule_ && (transitions_.empty() || hi > transitions_.back())) {
+        offset_list[n++] = rule_->std_offset;
+        if (rule_->has_dst) offset_list[n++] = rule_->dst_offset;
     }
+    const std::span<const std::int32_t> offsets(offset_list.data(), n);
     std::optional<Instant> earliest, latest;
-    for (std::size_t i = 0; i < n; ++i) {
-        const Instant t = local - offsets[i];
-        if (offset_at(t) != offsets[i]) continue;
+    for (const std::int32_t o : offsets) {
+        const Instant t = local - o;
+        if (offset_at(t) != o) continue;
         earliest = std::min(earliest.value_or(t), t);
         latest = std::max(latest.value_or(t), t);
     }
@@ -314,9 +321,9 @@ Instant TimeZone::from_local(const CivilTime& l, LocalMapping* mapping) const {
     // Skipped by a forward change: read with the offset before the change, which
     // lands the same distance past the change as the time was past its start.
     if (mapping) *mapping = LocalMapping::nonexistent_moved_forward;
-    for (std::size_t i = 0; i < n; ++i)
-        if (offset_at(local - offsets[i]) > offsets[i]) return local - offsets[i];
-    return local - offsets[0];
+    for (auto o = offsets.rbegin(); o != offsets.rend(); ++o)
+        if (offset_at(local - *o) > *o) return local - *o;
+    return local - offsets.front();
 }
 
 namespace {

@@ -189,6 +189,19 @@ TEST_CASE("time.posix_rule_forms") {
         CHECK(z.from_local({2041, 3, 2, 2, 30, 0}, &mapping) == at(2041, 3, 2, 2) + 1800);
         CHECK(mapping == LocalMapping::nonexistent_moved_forward);
     }
+    SUBCASE("one hour of daylight time a year") {
+        // EST5EDT,0/0,J1: daylight time starts 1 January at 00:00 EST (05:00Z)
+        // and ends the same day at 02:00 EDT (06:00Z). 00:30 is skipped; 01:30
+        // is shown at 05:30Z (EDT) and again at 06:30Z (EST). Found by fuzzing.
+        const TimeZone z = zone("EST5EDT,0/0,J1");
+        LocalMapping mapping{};
+        CHECK(z.from_local({2050, 1, 1, 1, 30, 0}, &mapping) == at(2050, 1, 1, 5) + 1800);
+        CHECK(mapping == LocalMapping::ambiguous_took_earlier);
+        CHECK(z.from_local({2050, 1, 1, 0, 30, 0}, &mapping) == at(2050, 1, 1, 5) + 1800);
+        CHECK(mapping == LocalMapping::nonexistent_moved_forward);
+        CHECK(z.from_local({2050, 1, 1, 2, 30, 0}, &mapping) == at(2050, 1, 1, 7) + 1800);
+        CHECK(mapping == LocalMapping::unique);
+    }
     SUBCASE("offsets with minutes, and standard time only") {
         CHECK(zone("<+0545>-5:45").offset_at(at(2044, 6, 1, 0)) == 5 * 3600 + 45 * 60);
         CHECK(zone("JST-9").offset_at(at(2044, 6, 1, 0)) == 9 * 3600);
