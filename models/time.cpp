@@ -147,6 +147,7 @@ std::optional<PosixTzRule> PosixTzRule::parse(std::string_view text) {
     Seconds west = 0;
     if (!in.name() || !in.clock(24, west)) return std::nullopt;
     r.std_offset = static_cast<std::int32_t>(-west);
+    if (r.std_offset <= -86400 || r.std_offset >= 86400) return std::nullopt;  // see the daylight offset below
     if (in.done()) return r;
     if (!in.name()) return std::nullopt;
     r.has_dst = true;
@@ -157,6 +158,11 @@ std::optional<PosixTzRule> PosixTzRule::parse(std::string_view text) {
     }
     if (!in.eat(',') || !in.date(r.dst_start) || !in.eat(',') || !in.date(r.dst_end) || !in.done())
         return std::nullopt;
+    // POSIX lets hours reach 24, but an offset of a day or more has no ISO 8601
+    // form (offset hours 00-23), so format_local could not write it, and
+    // from_local assumes offsets under a day. No tz database zone comes near
+    // (the widest is 14 hours).
+    if (r.dst_offset <= -86400 || r.dst_offset >= 86400) return std::nullopt;
     return r;
 }
 

@@ -205,6 +205,7 @@ TEST_CASE("time.posix_rule_forms") {
     SUBCASE("offsets with minutes, and standard time only") {
         CHECK(zone("<+0545>-5:45").offset_at(at(2044, 6, 1, 0)) == 5 * 3600 + 45 * 60);
         CHECK(zone("JST-9").offset_at(at(2044, 6, 1, 0)) == 9 * 3600);
+        CHECK(zone("AAA-23:59:59").offset_at(at(2044, 6, 1, 0)) == 86399);
         // Daylight offset given explicitly: Lord Howe's half-hour shift.
         const TimeZone lh = zone("<+1030>-10:30<+11>-11,M10.1.0,M4.1.0");
         CHECK(lh.offset_at(at(2041, 1, 15, 0)) == 11 * 3600);
@@ -213,7 +214,10 @@ TEST_CASE("time.posix_rule_forms") {
     SUBCASE("not TZ strings") {
         for (const char* bad : {"", "EST", "ES5", "EST25", "EST5EDT", "EST5EDT,M3.2.0", "EST5EDT,M13.1.0,M11.1.0",
                                 "EST5EDT,M3.6.0,M11.1.0", "EST5EDT,M3.2.7,M11.1.0", "EST5EDT,J0,J365",
-                                "EST5EDT,M3.2.0/168,M11.1.0", "EST5EDT,366,0", "<AB>5", "EST5EDT,M3.2.0,M11.1.0x"}) {
+                                "EST5EDT,M3.2.0/168,M11.1.0", "EST5EDT,366,0", "<AB>5", "EST5EDT,M3.2.0,M11.1.0x",
+                                // A day or more from UTC has no ISO 8601 offset; the
+                                // daylight offset defaults to an hour past +23 here.
+                                "AAA-24", "IST-23IDT,M3.5.5/16,M10.5.0"}) {
             CAPTURE(bad);
             CHECK_FALSE(PosixTzRule::parse(bad));
         }
