@@ -68,9 +68,13 @@ void check(const std::string& text, const TimeZone& zone) {
     } else if (shown != asked) {
         broken(where + ": read as " + utc + ", which the zone shows as " + format_local(*t, zone));
     } else if (note.mapping == LocalMapping::ambiguous_took_earlier) {
-        // The later reading of the repeated hour exists and comes after.
+        // The later reading exists: asked - o for an offset o in force within
+        // a day after t (offsets need not be whole minutes).
         bool later = false;
-        for (Seconds d = 60; d <= 86400 && !later; d += 60) later = zone.to_local_seconds(*t + d) == asked;
+        for (Seconds d = 0; d <= 86400 && !later; d += 1800) {
+            const Instant u = asked - zone.offset_at(*t + d);
+            later = u > *t && zone.to_local_seconds(u) == asked;
+        }
         if (!later) broken(where + ": noted as a repeated time but shown only once");
     }
 }
