@@ -1,7 +1,8 @@
 #!/usr/bin/env bash
 # tocsin's one entry point for set-up, build, demo, tests and benchmarks.
 #   ./go demo    install what is missing, build, run the demo scenario
-#   ./go test    install what is missing, build, run every test (then the sanitizer pass)
+#   ./go test    install what is missing, build, run every test (then the sanitizer pass and a fuzz smoke)
+#   ./go fuzz [SECONDS]  build the libFuzzer harnesses (clang) and run each for SECONDS (600)
 #   ./go build   install build dependencies and build (Release, in build/)
 #   ./go bench   build and run the benchmarks (figures, not pass/fail)
 #   ./go keys    refresh the README's scenario key reference
@@ -14,6 +15,9 @@ BUILD_PACKAGES=(g++ cmake make pkgconf tzdata libboost-random-dev libboost-graph
                 libyaml-cpp-dev libcli11-dev doctest-dev)
 # Outside references the test suite checks against, and the browser that renders the report.
 REFERENCE_PACKAGES=(python3 python3-sklearn python3-statsmodels python3-scipy r-base-core r-cran-proc chromium fonts-liberation zlib1g-dev)
+
+# libFuzzer comes with clang's runtime libraries.
+FUZZ_PACKAGES=(clang libclang-rt-14-dev)
 
 install_missing() {
     local missing=() p
@@ -34,6 +38,39 @@ build() {  # build DIR TARGET [cmake args...]
     cmake --build "$dir" -j "$JOBS" --target "$target"
 }
 
+build_fuzzers() {
+    cmake -S . -B build-fuzz -DCMAKE_BUILD_TYPE=RelWithDebInfo -DCMAKE_CXX_COMPILER=clang++ -DTOCSIN_FUZZ=ON \
+          -DTOCSIN_TESTS=OFF -DTOCSIN_BENCH=OFF > /dev/null
+    cmake --build build-fuzz -j "$JOBS" --target fuzzers
+}
+
+# Runs every harness for $1 seconds on its seed corpus (tests/fuzz/corpus/, read
+# only) plus what earlier runs found (build-fuzz/corpus/, written); a finding
+# is saved in build-fuzz/findings/<harness>/, outside the repository. One
+# summary line per harness; fails when any harness found something.
+run_fuzzers() {
+    local seconds="$1" failed=0 h name log rc runs rate
+    for h in build-fuzz/tests/fuzz/fuzz_*; do
+        name="$(basename "$h")"
+        mkdir -p "build-fuzz/corpus/$name" "build-fuzz/findings/$name"
+        log="build-fuzz/$name.log"
+        rc=0
+        "$h" "build-fuzz/corpus/$name" "tests/fuzz/corpus/$name" -max_total_time="$seconds" -timeout=30 \
+             -rss_limit_mb=4096 -artifact_prefix="build-fuzz/findings/$name/" -print_final_stats=1 > "$log" 2>&1 || rc=$?
+        runs="$(sed -n 's/^stat::number_of_executed_units: *//p' "$log")"
+        rate="$(sed -n 's/^stat::average_exec_per_sec: *//p' "$log")"
+        if [ "$rc" -eq 0 ]; then
+            echo "fuzz: $name: ${runs:-?} executions, ${rate:-?} exec/s, 0 findings"
+        else
+            failed=1
+            echo "fuzz: $name: ${runs:-?} executions, ${rate:-?} exec/s, 1 finding (stopped; exit $rc; log $log)"
+            grep -m1 -E 'PROPERTY BROKEN|ERROR: (AddressSanitizer|LeakSanitizer|libFuzzer)|runtime error' "$log" | cut -c1-400 || true
+            sed -n 's/^.*Test unit written to /  input: /p' "$log"
+        fi
+    done
+    return "$failed"
+}
+
 case "${1:-}" in
     demo)
         install_missing "${BUILD_PACKAGES[@]}"
@@ -48,6 +85,15 @@ case "${1:-}" in
         cmake -S . -B build-sanitize -DCMAKE_BUILD_TYPE=RelWithDebInfo -DTOCSIN_SANITIZE=ON -DTOCSIN_TESTS=ON -DTOCSIN_BENCH=OFF > /dev/null
         cmake --build build-sanitize -j "$JOBS"
         (cd build-sanitize && ASAN_OPTIONS=detect_leaks=1 ctest -j "$JOBS" --output-on-failure --timeout 900 -LE reference)
+        # Third: a short run of each fuzz harness; a broken property fails the test.
+        install_missing "${FUZZ_PACKAGES[@]}"
+        build_fuzzers
+        run_fuzzers 20
+        ;;
+    fuzz)
+        install_missing "${BUILD_PACKAGES[@]}" "${FUZZ_PACKAGES[@]}"
+        build_fuzzers
+        run_fuzzers "${2:-600}"
         ;;
     build)
         install_missing "${BUILD_PACKAGES[@]}"
@@ -70,7 +116,7 @@ open("README.md", "w").write(readme[:a] + keys + readme[b:])
 PY
         ;;
     *)
-        sed -n '2,8p' "$0"
+        sed -n '2,9p' "$0"
         exit 2
         ;;
 esac

@@ -2,11 +2,13 @@
 
 #include <algorithm>
 #include <array>
+#include <cctype>
 #include <charconv>
 #include <cstdio>
 #include <cstdlib>
 #include <fstream>
 #include <iterator>
+#include <span>
 #include <stdexcept>
 
 namespace tocsin {
@@ -54,7 +56,153 @@ std::int64_t read_be(const unsigned char* p, int bytes) {
     return static_cast<std::int64_t>(v);
 }
 
+// POSIX TZ string pieces (POSIX.1-2017 section 8.3, "TZ"; RFC 8536 section 3.3).
+class TzText {
+public:
+    explicit TzText(std::string_view s) : s_(s) {}
+    bool done() const { return p_ == s_.size(); }
+    bool eat(char c) {
+        if (p_ < s_.size() && s_[p_] == c) return ++p_, true;
+        return false;
+    }
+    char peek() const { return p_ < s_.size() ? s_[p_] : '\0'; }
+    // std or dst name: three or more letters, or <...> of letters, digits, + and -.
+    bool name() {
+        std::size_t n = 0;
+        if (eat('<')) {
+            while (p_ < s_.size() && (std::isalnum(static_cast<unsigned char>(s_[p_])) || s_[p_] == '+' || s_[p_] == '-'))
+                ++p_, ++n;
+            return eat('>') && n >= 3;
+        }
+        while (p_ < s_.size() && std::isalpha(static_cast<unsigned char>(s_[p_]))) ++p_, ++n;
+        return n >= 3;
+    }
+    bool number(int max_digits, int max_value, int& out) {
+        int n = 0, v = 0;
+        while (n < max_digits && p_ < s_.size() && s_[p_] >= '0' && s_[p_] <= '9') v = v * 10 + (s_[p_++] - '0'), ++n;
+        out = v;
+        return n > 0 && v <= max_value;
+    }
+    // [+-]hh[:mm[:ss]]; `max_hours` is 24 for offsets and 167 for transition
+    // times, which RFC 8536 section 3.3.1 extends from POSIX's 0..24.
+    bool clock(int max_hours, Seconds& out) {
+        const int sign = eat('-') ? -1 : (eat('+'), 1);
+        int h = 0, m = 0, sec = 0;
+        if (!number(3, max_hours, h)) return false;
+        if (eat(':')) {
+            if (!number(2, 59, m)) return false;
+            if (eat(':') && !number(2, 59, sec)) return false;
+        }
+        out = sign * (Seconds{h} * 3600 + m * 60 + sec);
+        return true;
+    }
+    bool date(PosixTzRule::Date& d) {
+        using Kind = PosixTzRule::Date::Kind;
+        if (eat('M')) {
+            d.kind = Kind::month_week_day;
+            if (!number(2, 12, d.month) || d.month < 1 || !eat('.') || !number(1, 5, d.week) || d.week < 1 ||
+                !eat('.') || !number(1, 6, d.day))
+                return false;
+        } else if (eat('J')) {
+            d.kind = Kind::julian_no_leap;
+            if (!number(3, 365, d.day) || d.day < 1) return false;
+        } else {
+            d.kind = Kind::zero_based;
+            if (!number(3, 365, d.day)) return false;
+        }
+        d.time = 7200;  // POSIX: 02:00:00 when no time is given
+        return !eat('/') || clock(167, d.time);
+    }
+
+private:
+    std::string_view s_;
+    std::size_t p_ = 0;
+};
+
+// Day (days since the epoch) on which a rule date falls in `year`.
+std::int64_t rule_day(const PosixTzRule::Date& d, int year) {
+    using Kind = PosixTzRule::Date::Kind;
+    const std::int64_t jan1 = days_from_civil(year, 1, 1);
+    const bool leap = (year % 4 == 0 && year % 100 != 0) || year % 400 == 0;
+    switch (d.kind) {
+        case Kind::julian_no_leap:  // February 29 is never counted
+            return jan1 + d.day - 1 + (leap && d.day >= 60 ? 1 : 0);
+        case Kind::zero_based:
+            return jan1 + d.day;
+        case Kind::month_week_day: break;
+    }
+    const std::int64_t first = days_from_civil(year, d.month, 1);
+    const std::int64_t next = d.month == 12 ? days_from_civil(year + 1, 1, 1) : days_from_civil(year, d.month + 1, 1);
+    const int first_weekday = (weekday_from_days(first) + 1) % 7;  // POSIX counts 0 = Sunday
+    std::int64_t day = first + (d.day - first_weekday + 7) % 7 + 7 * (d.week - 1);
+    while (day >= next) day -= 7;  // week 5 means the last such weekday of the month
+    return day;
+}
+
 }  // namespace
+
+std::optional<PosixTzRule> PosixTzRule::parse(std::string_view text) {
+    TzText in(text);
+    PosixTzRule r;
+    Seconds west = 0;
+    if (!in.name() || !in.clock(24, west)) return std::nullopt;
+    r.std_offset = static_cast<std::int32_t>(-west);
+    if (r.std_offset <= -86400 || r.std_offset >= 86400) return std::nullopt;  // see the daylight offset below
+    if (in.done()) return r;
+    if (!in.name()) return std::nullopt;
+    r.has_dst = true;
+    r.dst_offset = r.std_offset + 3600;  // POSIX: one hour ahead of standard time when not given
+    if (in.peek() != ',') {
+        if (!in.clock(24, west)) return std::nullopt;
+        r.dst_offset = static_cast<std::int32_t>(-west);
+    }
+    if (!in.eat(',') || !in.date(r.dst_start) || !in.eat(',') || !in.date(r.dst_end) || !in.done())
+        return std::nullopt;
+    // POSIX lets hours reach 24, but an offset of a day or more has no ISO 8601
+    // form (offset hours 00-23), so format_local could not write it, and
+    // from_local assumes offsets under a day. No tz database zone comes near
+    // (the widest is 14 hours).
+    if (r.dst_offset <= -86400 || r.dst_offset >= 86400) return std::nullopt;
+    return r;
+}
+
+std::int32_t PosixTzRule::offset_at(Instant t) const {
+    if (!has_dst) return std_offset;
+    // The changes of the year around t and of the years either side, in time
+    // order; the last one at or before t says which offset is in force. Three
+    // years cover change times up to 167 hours from midnight (RFC 8536 3.3.1).
+    // Within a year the changes keep their calendar order, so a daylight time
+    // that ends as the next one begins (RFC 8536's all-year "0/0,J365/25")
+    // leaves daylight time in force.
+    struct Change {
+        Instant at;
+        bool to_dst;
+    };
+    std::array<Change, 6> changes{};
+    const int year = civil_from_instant(t + std_offset).year;
+    for (int k = 0; k < 3; ++k) {
+        const int y = year - 1 + k;
+        const Change start{rule_day(dst_start, y) * 86400 + dst_start.time - std_offset, true};
+        const Change end{rule_day(dst_end, y) * 86400 + dst_end.time - dst_offset, false};
+        changes[2 * k] = start.at <= end.at ? start : end;
+        changes[2 * k + 1] = start.at <= end.at ? end : start;
+    }
+    std::stable_sort(changes.begin(), changes.end(), [](const Change& a, const Change& b) { return a.at < b.at; });
+    bool dst = !changes.front().to_dst;
+    for (const Change& c : changes)
+        if (c.at <= t) dst = c.to_dst;
+    return dst ? dst_offset : std_offset;
+}
+
+std::optional<TimeZone> TimeZone::from_posix_rule(std::string_view tz) {
+    auto rule = PosixTzRule::parse(tz);
+    if (!rule) return std::nullopt;
+    TimeZone z;
+    z.name_ = std::string(tz);
+    z.initial_offset_ = rule->std_offset;
+    z.rule_ = rule;
+    return z;
+}
 
 TimeZone TimeZone::utc() {
     TimeZone z;
@@ -114,11 +262,19 @@ TimeZone TimeZone::load(const std::string& name) {
         z.transitions_.push_back(times[i]);
         z.offsets_.push_back(type_offset[idx[i]]);
     }
-    // A zone whose table still changes offsets relies on its footer rule after
-    // the last transition; we do not evaluate footer rules, so we refuse to
-    // answer past the table rather than guess. Debian ships "fat" files whose
-    // tables run to 2037.
-    if (!z.transitions_.empty()) {
+    // Version 2+ files end with a footer, "\n<POSIX TZ string>\n", that
+    // gives the rule after the last transition (RFC 8536 section 3.3).
+    if (time_bytes == 8) {
+        const std::size_t footer = p + typecnt * 6 + c[5] + c[2] * 12 + c[1] + c[0];
+        if (footer < data.size() && data[footer] == '\n') {
+            const auto begin = data.begin() + static_cast<std::ptrdiff_t>(footer) + 1;
+            const auto end = std::find(begin, data.end(), '\n');
+            if (end != data.end() && begin != end) z.rule_ = PosixTzRule::parse(std::string(begin, end));
+        }
+    }
+    // Without a rule, a zone whose table still changes offsets cannot be
+    // answered past the table; say where the table ends.
+    if (!z.rule_ && !z.transitions_.empty()) {
         bool has_dst_rule = false;
         for (std::size_t i = 1; i < z.offsets_.size(); ++i)
             if (z.transitions_[i] > z.transitions_.back() - days(3 * 365) && z.offsets_[i] != z.offsets_[i - 1])
@@ -129,6 +285,7 @@ TimeZone TimeZone::load(const std::string& name) {
 }
 
 std::int32_t TimeZone::offset_at(Instant t) const {
+    if (rule_ && (transitions_.empty() || t > transitions_.back())) return rule_->offset_at(t);
     if (transitions_.empty() || t < transitions_.front()) return initial_offset_;
     auto it = std::upper_bound(transitions_.begin(), transitions_.end(), t);
     return offsets_[static_cast<std::size_t>(it - transitions_.begin()) - 1];
@@ -136,22 +293,43 @@ std::int32_t TimeZone::offset_at(Instant t) const {
 
 Instant TimeZone::from_local(const CivilTime& l, LocalMapping* mapping) const {
     const Instant local = days_from_civil(l.year, l.month, l.day) * 86400 + l.hour * 3600 + l.minute * 60 + l.second;
-    // Candidate UTC instants: local - offset for each offset in force near it.
-    // Offsets never differ by more than a day, so probing +-1 day is enough.
-    const std::int32_t before = offset_at(local - 86400), after = offset_at(local + 86400);
-    Instant first = local - before, second = local - after;
-    bool first_ok = offset_at(first) == before, second_ok = offset_at(second) == after;
-    if (mapping) *mapping = LocalMapping::unique;
-    if (first_ok && second_ok) {
-        if (first != second && mapping) *mapping = LocalMapping::ambiguous_took_earlier;
-        return std::min(first, second);
+    // An instant t shows `local` when t + offset_at(t) == local. Offsets are
+    // under a day, so t lies within a day of `local` and its offset is one in
+    // force within two days of it: the one two days before, those the table
+    // changes to in between and, where the footer rule governs, the rule's
+    // two. Taking them all (not only the offsets a day either side) also
+    // sees two changes close together, such as one hour of daylight time.
+    const Instant lo = local - days(2), hi = local + days(2);
+    // In time order; a fixed array, since this runs for every naive timestamp
+    // of a log. Real tables change at most a few times in four days.
+    std::array<std::int32_t, 16> offset_list{offset_at(lo)};
+    std::size_t n = 1;
+    for (auto it = std::upper_bound(transitions_.begin(), transitions_.end(), lo);
+         it != transitions_.end() && *it <= hi && n + 2 < offset_list.size(); ++it)
+        offset_list[n++] = offsets_[static_cast<std::size_t>(it - transitions_.begin())];
+    if (rule_ && (transitions_.empty() || hi > transitions_.back())) {
+        offset_list[n++] = rule_->std_offset;
+        if (rule_->has_dst) offset_list[n++] = rule_->dst_offset;
     }
-    if (first_ok) return first;
-    if (second_ok) return second;
+    const std::span<const std::int32_t> offsets(offset_list.data(), n);
+    std::optional<Instant> earliest, latest;
+    for (const std::int32_t o : offsets) {
+        const Instant t = local - o;
+        if (offset_at(t) != o) continue;
+        earliest = std::min(earliest.value_or(t), t);
+        latest = std::max(latest.value_or(t), t);
+    }
+    if (mapping) *mapping = LocalMapping::unique;
+    if (earliest) {
+        if (*latest != *earliest && mapping) *mapping = LocalMapping::ambiguous_took_earlier;
+        return *earliest;
+    }
     // Skipped by a forward change: read with the offset before the change, which
     // lands the same distance past the change as the time was past its start.
     if (mapping) *mapping = LocalMapping::nonexistent_moved_forward;
-    return local - before;
+    for (auto o = offsets.rbegin(); o != offsets.rend(); ++o)
+        if (offset_at(local - *o) > *o) return local - *o;
+    return local - offsets.front();
 }
 
 namespace {
@@ -203,8 +381,12 @@ std::optional<Instant> parse_timestamp(std::string_view s, const TimeZone& zone,
         if (!digits(s, p, 2, oh)) return std::nullopt;
         p += 2;
         if (p < s.size() && s[p] == ':') ++p;
-        if (!digits(s, p, 2, om) || p + 2 != s.size() || oh > 23 || om > 59) return std::nullopt;
-        return as_utc - sign * (oh * 3600 + om * 60);
+        if (!digits(s, p, 2, om) || oh > 23 || om > 59) return std::nullopt;
+        p += 2;
+        int os = 0;  // seconds, as format_local writes for local mean time offsets
+        if (p < s.size() && (s[p] != ':' || !digits(s, p + 1, 2, os) || os > 59 || (p += 3) != s.size()))
+            return std::nullopt;
+        return as_utc - sign * (oh * 3600 + om * 60 + os);
     }
     return std::nullopt;
 }
@@ -228,10 +410,18 @@ std::string format_local(Instant at, const TimeZone& zone) {
     const std::int32_t off = zone.offset_at(at);
     CivilTime c = civil_from_instant(at + off);
     const int a = off < 0 ? -off : off;
-    char buf[40];
+    char buf[48];
     std::snprintf(buf, sizeof buf, "%04d-%02d-%02dT%02d:%02d:%02d%c%02d:%02d", c.year, c.month, c.day, c.hour,
                   c.minute, c.second, off < 0 ? '-' : '+', a / 3600, (a % 3600) / 60);
-    return buf;
+    std::string out = buf;
+    // Local mean time offsets (before a zone's standard time) have seconds;
+    // dropping them would name another instant. Written as Python's
+    // datetime.isoformat writes them.
+    if (a % 60) {
+        std::snprintf(buf, sizeof buf, ":%02d", a % 60);
+        out += buf;
+    }
+    return out;
 }
 
 std::string format_clock_minutes(int m) {
