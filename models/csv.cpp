@@ -1,6 +1,7 @@
 #include "models/csv.hpp"
 
 #include <algorithm>
+#include <cstdint>
 #include <cstring>
 #include <filesystem>
 
@@ -20,7 +21,11 @@ CsvReader::CsvReader(const std::string& path) : path_(path) {
         throw InputError(path, 1, 0, "", "is a directory, not a CSV file");
     file_ = std::fopen(path.c_str(), "rb");
     if (!file_) throw InputError(path, 1, 0, "", std::string("cannot open file: ") + std::strerror(errno));
-    buffer_.resize(block_size);
+    // A small file gets a small buffer: zero-filling a whole block for a
+    // few lines made every open of a small file cost milliseconds. A file
+    // whose size is unknown (a pipe) starts at a whole block.
+    const auto size = std::filesystem::file_size(path, ec);
+    buffer_.resize(ec ? block_size : static_cast<std::size_t>(std::clamp<std::uintmax_t>(size, 1, block_size)));
 }
 
 CsvReader::CsvReader(const std::string& path, long long begin, long long end) : CsvReader(path) {
@@ -28,6 +33,7 @@ CsvReader::CsvReader(const std::string& path, long long begin, long long end) : 
         throw InputError(path, 1, 0, "", "cannot seek in file");
     buffer_origin_ = begin;
     remaining_ = end - begin;
+    if (remaining_ < static_cast<long long>(buffer_.size())) buffer_.resize(static_cast<std::size_t>(std::max(1LL, remaining_)));
 }
 
 CsvReader::~CsvReader() {
