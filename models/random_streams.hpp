@@ -18,7 +18,7 @@ enum class StreamPurpose : std::uint64_t {
     stay = 2,               // entity: encounter (length of stay, outcome)
     trajectory = 3,         // entity: encounter (score values, cadence, latency)
     bootstrap = 4,          // entity: unit
-    task_minutes = 5,       // entity: entity_key(encounter, notice instant, occurrence, role name); see sim/staff.hpp
+    task_minutes = 5,       // entity: entity_key(encounter, notice instant, occurrence, escalation step); see sim/staff.hpp
     chart_openings = 6,     // entity: entity_key(encounter, opening role name)
     acceptance = 7,         // unused (was per plan); the value stays reserved
     calibration_search = 8, // entity: 0

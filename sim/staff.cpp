@@ -76,8 +76,8 @@ std::vector<bool> roles_ever_staffed(std::span<const Role> roles) {
 
 namespace {
 
-std::uint64_t minutes_entity(std::uint32_t encounter, Instant at, std::uint32_t occurrence, std::uint64_t role_key) {
-    return entity_key({encounter, static_cast<std::uint64_t>(at), occurrence, role_key});
+std::uint64_t minutes_entity(std::uint32_t encounter, Instant at, std::uint32_t occurrence, std::uint32_t step) {
+    return entity_key({encounter, static_cast<std::uint64_t>(at), occurrence, step});
 }
 
 enum class Stage : std::uint8_t { waiting, working, overtime, done };
@@ -135,7 +135,6 @@ public:
                const ShiftCalendar& calendar, Instant until, ReplicationSeed draws)
         : notices_(notices), model_(model), plan_(plan), calendar_(calendar), until_(until),
           minutes_seed_(purpose_seed(draws.seed, draws.replication, StreamPurpose::task_minutes)) {
-        for (const Role& role : model.roles) role_keys_.push_back(text_entity(role.name));
         team_base_.resize(model.roles.size());
         std::uint32_t teams = 0;
         for (std::size_t r = 0; r < model.roles.size(); ++r) {
@@ -256,7 +255,7 @@ private:
     Seconds drawn_seconds(std::uint32_t i, const TaskRecord& task) const {
         // make_short_stream(draws, task_minutes, entity), with the part of the seed shared by every task computed once.
         SplitMixEngine engine{
-            mix64(minutes_seed_ ^ minutes_entity(task.encounter, task.created, state_[i].occurrence, role_keys_[task.role]))};
+            mix64(minutes_seed_ ^ minutes_entity(task.encounter, task.created, state_[i].occurrence, task.escalations))};
         return draw_seconds(model_.roles[task.role].minutes_per_task, engine);
     }
 
@@ -422,7 +421,6 @@ private:
     const ShiftCalendar& calendar_;
     Instant until_;
     std::uint64_t minutes_seed_;
-    std::vector<std::uint64_t> role_keys_;  // text_entity of each role's name
     std::vector<std::uint32_t> team_base_;  // per role: index of its first team
     std::vector<Team> teams_;
     std::vector<TaskState> state_;
@@ -465,8 +463,8 @@ StaffRun simulate_staff(std::span<const Notice> notices, const StaffModel& model
 }
 
 std::uint64_t task_minutes_entity(std::uint32_t encounter, Instant at, std::uint32_t occurrence,
-                                  std::string_view role_name) {
-    return minutes_entity(encounter, at, occurrence, text_entity(role_name));
+                                  std::uint32_t escalation_step) {
+    return minutes_entity(encounter, at, occurrence, escalation_step);
 }
 
 }  // namespace tocsin

@@ -6,13 +6,16 @@
 // Decisions (documented here and in the README):
 // - Minutes per task are keyed by the task, not by its place in any list: the
 //   stream of (seed, replication, task_minutes, entity_key(encounter, notice
-//   instant, occurrence, role name)), drawn when the task starts at that role.
-//   `occurrence` counts earlier notices of the same encounter at the same
-//   instant in this plan (0 almost always). So the same notice for the same
-//   patient needs the same minutes at a given role in every plan, whatever the
-//   roster, the queue discipline, the other plans or the plan's position in the
-//   scenario (common random numbers); an escalated task draws afresh at each
-//   role it reaches.
+//   instant, occurrence, escalation step)), drawn when the task starts at the
+//   role that step reached. `occurrence` counts earlier notices of the same
+//   encounter at the same instant in this plan (0 almost always). So the same
+//   notice for the same patient draws the same numbers in every plan, whatever
+//   the roster, the queue discipline, the other plans or the plan's position
+//   in the scenario (common random numbers); an escalated task draws afresh at
+//   each step. The key holds the step, not the role's name: a sweep's staffing
+//   axis answers with copies of a role under other names, and two plans paging
+//   different roles should differ by the roles' minute distributions only, not
+//   by their draws.
 // - Simultaneous events run in this order: shift change, task finishes, then
 //   escalation timeouts, then new notices (in input order). So a colleague who
 //   finishes at the instant a timeout falls takes the task up before it
@@ -140,8 +143,8 @@ struct StaffRun {
 StaffRun simulate_staff(std::span<const Notice> notices, const StaffModel& model, const StaffPlan& plan,
                         const ShiftCalendar& calendar, Instant until, ReplicationSeed draws);
 
-// The task_minutes entity of a notice's task at a role (see above).
+// The task_minutes entity of a notice's task after `escalation_step` escalations (see above).
 std::uint64_t task_minutes_entity(std::uint32_t encounter, Instant at, std::uint32_t occurrence,
-                                  std::string_view role_name);
+                                  std::uint32_t escalation_step);
 
 }  // namespace tocsin

@@ -15,6 +15,7 @@
 
 #include "analysis/run.hpp"
 #include "sim/population_source.hpp"
+#include "sim/sweep.hpp"
 #include "test_support.hpp"
 
 using namespace tocsin;
@@ -204,4 +205,49 @@ escalation:
     }
     CHECK(check_same_rows(all, "chart-60", a, "chart-60") > 50);
     CHECK(check_same_rows(all, "chart-physician", b, "chart-physician") > 20);
+}
+
+TEST_CASE("common_random_numbers.staffing_sweep_points_draw_the_same_minutes") {
+    // A staffing axis answers each grid point with a copy of the role under its
+    // own name. With one cover nurse at night against twelve, queues and
+    // escalations differ, but a task evaluated by the cover nurse (no escalation)
+    // at both grid points needs the same minutes at both: the draws are keyed by
+    // the task, not by the role's name.
+    SweepRequest request;
+    request.base_plan = "page-50-thin-nights";
+    request.axes = {parse_sweep_axis("roles.cover nurse.roster.night=1,12")};
+    Scenario sc = sweep_scenario(scenario_dir + "/fernhollow-replay.yaml", request);
+    REQUIRE(sc.plans.size() == 2);
+    sc.replications = 1;
+    RunSettings settings;
+    settings.threads = 2;
+    settings.task_log = true;
+    settings.evaluate = false;
+    const RunOutput out = run_scenario(sc, population_factory(sc), settings);
+    REQUIRE(out.first_replication.task_log);
+    const Table& log = *out.first_replication.task_log;
+    const auto column = [&](const char* name) {
+        const auto at = std::find(log.columns.begin(), log.columns.end(), name) - log.columns.begin();
+        REQUIRE(static_cast<std::size_t>(at) < log.columns.size());
+        return static_cast<std::size_t>(at);
+    };
+    const std::size_t plan = column("plan"), task = column("task"), work = column("work_minutes"),
+                      escalations = column("escalations");
+    // task index -> work minutes at the first role, per grid point
+    std::map<std::string, std::map<std::string, std::string>> minutes;
+    for (const auto& row : log.rows)
+        if (cell_text(row[escalations]) == "0" && !cell_text(row[work]).empty())
+            minutes[cell_text(row[plan])][cell_text(row[task])] = cell_text(row[work]);
+    REQUIRE(minutes.size() == 2);
+    const auto& thin = minutes.begin()->second;
+    const auto& ample = std::next(minutes.begin())->second;
+    int compared = 0;
+    for (const auto& [t, m] : thin) {
+        const auto other = ample.find(t);
+        if (other == ample.end()) continue;
+        CAPTURE(t);
+        CHECK(m == other->second);
+        ++compared;
+    }
+    CHECK(compared > 500);  // page-50-thin-nights sends about 1,300 notices
 }

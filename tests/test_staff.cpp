@@ -273,7 +273,7 @@ TEST_CASE("staff.roster_by_weekday") {
 
 TEST_CASE("staff.common_random_numbers") {
     // A task needs the same minutes whatever the roster: draws are keyed by the
-    // notice and the role, so a bigger team changes waits only.
+    // notice and the escalation step, so a bigger team changes waits only.
     std::vector<Notice> notices;
     for (int k = 0; k < 40; ++k) notices.push_back(notice_at(march(2, 8, 0) + k * minutes(7)));
     auto run_with = [&](int nurses, std::uint64_t replication) {
@@ -291,7 +291,12 @@ TEST_CASE("staff.common_random_numbers") {
         differ_in_minutes_other_rep += one.tasks[k].service_seconds != other.tasks[k].service_seconds;
     }
     CHECK(differ_in_wait > 0);
-    CHECK(differ_in_minutes_other_rep == static_cast<int>(notices.size()));
+    // Another replication draws independently. Two exponential draws of mean
+    // 1,200 s rounded to whole seconds coincide with probability about
+    // 1 / (2 x 1,200) (the sum of squared point probabilities), so among 40
+    // pairs about 0.017 coincide; three or more would happen with probability
+    // under 1e-6. (This seed has one: task 33 needs 16 s in both.)
+    CHECK(differ_in_minutes_other_rep >= static_cast<int>(notices.size()) - 2);
 }
 
 TEST_CASE("staff.minutes_keyed_by_notice_not_by_position") {
@@ -300,7 +305,7 @@ TEST_CASE("staff.minutes_keyed_by_notice_not_by_position") {
     // the same minutes in b, at the first role and, after an escalation, at the
     // second. Those minutes are the first draw of the task's own stream
     // (seed, replication, task_minutes, entity of encounter, instant,
-    // occurrence, role name), computed here from the published key.
+    // occurrence, escalation step), computed here from the published key.
     const StaffModel model =
         model_of({role("ward nurse", {0, 0}, GammaMinutes{15, 6}), role("charge nurse", {3, 3}, ExponentialMinutes{20})},
                  {{"ward nurse", "charge nurse", 10}});
@@ -325,7 +330,7 @@ TEST_CASE("staff.minutes_keyed_by_notice_not_by_position") {
         CHECK(t.escalations == 1);  // nobody staffs the ward nurse role: every task reaches the charge nurse
         CHECK(t.service_seconds == minutes_in_b.at({t.encounter, t.created, 0}));
         SplitMixEngine own = make_short_stream(draws, StreamPurpose::task_minutes,
-                                               task_minutes_entity(t.encounter, t.created, 0, "charge nurse"));
+                                               task_minutes_entity(t.encounter, t.created, 0, 1));
         CHECK(t.service_seconds == draw_seconds(ExponentialMinutes{20}, own));
     }
     // The repeated notice is a task of its own with its own minutes.
