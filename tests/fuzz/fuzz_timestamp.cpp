@@ -73,9 +73,12 @@ void check(const std::string& text, const TimeZone& zone) {
         broken(where + ": read as " + utc + ", which the zone shows as " + format_local(*t, zone));
     } else if (note.mapping == LocalMapping::ambiguous_took_earlier) {
         // The later reading exists: asked - o for an offset o in force within
-        // a day after t (offsets need not be whole minutes).
+        // two days after t (offsets need not be whole minutes). Each offset is
+        // under a day, so the two readings lie less than two days apart: a
+        // rule whose daylight time is 43.5 hours behind standard time repeats
+        // 43.5 hours of wall clock.
         bool later = false;
-        for (Seconds d = 0; d <= 86400 && !later; d += 1800) {
+        for (Seconds d = 0; d <= 2 * 86400 && !later; d += 1800) {
             const Instant u = asked - zone.offset_at(*t + d);
             later = u > *t && zone.to_local_seconds(u) == asked;
         }
