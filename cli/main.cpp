@@ -15,6 +15,7 @@
 #include <unistd.h>
 
 #include "analysis/cautions.hpp"
+#include "analysis/comparison.hpp"
 #include "analysis/output.hpp"
 #include "analysis/results.hpp"
 #include "analysis/report.hpp"
@@ -186,6 +187,11 @@ int command_run(const RunOptions& opt, bool sweep) {
     std::optional<double> max_burden;
     if (!opt.max_burden.empty()) max_burden = option_real(option_specs().max_burden, "--max-burden", opt.max_burden);
     const unsigned threads = thread_count(opt.threads);
+    for (const auto& [option, name] : {std::pair{"--burden", &opt.burden_metric}, std::pair{"--benefit", &opt.benefit_metric},
+                                       std::pair{"--budget-metric", &opt.budget_metric}})
+        if (!find_metric(*name))
+            throw InputError("command line", 0, 0, option,
+                             "unknown metric '" + *name + "' (expected one of " + metric_names() + ")");
     if (!opt.out_dir.empty()) check_output_directory(opt.out_dir);  // before the long part, not after
     Scenario sc;
     if (sweep) {

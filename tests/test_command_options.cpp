@@ -94,3 +94,10 @@ TEST_CASE("options.threads_and_review_size") {
     CHECK(says(refused("review-size " + replayed + " --plan review-top4 --target-catch-rate nan", "--target-catch-rate"),
                "'nan' is not a finite number (expected 0 to 1)"));
 }
+
+TEST_CASE("options.metric_names_are_checked_first") {
+    // An unknown metric is an input error before the population is prepared.
+    for (const char* option : {"--burden", "--benefit", "--budget-metric"})
+        CHECK(says(refused("run " + generated + " " + option + " pages_per_moon", option),
+                   "unknown metric 'pages_per_moon' (expected one of"));
+}
