@@ -3,7 +3,7 @@
 
 namespace tocsin {
 
-// The cautions every report carries (DESIGN.md, "Cautions the product must carry").
+// The cautions every report carries: results rest on the scenario, not a medical device, local governance decides.
 std::string cautions_text();
 
 }  // namespace tocsin

@@ -202,7 +202,7 @@ ReportInput report_input_for_run(const Scenario& sc, const RunOutput& out, const
 
     // Lead times: the run keeps each replication's median, not every case, so
     // with several replications the chart shows how that median varies. With
-    // staff, lead time counts from the start of the evaluation (DESIGN.md).
+    // staff, lead time counts from the start of the evaluation.
     const bool with_staff = out.first_replication.staff_workload.has_value();
     if (const Metric* lead = find_metric("lead_median_h"); lead && f.replications > 1) {
         auto& series = with_staff ? in.lead_times_from_evaluation_hours : in.lead_times_hours;

@@ -1,7 +1,7 @@
 #pragma once
 // What a run reports, computed from the records of a replication. Every
-// figure is defined in DESIGN.md; the column names are stable (README,
-// "Output columns").
+// figure and its column name is defined in README, "Output columns"; the
+// names are stable.
 #include <optional>
 #include <vector>
 
