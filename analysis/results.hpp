@@ -30,7 +30,7 @@ struct PlanFigures {
     std::optional<double> sensitivity;
     std::optional<double> lead_median_hours, lead_q1_hours, lead_q3_hours;
     std::optional<double> notices_per_catch;
-    // With staff, catches and lead count from evaluation starts (DESIGN.md);
+    // With staff, catches and lead count from evaluation starts;
     // these say what the notices alone would have caught, had evaluation been instant.
     std::int64_t evaluations = 0;  // tasks started (= notices without staff)
     std::int64_t caught_by_notice = 0;

@@ -1,7 +1,7 @@
 #pragma once
 // "How long should the review list be?" For each list length N of a
 // ranked-review plan (all else as declared), on the same population:
-//   caught, catch_rate     cases reviewed within the catch window (DESIGN.md),
+//   caught, catch_rate     cases reviewed within the catch window,
 //                          as for every plan;
 //   on_list, on_list_share cases whose patient was on a top-N list at a round
 //                          within the same window, reviewed or not: the two

@@ -1,7 +1,7 @@
 #pragma once
 // What each plan costs the staff, from the task records of sim/staff.hpp.
 //
-// Meaning of the numbers (see also DESIGN.md "Work, staff, escalation"):
+// Meaning of the numbers (see also README, "Staff, queues and escalation"):
 // - A team is a role's staff on one unit (per-unit roles) or in the hospital.
 //   A team-shift is one team in one shift of the calendar that starts before
 //   the run ends; the last may be cut short by the end of the run.

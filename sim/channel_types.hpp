@@ -1,7 +1,7 @@
 #pragma once
 // What each delivery channel needs besides the rule (declared per plan), and
 // what a round of a shared-time channel (handoff list, ranked review) records.
-// Meanings are in DESIGN.md ("Rules, notices, channels") and README.
+// Meanings are in README ("The paging rule", "The other channels").
 #include <cstdint>
 #include <optional>
 #include <vector>
