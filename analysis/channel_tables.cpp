@@ -21,11 +21,11 @@ std::size_t slot_of(const ShiftCalendar& cal, const std::vector<std::size_t>& sl
 }
 
 // Roles whose openings the plan interrupts.
-std::vector<std::uint8_t> chart_roles(const Scenario& sc, const Plan& plan) {
+std::vector<std::uint8_t> chart_roles(const SimulationSetup& setup, const Plan& plan) {
     std::vector<std::uint8_t> roles;
     if (plan.chart.role) roles.push_back(*plan.chart.role);
-    else if (sc.chart_openings)
-        for (std::size_t r = 0; r < sc.chart_openings->roles.size(); ++r) roles.push_back(static_cast<std::uint8_t>(r));
+    else if (setup.chart_openings)
+        for (std::size_t r = 0; r < setup.chart_openings->roles.size(); ++r) roles.push_back(static_cast<std::uint8_t>(r));
     return roles;
 }
 
@@ -38,7 +38,7 @@ Cell summary(const std::vector<double>& values, double q) {
 
 }  // namespace
 
-ChannelBurden channel_burden(const Scenario& sc, const Population& pop, const ShiftCalendar& cal,
+ChannelBurden channel_burden(const SimulationSetup& setup, const Population& pop, const ShiftCalendar& cal,
                              const ReportingShifts& rep, const Plan& plan, const PlanRecord& record) {
     ChannelBurden b;
     const std::size_t n_units = pop.units.size(), n_shifts = rep.shifts.size();
@@ -59,8 +59,8 @@ ChannelBurden channel_burden(const Scenario& sc, const Population& pop, const Sh
         }
         case Channel::chart_interruption: {
             b.measure = "interruptions per clinician per shift";
-            const auto roles = chart_roles(sc, plan);
-            const std::size_t n_roles = sc.chart_openings ? sc.chart_openings->roles.size() : 0;
+            const auto roles = chart_roles(setup, plan);
+            const std::size_t n_roles = setup.chart_openings ? setup.chart_openings->roles.size() : 0;
             std::vector<double> count(n_units * n_shifts * n_roles, 0.0), minutes(count.size(), 0.0);
             for (const Notice& n : record.notices) {
                 const std::size_t k = slot_of(cal, slot, n.at);
@@ -72,7 +72,7 @@ ChannelBurden channel_burden(const Scenario& sc, const Population& pop, const Sh
             for (std::size_t u = 0; u < n_units; ++u)
                 for (std::size_t k = 0; k < n_shifts; ++k)
                     for (std::uint8_t r : roles) {
-                        const double heads = sc.chart_openings->roles[r].clinicians_per_unit;
+                        const double heads = setup.chart_openings->roles[r].clinicians_per_unit;
                         const std::size_t i = (u * n_shifts + k) * n_roles + r;
                         b.values.push_back(count[i] / heads);
                         b.minutes.push_back(minutes[i] / heads);
@@ -94,10 +94,10 @@ ChannelBurden channel_burden(const Scenario& sc, const Population& pop, const Sh
     return b;
 }
 
-ChannelTables channel_tables(const Scenario& sc, const Population& pop, const ShiftCalendar& cal,
+ChannelTables channel_tables(const SimulationSetup& setup, const AnalysisSettings& settings, const Population& pop, const ShiftCalendar& cal,
                              const ReplicationRecord& record) {
     ChannelTables t;
-    const ReportingShifts rep = reporting_shifts(sc, pop, cal);
+    const ReportingShifts rep = reporting_shifts(settings, pop, cal);
     t.channel_burden.name = "channel_burden";
     t.channel_burden.title = "Burden by channel, in each channel's own unit (reporting period)";
     t.channel_burden.columns = {"plan", "channel", "occasions", "notices", "evaluations", "delivery_minutes",
@@ -109,10 +109,10 @@ ChannelTables channel_tables(const Scenario& sc, const Population& pop, const Sh
     t.chart_interruptions.title = "Chart interruptions per unit, shift and opening role";
     t.chart_interruptions.columns = {"plan", "unit", "role", "shift_start", "shift", "interruptions", "clinicians",
                                      "per_clinician", "minutes"};
-    for (std::size_t p = 0; p < sc.plans.size(); ++p) {
-        const Plan& plan = sc.plans[p];
+    for (std::size_t p = 0; p < setup.plans.size(); ++p) {
+        const Plan& plan = setup.plans[p];
         const PlanRecord& rec = record.plans[p];
-        const ChannelBurden b = channel_burden(sc, pop, cal, rep, plan, rec);
+        const ChannelBurden b = channel_burden(setup, pop, cal, rep, plan, rec);
         std::int64_t evaluations = 0;
         for (const Notice& n : rec.notices) evaluations += n.asks_evaluation;
         const double minutes = delivery_minutes(plan) * static_cast<double>(rec.notices.size());
@@ -124,20 +124,20 @@ ChannelTables channel_tables(const Scenario& sc, const Population& pop, const Sh
         for (const Round& r : rec.rounds)
             t.rounds.add_row({plan.name, std::string(to_string(plan.channel)),
                               r.unit == whole_hospital ? std::string("hospital") : pop.units[r.unit],
-                              format_local(r.at, sc.zone), std::int64_t{r.listed}, std::int64_t{r.acted}, r.minutes});
+                              format_local(r.at, setup.zone), std::int64_t{r.listed}, std::int64_t{r.acted}, r.minutes});
         if (plan.channel == Channel::chart_interruption) {
             const std::size_t n_shifts = rep.shifts.size();
-            const auto roles = chart_roles(sc, plan);
+            const auto roles = chart_roles(setup, plan);
             std::size_t i = 0;
             for (std::size_t u = 0; u < pop.units.size(); ++u)
                 for (std::size_t k = 0; k < n_shifts; ++k)
                     for (std::uint8_t r : roles) {
                         const std::size_t s = rep.shifts[k];
-                        const double heads = sc.chart_openings->roles[r].clinicians_per_unit;
+                        const double heads = setup.chart_openings->roles[r].clinicians_per_unit;
                         const double per = b.values[i], mins = b.minutes[i];
                         ++i;
-                        t.chart_interruptions.add_row({plan.name, pop.units[u], sc.chart_openings->roles[r].name,
-                                                       format_local(cal.shifts()[s].start, sc.zone), cal.name_of(s),
+                        t.chart_interruptions.add_row({plan.name, pop.units[u], setup.chart_openings->roles[r].name,
+                                                       format_local(cal.shifts()[s].start, setup.zone), cal.name_of(s),
                                                        per * heads, heads, per, mins * heads});
                     }
         }

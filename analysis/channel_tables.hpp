@@ -23,7 +23,7 @@ struct ChannelBurden {
     std::vector<double> minutes;  // delivery minutes, same positions
 };
 
-ChannelBurden channel_burden(const Scenario& scenario, const Population& population, const ShiftCalendar& calendar,
+ChannelBurden channel_burden(const SimulationSetup& setup, const Population& population, const ShiftCalendar& calendar,
                              const ReportingShifts& reporting, const Plan& plan, const PlanRecord& record);
 
 struct ChannelTables {
@@ -32,7 +32,7 @@ struct ChannelTables {
     Table chart_interruptions;  // interruptions per unit x shift x role, per plan
 };
 
-ChannelTables channel_tables(const Scenario& scenario, const Population& population, const ShiftCalendar& calendar,
+ChannelTables channel_tables(const SimulationSetup& setup, const AnalysisSettings& settings, const Population& population, const ShiftCalendar& calendar,
                              const ReplicationRecord& record);
 
 // Rows for the exclusions table from a replayed chart-opening log.

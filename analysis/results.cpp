@@ -11,10 +11,10 @@
 
 namespace tocsin {
 
-ReportingShifts reporting_shifts(const Scenario& sc, const Population& pop, const ShiftCalendar& cal) {
+ReportingShifts reporting_shifts(const AnalysisSettings& settings, const Population& pop, const ShiftCalendar& cal) {
     ReportingShifts r;
-    r.from = sc.period_start.value_or(pop.period_start);
-    r.until = sc.period_end.value_or(pop.period_end);
+    r.from = settings.period_start.value_or(pop.period_start);
+    r.until = settings.period_end.value_or(pop.period_end);
     for (std::size_t k = 0; k < cal.size(); ++k) {
         const Shift& s = cal.shifts()[k];
         if (s.start >= r.from && s.end <= r.until) r.shifts.push_back(k);
@@ -22,20 +22,20 @@ ReportingShifts reporting_shifts(const Scenario& sc, const Population& pop, cons
     return r;
 }
 
-std::vector<std::optional<Instant>> first_catch(const Scenario& sc, const Population& pop,
+std::vector<std::optional<Instant>> first_catch(const AnalysisSettings& settings, const Population& pop,
                                                 const std::vector<std::pair<std::uint32_t, Instant>>& actions) {
     std::vector<std::optional<Instant>> first(pop.encounters.size());
     for (const auto& [e, at] : actions) {
         const Encounter& enc = pop.encounters[e];
         if (!enc.outcome_at) continue;
         const Instant t0 = *enc.outcome_at;
-        if (at < t0 - sc.window || at > t0 - sc.min_lead) continue;
+        if (at < t0 - settings.window || at > t0 - settings.min_lead) continue;
         if (!first[e] || at < *first[e]) first[e] = at;
     }
     return first;
 }
 
-PlanFigures plan_figures(const Scenario& sc, const Population& pop, const ShiftCalendar& cal,
+PlanFigures plan_figures(const AnalysisSettings& settings, const Population& pop, const ShiftCalendar& cal,
                          const ReportingShifts& rep, const PlanRecord& record) {
     PlanFigures f;
     const std::size_t n_units = pop.units.size(), n_shifts = rep.shifts.size();
@@ -75,7 +75,7 @@ PlanFigures plan_figures(const Scenario& sc, const Population& pop, const ShiftC
         f.per_unit_night_p90 = quantile_sorted(night, 0.9);
         f.per_unit_night_max = night.back();
     }
-    const auto noticed_at = first_catch(sc, pop, actions);
+    const auto noticed_at = first_catch(settings, pop, actions);
     f.evaluations = static_cast<std::int64_t>(actions.size());
     if (record.staff) {
         // A case is caught by the start of an evaluation, not by the notice.
@@ -96,7 +96,7 @@ PlanFigures plan_figures(const Scenario& sc, const Population& pop, const ShiftC
             f.wait_p90_minutes = quantile_sorted(waits, 0.9);
         }
     }
-    const auto caught_at = record.staff ? first_catch(sc, pop, actions) : noticed_at;
+    const auto caught_at = record.staff ? first_catch(settings, pop, actions) : noticed_at;
     {
         std::vector<bool> evaluated(pop.encounters.size(), false);
         for (const auto& [e, at] : actions) evaluated[e] = true;
@@ -137,11 +137,11 @@ Cell opt(const std::optional<double>& v) { return v ? Cell(*v) : Cell(); }
 Cell opt(const std::optional<std::int64_t>& v) { return v ? Cell(*v) : Cell(); }
 }  // namespace
 
-RunTables run_tables(const Scenario& sc, const Population& pop, const ShiftCalendar& cal,
+RunTables run_tables(const SimulationSetup& setup, const AnalysisSettings& settings, const Population& pop, const ShiftCalendar& cal,
                      const ReplicationRecord& record, bool with_notice_log, bool with_task_log,
                      const ChartOpeningLog* replayed_openings) {
     RunTables t;
-    const ReportingShifts rep = reporting_shifts(sc, pop, cal);
+    const ReportingShifts rep = reporting_shifts(settings, pop, cal);
     t.plan_summary.name = "plan_summary";
     t.plan_summary.title = "Plans compared (replication " + std::to_string(record.replication) + ")";
     t.plan_summary.columns = {"plan", "channel", "notices", "first", "repeat", "rise",
@@ -154,9 +154,9 @@ RunTables run_tables(const Scenario& sc, const Population& pop, const ShiftCalen
     t.unit_shift_notices.name = "unit_shift_notices";
     t.unit_shift_notices.title = "Notices per unit per shift";
     t.unit_shift_notices.columns = {"plan", "unit", "shift_start", "shift", "night", "notices"};
-    for (std::size_t p = 0; p < sc.plans.size(); ++p) {
-        const PlanFigures f = plan_figures(sc, pop, cal, rep, record.plans[p]);
-        t.plan_summary.add_row({sc.plans[p].name, std::string(to_string(sc.plans[p].channel)), f.notices,
+    for (std::size_t p = 0; p < setup.plans.size(); ++p) {
+        const PlanFigures f = plan_figures(settings, pop, cal, rep, record.plans[p]);
+        t.plan_summary.add_row({setup.plans[p].name, std::string(to_string(setup.plans[p].channel)), f.notices,
                                 f.notices_first, f.notices_repeat, f.notices_rise, f.per_unit_shift_mean,
                                 f.per_unit_shift_p90, f.per_unit_shift_max, opt(f.per_unit_night_mean),
                                 opt(f.per_unit_night_p90), opt(f.per_unit_night_max), f.cases, f.caught, f.missed,
@@ -168,8 +168,8 @@ RunTables run_tables(const Scenario& sc, const Population& pop, const ShiftCalen
         for (std::size_t u = 0; u < pop.units.size(); ++u)
             for (std::size_t k = 0; k < n_shifts; ++k) {
                 const std::size_t s = rep.shifts[k];
-                t.unit_shift_notices.add_row({sc.plans[p].name, pop.units[u],
-                                              format_local(cal.shifts()[s].start, sc.zone), cal.name_of(s),
+                t.unit_shift_notices.add_row({setup.plans[p].name, pop.units[u],
+                                              format_local(cal.shifts()[s].start, setup.zone), cal.name_of(s),
                                               std::int64_t{cal.is_night(s) ? 1 : 0},
                                               f.unit_shift_counts[u * n_shifts + k]});
             }
@@ -184,16 +184,16 @@ RunTables run_tables(const Scenario& sc, const Population& pop, const ShiftCalen
         t.exclusions.add_row({"skipped rows", reason + " (" + describe_lines(rows) + ")", rows.count});
     if (replayed_openings) add_chart_opening_exclusions(t.exclusions, *replayed_openings);
     {
-        ChannelTables c = channel_tables(sc, pop, cal, record);
+        ChannelTables c = channel_tables(setup, settings, pop, cal, record);
         t.channel_burden = std::move(c.channel_burden);
         t.rounds = std::move(c.rounds);
         t.chart_interruptions = std::move(c.chart_interruptions);
     }
-    if (sc.has_staff()) {
-        const StaffModel model = staff_model(sc, static_cast<std::uint32_t>(pop.units.size()));
+    if (setup.has_staff()) {
+        const StaffModel model = staff_model(setup, static_cast<std::uint32_t>(pop.units.size()));
         std::vector<PlanStaffRun> runs;
-        for (std::size_t p = 0; p < sc.plans.size(); ++p)
-            runs.push_back({sc.plans[p].name, &model, sc.plans[p].staffing, &*record.plans[p].staff});
+        for (std::size_t p = 0; p < setup.plans.size(); ++p)
+            runs.push_back({setup.plans[p].name, &model, setup.plans[p].staffing, &*record.plans[p].staff});
         // Same period as the notice counts: tasks created in it, complete shifts inside it.
         const ReportPeriod period{rep.from, rep.until};
         t.staff_workload = staff_workload_table(runs, cal, period);
@@ -203,7 +203,7 @@ RunTables run_tables(const Scenario& sc, const Population& pop, const ShiftCalen
             std::vector<std::string> ids;
             ids.reserve(pop.encounters.size());
             for (const Encounter& e : pop.encounters) ids.push_back(e.id);
-            t.task_log = task_log_table(runs, ids, pop.units, sc.zone);
+            t.task_log = task_log_table(runs, ids, pop.units, setup.zone);
         }
     }
     if (with_notice_log) {
@@ -212,30 +212,30 @@ RunTables run_tables(const Scenario& sc, const Population& pop, const ShiftCalen
         log.title = "Every notice (holds encounter ids)";
         log.columns = {"plan", "replication", "encounter", "unit", "at", "score", "reason", "channel",
                        "evaluation", "opener", "delivery_minutes"};
-        for (std::size_t p = 0; p < sc.plans.size(); ++p)
+        for (std::size_t p = 0; p < setup.plans.size(); ++p)
             for (const Notice& n : record.plans[p].notices)
-                log.add_row({sc.plans[p].name, static_cast<std::int64_t>(record.replication),
+                log.add_row({setup.plans[p].name, static_cast<std::int64_t>(record.replication),
                              pop.encounters[n.encounter].id, pop.units[n.unit], format_utc(n.at), n.score,
                              std::string(to_string(n.reason)), std::string(to_string(n.channel)),
                              std::int64_t{n.asks_evaluation ? 1 : 0},
-                             n.channel == Channel::chart_interruption && sc.chart_openings
-                                 ? Cell(sc.chart_openings->roles[n.opener_role].name)
+                             n.channel == Channel::chart_interruption && setup.chart_openings
+                                 ? Cell(setup.chart_openings->roles[n.opener_role].name)
                                  : Cell(),
-                             delivery_minutes(sc.plans[p])});
+                             delivery_minutes(setup.plans[p])});
         t.notice_log = std::move(log);
     }
     return t;
 }
 
-std::string run_header_text(const Scenario& sc, const Population& pop, const RunTables& t, const ReportingShifts& rep) {
+std::string run_header_text(const std::string& title, const TimeZone& zone, const Population& pop, const RunTables& t, const ReportingShifts& rep) {
     std::ostringstream o;
     std::int64_t cases = 0;
     for (const Encounter& e : pop.encounters) cases += e.outcome_at.has_value();
-    o << sc.name << "\n";
+    o << title << "\n";
     o << "Population: " << pop.encounters.size() << " encounters on " << pop.units.size() << " units, " << cases
       << " with the outcome, " << pop.scores.size() << " usable scores.\n";
-    o << "Per-shift figures cover " << rep.shifts.size() << " complete shifts from " << format_local(rep.from, sc.zone)
-      << " to " << format_local(rep.until, sc.zone) << ".\n";
+    o << "Per-shift figures cover " << rep.shifts.size() << " complete shifts from " << format_local(rep.from, zone)
+      << " to " << format_local(rep.until, zone) << ".\n";
     if (t.exclusions.rows.empty()) o << "Nothing was excluded.\n";
     else o << "\n" << to_text(t.exclusions);
     return o.str();
@@ -303,9 +303,9 @@ std::string plan_summary_text(const RunTables& t) {
     return o.str();
 }
 
-std::string run_summary_text(const Scenario& sc, const Population& pop, const RunTables& t,
+std::string run_summary_text(const std::string& title, const TimeZone& zone, const Population& pop, const RunTables& t,
                              const ReportingShifts& rep) {
-    return run_header_text(sc, pop, t, rep) + "\n" + plan_summary_text(t) + "\n" + cautions_text() + "\n";
+    return run_header_text(title, zone, pop, t, rep) + "\n" + plan_summary_text(t) + "\n" + cautions_text() + "\n";
 }
 
 }  // namespace tocsin

@@ -7,7 +7,8 @@
 
 #include "analysis/table.hpp"
 #include "models/population.hpp"
-#include "sim/scenario.hpp"
+#include "analysis/settings.hpp"
+#include "sim/setup.hpp"
 #include "sim/simulate.hpp"
 
 namespace tocsin {
@@ -17,7 +18,7 @@ struct ReportingShifts {
     std::vector<std::size_t> shifts;  // indices into the calendar, ascending
     Instant from = 0, until = 0;
 };
-ReportingShifts reporting_shifts(const Scenario& scenario, const Population& population, const ShiftCalendar& calendar);
+ReportingShifts reporting_shifts(const AnalysisSettings& settings, const Population& population, const ShiftCalendar& calendar);
 
 struct PlanFigures {
     std::int64_t notices = 0;
@@ -42,10 +43,10 @@ struct PlanFigures {
 
 // First instant, per encounter, of a catching action; nothing when not caught.
 // `action_at` lists (encounter, instant) pairs in any order.
-std::vector<std::optional<Instant>> first_catch(const Scenario& scenario, const Population& population,
+std::vector<std::optional<Instant>> first_catch(const AnalysisSettings& settings, const Population& population,
                                                 const std::vector<std::pair<std::uint32_t, Instant>>& actions);
 
-PlanFigures plan_figures(const Scenario& scenario, const Population& population, const ShiftCalendar& calendar,
+PlanFigures plan_figures(const AnalysisSettings& settings, const Population& population, const ShiftCalendar& calendar,
                          const ReportingShifts& reporting, const PlanRecord& record);
 
 struct RunTables {
@@ -62,16 +63,16 @@ struct RunTables {
 };
 
 // `replayed_openings`: the replayed chart-opening log, for its exclusions.
-RunTables run_tables(const Scenario& scenario, const Population& population, const ShiftCalendar& calendar,
+RunTables run_tables(const SimulationSetup& setup, const AnalysisSettings& settings, const Population& population, const ShiftCalendar& calendar,
                      const ReplicationRecord& record, bool with_notice_log, bool with_task_log = false,
                      const ChartOpeningLog* replayed_openings = nullptr);
 
 // Parts of the terminal summary: the population and exclusions; the plan table.
-std::string run_header_text(const Scenario& scenario, const Population& population, const RunTables& tables,
+std::string run_header_text(const std::string& title, const TimeZone& zone, const Population& population, const RunTables& tables,
                             const ReportingShifts& reporting);
 std::string plan_summary_text(const RunTables& tables);
 // A readable terminal summary of a run of one replication.
-std::string run_summary_text(const Scenario& scenario, const Population& population, const RunTables& tables,
+std::string run_summary_text(const std::string& title, const TimeZone& zone, const Population& population, const RunTables& tables,
                              const ReportingShifts& reporting);
 
 }  // namespace tocsin

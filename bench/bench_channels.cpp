@@ -76,7 +76,7 @@ int main(int argc, char** argv) {
     std::printf("bench_channels: %d beds, %d days: %zu encounters, %zu scores, built in %.2f s\n", beds, days,
                 pop.encounters.size(), pop.scores.size(), seconds_since(t0));
 
-    Scenario base;
+    SimulationSetup base;
     base.zone = TimeZone::load("America/Chicago");
     base.shifts = ShiftPattern{{7 * 60, 19 * 60}, {"day", "night"}, {false, true}};
     ChartOpeningRole nurse;
@@ -84,7 +84,7 @@ int main(int argc, char** argv) {
     nurse.clinicians_per_unit = 5;
     nurse.openings_per_hour.fill(0.8);
     base.chart_openings = ChartOpeningSource{{nurse}, ""};
-    const ShiftCalendar cal = calendar_for(base, pop);
+    const ShiftCalendar cal = calendar_for(base, pop, std::nullopt, std::nullopt);
 
     Plan page;
     page.name = "page";
@@ -103,11 +103,11 @@ int main(int argc, char** argv) {
     review.name = "review";
     review.channel = Channel::ranked_review;
     review.rule.threshold = 40;
-    review.rule.snooze = hours(12);
+    review.review.skip_reviewed = hours(12);
     review.review.times_minutes = {8 * 60, 20 * 60};
     review.review.top_n = 5;
     for (const Plan& plan : {page, chart, handoff, review}) {
-        Scenario sc = base;
+        SimulationSetup sc = base;
         sc.plans = {plan};
         t0 = std::chrono::steady_clock::now();
         const ReplicationRecord r = simulate_replication(sc, pop, cal, 0, threads);

@@ -20,6 +20,7 @@
 #include "models/random_streams.hpp"
 #include "models/replay.hpp"
 #include "sim/simulate.hpp"
+#include "study/scenario.hpp"
 
 using namespace tocsin;
 
@@ -105,10 +106,10 @@ std::size_t write_log(const std::string& dir, int beds, int days) {
 Scenario bench_scenario(const std::string& dir) {
     Scenario sc;
     sc.name = "benchmark";
-    sc.shifts = ShiftPattern{{7 * 60, 19 * 60}, {"day", "night"}, {false, true}};
-    sc.replay = ReplaySource{dir + "/encounters.csv", dir + "/scores.csv", 0};
-    sc.window = hours(24);
-    sc.min_lead = hours(1);
+    sc.simulation.shifts = ShiftPattern{{7 * 60, 19 * 60}, {"day", "night"}, {false, true}};
+    sc.population.replay = ReplaySource{dir + "/encounters.csv", dir + "/scores.csv", 0};
+    sc.analysis.window = hours(24);
+    sc.analysis.min_lead = hours(1);
     const double thresholds[] = {50, 55, 60, 70};
     for (int i = 0; i < 4; ++i) {
         Plan p;
@@ -118,7 +119,7 @@ Scenario bench_scenario(const std::string& dir) {
         if (i == 1) p.rule.rise = 10;
         if (i == 2) { p.rule.persistence = 2; p.rule.rearm_below = 45; p.rule.max_per_shift = 2; }
         if (i == 3) p.staffing.discipline = QueueDiscipline::priority_by_score;
-        sc.plans.push_back(p);
+        sc.simulation.plans.push_back(p);
     }
     return sc;
 }
@@ -162,40 +163,40 @@ int main(int argc, char** argv) {
     }
     const Scenario sc = bench_scenario(dir);
     t = std::chrono::steady_clock::now();
-    const Population pop = load_replay(sc.replay, TimeZone::utc());
+    const Population pop = load_replay(sc.population.replay, TimeZone::utc());
     const double ingest = seconds_since(t);
     const double rows = static_cast<double>(pop.scores.size() + pop.excluded.total_scores());
     std::printf("ingest: %.0f score rows + %zu encounters in %.2f s = %.2f million rows/s; peak RSS so far %ld MiB\n",
                 rows, pop.encounters.size(), ingest, rows / ingest / 1e6, peak_rss_mib());
     t = std::chrono::steady_clock::now();
     const ShiftCalendar cal = calendar_for(sc, pop);
-    const ReplicationRecord rec = simulate_replication(sc, pop, cal, 0, threads);
+    const ReplicationRecord rec = simulate_replication(sc.simulation, pop, cal, 0, threads);
     const double replay = seconds_since(t);
     std::size_t notices = 0;
     for (const auto& p : rec.plans) notices += p.notices.size();
     std::printf("replay: 4 plans x %zu scores in %.2f s (%u threads) = %.1f million score evaluations/s; %zu notices\n",
                 pop.scores.size(), replay, threads, 4.0 * static_cast<double>(pop.scores.size()) / replay / 1e6, notices);
     t = std::chrono::steady_clock::now();
-    const RunTables tables = run_tables(sc, pop, cal, rec, false);
+    const RunTables tables = run_tables(sc.simulation, sc.analysis, pop, cal, rec, false);
     std::printf("results: tables in %.2f s; replay + results %.2f s\n", seconds_since(t), replay + seconds_since(t));
     // The same replay with staff and escalation (issue 3's speed goal: under 2x the time without).
     Scenario staffed = sc;
-    staffed.roles = bench_roles();
+    staffed.simulation.roles = bench_roles();
     const std::vector<std::string> role_names = {"ward nurse", "charge nurse", "rapid response nurse"};
     const std::vector<EscalationEdge> edges = {{"ward nurse", "charge nurse", 10},
                                                {"charge nurse", "rapid response nurse", 15}};
-    staffed.escalation = build_escalation_graph(role_names, edges, roles_ever_staffed(staffed.roles));
+    staffed.simulation.escalation = build_escalation_graph(role_names, edges, roles_ever_staffed(staffed.simulation.roles));
     // Best of five runs each, alternating, so a busy machine hurts both alike;
     // each record is freed outside the timed region.
     double without_staff = replay, with_staff = 1e300;
     ReplicationRecord staffed_rec;
     for (int repeat = 0; repeat < 5; ++repeat) {
         t = std::chrono::steady_clock::now();
-        ReplicationRecord with = simulate_replication(staffed, pop, cal, 0, threads);
+        ReplicationRecord with = simulate_replication(staffed.simulation, pop, cal, 0, threads);
         with_staff = std::min(with_staff, seconds_since(t));
         staffed_rec = std::move(with);
         t = std::chrono::steady_clock::now();
-        const ReplicationRecord again = simulate_replication(sc, pop, cal, 0, threads);
+        const ReplicationRecord again = simulate_replication(sc.simulation, pop, cal, 0, threads);
         without_staff = std::min(without_staff, seconds_since(t));
     }
     std::size_t tasks = 0;
@@ -204,7 +205,7 @@ int main(int argc, char** argv) {
                 "%zu tasks, staff part %.2f s\n",
                 with_staff, with_staff / without_staff, without_staff, tasks, with_staff - without_staff);
     t = std::chrono::steady_clock::now();
-    const RunTables staffed_tables = run_tables(staffed, pop, cal, staffed_rec, false);
+    const RunTables staffed_tables = run_tables(staffed.simulation, staffed.analysis, pop, cal, staffed_rec, false);
     std::printf("results with staff tables: %.2f s\n", seconds_since(t));
     std::printf("peak RSS: %ld MiB\n", peak_rss_mib());
     if (!keep) std::filesystem::remove_all(dir);

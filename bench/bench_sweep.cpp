@@ -7,7 +7,7 @@
 #include <string>
 #include <thread>
 
-#include "analysis/run.hpp"
+#include "report/run_files.hpp"
 #include "models/generator.hpp"
 
 using namespace tocsin;
@@ -38,10 +38,10 @@ GeneratorConfig hospital() {
 Scenario sweep_of_100(std::uint64_t replications) {
     Scenario sc;
     sc.name = "bench sweep";
-    sc.shifts = ShiftPattern{{7 * 60, 19 * 60}, {"day", "night"}, {false, true}};
+    sc.simulation.shifts = ShiftPattern{{7 * 60, 19 * 60}, {"day", "night"}, {false, true}};
     sc.replications = replications;
-    sc.window = hours(24);
-    sc.min_lead = hours(1);
+    sc.analysis.window = hours(24);
+    sc.analysis.min_lead = hours(1);
     for (int t = 0; t < 10; ++t)
         for (int s = 0; s < 10; ++s) {
             Plan p;
@@ -49,7 +49,7 @@ Scenario sweep_of_100(std::uint64_t replications) {
             p.rule.threshold = 40 + 4 * t;
             p.rule.snooze = minutes(30 * (s + 1));
             p.rule.rise = 12;
-            sc.plans.push_back(p);
+            sc.simulation.plans.push_back(p);
         }
     return sc;
 }
@@ -82,7 +82,7 @@ int main(int argc, char** argv) {
             one_thread = s;
         }
         std::printf("sweep: %zu plans x %llu replications, 200 beds x 90 days, %u thread%s: %.2f s (speed-up %.2fx)%s\n",
-                    sc.plans.size(), static_cast<unsigned long long>(replications), threads, threads == 1 ? "" : "s", s,
+                    sc.simulation.plans.size(), static_cast<unsigned long long>(replications), threads, threads == 1 ? "" : "s", s,
                     one_thread / s, tables == first ? "" : "  TABLES DIFFER");
     }
     return 0;

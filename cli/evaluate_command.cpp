@@ -6,12 +6,12 @@
 
 #include "analysis/cautions.hpp"
 #include "analysis/evaluation.hpp"
-#include "analysis/evaluation_scenario.hpp"
-#include "analysis/output.hpp"
+#include "study/evaluation_scenario.hpp"
+#include "report/output.hpp"
 #include "cli/option_specs.hpp"
 #include "models/errors.hpp"
-#include "sim/population_source.hpp"
-#include "sim/scenario.hpp"
+#include "models/population_source.hpp"
+#include "study/scenario.hpp"
 
 namespace tocsin {
 
@@ -112,8 +112,8 @@ int run_evaluate_command(const EvaluateCommand& c) {
 
     if (!c.out_dir.empty()) check_output_directory(c.out_dir);
     const Scenario sc = load_scenario(c.scenario);
-    const PreparedPopulation prepared = prepare_population(sc);
-    const Population pop = population_for(sc, prepared, replication);
+    const PreparedPopulation prepared = prepare_population(sc.population);
+    const Population pop = population_for(sc.population, prepared, replication);
 
     EvaluationOptions o = evaluation_options_for(sc);
     o.thresholds = thresholds;

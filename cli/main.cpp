@@ -16,24 +16,24 @@
 
 #include "analysis/cautions.hpp"
 #include "analysis/comparison.hpp"
-#include "analysis/output.hpp"
+#include "report/output.hpp"
 #include "analysis/results.hpp"
-#include "analysis/report.hpp"
-#include "analysis/report_evaluation.hpp"
-#include "analysis/report_run.hpp"
-#include "analysis/run.hpp"
-#include "analysis/shift_effect.hpp"
+#include "report/report.hpp"
+#include "report/report_evaluation.hpp"
+#include "report/report_run.hpp"
+#include "report/run_files.hpp"
+#include "study/shift_effect.hpp"
 #include "cli/evaluate_command.hpp"
 #include "cli/option_specs.hpp"
-#include "sim/population_source.hpp"
-#include "analysis/review_size.hpp"
+#include "models/population_source.hpp"
+#include "study/review_size.hpp"
 #include "models/errors.hpp"
 #include "models/fit.hpp"
 #include "models/replay.hpp"
-#include "sim/scenario.hpp"
-#include "sim/scenario_keys.hpp"
+#include "study/scenario.hpp"
+#include "study/scenario_keys.hpp"
 #include "sim/simulate.hpp"
-#include "sim/sweep.hpp"
+#include "study/sweep.hpp"
 
 using namespace tocsin;
 
@@ -106,8 +106,8 @@ ProgressReport progress_bar() {
 
 // The replayed chart-opening log, when the scenario replays one.
 std::optional<ChartOpeningLog> replayed_openings(const Scenario& sc, const Population& pop) {
-    if (!sc.chart_openings || sc.chart_openings->replay_path.empty()) return std::nullopt;
-    return load_chart_openings(sc.chart_openings->replay_path, sc.chart_openings->roles, pop, sc.zone, sc.replay.bad_rows);
+    if (!sc.simulation.chart_openings || sc.simulation.chart_openings->replay_path.empty()) return std::nullopt;
+    return load_chart_openings(sc.simulation.chart_openings->replay_path, sc.simulation.chart_openings->roles, pop, sc.simulation.zone, sc.population.replay.bad_rows);
 }
 
 struct SizeOptions {
@@ -135,13 +135,13 @@ int command_review_size(const SizeOptions& opt) {
     const double target = option_real(option_specs().target_catch_rate, "--target-catch-rate", opt.target);
     const Scenario sc = load_scenario(opt.scenario);
     std::size_t p = 0;
-    while (p < sc.plans.size() && sc.plans[p].name != opt.plan) ++p;
-    if (p == sc.plans.size()) throw std::invalid_argument("no plan named '" + opt.plan + "' in " + opt.scenario);
+    while (p < sc.simulation.plans.size() && sc.simulation.plans[p].name != opt.plan) ++p;
+    if (p == sc.simulation.plans.size()) throw std::invalid_argument("no plan named '" + opt.plan + "' in " + opt.scenario);
     if (!opt.out_dir.empty()) check_output_directory(opt.out_dir);
-    if (sc.plans[p].channel != Channel::ranked_review)
-        throw std::invalid_argument("plan '" + opt.plan + "' is a " + std::string(to_string(sc.plans[p].channel)) +
+    if (sc.simulation.plans[p].channel != Channel::ranked_review)
+        throw std::invalid_argument("plan '" + opt.plan + "' is a " + std::string(to_string(sc.simulation.plans[p].channel)) +
                                     " plan; list sizing needs a ranked_review plan");
-    const Population pop = population_for(sc, prepare_population(sc), 0);
+    const Population pop = population_for(sc.population, prepare_population(sc.population), 0);
     const ShiftCalendar cal = calendar_for(sc, pop);
     const ReviewSizing sizing = size_review_list(sc, pop, cal, p, from, to, target);
     const Table table = review_size_table(sizing);
@@ -159,9 +159,9 @@ int command_review_size(const SizeOptions& opt) {
 int command_check(const std::string& path) {
     const Scenario sc = load_scenario(path);
     std::cout << describe_scenario(sc);
-    const PreparedPopulation prepared = prepare_population(sc);
-    std::cout << describe_prepared(sc, prepared);
-    const Population pop = population_for(sc, prepared, 0);
+    const PreparedPopulation prepared = prepare_population(sc.population);
+    std::cout << describe_prepared(sc.population, prepared);
+    const Population pop = population_for(sc.population, prepared, 0);
     std::int64_t cases = 0;
     for (const Encounter& e : pop.encounters) cases += e.outcome_at.has_value();
     std::cout << "Input: " << pop.encounters.size() << " encounters on " << pop.units.size() << " units ("
@@ -200,17 +200,17 @@ int command_run(const RunOptions& opt, bool sweep) {
         for (const auto& v : opt.vary) request.axes.push_back(parse_sweep_axis(v));
         request.keep_other_plans = opt.keep_plans;
         sc = sweep_scenario(opt.scenario, request);
-        std::cout << "Sweep: " << sc.plans.size() << " plans\n";
+        std::cout << "Sweep: " << sc.simulation.plans.size() << " plans\n";
     } else {
         sc = load_scenario(opt.scenario);
     }
     if (!opt.replications.empty()) override_replications(sc, "--replications", opt.replications);
-    const PreparedPopulation prepared = prepare_population(sc);
-    std::cout << describe_prepared(sc, prepared);
-    const PopulationFactory factory = population_factory(sc, prepared);
+    const PreparedPopulation prepared = prepare_population(sc.population);
+    std::cout << describe_prepared(sc.population, prepared);
+    const PopulationFactory factory = population_factory(sc.population, prepared);
     std::optional<ChartOpeningLog> openings;
-    if (sc.chart_openings && !sc.chart_openings->replay_path.empty()) {
-        if (!prepared.log || sc.bootstrap)
+    if (sc.simulation.chart_openings && !sc.simulation.chart_openings->replay_path.empty()) {
+        if (!prepared.log || sc.population.bootstrap)
             throw InputError(sc.file, 0, 0, "chart_openings.replay",
                              "replayed chart openings belong to the replayed log; with a bootstrapped or generated "
                              "population, generate chart openings (openings_per_hour) instead");
@@ -229,7 +229,7 @@ int command_run(const RunOptions& opt, bool sweep) {
     const RunOutput out = run_scenario(sc, factory, settings);
     std::cout << out.text;
     std::optional<ShiftEffect> effect;
-    if (sc.shift) {
+    if (sc.population.shift) {
         effect = shift_effect(sc, factory, settings.threads);
         std::cout << "\n" << effect->text;
     }
@@ -261,14 +261,14 @@ int command_run(const RunOptions& opt, bool sweep) {
 // (or write) them as an editable `population: generate:` fragment.
 int command_fit(const FitCommand& cmd) {
     const Scenario sc = load_scenario(cmd.scenario);
-    if (sc.source != PopulationSource::replay)
+    if (sc.population.source != PopulationSource::replay)
         throw InputError(sc.file, 0, 0, "population", "tocsin fit needs a scenario that replays a log (population: replay:)");
     FitOptions options;
-    options.zone = sc.zone;
+    options.zone = sc.simulation.zone;
     options.scale = cmd.scale == "probability" ? ScoreScale::probability : ScoreScale::points;
     options.stay_distribution = cmd.stay == "gamma" ? StayDistribution::gamma : StayDistribution::lognormal;
     options.arrivals_by_hour_of_day = cmd.by_hour_of_day;
-    const GeneratorFit fit = fit_generator(load_replay(sc.replay, sc.zone), options);
+    const GeneratorFit fit = fit_generator(load_replay(sc.population.replay, sc.simulation.zone), options);
     const std::string fragment = scenario_fragment(fit.config, fit.notes);
     if (cmd.out_path.empty()) {
         std::cout << fragment;

@@ -2,11 +2,11 @@
 // Ranges of the command-line options that stand for no scenario key. An
 // option that overrides a key (--replications, evaluate's --window-hours)
 // uses that key's KeySpec instead, so its range is declared once, in
-// sim/scenario_schema.cpp. Both kinds are read with option_real /
-// option_integer (sim/scenario_keys.hpp), the check scenario keys get.
+// study/scenario_schema.cpp. Both kinds are read with option_real /
+// option_integer (study/scenario_keys.hpp), the check scenario keys get.
 #include <string_view>
 
-#include "sim/scenario_keys.hpp"
+#include "study/scenario_keys.hpp"
 
 namespace tocsin {
 

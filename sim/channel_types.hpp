@@ -30,6 +30,7 @@ struct ReviewSettings {
     ReviewScope scope = ReviewScope::unit;
     double minutes_per_review = 0.0;
     std::optional<int> max_reviews_per_round;  // the team's capacity; none: every listed patient is reviewed
+    std::optional<Seconds> skip_reviewed;      // a reviewed patient stays off the lists this long; none: no skip
 };
 
 inline constexpr std::uint32_t whole_hospital = UINT32_MAX;

@@ -21,18 +21,18 @@ double delivery_minutes(const Plan& plan) {
     return 0.0;
 }
 
-void openings_for_encounter(const Scenario& sc, const Population& pop, const ChartOpeningLog* replayed,
+void openings_for_encounter(const SimulationSetup& setup, const Population& pop, const ChartOpeningLog* replayed,
                             std::size_t e, std::uint64_t replication, EncounterOpenings& out) {
     out.openings.clear();
     out.acceptance_draws.clear();
-    if (!sc.chart_openings) return;
-    const auto& roles = sc.chart_openings->roles;
-    if (!sc.chart_openings->replay_path.empty()) {
+    if (!setup.chart_openings) return;
+    const auto& roles = setup.chart_openings->roles;
+    if (!setup.chart_openings->replay_path.empty()) {
         if (!replayed) throw std::logic_error("the scenario replays chart openings but none were loaded");
         const auto span = replayed->of(e);
         out.openings.assign(span.begin(), span.end());
     } else {
-        generate_chart_openings(roles, pop.encounters[e], e, sc.zone, ReplicationSeed{sc.seed, replication},
+        generate_chart_openings(roles, pop.encounters[e], e, setup.zone, ReplicationSeed{setup.seed, replication},
                                 out.openings);
     }
     if (out.role_keys.size() != roles.size()) {
@@ -47,7 +47,7 @@ void openings_for_encounter(const Scenario& sc, const Population& pop, const Cha
         std::uint64_t occurrence = 0;
         for (std::size_t j = i; j > 0 && out.openings[j - 1].at == o.at;) occurrence += out.openings[--j].role == o.role;
         SplitMixEngine accept = make_short_stream(
-            ReplicationSeed{sc.seed, replication}, StreamPurpose::chart_acceptance,
+            ReplicationSeed{setup.seed, replication}, StreamPurpose::chart_acceptance,
             entity_key({e, out.role_keys[o.role], static_cast<std::uint64_t>(o.at), occurrence}));
         out.acceptance_draws.push_back(draw(accept));
     }
@@ -126,12 +126,12 @@ bool ranks_before(const Candidate& a, const Candidate& b) {
 
 }  // namespace
 
-PlanRecord run_round_channel(const Scenario& sc, const Population& pop, const ShiftCalendar& cal, const Plan& plan,
+PlanRecord run_round_channel(const SimulationSetup& setup, const Population& pop, const ShiftCalendar& cal, const Plan& plan,
                              std::uint32_t plan_index, std::uint64_t replication) {
     PlanRecord record;
     const bool handoff = plan.channel == Channel::handoff_list;
     if (pop.encounters.empty()) return record;
-    const std::vector<int>& times = handoff ? (plan.handoff.times_minutes.empty() ? sc.shifts.start_minutes
+    const std::vector<int>& times = handoff ? (plan.handoff.times_minutes.empty() ? setup.shifts.start_minutes
                                                                                    : plan.handoff.times_minutes)
                                             : plan.review.times_minutes;
     Instant from = INT64_MAX, to = INT64_MIN;
@@ -144,19 +144,20 @@ PlanRecord run_round_channel(const Scenario& sc, const Population& pop, const Sh
     std::stable_sort(by_admission.begin(), by_admission.end(), [&](std::uint32_t a, std::uint32_t b) {
         return pop.encounters[a].admitted < pop.encounters[b].admitted;
     });
-    const RuleClock clock{&sc.zone, &cal};
+    const RuleClock clock{&setup.zone, &cal};
+    const Rule rule = channel_rule(plan);
     const std::size_t n_units = pop.units.size();
     std::map<std::uint32_t, Inpatient> census;  // ordered by encounter index
     std::size_t next_admission = 0;
     boost::random::uniform_01<double> draw;
     const int capacity = plan.review.max_reviews_per_round.value_or(INT_MAX);
 
-    for (const Instant t : daily_instants(times, sc.zone, from, to)) {
+    for (const Instant t : daily_instants(times, setup.zone, from, to)) {
         for (; next_admission < by_admission.size() && pop.encounters[by_admission[next_admission]].admitted <= t;
              ++next_admission) {
             const std::uint32_t e = by_admission[next_admission];
             if (Population::usable_until(pop.encounters[e]) <= t) continue;
-            census.try_emplace(e, plan.rule, clock);
+            census.try_emplace(e, rule, clock);
         }
         std::erase_if(census, [&](const auto& item) { return Population::usable_until(pop.encounters[item.first]) <= t; });
         for (auto& [e, patient] : census) {
@@ -184,7 +185,7 @@ PlanRecord run_round_channel(const Scenario& sc, const Population& pop, const Sh
                 Notice n = notice(e, *reason, patient.rule.latest());
                 // Keyed by patient and handoff instant: the same draw in every plan
                 // flagging this patient at this handoff, whatever its other handoff times.
-                SplitMixEngine follow_up = make_short_stream(ReplicationSeed{sc.seed, replication},
+                SplitMixEngine follow_up = make_short_stream(ReplicationSeed{setup.seed, replication},
                                                              StreamPurpose::handoff_follow_up,
                                                              entity_key({e, static_cast<std::uint64_t>(t)}));
                 n.asks_evaluation = draw(follow_up) < plan.handoff.follow_up_probability;

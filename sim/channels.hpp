@@ -23,7 +23,7 @@
 #include "models/chart_openings.hpp"
 #include "models/population.hpp"
 #include "sim/rules.hpp"
-#include "sim/scenario.hpp"
+#include "sim/setup.hpp"
 #include "sim/simulate.hpp"
 
 namespace tocsin {
@@ -45,7 +45,7 @@ struct EncounterOpenings {
 };
 
 // Replayed (from `replayed`) or generated openings of encounter `e`.
-void openings_for_encounter(const Scenario& scenario, const Population& population,
+void openings_for_encounter(const SimulationSetup& setup, const Population& population,
                             const ChartOpeningLog* replayed, std::size_t e, std::uint64_t replication,
                             EncounterOpenings& out);
 
@@ -62,9 +62,9 @@ std::vector<Instant> daily_instants(const std::vector<int>& times_minutes, const
                                     Instant to);
 
 // A handoff-list or ranked-review plan as a sweep over its rounds in time order,
-// keeping the census of current inpatients. `plan` overrides scenario.plans[plan_index]
-// (used to size a review list without copying the scenario).
-PlanRecord run_round_channel(const Scenario& scenario, const Population& population, const ShiftCalendar& calendar,
+// keeping the census of current inpatients. `plan` overrides setup.plans[plan_index]
+// (used to size a review list without copying the setup).
+PlanRecord run_round_channel(const SimulationSetup& setup, const Population& population, const ShiftCalendar& calendar,
                              const Plan& plan, std::uint32_t plan_index, std::uint64_t replication);
 
 }  // namespace tocsin

@@ -9,30 +9,31 @@
 
 namespace tocsin {
 
-ShiftCalendar calendar_for(const Scenario& scenario, const Population& population) {
+ShiftCalendar calendar_for(const SimulationSetup& setup, const Population& population, std::optional<Instant> cover_from,
+                           std::optional<Instant> cover_until) {
     Instant from = population.period_start, to = population.period_end;
     for (const Encounter& e : population.encounters) {
         from = std::min(from, e.admitted);
         to = std::max(to, e.discharged);
     }
-    if (scenario.period_start) from = std::min(from, *scenario.period_start);
-    if (scenario.period_end) to = std::max(to, *scenario.period_end);
-    return ShiftCalendar(scenario.shifts, scenario.zone, from, to + 1);
+    if (cover_from) from = std::min(from, *cover_from);
+    if (cover_until) to = std::max(to, *cover_until);
+    return ShiftCalendar(setup.shifts, setup.zone, from, to + 1);
 }
 
-ReplicationRecord simulate_replication(const Scenario& scenario, const Population& population,
+ReplicationRecord simulate_replication(const SimulationSetup& setup, const Population& population,
                                        const ShiftCalendar& calendar, std::uint64_t replication, unsigned threads,
                                        const ChartOpeningLog* replayed_openings) {
-    const std::size_t n_plans = scenario.plans.size();
+    const std::size_t n_plans = setup.plans.size();
     const std::size_t n_enc = population.encounters.size();
     threads = std::max(1u, std::min<unsigned>(threads, static_cast<unsigned>(std::max<std::size_t>(1, n_enc / 1024))));
     // blocks[b][plan]: notices of encounters in block b, in encounter order.
     std::vector<std::vector<std::vector<Notice>>> blocks(threads, std::vector<std::vector<Notice>>(n_plans));
-    const RuleClock clock{&scenario.zone, &calendar};
+    const RuleClock clock{&setup.zone, &calendar};
     std::vector<std::vector<std::int64_t>> occasions(threads, std::vector<std::int64_t>(n_plans, 0));
-    const bool any_chart = std::any_of(scenario.plans.begin(), scenario.plans.end(),
+    const bool any_chart = std::any_of(setup.plans.begin(), setup.plans.end(),
                                        [](const Plan& p) { return p.channel == Channel::chart_interruption; });
-    if (any_chart && scenario.chart_openings && !scenario.chart_openings->replay_path.empty() && !replayed_openings)
+    if (any_chart && setup.chart_openings && !setup.chart_openings->replay_path.empty() && !replayed_openings)
         throw std::logic_error("the scenario replays chart openings but none were passed to the simulation");
     auto work = [&](unsigned b) {
         const std::size_t first = n_enc * b / threads, last = n_enc * (b + 1) / threads;
@@ -43,10 +44,10 @@ ReplicationRecord simulate_replication(const Scenario& scenario, const Populatio
             const auto enc = static_cast<std::uint32_t>(e);
             const std::uint32_t unit = population.encounters[e].unit;
             // Openings are drawn once per encounter and shared by every chart plan.
-            if (any_chart) openings_for_encounter(scenario, population, replayed_openings, e, replication, openings);
+            if (any_chart) openings_for_encounter(setup, population, replayed_openings, e, replication, openings);
             // All plans for one encounter while its scores are in cache.
             for (std::size_t p = 0; p < n_plans; ++p) {
-                const Plan& plan = scenario.plans[p];
+                const Plan& plan = setup.plans[p];
                 const auto pi = static_cast<std::uint32_t>(p);
                 if (plan.channel == Channel::page) {
                     fire_page_rule(plan.rule, clock, scores, enc, unit, pi, plan.channel, blocks[b][p]);
@@ -71,9 +72,9 @@ ReplicationRecord simulate_replication(const Scenario& scenario, const Populatio
     record.plans.resize(n_plans);
     for (std::size_t p = 0; p < n_plans; ++p) {
         auto& out = record.plans[p].notices;
-        const Plan& plan = scenario.plans[p];
+        const Plan& plan = setup.plans[p];
         if (plan.channel == Channel::handoff_list || plan.channel == Channel::ranked_review) {
-            record.plans[p] = run_round_channel(scenario, population, calendar, plan, static_cast<std::uint32_t>(p),
+            record.plans[p] = run_round_channel(setup, population, calendar, plan, static_cast<std::uint32_t>(p),
                                                 replication);
             continue;
         }
@@ -89,10 +90,10 @@ ReplicationRecord simulate_replication(const Scenario& scenario, const Populatio
         }
         std::stable_sort(out.begin(), out.end(), [](const Notice& a, const Notice& b) { return a.at < b.at; });
     }
-    if (scenario.has_staff()) {
+    if (setup.has_staff()) {
         // Each plan has a staff of its own: plans are alternatives, not rivals for the same nurses.
         // Plans are independent here, so they can run side by side with identical results.
-        const StaffModel model = staff_model(scenario, static_cast<std::uint32_t>(population.units.size()));
+        const StaffModel model = staff_model(setup, static_cast<std::uint32_t>(population.units.size()));
         // Busiest plans first, each taken by the next free worker.
         std::vector<std::size_t> order(n_plans);
         for (std::size_t p = 0; p < n_plans; ++p) order[p] = p;
@@ -113,8 +114,8 @@ ReplicationRecord simulate_replication(const Scenario& scenario, const Populatio
                         asked.push_back(notices[i]);
                         original.push_back(i);
                     }
-                StaffRun run = simulate_staff(asked, model, scenario.plans[p].staffing, calendar,
-                                              calendar.shifts().back().end, ReplicationSeed{scenario.seed, replication});
+                StaffRun run = simulate_staff(asked, model, setup.plans[p].staffing, calendar,
+                                              calendar.shifts().back().end, ReplicationSeed{setup.seed, replication});
                 for (TaskRecord& t : run.tasks) t.notice = original[t.notice];
                 record.plans[p].staff = std::move(run);
             }

@@ -8,7 +8,7 @@
 
 #include "models/population.hpp"
 #include "sim/notice.hpp"
-#include "sim/scenario.hpp"
+#include "sim/setup.hpp"
 #include "sim/shifts.hpp"
 #include "sim/staff.hpp"
 
@@ -34,8 +34,10 @@ struct ReplicationRecord {
     std::vector<PlanRecord> plans;  // one per scenario plan, same order
 };
 
-// The shift calendar covering every stay of the population.
-ShiftCalendar calendar_for(const Scenario& scenario, const Population& population);
+// The shift calendar covering every stay of the population and the instants
+// cover_from and cover_until when given (a declared reporting period).
+ShiftCalendar calendar_for(const SimulationSetup& setup, const Population& population, std::optional<Instant> cover_from,
+                           std::optional<Instant> cover_until);
 
 // Runs every plan on the population, then (when the scenario declares roles)
 // each plan's notices through its own staff (task minutes keyed per task, see
@@ -43,7 +45,7 @@ ShiftCalendar calendar_for(const Scenario& scenario, const Population& populatio
 // whatever the thread count. Chart-interruption plans read `replayed_openings`
 // when the scenario replays chart openings (see load_chart_openings), and
 // generate them otherwise.
-ReplicationRecord simulate_replication(const Scenario& scenario, const Population& population,
+ReplicationRecord simulate_replication(const SimulationSetup& setup, const Population& population,
                                        const ShiftCalendar& calendar, std::uint64_t replication,
                                        unsigned threads = 1, const ChartOpeningLog* replayed_openings = nullptr);
 

@@ -10,7 +10,7 @@
 #include <string>
 #include <vector>
 
-#include "analysis/report.hpp"
+#include "report/report.hpp"
 
 namespace tocsin::testing {
 

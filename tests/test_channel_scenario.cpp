@@ -3,7 +3,7 @@
 #include <doctest/doctest.h>
 
 #include "models/errors.hpp"
-#include "sim/scenario.hpp"
+#include "study/scenario.hpp"
 
 using namespace tocsin;
 
@@ -47,19 +47,19 @@ TEST_CASE("channel_scenario.valid") {
                           "    chart: {interruption_minutes: 2, acceptance_probability: 0.4}\n",
                           openings),
             "s.yaml", "");
-        REQUIRE(sc.chart_openings);
-        CHECK(sc.chart_openings->replay_path.empty());
-        CHECK(sc.chart_openings->roles[0].openings_per_hour[13] == 1.5);
-        CHECK(sc.chart_openings->roles[1].clinicians_per_unit == 1);
-        CHECK(sc.plans[0].chart.role == 1);
-        CHECK(sc.plans[0].chart.acceptance_probability == 0.4);
+        REQUIRE(sc.simulation.chart_openings);
+        CHECK(sc.simulation.chart_openings->replay_path.empty());
+        CHECK(sc.simulation.chart_openings->roles[0].openings_per_hour[13] == 1.5);
+        CHECK(sc.simulation.chart_openings->roles[1].clinicians_per_unit == 1);
+        CHECK(sc.simulation.plans[0].chart.role == 1);
+        CHECK(sc.simulation.plans[0].chart.acceptance_probability == 0.4);
     }
     SUBCASE("handoff list: shift starts by default") {
         const Scenario sc = parse_scenario(
             scenario_text("    channel: handoff_list\n    rule: {threshold: 55, snooze_minutes: 720}\n    handoff: {minutes_per_flag: 3}\n"),
             "s.yaml", "");
-        CHECK(sc.plans[0].handoff.times_minutes.empty());
-        CHECK(sc.plans[0].handoff.follow_up_probability == 1);
+        CHECK(sc.simulation.plans[0].handoff.times_minutes.empty());
+        CHECK(sc.simulation.plans[0].handoff.follow_up_probability == 1);
     }
     SUBCASE("ranked review: the floor is optional; team capacity from staffing") {
         // 2 clinicians x 60 minutes / 15 minutes per review = 8 reviews per round.
@@ -68,11 +68,12 @@ TEST_CASE("channel_scenario.valid") {
                           "    review: {times: [\"20:00\", \"08:00\"], top_n: 12, scope: hospital, skip_reviewed_hours: 24,\n"
                           "             minutes_per_review: 15, team_size: 2, team_minutes_per_round: 60}\n"),
             "s.yaml", "");
-        const Plan& p = sc.plans[0];
+        const Plan& p = sc.simulation.plans[0];
         CHECK(std::isinf(p.rule.threshold));
         CHECK(p.review.times_minutes == std::vector<int>{8 * 60, 20 * 60});
         CHECK(p.review.scope == ReviewScope::hospital);
-        CHECK(p.rule.snooze == hours(24));
+        CHECK(p.review.skip_reviewed == hours(24));
+        CHECK_FALSE(p.rule.snooze);  // the skip is the review's own setting, not the rule's snooze
         CHECK(p.review.max_reviews_per_round == 8);
     }
 }

@@ -11,7 +11,7 @@
 
 #include "analysis/channel_tables.hpp"
 #include "analysis/results.hpp"
-#include "analysis/review_size.hpp"
+#include "study/review_size.hpp"
 #include "sim/channels.hpp"
 
 using namespace tocsin;
@@ -37,11 +37,11 @@ struct Ward {
     Scenario sc;
 
     Ward() {
-        sc.zone = TimeZone::utc();
-        sc.shifts = ShiftPattern{{7 * 60, 19 * 60}, {"day", "night"}, {false, true}};
-        sc.window = hours(24);
-        sc.min_lead = minutes(60);
-        sc.seed = 7;
+        sc.simulation.zone = TimeZone::utc();
+        sc.simulation.shifts = ShiftPattern{{7 * 60, 19 * 60}, {"day", "night"}, {false, true}};
+        sc.analysis.window = hours(24);
+        sc.analysis.min_lead = minutes(60);
+        sc.simulation.seed = 7;
     }
     std::uint32_t patient(const std::string& id, std::uint32_t unit, Instant admitted, Instant discharged,
                           std::optional<Instant> outcome = std::nullopt) {
@@ -56,11 +56,11 @@ struct Ward {
     }
     Plan& plan(Channel channel, double threshold) {
         Plan p;
-        p.name = "plan" + std::to_string(sc.plans.size());
+        p.name = "plan" + std::to_string(sc.simulation.plans.size());
         p.channel = channel;
         p.rule.threshold = threshold;
-        sc.plans.push_back(p);
-        return sc.plans.back();
+        sc.simulation.plans.push_back(p);
+        return sc.simulation.plans.back();
     }
     // Finishes the population (grouping, exclusions, period) once patients and scores are in.
     void done() {
@@ -95,7 +95,7 @@ TEST_CASE("channels.chart_interruption") {
     const auto p = w.patient("P1", 0, at(3, 18), at(4, 12));
     w.score(p, at(3, 19), 50).score(p, at(3, 20, 10), 70).score(p, at(3, 22), 75);
     w.done();
-    w.sc.chart_openings = ChartOpeningSource{{{"nurse", 4, {}}, {"physician", 1, {}}}, ""};
+    w.sc.simulation.chart_openings = ChartOpeningSource{{{"nurse", 4, {}}, {"physician", 1, {}}}, ""};
     Plan& plan = w.plan(Channel::chart_interruption, 60);
     plan.rule.snooze = minutes(60);
     plan.chart.interruption_minutes = 2;
@@ -104,7 +104,7 @@ TEST_CASE("channels.chart_interruption") {
     o.openings = {{at(3, 19, 30), 0}, {at(3, 20, 5), 0}, {at(3, 20, 30), 0}, {at(3, 21), 0}, {at(3, 21, 30), 1}, {at(3, 22), 0}};
     o.acceptance_draws = {0.9, 0.9, 0.2, 0.9, 0.7, 0.1};
     const ShiftCalendar cal = w.calendar();
-    const RuleClock clock{&w.sc.zone, &cal};
+    const RuleClock clock{&w.sc.simulation.zone, &cal};
     std::vector<Notice> out;
     CHECK(fire_chart_rule(plan, clock, w.pop.scores_of(0), o, 0, 0, 0, out) == 6);
     // The 21:30 draw 0.7 is above the acceptance probability 0.5: no evaluation asked.
@@ -153,7 +153,7 @@ TEST_CASE("channels.handoff_list") {
     Plan& plan = w.plan(Channel::handoff_list, 60);
     plan.handoff.minutes_per_flag = 3;
     const ShiftCalendar cal = w.calendar();
-    PlanRecord r = run_round_channel(w.sc, w.pop, cal, plan, 0, 0);
+    PlanRecord r = run_round_channel(w.sc.simulation, w.pop, cal, plan, 0, 0);
     CHECK(story(w.pop, r.notices) == Expected{"03 07:00 P1 first", "03 07:00 P3 first", "03 19:00 P1 repeat",
                                               "03 19:00 P2 first", "04 07:00 P1 repeat", "04 07:00 P2 repeat"});
     std::vector<std::string> rounds;
@@ -162,7 +162,7 @@ TEST_CASE("channels.handoff_list") {
                          std::to_string(static_cast<int>(x.minutes)));
     CHECK(rounds == Expected{"03 07:00 A 1 3", "03 07:00 B 1 3", "03 19:00 A 2 6", "03 19:00 B 0 0",
                              "04 07:00 A 2 6", "04 07:00 B 0 0"});
-    const PlanFigures f = plan_figures(w.sc, w.pop, cal, reporting_shifts(w.sc, w.pop, cal), r);
+    const PlanFigures f = plan_figures(w.sc.analysis, w.pop, cal, reporting_shifts(w.sc.analysis, w.pop, cal), r);
     CHECK(f.cases == 1);
     CHECK(f.caught == 1);
     CHECK(f.lead_median_hours == doctest::Approx(15.0));
@@ -171,7 +171,7 @@ TEST_CASE("channels.handoff_list") {
         // Snooze 24 h: 3 Mar 07:00 P1, P3 first; 19:00 P1 snoozed, P2 first;
         // 4 Mar 07:00 P1 exactly 24 h later: repeat; P2 snoozed.
         plan.rule.snooze = hours(24);
-        r = run_round_channel(w.sc, w.pop, cal, plan, 0, 0);
+        r = run_round_channel(w.sc.simulation, w.pop, cal, plan, 0, 0);
         CHECK(story(w.pop, r.notices) == Expected{"03 07:00 P1 first", "03 07:00 P3 first", "03 19:00 P2 first",
                                                   "04 07:00 P1 repeat"});
     }
@@ -180,14 +180,14 @@ TEST_CASE("channels.handoff_list") {
         // 4 Mar 12:00 is past P2's outcome and P1's discharge (an instant at or after
         // the end of a stay is not in it): nothing. One flag.
         plan.handoff.times_minutes = {12 * 60};
-        r = run_round_channel(w.sc, w.pop, cal, plan, 0, 0);
+        r = run_round_channel(w.sc.simulation, w.pop, cal, plan, 0, 0);
         CHECK(story(w.pop, r.notices) == Expected{"03 12:00 P3 first"});
     }
     SUBCASE("without follow-up a flag catches nothing") {
         plan.handoff.follow_up_probability = 0;
-        r = run_round_channel(w.sc, w.pop, cal, plan, 0, 0);
+        r = run_round_channel(w.sc.simulation, w.pop, cal, plan, 0, 0);
         CHECK(r.notices.size() == 6);
-        CHECK(plan_figures(w.sc, w.pop, cal, reporting_shifts(w.sc, w.pop, cal), r).caught == 0);
+        CHECK(plan_figures(w.sc.analysis, w.pop, cal, reporting_shifts(w.sc.analysis, w.pop, cal), r).caught == 0);
     }
 }
 
@@ -207,8 +207,8 @@ TEST_CASE("channels.handoff_follow_up_common_random_numbers") {
     Plan& high = w.plan(Channel::handoff_list, 70);
     high.handoff.follow_up_probability = 0.5;
     const ShiftCalendar cal = w.calendar();
-    const PlanRecord a = run_round_channel(w.sc, w.pop, cal, w.sc.plans[0], 0, 0);
-    const PlanRecord b = run_round_channel(w.sc, w.pop, cal, w.sc.plans[1], 1, 0);
+    const PlanRecord a = run_round_channel(w.sc.simulation, w.pop, cal, w.sc.simulation.plans[0], 0, 0);
+    const PlanRecord b = run_round_channel(w.sc.simulation, w.pop, cal, w.sc.simulation.plans[1], 1, 0);
     std::map<std::pair<std::uint32_t, Instant>, bool> asked;
     for (const Notice& n : a.notices) asked[{n.encounter, n.at}] = n.asks_evaluation;
     int shared = 0, followed = 0;
@@ -226,9 +226,9 @@ TEST_CASE("channels.handoff_follow_up_common_random_numbers") {
     // flags one at a handoff the others also hold, it gets the same draw: the
     // draw is keyed by patient and handoff instant, not by how many handoffs
     // the patient has been through in this plan.
-    Plan thrice = w.sc.plans[0];
+    Plan thrice = w.sc.simulation.plans[0];
     thrice.handoff.times_minutes = {7 * 60, 13 * 60, 19 * 60};
-    const PlanRecord d = run_round_channel(w.sc, w.pop, cal, thrice, 2, 0);
+    const PlanRecord d = run_round_channel(w.sc.simulation, w.pop, cal, thrice, 2, 0);
     int shared_with_thrice = 0;
     for (const Notice& n : d.notices) {
         auto it = asked.find({n.encounter, n.at});
@@ -238,7 +238,7 @@ TEST_CASE("channels.handoff_follow_up_common_random_numbers") {
     }
     CHECK(shared_with_thrice > 100);
     // Another replication draws differently.
-    const PlanRecord c = run_round_channel(w.sc, w.pop, cal, w.sc.plans[1], 1, 1);
+    const PlanRecord c = run_round_channel(w.sc.simulation, w.pop, cal, w.sc.simulation.plans[1], 1, 1);
     int differ = 0;
     for (std::size_t i = 0; i < c.notices.size(); ++i) differ += c.notices[i].asks_evaluation != b.notices[i].asks_evaluation;
     CHECK(differ > 0);
@@ -260,7 +260,7 @@ struct ReviewStory {
         const auto d = w.patient("PD", 0, at(3, 0), at(5, 0));
         w.score(a, at(3, 7), 90).score(b, at(3, 6), 70).score(c, at(3, 7, 30), 70).score(d, at(3, 7), 45);
         Plan& p = w.plan(Channel::ranked_review, 50);
-        p.rule.snooze = hours(36);
+        p.review.skip_reviewed = hours(36);
         p.review.times_minutes = {8 * 60};
         p.review.top_n = 2;
         p.review.minutes_per_review = 15;
@@ -277,14 +277,14 @@ TEST_CASE("channels.ranked_review") {
     ReviewStory s;
     s.w.done();
     const ShiftCalendar cal = s.w.calendar();
-    PlanRecord r = run_round_channel(s.w.sc, s.w.pop, cal, s.w.sc.plans[0], 0, 0);
+    PlanRecord r = run_round_channel(s.w.sc.simulation, s.w.pop, cal, s.w.sc.simulation.plans[0], 0, 0);
     CHECK(story(s.w.pop, r.notices) == Expected{"03 08:00 PA first", "03 08:00 PB first", "04 08:00 PC first"});
     REQUIRE(r.rounds.size() == 2);
     CHECK(r.rounds[0].unit == 0);
     CHECK(r.rounds[0].listed == 2);
     CHECK(r.rounds[0].minutes == 30);
-    const ReportingShifts rep = reporting_shifts(s.w.sc, s.w.pop, cal);
-    PlanFigures f = plan_figures(s.w.sc, s.w.pop, cal, rep, r);
+    const ReportingShifts rep = reporting_shifts(s.w.sc.analysis, s.w.pop, cal);
+    PlanFigures f = plan_figures(s.w.sc.analysis, s.w.pop, cal, rep, r);
     CHECK(f.caught == 1);
     CHECK(f.lead_median_hours == doctest::Approx(4.0));
 
@@ -293,23 +293,23 @@ TEST_CASE("channels.ranked_review") {
         // 4 Mar: PA skipped; PB (70 since 06:00 on 3 Mar) ahead of PC (70 since
         // 07:30): listed PB, PC; PB reviewed. PC is on the list in its window
         // but never reviewed: not caught.
-        s.w.sc.plans[0].review.max_reviews_per_round = 1;
-        r = run_round_channel(s.w.sc, s.w.pop, cal, s.w.sc.plans[0], 0, 0);
+        s.w.sc.simulation.plans[0].review.max_reviews_per_round = 1;
+        r = run_round_channel(s.w.sc.simulation, s.w.pop, cal, s.w.sc.simulation.plans[0], 0, 0);
         CHECK(story(s.w.pop, r.notices) == Expected{"03 08:00 PA first", "04 08:00 PB first"});
         CHECK(r.listed.size() == 4);
         CHECK(r.rounds[1].listed == 2);
         CHECK(r.rounds[1].acted == 1);
-        CHECK(plan_figures(s.w.sc, s.w.pop, cal, rep, r).caught == 0);
+        CHECK(plan_figures(s.w.sc.analysis, s.w.pop, cal, rep, r).caught == 0);
     }
     SUBCASE("a rise brings a reviewed patient back") {
         // Rise 10; PA scores 100 at 3 Mar 20:00. 4 Mar 08:00: PA (100 >= 90 + 10)
         // is eligible despite the skip, ahead of PC: reviews PA (rise), PC.
         ReviewStory t;
-        t.w.sc.plans[0].rule.rise = 10;
+        t.w.sc.simulation.plans[0].rule.rise = 10;
         t.w.score(0, at(3, 20), 100);
         t.w.done();
         const ShiftCalendar tc = t.w.calendar();
-        r = run_round_channel(t.w.sc, t.w.pop, tc, t.w.sc.plans[0], 0, 0);
+        r = run_round_channel(t.w.sc.simulation, t.w.pop, tc, t.w.sc.simulation.plans[0], 0, 0);
         CHECK(story(t.w.pop, r.notices) ==
               Expected{"03 08:00 PA first", "03 08:00 PB first", "04 08:00 PA rise", "04 08:00 PC first"});
     }
@@ -335,14 +335,14 @@ TEST_CASE("channels.ranked_review_scope_and_ties") {
     p.review.top_n = 2;
     p.review.max_reviews_per_round = 3;
     const ShiftCalendar cal = w.calendar();
-    PlanRecord r = run_round_channel(w.sc, w.pop, cal, p, 0, 0);
+    PlanRecord r = run_round_channel(w.sc.simulation, w.pop, cal, p, 0, 0);
     CHECK(story(w.pop, r.notices) == Expected{"03 08:00 A1 first", "03 08:00 B1 first", "03 08:00 A2 first"});
     CHECK(r.listed.size() == 4);
 
     SUBCASE("hospital-wide") {
         // One list: B1 90, A1 80, then A2/A3 60 (id order). Top 2: B1, A1.
         p.review.scope = ReviewScope::hospital;
-        r = run_round_channel(w.sc, w.pop, cal, p, 0, 0);
+        r = run_round_channel(w.sc.simulation, w.pop, cal, p, 0, 0);
         CHECK(story(w.pop, r.notices) == Expected{"03 08:00 B1 first", "03 08:00 A1 first"});
         REQUIRE(r.rounds.size() == 1);
         CHECK(r.rounds[0].unit == whole_hospital);
@@ -384,7 +384,7 @@ TEST_CASE("channels.review_size") {
     SUBCASE("a capacity of three reviews caps the catch rate") {
         // N = 5 lists the 50 but the team reviews only the top 3: 1 of 2 caught,
         // yet both cases were on the list. No N reaches 0.8.
-        w.sc.plans[0].review.max_reviews_per_round = 3;
+        w.sc.simulation.plans[0].review.max_reviews_per_round = 3;
         s = size_review_list(w.sc, w.pop, cal, 0, 1, 6, 0.8);
         CHECK(s.rows[4].caught == 1);
         CHECK(s.rows[4].on_list == 2);
@@ -427,21 +427,21 @@ TEST_CASE("channels.same_record_whatever_the_threads") {
     ChartOpeningRole nurse;
     nurse.name = "nurse";
     nurse.openings_per_hour.fill(0.5);
-    w.sc.chart_openings = ChartOpeningSource{{nurse}, ""};
+    w.sc.simulation.chart_openings = ChartOpeningSource{{nurse}, ""};
     Plan& often = w.plan(Channel::chart_interruption, 70);
     often.rule.snooze = hours(4);
     often.chart.acceptance_probability = 0.7;
-    w.sc.plans.push_back(often);
-    w.sc.plans.back().chart.acceptance_probability = 0.3;
+    w.sc.simulation.plans.push_back(often);
+    w.sc.simulation.plans.back().chart.acceptance_probability = 0.3;
     Plan& handoff = w.plan(Channel::handoff_list, 65);
     handoff.handoff.follow_up_probability = 0.5;
     Plan& review = w.plan(Channel::ranked_review, 50);
     review.review.times_minutes = {8 * 60};
     review.review.top_n = 5;
     const ShiftCalendar cal = w.calendar();
-    const ReplicationRecord one = simulate_replication(w.sc, w.pop, cal, 0, 1);
-    const ReplicationRecord two = simulate_replication(w.sc, w.pop, cal, 0, 2);
-    for (std::size_t p = 0; p < w.sc.plans.size(); ++p) {
+    const ReplicationRecord one = simulate_replication(w.sc.simulation, w.pop, cal, 0, 1);
+    const ReplicationRecord two = simulate_replication(w.sc.simulation, w.pop, cal, 0, 2);
+    for (std::size_t p = 0; p < w.sc.simulation.plans.size(); ++p) {
         CAPTURE(p);
         const auto& a = one.plans[p].notices;
         const auto& b = two.plans[p].notices;
@@ -483,8 +483,8 @@ TEST_CASE("channels.burden_in_each_channels_unit") {
     Plan& handoff = w.plan(Channel::handoff_list, 60);
     handoff.handoff.minutes_per_flag = 3;
     const ShiftCalendar cal = w.calendar();
-    const ReportingShifts rep = reporting_shifts(w.sc, w.pop, cal);
-    ChannelBurden b = channel_burden(w.sc, w.pop, cal, rep, handoff, run_round_channel(w.sc, w.pop, cal, handoff, 0, 0));
+    const ReportingShifts rep = reporting_shifts(w.sc.analysis, w.pop, cal);
+    ChannelBurden b = channel_burden(w.sc.simulation, w.pop, cal, rep, handoff, run_round_channel(w.sc.simulation, w.pop, cal, handoff, 0, 0));
     CHECK(b.measure == "patients flagged per unit per handoff");
     CHECK(b.values == std::vector<double>{1, 1, 2, 0, 2, 0});
     CHECK(b.minutes == std::vector<double>{3, 3, 6, 0, 6, 0});
@@ -496,7 +496,7 @@ TEST_CASE("channels.burden_in_each_channels_unit") {
         // and 4 Mar day (the 4 Mar night ends after 5 Mar 00:00): 2 units x 3
         // shifts x 2 roles = 12 values, all 0 but the nurses' 2 / 4 = 0.5 and
         // the doctor's 1 / 1 = 1.
-        w.sc.chart_openings = ChartOpeningSource{{{"nurse", 4, {}}, {"doctor", 1, {}}}, ""};
+        w.sc.simulation.chart_openings = ChartOpeningSource{{{"nurse", 4, {}}, {"doctor", 1, {}}}, ""};
         Plan chart;
         chart.channel = Channel::chart_interruption;
         PlanRecord r;
@@ -507,7 +507,7 @@ TEST_CASE("channels.burden_in_each_channels_unit") {
             n.opener_role = role;
             r.notices.push_back(n);
         }
-        b = channel_burden(w.sc, w.pop, cal, rep, chart, r);
+        b = channel_burden(w.sc.simulation, w.pop, cal, rep, chart, r);
         CHECK(b.measure == "interruptions per clinician per shift");
         REQUIRE(b.values.size() == 12);
         std::vector<double> expected(12, 0.0);
@@ -534,9 +534,9 @@ TEST_CASE("channels.replayed_acceptance_keyed_per_opening") {
     const std::vector<Instant> physician_at = {at(2, 7), at(2, 9), at(3, 10)};
     auto draws_of_nurse = [&](bool with_physician, bool physician_first) {
         Scenario sc = w.sc;
-        sc.chart_openings = ChartOpeningSource{{nurse}, "replayed.csv"};
-        if (with_physician) sc.chart_openings->roles.insert(physician_first ? sc.chart_openings->roles.begin()
-                                                                            : sc.chart_openings->roles.end(), physician);
+        sc.simulation.chart_openings = ChartOpeningSource{{nurse}, "replayed.csv"};
+        if (with_physician) sc.simulation.chart_openings->roles.insert(physician_first ? sc.simulation.chart_openings->roles.begin()
+                                                                            : sc.simulation.chart_openings->roles.end(), physician);
         const std::uint8_t n_role = with_physician && physician_first ? 1 : 0;
         ChartOpeningLog log;
         for (Instant t : nurse_at) log.openings.push_back({t, n_role});
@@ -545,7 +545,7 @@ TEST_CASE("channels.replayed_acceptance_keyed_per_opening") {
         std::stable_sort(log.openings.begin(), log.openings.end(), [](auto& a, auto& b) { return a.at < b.at; });
         log.start = {0, log.openings.size()};
         EncounterOpenings out;
-        openings_for_encounter(sc, w.pop, &log, e, 0, out);
+        openings_for_encounter(sc.simulation, w.pop, &log, e, 0, out);
         std::vector<double> mine;
         for (std::size_t i = 0; i < out.openings.size(); ++i)
             if (out.openings[i].role == n_role) mine.push_back(out.acceptance_draws[i]);

@@ -13,9 +13,9 @@
 #include <variant>
 #include <vector>
 
-#include "analysis/run.hpp"
-#include "sim/population_source.hpp"
-#include "sim/sweep.hpp"
+#include "study/run.hpp"
+#include "models/population_source.hpp"
+#include "study/sweep.hpp"
 #include "test_support.hpp"
 
 using namespace tocsin;
@@ -84,7 +84,7 @@ RunOutput run_text(const std::string& yaml) {
     settings.notice_log = true;
     settings.task_log = true;
     settings.evaluate = false;
-    return run_scenario(sc, population_factory(sc), settings);
+    return run_scenario(sc, population_factory(sc.population), settings);
 }
 
 // Every table row of plan `plan` in `a` equals the rows of plan `as` in `b`;
@@ -217,13 +217,13 @@ TEST_CASE("common_random_numbers.staffing_sweep_points_draw_the_same_minutes") {
     request.base_plan = "page-50-thin-nights";
     request.axes = {parse_sweep_axis("roles.cover nurse.roster.night=1,12")};
     Scenario sc = sweep_scenario(scenario_dir + "/fernhollow-replay.yaml", request);
-    REQUIRE(sc.plans.size() == 2);
+    REQUIRE(sc.simulation.plans.size() == 2);
     sc.replications = 1;
     RunSettings settings;
     settings.threads = 2;
     settings.task_log = true;
     settings.evaluate = false;
-    const RunOutput out = run_scenario(sc, population_factory(sc), settings);
+    const RunOutput out = run_scenario(sc, population_factory(sc.population), settings);
     REQUIRE(out.first_replication.task_log);
     const Table& log = *out.first_replication.task_log;
     const auto column = [&](const char* name) {

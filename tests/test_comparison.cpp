@@ -6,7 +6,7 @@
 #include <limits>
 
 #include "analysis/comparison.hpp"
-#include "analysis/run.hpp"
+#include "study/run.hpp"
 
 using namespace tocsin;
 

@@ -7,9 +7,9 @@
 #include <string>
 
 #include "analysis/evaluation.hpp"
-#include "analysis/evaluation_scenario.hpp"
-#include "sim/population_source.hpp"
-#include "sim/scenario.hpp"
+#include "study/evaluation_scenario.hpp"
+#include "models/population_source.hpp"
+#include "study/scenario.hpp"
 #include "test_support.hpp"
 
 using namespace tocsin;
@@ -26,7 +26,7 @@ TEST_CASE("evaluate.cli_writes_the_library_tables") {
 
     // Every table as CSV and JSON.
     const Scenario sc = load_scenario(demo);
-    const Population pop = population_for(sc, prepare_population(sc), 0);
+    const Population pop = population_for(sc.population, prepare_population(sc.population), 0);
     EvaluationOptions o = evaluation_options_for(sc);
     o.thresholds = {60};
     o.bootstrap_replicates = 20;

@@ -5,7 +5,7 @@
 #include <boost/random/uniform_real_distribution.hpp>
 #include <mutex>
 
-#include "analysis/run.hpp"
+#include "report/run_files.hpp"
 #include "models/random_streams.hpp"
 
 using namespace tocsin;
@@ -15,9 +15,9 @@ namespace {
 Scenario two_plans(std::uint64_t replications) {
     Scenario sc;
     sc.name = "experiment test";
-    sc.shifts = ShiftPattern{{7 * 60, 19 * 60}, {"day", "night"}, {false, true}};
+    sc.simulation.shifts = ShiftPattern{{7 * 60, 19 * 60}, {"day", "night"}, {false, true}};
     sc.replications = replications;
-    sc.window = hours(12);
+    sc.analysis.window = hours(12);
     Plan a;
     a.name = "a";
     a.rule.threshold = 60;
@@ -25,7 +25,7 @@ Scenario two_plans(std::uint64_t replications) {
     Plan b = a;
     b.name = "b";
     b.rule.threshold = 50;
-    sc.plans = {a, b};
+    sc.simulation.plans = {a, b};
     return sc;
 }
 

@@ -16,7 +16,7 @@
 #include <sys/wait.h>
 #include <unistd.h>
 
-#include "analysis/output.hpp"
+#include "report/output.hpp"
 #include "analysis/table.hpp"
 #include "test_support.hpp"
 

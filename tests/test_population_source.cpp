@@ -8,8 +8,8 @@
 #include "models/errors.hpp"
 #include "models/fit.hpp"
 #include "population_fixtures.hpp"
-#include "sim/population_source.hpp"
-#include "sim/scenario.hpp"
+#include "models/population_source.hpp"
+#include "study/scenario.hpp"
 #include "test_support.hpp"
 
 using namespace tocsin;
@@ -51,29 +51,29 @@ InputError parse_error(const std::string& text) { return tocsin::testing::scenar
 
 TEST_CASE("population_source.generate_from_the_scenario") {
     const Scenario sc = parse_scenario(generated(), "s.yaml", "");
-    REQUIRE(sc.source == PopulationSource::generate);
-    REQUIRE(sc.generator.units.size() == 2);
-    CHECK(sc.generator.units[0].arrivals_per_hour[100] == 0.25);  // one number: every hour
-    CHECK(sc.generator.units[1].arrivals_per_hour[24 * 3 + 9] == 0.4);  // 24 numbers: Thursday 09 h
-    CHECK(sc.generator.units[1].arrivals_per_hour[24 * 6 + 23] == 0.1);
-    CHECK(sc.generator.period_start == testing::midnight_utc(2026, 1, 5));
-    CHECK(sc.generator.scores.jitter_minutes == 5);
+    REQUIRE(sc.population.source == PopulationSource::generate);
+    REQUIRE(sc.population.generator.units.size() == 2);
+    CHECK(sc.population.generator.units[0].arrivals_per_hour[100] == 0.25);  // one number: every hour
+    CHECK(sc.population.generator.units[1].arrivals_per_hour[24 * 3 + 9] == 0.4);  // 24 numbers: Thursday 09 h
+    CHECK(sc.population.generator.units[1].arrivals_per_hour[24 * 6 + 23] == 0.1);
+    CHECK(sc.population.generator.period_start == testing::midnight_utc(2026, 1, 5));
+    CHECK(sc.population.generator.scores.jitter_minutes == 5);
 
-    const PreparedPopulation prepared = prepare_population(sc);
-    const std::string first = testing::serialize(population_for(sc, prepared, 0));
-    CHECK(first == testing::serialize(population_for(sc, prepared, 0)));
-    CHECK(first != testing::serialize(population_for(sc, prepared, 1)));
+    const PreparedPopulation prepared = prepare_population(sc.population);
+    const std::string first = testing::serialize(population_for(sc.population, prepared, 0));
+    CHECK(first == testing::serialize(population_for(sc.population, prepared, 0)));
+    CHECK(first != testing::serialize(population_for(sc.population, prepared, 1)));
     // The scenario's seed and replication are the generator's.
-    CHECK(first == testing::serialize(generate_population(sc.generator, 3, 0)));
+    CHECK(first == testing::serialize(generate_population(sc.population.generator, 3, 0)));
 }
 
 TEST_CASE("population_source.shift_from_the_scenario") {
     const Scenario sc = parse_scenario(generated("", "  shift:\n    from: 2026-01-19T00:00:00Z\n    outage_hours: 4\n"
                                                      "    census: [{unit: south, multiplier: 2}]\n"),
                                        "s.yaml", "");
-    REQUIRE(sc.shift.has_value());
-    CHECK(sc.shift->outage_start == sc.shift->from);  // defaults to the shift's start
-    const Population pop = population_for(sc, prepare_population(sc), 0);
+    REQUIRE(sc.population.shift.has_value());
+    CHECK(sc.population.shift->outage_start == sc.population.shift->from);  // defaults to the shift's start
+    const Population pop = population_for(sc.population, prepare_population(sc.population), 0);
     CHECK(pop.excluded.scores_by_reason.at("feed outage (shift stress test)") > 0);
     CHECK(pop.excluded.notes.at("shift: extra admissions (census raised): south") > 0);
 }
@@ -102,7 +102,7 @@ TEST_CASE("population_source.errors_name_the_key") {
         text.replace(text.find("jitter_minutes: 5}"), 18, "jitter_minutes: 5, within_patient_sd: 40, target_auc: 0.99}");
         const Scenario sc = parse_scenario(text, "s.yaml", "");
         try {
-            prepare_population(sc);
+            prepare_population(sc.population);
             FAIL("expected an InputError");
         } catch (const InputError& e) {
             CHECK(e.field == "population.generate.scores.target_auc");
@@ -118,7 +118,7 @@ TEST_CASE("population_source.fitted_fragment_loads_back") {
     const GeneratorFit fit = fit_generator(generate_population(testing::two_wards(60), 4, 0));
     const Scenario sc = parse_scenario(head + scenario_fragment(fit.config, fit.notes), "s.yaml", "");
     const GeneratorConfig& a = fit.config;
-    const GeneratorConfig& b = sc.generator;
+    const GeneratorConfig& b = sc.population.generator;
     REQUIRE(b.units.size() == 2);
     CHECK(b.units[1].name == "ward-south");
     CHECK(b.units[1].beds == a.units[1].beds);
@@ -133,10 +133,10 @@ TEST_CASE("population_source.fitted_fragment_loads_back") {
 
 TEST_CASE("population_source.bootstrap_of_the_demo_log") {
     Scenario sc = load_scenario(std::string(TOCSIN_SOURCE_DIR) + "/scenarios/fernhollow-replay.yaml");
-    sc.bootstrap = BootstrapConfig{};
-    const PreparedPopulation prepared = prepare_population(sc);
-    CHECK(testing::serialize(population_for(sc, prepared, 0)) == testing::serialize(*prepared.log));
-    const Population rep = population_for(sc, prepared, 1);
+    sc.population.bootstrap = BootstrapConfig{};
+    const PreparedPopulation prepared = prepare_population(sc.population);
+    CHECK(testing::serialize(population_for(sc.population, prepared, 0)) == testing::serialize(*prepared.log));
+    const Population rep = population_for(sc.population, prepared, 1);
     CHECK(testing::serialize(rep) != testing::serialize(*prepared.log));
     CHECK(rep.units == prepared.log->units);
 }
@@ -161,10 +161,10 @@ TEST_CASE("population_source.plans_do_not_move_patients") {
     text.replace(text.find("    rule: {threshold: 60}\n"), 26,
                  "    role: charge nurse\n    rule: {threshold: 60}\n  - name: q\n    rule: {threshold: 40, snooze_minutes: 60}\n");
     const Scenario two = parse_scenario(text, "s.yaml", "");
-    REQUIRE(two.plans.size() == 2);
+    REQUIRE(two.simulation.plans.size() == 2);
     for (std::uint64_t r : {0, 5})
-        CHECK(testing::serialize(population_for(one, prepare_population(one), r)) ==
-              testing::serialize(population_for(two, prepare_population(two), r)));
+        CHECK(testing::serialize(population_for(one.population, prepare_population(one.population), r)) ==
+              testing::serialize(population_for(two.population, prepare_population(two.population), r)));
 }
 
 TEST_CASE("population_source.generated_run_same_bytes_whatever_the_threads") {

@@ -17,7 +17,7 @@
 #include <zlib.h>
 #endif
 
-#include "analysis/report.hpp"
+#include "report/report.hpp"
 #include "report_sample.hpp"
 #include "test_support.hpp"
 

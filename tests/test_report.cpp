@@ -11,9 +11,9 @@
 #include <regex>
 
 #include "analysis/cautions.hpp"
-#include "analysis/html.hpp"
-#include "analysis/report.hpp"
-#include "analysis/svg.hpp"
+#include "report/html.hpp"
+#include "report/report.hpp"
+#include "report/svg.hpp"
 #include "report_sample.hpp"
 
 using namespace tocsin;

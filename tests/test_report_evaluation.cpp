@@ -3,10 +3,10 @@
 // are checked by the evaluation tests.
 #include <doctest/doctest.h>
 
-#include "analysis/evaluation_scenario.hpp"
-#include "analysis/report_evaluation.hpp"
+#include "study/evaluation_scenario.hpp"
+#include "report/report_evaluation.hpp"
 #include "models/replay.hpp"
-#include "sim/scenario.hpp"
+#include "study/scenario.hpp"
 
 using namespace tocsin;
 
@@ -15,7 +15,7 @@ TEST_CASE("report_evaluation.demo_score") {
     EvaluationOptions options = evaluation_options_for(sc);
     options.thresholds = {55, 70};
     options.bootstrap_replicates = 20;  // speed; the interval's width is not under test here
-    const Evaluation e = evaluate(load_replay(sc.replay, sc.zone), options);
+    const Evaluation e = evaluate(load_replay(sc.population.replay, sc.simulation.zone), options);
 
     ReportInput in;
     add_evaluation(in, e, sc.score_label);

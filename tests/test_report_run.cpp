@@ -3,8 +3,8 @@
 // where), not the figures themselves, which the comparison tests own.
 #include <doctest/doctest.h>
 
-#include "analysis/report_run.hpp"
-#include "sim/population_source.hpp"
+#include "report/report_run.hpp"
+#include "models/population_source.hpp"
 
 using namespace tocsin;
 
@@ -18,7 +18,7 @@ std::string demo_report(unsigned threads, std::optional<double> budget) {
     RunSettings settings;
     settings.threads = threads;
     settings.budget_limit = budget;
-    const RunOutput out = run_scenario(sc, population_factory(sc), settings);
+    const RunOutput out = run_scenario(sc, population_factory(sc.population), settings);
     return render_report(report_input_for_run(sc, out, settings));
 }
 

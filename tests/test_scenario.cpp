@@ -4,8 +4,8 @@
 #include <doctest/doctest.h>
 
 #include "models/errors.hpp"
-#include "sim/scenario.hpp"
-#include "sim/scenario_keys.hpp"
+#include "study/scenario.hpp"
+#include "study/scenario_keys.hpp"
 #include "test_support.hpp"
 
 using namespace tocsin;
@@ -39,12 +39,12 @@ InputError parse_error(const std::string& text) { return tocsin::testing::scenar
 TEST_CASE("scenario.valid_minimal") {
     Scenario sc = parse_scenario(scenario_text("{threshold: 60, snooze_minutes: 90, quiet_from: \"23:00\", quiet_until: \"06:00\"}"),
                                  "s.yaml", "/data");
-    CHECK(sc.plans.size() == 1);
-    CHECK(sc.plans[0].rule.snooze == minutes(90));
-    CHECK(sc.plans[0].rule.quiet_start_minute == 23 * 60);
-    CHECK(sc.window == hours(12));
-    CHECK(sc.replay.encounters_path == "/data/e.csv");
-    CHECK(sc.shifts.is_night == std::vector<bool>{false, true});
+    CHECK(sc.simulation.plans.size() == 1);
+    CHECK(sc.simulation.plans[0].rule.snooze == minutes(90));
+    CHECK(sc.simulation.plans[0].rule.quiet_start_minute == 23 * 60);
+    CHECK(sc.analysis.window == hours(12));
+    CHECK(sc.population.replay.encounters_path == "/data/e.csv");
+    CHECK(sc.simulation.shifts.is_night == std::vector<bool>{false, true});
 }
 
 TEST_CASE("scenario.unknown_key_names_nearest") {
@@ -194,16 +194,16 @@ TEST_CASE("scenario.replay_input_keys") {
     text.replace(text.find("    scores: s.csv\n"), 18,
                  "    scores: s.csv\n    max_stay_days: 90\n    far_out_fence_iqr: 5\n    score_range: [0, 1]\n    bad_rows: skip\n");
     const Scenario sc = parse_scenario(text, "s.yaml", "");
-    CHECK(sc.replay.max_stay_days == 90);
-    CHECK(sc.replay.far_out_fence_iqr == 5);
-    CHECK(sc.replay.score_low == 0);
-    CHECK(sc.replay.score_high == 1);
-    CHECK(sc.replay.bad_rows == BadRows::skip);
+    CHECK(sc.population.replay.max_stay_days == 90);
+    CHECK(sc.population.replay.far_out_fence_iqr == 5);
+    CHECK(sc.population.replay.score_low == 0);
+    CHECK(sc.population.replay.score_high == 1);
+    CHECK(sc.population.replay.bad_rows == BadRows::skip);
     // Defaults: stop at a bad row, a year of stay, the points scale.
     const Scenario plain = parse_scenario(scenario_text(), "s.yaml", "");
-    CHECK(plain.replay.bad_rows == BadRows::stop);
-    CHECK(plain.replay.max_stay_days == 365);
-    CHECK(plain.replay.score_high == 100);
+    CHECK(plain.population.replay.bad_rows == BadRows::stop);
+    CHECK(plain.population.replay.max_stay_days == 365);
+    CHECK(plain.population.replay.score_high == 100);
 
     auto with = [&](const std::string& line) {
         std::string t = scenario_text();

@@ -3,7 +3,7 @@
 #include <doctest/doctest.h>
 
 #include "models/errors.hpp"
-#include "sim/scenario.hpp"
+#include "study/scenario.hpp"
 #include "test_support.hpp"
 
 using namespace tocsin;
@@ -50,20 +50,20 @@ TEST_CASE("scenario.staff_valid") {
         scenario_with(two_roles, "    queue: priority\n    at_shift_end: drop\n",
                       "escalation:\n  - {from: ward nurse, to: charge nurse, after_minutes: 15}\n"),
         "s.yaml", "");
-    REQUIRE(sc.roles.size() == 2);
-    CHECK(sc.roles[0].per_unit);
-    CHECK(sc.roles[0].roster.by_shift == std::vector<int>{3, 1});  // by shift name, in shift order
-    REQUIRE(sc.roles[0].roster.by_weekday.size() == 7);
-    CHECK(sc.roles[0].roster.by_weekday[6] == std::vector<int>{2, 1});  // Sunday
-    CHECK(sc.roles[0].roster.by_weekday[0] == std::vector<int>{3, 1});  // Monday falls back to roster
-    CHECK(std::get<GammaMinutes>(sc.roles[0].minutes_per_task).sd_minutes == 6);
-    CHECK(std::get<EmpiricalMinutes>(sc.roles[1].minutes_per_task).minutes == std::vector<double>{5, 10, 20});
-    CHECK_FALSE(sc.roles[1].per_unit);
-    CHECK(sc.plans[0].staffing.first_role == 0);
-    CHECK(sc.plans[0].staffing.discipline == QueueDiscipline::priority_by_score);
-    CHECK(sc.plans[0].staffing.at_shift_end == ShiftEndPolicy::drop);
-    REQUIRE(sc.escalation.next(0).has_value());
-    CHECK(sc.escalation.next(0)->timeout_seconds == 15 * 60);
+    REQUIRE(sc.simulation.roles.size() == 2);
+    CHECK(sc.simulation.roles[0].per_unit);
+    CHECK(sc.simulation.roles[0].roster.by_shift == std::vector<int>{3, 1});  // by shift name, in shift order
+    REQUIRE(sc.simulation.roles[0].roster.by_weekday.size() == 7);
+    CHECK(sc.simulation.roles[0].roster.by_weekday[6] == std::vector<int>{2, 1});  // Sunday
+    CHECK(sc.simulation.roles[0].roster.by_weekday[0] == std::vector<int>{3, 1});  // Monday falls back to roster
+    CHECK(std::get<GammaMinutes>(sc.simulation.roles[0].minutes_per_task).sd_minutes == 6);
+    CHECK(std::get<EmpiricalMinutes>(sc.simulation.roles[1].minutes_per_task).minutes == std::vector<double>{5, 10, 20});
+    CHECK_FALSE(sc.simulation.roles[1].per_unit);
+    CHECK(sc.simulation.plans[0].staffing.first_role == 0);
+    CHECK(sc.simulation.plans[0].staffing.discipline == QueueDiscipline::priority_by_score);
+    CHECK(sc.simulation.plans[0].staffing.at_shift_end == ShiftEndPolicy::drop);
+    REQUIRE(sc.simulation.escalation.next(0).has_value());
+    CHECK(sc.simulation.escalation.next(0)->timeout_seconds == 15 * 60);
     const std::string text = describe_scenario(sc);
     CHECK(text.find("escalation: ward nurse -(15 min)-> charge nurse; worst case 15 min to reach charge nurse") !=
           std::string::npos);

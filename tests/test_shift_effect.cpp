@@ -1,9 +1,9 @@
 // Before/after figures of a stress-test shift.
 #include <doctest/doctest.h>
 
-#include "analysis/shift_effect.hpp"
-#include "sim/population_source.hpp"
-#include "sim/scenario.hpp"
+#include "study/shift_effect.hpp"
+#include "models/population_source.hpp"
+#include "study/scenario.hpp"
 
 using namespace tocsin;
 
@@ -34,7 +34,7 @@ TEST_CASE("shift_effect.raised_census_shows_as_more_notices") {
     // notices per unit per night rise well beyond the replication noise.
     const Scenario sc = parse_scenario(scenario("    census: [{unit: north, multiplier: 3}, {unit: south, multiplier: 3}]\n"),
                                        "s.yaml", "");
-    const ShiftEffect effect = shift_effect(sc, population_factory(sc), 2);
+    const ShiftEffect effect = shift_effect(sc, population_factory(sc.population), 2);
     REQUIRE(effect.table.rows.size() == 3);  // one plan x three metrics
     const auto& night = effect.table.rows[0];
     CHECK(std::get<std::string>(night[1]) == "per_unit_night_mean");
@@ -50,7 +50,7 @@ TEST_CASE("shift_effect.feed_outage_silences_its_hours") {
     // A feed outage covering every night after the start (14 days) leaves no
     // score available at night after the shift: notices at night drop to 0.
     const Scenario sc = parse_scenario(scenario("    outage_hours: 336\n"), "s.yaml", "");
-    const ShiftEffect effect = shift_effect(sc, population_factory(sc), 1);
+    const ShiftEffect effect = shift_effect(sc, population_factory(sc.population), 1);
     const auto& night = effect.table.rows[0];
     CHECK(std::get<double>(night[2]) > 0);
     CHECK(std::get<double>(night[5]) == 0);

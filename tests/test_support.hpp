@@ -13,7 +13,7 @@
 #include <doctest/doctest.h>
 
 #include "models/errors.hpp"
-#include "sim/scenario.hpp"
+#include "study/scenario.hpp"
 
 namespace tocsin::testing {
 

@@ -2,7 +2,7 @@
 #include <doctest/doctest.h>
 
 #include "models/errors.hpp"
-#include "sim/sweep.hpp"
+#include "study/sweep.hpp"
 #include "test_support.hpp"
 
 using namespace tocsin;
@@ -30,21 +30,21 @@ TEST_CASE("sweep.grid") {
     req.base_plan = "b";
     req.axes = {parse_sweep_axis("plan.rule.threshold=50,60"), parse_sweep_axis("plan.rule.snooze_minutes=60:180:60")};
     const Scenario sc = sweep_scenario(path, req);
-    REQUIRE(sc.plans.size() == 6);
-    CHECK(sc.plans[0].name == "b threshold=50, snooze_minutes=60");
-    CHECK(sc.plans[5].name == "b threshold=60, snooze_minutes=180");
-    CHECK(sc.plans[5].rule.threshold == 60);
-    CHECK(sc.plans[5].rule.snooze == minutes(180));
+    REQUIRE(sc.simulation.plans.size() == 6);
+    CHECK(sc.simulation.plans[0].name == "b threshold=50, snooze_minutes=60");
+    CHECK(sc.simulation.plans[5].name == "b threshold=60, snooze_minutes=180");
+    CHECK(sc.simulation.plans[5].rule.threshold == 60);
+    CHECK(sc.simulation.plans[5].rule.snooze == minutes(180));
 
     req.keep_other_plans = true;
-    CHECK(sweep_scenario(path, req).plans.size() == 8);
+    CHECK(sweep_scenario(path, req).simulation.plans.size() == 8);
 
     SUBCASE("a key the plan does not have yet is added") {
         SweepRequest r;
         r.base_plan = "a";
         r.axes = {parse_sweep_axis("plan.rule.persistence=1,2,3")};
         const Scenario s = sweep_scenario(path, r);
-        CHECK(s.plans[2].rule.persistence == 3);
+        CHECK(s.simulation.plans[2].rule.persistence == 3);
     }
     SUBCASE("an invalid swept value is reported with its key") {
         SweepRequest r;
@@ -59,8 +59,8 @@ TEST_CASE("sweep.grid") {
     SUBCASE("the scenario file can declare the sweep") {
         const std::string with = dir.file("w.yaml", base + "sweep:\n  plan: a\n  vary:\n    - {key: plan.rule.threshold, from: 40, to: 60, step: 10}\n");
         const Scenario s = sweep_scenario(with, SweepRequest{});
-        REQUIRE(s.plans.size() == 3);
-        CHECK(s.plans[1].name == "a threshold=50");
+        REQUIRE(s.simulation.plans.size() == 3);
+        CHECK(s.simulation.plans[1].name == "a threshold=50");
     }
     SUBCASE("grids beyond the limit are refused") {
         SweepRequest r;
@@ -150,14 +150,14 @@ TEST_CASE("sweep.staffing_axis") {
     SweepRequest req;
     req.axes = {parse_sweep_axis("roles.cover nurse.roster.night=1,2,3"), parse_sweep_axis("plan.rule.threshold=50,60")};
     const Scenario sc = sweep_scenario(path, req);
-    REQUIRE(sc.plans.size() == 6);
-    CHECK(sc.plans[0].name == "p night=1, threshold=50");
-    CHECK(sc.plans[0].role == "cover nurse (night=1)");
-    CHECK(sc.plans[5].role == "cover nurse (night=3)");
-    REQUIRE(sc.roles.size() == 5);  // the two declared, one copy per night value
-    CHECK(sc.roles[4].name == "cover nurse (night=3)");
-    CHECK(sc.roles[4].roster.by_shift[1] == 3);
-    CHECK(sc.roles[4].roster.by_shift[0] == 2);  // the day roster is the original's
+    REQUIRE(sc.simulation.plans.size() == 6);
+    CHECK(sc.simulation.plans[0].name == "p night=1, threshold=50");
+    CHECK(sc.simulation.plans[0].role == "cover nurse (night=1)");
+    CHECK(sc.simulation.plans[5].role == "cover nurse (night=3)");
+    REQUIRE(sc.simulation.roles.size() == 5);  // the two declared, one copy per night value
+    CHECK(sc.simulation.roles[4].name == "cover nurse (night=3)");
+    CHECK(sc.simulation.roles[4].roster.by_shift[1] == 3);
+    CHECK(sc.simulation.roles[4].roster.by_shift[0] == 2);  // the day roster is the original's
     // Each copy escalates like the original.
     CHECK(describe_scenario(sc).find("cover nurse (night=2) -(30 min)-> physician") != std::string::npos);
 

@@ -1,4 +1,4 @@
-// Scenario loading from YAML text (sim/scenario.hpp). Properties:
+// Scenario loading from YAML text (study/scenario.hpp). Properties:
 //  - the only exception is InputError, and it names the scenario file;
 //  - loading is a function of the text: loading it twice describes the same
 //    scenario.
@@ -7,7 +7,7 @@
 
 #include "fuzz_support.hpp"
 #include "models/errors.hpp"
-#include "sim/scenario.hpp"
+#include "study/scenario.hpp"
 
 using namespace tocsin;
 using tocsin::fuzz::broken;

@@ -8,13 +8,13 @@
 #include <functional>
 
 #include "models/population.hpp"
-#include "sim/scenario.hpp"
+#include "models/population_source.hpp"
+#include "study/scenario.hpp"
 #include "sim/shifts.hpp"
 #include "sim/simulate.hpp"
 
 namespace tocsin {
 
-using PopulationFactory = std::function<Population(std::uint64_t replication)>;
 using ReplicationObserver = std::function<void(std::uint64_t replication, const Population& population,
                                                const ShiftCalendar& calendar, const ReplicationRecord& record)>;
 using ProgressReport = std::function<void(std::uint64_t done, std::uint64_t total)>;

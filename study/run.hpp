@@ -8,10 +8,9 @@
 
 #include "analysis/comparison.hpp"
 #include "analysis/evaluation.hpp"
-#include "analysis/output.hpp"
 #include "analysis/results.hpp"
-#include "sim/experiment.hpp"
-#include "sim/scenario.hpp"
+#include "study/experiment.hpp"
+#include "study/scenario.hpp"
 
 namespace tocsin {
 
@@ -53,13 +52,5 @@ RunOutput run_scenario(const Scenario& scenario, const PopulationFactory& make_p
 // and workflow are judged in the same unit as the decision curve.
 Table plan_net_benefit_table(const std::vector<std::string>& plans, const std::vector<PlanFigures>& figures,
                              std::size_t encounters, const std::vector<double>& evaluations_per_case);
-
-// The machine-readable record of a run: tool version, scenario file and hash,
-// seed, replications, threads and time taken. It is the one output that
-// differs between identical runs (threads, time).
-std::string run_record_json(const Scenario& scenario, const RunSettings& settings, double seconds);
-
-// Every output file of a run (tables as CSV and JSON, cautions).
-std::vector<OutputFile> run_output_files(const RunOutput& output);
 
 }  // namespace tocsin

@@ -1,4 +1,4 @@
-#include "analysis/report_run.hpp"
+#include "report/report_run.hpp"
 
 #include <algorithm>
 #include <cctype>
@@ -7,7 +7,7 @@
 #include <map>
 #include <sstream>
 
-#include "analysis/html.hpp"
+#include "report/html.hpp"
 
 namespace tocsin {
 
@@ -226,7 +226,7 @@ ReportInput report_input_for_run(const Scenario& sc, const RunOutput& out, const
     in.run.tool_version = TOCSIN_VERSION;
     in.run.scenario_name = sc.name;
     in.run.scenario_hash = hash;
-    in.run.seed = sc.seed;
+    in.run.seed = sc.simulation.seed;
     in.run.replications = static_cast<std::int64_t>(f.replications);
     in.run.other = {{"Scenario file", sc.file}};
     if (burden) in.run.other.emplace_back("Burden measure", std::string(burden->name));

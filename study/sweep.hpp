@@ -12,7 +12,7 @@
 #include <string>
 #include <vector>
 
-#include "sim/scenario.hpp"
+#include "study/scenario.hpp"
 
 namespace tocsin {
 

@@ -1,4 +1,4 @@
-#include "sim/population_source.hpp"
+#include "models/population_source.hpp"
 
 #include <memory>
 #include <sstream>
@@ -11,7 +11,7 @@
 
 namespace tocsin {
 
-PreparedPopulation prepare_population(const Scenario& sc) {
+PreparedPopulation prepare_population(const PopulationSetup& sc) {
     PreparedPopulation p;
     if (sc.source == PopulationSource::replay) {
         p.log = load_replay(sc.replay, sc.zone);
@@ -37,7 +37,7 @@ PreparedPopulation prepare_population(const Scenario& sc) {
     return p;
 }
 
-Population population_for(const Scenario& sc, const PreparedPopulation& prepared, std::uint64_t replication) {
+Population population_for(const PopulationSetup& sc, const PreparedPopulation& prepared, std::uint64_t replication) {
     Population pop;
     if (sc.source == PopulationSource::replay) {
         pop = sc.bootstrap ? bootstrap_population(*prepared.log, *sc.bootstrap, sc.seed, replication) : *prepared.log;
@@ -48,7 +48,7 @@ Population population_for(const Scenario& sc, const PreparedPopulation& prepared
     return pop;
 }
 
-std::string describe_prepared(const Scenario& sc, const PreparedPopulation& p) {
+std::string describe_prepared(const PopulationSetup& sc, const PreparedPopulation& p) {
     std::ostringstream o;
     if (p.calibration) {
         o.setf(std::ios::fixed);
@@ -61,12 +61,12 @@ std::string describe_prepared(const Scenario& sc, const PreparedPopulation& p) {
     return o.str();
 }
 
-PopulationFactory population_factory(const Scenario& scenario) {
+PopulationFactory population_factory(const PopulationSetup& scenario) {
     return population_factory(scenario, prepare_population(scenario));
 }
 
-PopulationFactory population_factory(const Scenario& scenario, const PreparedPopulation& prepared) {
-    auto shared_scenario = std::make_shared<const Scenario>(scenario);
+PopulationFactory population_factory(const PopulationSetup& scenario, const PreparedPopulation& prepared) {
+    auto shared_scenario = std::make_shared<const PopulationSetup>(scenario);
     auto shared_prepared = std::make_shared<const PreparedPopulation>(prepared);
     return [shared_scenario, shared_prepared](std::uint64_t replication) {
         return population_for(*shared_scenario, *shared_prepared, replication);

@@ -18,7 +18,7 @@
 
 #include "analysis/table.hpp"
 #include "models/population.hpp"
-#include "sim/scenario.hpp"
+#include "study/scenario.hpp"
 #include "sim/shifts.hpp"
 
 namespace tocsin {

@@ -1,11 +1,11 @@
-#include "analysis/run.hpp"
+#include "study/run.hpp"
 
 #include <cstdio>
 #include <mutex>
 #include <stdexcept>
 
 #include "analysis/cautions.hpp"
-#include "analysis/evaluation_scenario.hpp"
+#include "study/evaluation_scenario.hpp"
 
 namespace tocsin {
 
@@ -29,11 +29,11 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
     options.replayed_openings = settings.replayed_openings;
     run_experiment(sc, make_population, options,
                    [&](std::uint64_t r, const Population& pop, const ShiftCalendar& cal, const ReplicationRecord& rec) {
-                       const ReportingShifts rep = reporting_shifts(sc, pop, cal);
+                       const ReportingShifts rep = reporting_shifts(sc.analysis, pop, cal);
                        for (const PlanRecord& plan : rec.plans)
-                           figures[r].push_back(plan_figures(sc, pop, cal, rep, plan));
+                           figures[r].push_back(plan_figures(sc.analysis, pop, cal, rep, plan));
                        if (r == 0 || settings.notice_log || settings.task_log) {
-                           RunTables t = run_tables(sc, pop, cal, rec, settings.notice_log, settings.task_log,
+                           RunTables t = run_tables(sc.simulation, sc.analysis, pop, cal, rec, settings.notice_log, settings.task_log,
                                                    settings.replayed_openings);
                            if (settings.notice_log) logs[r] = std::move(*t.notice_log);
                            if (t.task_log) {
@@ -49,7 +49,7 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
                                // replications, rather than after them all.
                                std::optional<Evaluation> evaluation;
                                if (settings.evaluate) evaluation = evaluate(pop, evaluation_options_for(sc));
-                               std::string header = run_header_text(sc, pop, t, rep);
+                               std::string header = run_header_text(sc.name, sc.simulation.zone, pop, t, rep);
                                std::lock_guard<std::mutex> guard(first_lock);
                                out.first_replication = std::move(t);
                                out.first_header = std::move(header);
@@ -71,7 +71,7 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
         out.first_replication.task_log = std::move(all);
     }
     std::vector<std::string> names;
-    for (const Plan& p : sc.plans) names.push_back(p.name);
+    for (const Plan& p : sc.simulation.plans) names.push_back(p.name);
     out.plan_net_benefit = plan_net_benefit_table(names, figures[0], out.first_encounters,
                                                   {2, 5, 10, 20, 50});
     out.figures = collect_figures(names, figures);
@@ -82,7 +82,7 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
     if (sc.replications > 1) out.text += comparison_text(out.figures);
     else out.text += plan_summary_text(out.first_replication);
     if (out.evaluation) out.text += "\nThe score on the same population (replication 0):\n" + evaluation_summary(*out.evaluation);
-    if (sc.plans.size() > 2) out.text += "\n" + frontier_text(out.figures, metric_index(*burden), metric_index(*benefit));
+    if (sc.simulation.plans.size() > 2) out.text += "\n" + frontier_text(out.figures, metric_index(*burden), metric_index(*benefit));
     if (settings.budget_limit) {
         out.budget = best_within_budget(out.figures, metric_index(*limited), *settings.budget_limit, metric_index(*benefit));
         out.text += "\n" + budget_text(out.figures, *out.budget, metric_index(*limited), *settings.budget_limit,
@@ -111,43 +111,6 @@ Table plan_net_benefit_table(const std::vector<std::string>& plans, const std::v
                        n > 0 ? Cell(prevalence - (1.0 - prevalence) * odds) : Cell()});
         }
     return t;
-}
-
-std::string run_record_json(const Scenario& sc, const RunSettings& settings, double seconds) {
-    char hash[24];
-    std::snprintf(hash, sizeof hash, "%016llx", static_cast<unsigned long long>(sc.source_hash));
-    std::string plans;
-    for (const Plan& p : sc.plans) plans += (plans.empty() ? "" : ", ") + json_escape(p.name);
-    return std::string("{\n") + "  \"tool\": \"tocsin\",\n  \"version\": \"" + TOCSIN_VERSION + "\",\n" +
-           "  \"scenario_file\": " + json_escape(sc.file) + ",\n  \"scenario_name\": " + json_escape(sc.name) +
-           ",\n  \"scenario_fnv1a64\": \"" + hash + "\",\n  \"seed\": " + std::to_string(sc.seed) +
-           ",\n  \"replications\": " + std::to_string(sc.replications) + ",\n  \"threads\": " +
-           std::to_string(settings.threads) + ",\n  \"seconds\": " + format_real(seconds, 3) +
-           ",\n  \"plans\": [" + plans + "]\n}\n";
-}
-
-std::vector<OutputFile> run_output_files(const RunOutput& out) {
-    std::vector<OutputFile> files;
-    add_table_files(files, out.first_replication.plan_summary);
-    add_table_files(files, out.first_replication.unit_shift_notices);
-    add_table_files(files, out.first_replication.exclusions);
-    add_table_files(files, out.first_replication.channel_burden);
-    if (!out.first_replication.rounds.rows.empty()) add_table_files(files, out.first_replication.rounds);
-    if (!out.first_replication.chart_interruptions.rows.empty())
-        add_table_files(files, out.first_replication.chart_interruptions);
-    add_table_files(files, out.comparison.comparison);
-    add_table_files(files, out.comparison.differences);
-    add_table_files(files, out.comparison.replication_figures);
-    add_table_files(files, out.frontier);
-    add_table_files(files, out.plan_net_benefit);
-    if (out.evaluation)
-        for (const Table* table : evaluation_tables(*out.evaluation)) add_table_files(files, *table);
-    if (out.first_replication.notice_log) add_table_files(files, *out.first_replication.notice_log);
-    const RunTables& t = out.first_replication;
-    for (const auto* staff : {&t.staff_workload, &t.staff_escalations, &t.task_fates, &t.task_log})
-        if (*staff) add_table_files(files, **staff);
-    files.push_back({"CAUTIONS.txt", cautions_text() + "\n"});
-    return files;
 }
 
 }  // namespace tocsin

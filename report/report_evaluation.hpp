@@ -3,7 +3,7 @@
 // the discrimination and calibration tables, a short threshold table, and
 // the ROC, calibration and decision-curve charts when their data is there.
 #include "analysis/evaluation.hpp"
-#include "analysis/report.hpp"
+#include "report/report.hpp"
 
 namespace tocsin {
 

@@ -3,9 +3,9 @@
 // is one call: write_file(FILE, render_report(report_input_for_run(...))).
 // Leaves out threads and time taken, so the report is byte-identical whatever
 // the thread count (run_record.json carries them).
-#include "analysis/report.hpp"
-#include "analysis/run.hpp"
-#include "sim/scenario.hpp"
+#include "report/report.hpp"
+#include "study/run.hpp"
+#include "study/scenario.hpp"
 
 namespace tocsin {
 

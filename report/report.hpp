@@ -16,7 +16,7 @@
 #include <utility>
 #include <vector>
 
-#include "analysis/svg.hpp"
+#include "report/svg.hpp"
 #include "analysis/table.hpp"
 
 namespace tocsin {

@@ -1,6 +1,6 @@
 // Every scenario key, declared once. Keep in step with the loader in
-// sim/scenario.cpp (a test checks every declared key is read and documented).
-#include "sim/scenario_keys.hpp"
+// study/scenario.cpp (a test checks every declared key is read and documented).
+#include "study/scenario_keys.hpp"
 
 namespace tocsin {
 

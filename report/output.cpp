@@ -1,4 +1,4 @@
-#include "analysis/output.hpp"
+#include "report/output.hpp"
 
 #include <algorithm>
 #include <atomic>

@@ -4,7 +4,7 @@
 // generated population on the probability scale - the score as a probability.
 // The CLI's `evaluate` and a run's results start from the same defaults.
 #include "analysis/evaluation.hpp"
-#include "sim/scenario.hpp"
+#include "study/scenario.hpp"
 
 namespace tocsin {
 

@@ -1,4 +1,4 @@
-#include "analysis/svg.hpp"
+#include "report/svg.hpp"
 
 #include <algorithm>
 #include <cmath>
@@ -6,7 +6,7 @@
 #include <map>
 #include <set>
 
-#include "analysis/html.hpp"
+#include "report/html.hpp"
 #include "models/text.hpp"
 #include "analysis/quantiles.hpp"
 #include "analysis/table.hpp"

@@ -1,4 +1,4 @@
-#include "analysis/html.hpp"
+#include "report/html.hpp"
 
 #include <cmath>
 #include <cstdio>

@@ -1,4 +1,4 @@
-#include "sim/scenario.hpp"
+#include "study/scenario.hpp"
 
 #include <algorithm>
 #include <cmath>
@@ -10,7 +10,7 @@
 #include <sstream>
 
 #include "models/errors.hpp"
-#include "sim/scenario_keys.hpp"
+#include "study/scenario_keys.hpp"
 
 namespace tocsin {
 
@@ -253,12 +253,12 @@ void parse_channel_settings(const Section& s, Plan& p, const Scenario& sc, const
     }
     if (p.channel == Channel::chart_interruption) {
         Section c(s.child("chart"), "plans[].chart", s.file(), where + ".chart");
-        if (!sc.chart_openings)
+        if (!sc.simulation.chart_openings)
             s.fail("channel", "a chart_interruption plan needs the top-level chart_openings section (when charts are opened)");
         p.chart.interruption_minutes = c.real("interruption_minutes", 0);
         p.chart.acceptance_probability = c.real("acceptance_probability", 1);
         if (s.has("role")) {
-            const auto& roles = sc.chart_openings->roles;
+            const auto& roles = sc.simulation.chart_openings->roles;
             std::size_t r = 0;
             while (r < roles.size() && roles[r].name != p.role) ++r;
             if (r == roles.size())
@@ -279,7 +279,7 @@ void parse_channel_settings(const Section& s, Plan& p, const Scenario& sc, const
         if (scope == "unit") p.review.scope = ReviewScope::unit;
         else if (scope == "hospital") p.review.scope = ReviewScope::hospital;
         else r.fail("scope", "unknown scope '" + scope + "' (expected: unit or hospital)");
-        if (auto h = r.optional_real("skip_reviewed_hours")) p.rule.snooze = static_cast<Seconds>(std::llround(*h * 3600));
+        if (auto h = r.optional_real("skip_reviewed_hours")) p.review.skip_reviewed = static_cast<Seconds>(std::llround(*h * 3600));
         p.review.minutes_per_review = r.real("minutes_per_review", 0);
         const bool by_max = r.has("max_reviews_per_round");
         const bool by_team = r.has("team_size") || r.has("team_minutes_per_round");
@@ -349,10 +349,10 @@ ScoreScale score_scale(const Section& s, std::string_view key, ScoreScale fallba
 }
 
 void parse_generator(const Section& g, Scenario& sc) {
-    GeneratorConfig& c = sc.generator;
-    c.zone = sc.zone;
-    c.period_start = timestamp(g, "start", sc.zone);
-    c.period_end = timestamp(g, "end", sc.zone);
+    GeneratorConfig& c = sc.population.generator;
+    c.zone = sc.simulation.zone;
+    c.period_start = timestamp(g, "start", sc.simulation.zone);
+    c.period_end = timestamp(g, "end", sc.simulation.zone);
     if (c.period_end <= c.period_start) g.fail("end", "the generated period ends before it starts");
     c.warmup_days = g.real("warmup_days", 14);
     std::size_t i = 0;
@@ -407,10 +407,10 @@ void parse_generator(const Section& g, Scenario& sc) {
         k.drift_onset_max_hours = s.real("drift_onset_max_hours", k.drift_onset_max_hours);
         if (k.drift_onset_max_hours < k.drift_onset_min_hours)
             s.fail("drift_onset_max_hours", "must be at or above drift_onset_min_hours");
-        sc.target_auc = s.optional_real("target_auc");
-        if (sc.target_auc) {
+        sc.population.target_auc = s.optional_real("target_auc");
+        if (sc.population.target_auc) {
             const YAML::Node at = node["target_auc"];
-            sc.target_auc_at = {at.Mark().line + 1, at.Mark().column + 1};
+            sc.population.target_auc_at = {at.Mark().line + 1, at.Mark().column + 1};
         }
     }
     try {
@@ -434,17 +434,17 @@ BootstrapConfig parse_bootstrap(const Section& s) {
 
 ShiftStress parse_shift(const Section& s, const Scenario& sc) {
     ShiftStress x;
-    x.from = timestamp(s, "from", sc.zone);
+    x.from = timestamp(s, "from", sc.simulation.zone);
     x.units = s.text_list("units");
     x.outcome_rate_multiplier = s.real("outcome_rate_multiplier", 1);
-    x.scale = sc.source == PopulationSource::generate ? sc.generator.scores.scale : score_scale(s, "scale", ScoreScale::points);
-    if (sc.source == PopulationSource::generate && s.has("scale") && score_scale(s, "scale", x.scale) != x.scale)
+    x.scale = sc.population.source == PopulationSource::generate ? sc.population.generator.scores.scale : score_scale(s, "scale", ScoreScale::points);
+    if (sc.population.source == PopulationSource::generate && s.has("scale") && score_scale(s, "scale", x.scale) != x.scale)
         s.fail("scale", "differs from population.generate.scores.scale; leave it out for generated populations");
     x.score_scale = s.real("score_scale", 1);
     x.score_offset = s.real("score_offset", 0);
     x.cadence_minutes = s.real("cadence_minutes", 0);
     x.outage_hours = s.real("outage_hours", 0);
-    x.outage_start = s.has("outage_start") ? timestamp(s, "outage_start", sc.zone) : x.from;
+    x.outage_start = s.has("outage_start") ? timestamp(s, "outage_start", sc.simulation.zone) : x.from;
     if (x.outage_start < x.from) s.fail("outage_start", "must not be before `from` (patients before the shift stay unchanged)");
     std::size_t i = 0;
     for (const auto& node : s.child("census")) {
@@ -453,9 +453,9 @@ ShiftStress parse_shift(const Section& s, const Scenario& sc) {
         if (x.census_multiplier.count(unit)) c.fail("unit", "unit '" + unit + "' is listed twice");
         x.census_multiplier[unit] = c.real("multiplier", 1);
     }
-    if (sc.source == PopulationSource::generate) {
+    if (sc.population.source == PopulationSource::generate) {
         std::vector<std::string> known;
-        for (const UnitConfig& u : sc.generator.units) known.push_back(u.name);
+        for (const UnitConfig& u : sc.population.generator.units) known.push_back(u.name);
         auto check_unit = [&](const std::string& name, std::string_view key) {
             if (std::find(known.begin(), known.end(), name) == known.end()) {
                 std::string list;
@@ -485,7 +485,7 @@ Scenario scenario_from(const YAML::Node& root, const std::string& yaml_text, con
 }  // namespace
 
 std::string replications_problem(const Scenario& sc, std::uint64_t replications) {
-    if (replications > 1 && sc.source == PopulationSource::replay && !sc.bootstrap)
+    if (replications > 1 && sc.population.source == PopulationSource::replay && !sc.population.bootstrap)
         return "a plain replay is the same in every replication; more than one replication needs a resampled "
                "(population.bootstrap) or generated population";
     return {};
@@ -527,11 +527,15 @@ Scenario scenario_from(const YAML::Node& root, const std::string& yaml_text, con
     sc.description = top.text("description");
     sc.time_zone_name = top.text("time_zone");
     try {
-        sc.zone = TimeZone::load(sc.time_zone_name);
+        sc.simulation.zone = TimeZone::load(sc.time_zone_name);
     } catch (const std::runtime_error& e) {
         top.fail("time_zone", e.what());
     }
-    sc.seed = static_cast<std::uint64_t>(top.integer("seed", 1));
+    sc.simulation.seed = static_cast<std::uint64_t>(top.integer("seed", 1));
+    // The population reads its log in the same zone and draws from the same seed.
+    sc.population.zone = sc.simulation.zone;
+    sc.population.seed = sc.simulation.seed;
+    sc.population.file = file;
     sc.replications = static_cast<std::uint64_t>(top.integer("replications", 1));
     sc.score_label = top.text("score_label", "score");
 
@@ -553,16 +557,16 @@ Scenario scenario_from(const YAML::Node& root, const std::string& yaml_text, con
             for (std::size_t j = 0; j < k; ++j)
                 if (items[j].name == items[k].name)
                     throw yaml_error(file, items[k].node, "shifts.name", "two shifts are named '" + items[k].name + "'");
-            sc.shifts.start_minutes.push_back(items[k].start);
-            sc.shifts.names.push_back(items[k].name);
-            sc.shifts.is_night.push_back(items[k].night);
+            sc.simulation.shifts.start_minutes.push_back(items[k].start);
+            sc.simulation.shifts.names.push_back(items[k].name);
+            sc.simulation.shifts.is_night.push_back(items[k].night);
         }
     }
     {
         Section s(top.child("outcome"), "outcome", file, "outcome");
-        sc.window = static_cast<Seconds>(std::llround(s.real("window_hours", 24) * 3600));
-        sc.min_lead = seconds_from_minutes(s.real("min_lead_minutes", 0));
-        if (sc.min_lead >= sc.window)
+        sc.analysis.window = static_cast<Seconds>(std::llround(s.real("window_hours", 24) * 3600));
+        sc.analysis.min_lead = seconds_from_minutes(s.real("min_lead_minutes", 0));
+        if (sc.analysis.min_lead >= sc.analysis.window)
             s.fail("min_lead_minutes", "minimum lead must be shorter than the window, or nothing could be caught");
     }
     {
@@ -572,35 +576,35 @@ Scenario scenario_from(const YAML::Node& root, const std::string& yaml_text, con
                      "give exactly one population source: replay (a log) or generate (invented patients)");
         if (pop.has("replay")) {
             Section s(pop.child("replay"), "population.replay", file, "population.replay");
-            sc.replay.encounters_path = resolve(directory, s.text("encounters"));
-            sc.replay.scores_path = resolve(directory, s.text("scores"));
-            sc.replay.latency_when_missing = seconds_from_minutes(s.real("latency_minutes", 0));
-            sc.replay.max_stay_days = s.real("max_stay_days", sc.replay.max_stay_days);
-            sc.replay.far_out_fence_iqr = s.real("far_out_fence_iqr", sc.replay.far_out_fence_iqr);
+            sc.population.replay.encounters_path = resolve(directory, s.text("encounters"));
+            sc.population.replay.scores_path = resolve(directory, s.text("scores"));
+            sc.population.replay.latency_when_missing = seconds_from_minutes(s.real("latency_minutes", 0));
+            sc.population.replay.max_stay_days = s.real("max_stay_days", sc.population.replay.max_stay_days);
+            sc.population.replay.far_out_fence_iqr = s.real("far_out_fence_iqr", sc.population.replay.far_out_fence_iqr);
             if (s.has("score_range")) {
                 const std::vector<double> range = s.real_list("score_range");
                 if (range.size() != 2 || !std::isfinite(range[0]) || !std::isfinite(range[1]) || !(range[0] < range[1]))
                     s.fail("score_range", "expected [low, high] with two finite numbers, low below high");
-                sc.replay.score_low = range[0];
-                sc.replay.score_high = range[1];
+                sc.population.replay.score_low = range[0];
+                sc.population.replay.score_high = range[1];
             }
             const std::string bad_rows = s.text("bad_rows", "stop");
-            if (bad_rows == "skip") sc.replay.bad_rows = BadRows::skip;
+            if (bad_rows == "skip") sc.population.replay.bad_rows = BadRows::skip;
             else if (bad_rows != "stop") s.fail("bad_rows", "unknown value '" + bad_rows + "' (expected stop or skip)");
         } else {
-            sc.source = PopulationSource::generate;
+            sc.population.source = PopulationSource::generate;
             parse_generator(Section(pop.child("generate"), "population.generate", file, "population.generate"), sc);
         }
         if (pop.has("bootstrap")) {
-            if (sc.source != PopulationSource::replay)
+            if (sc.population.source != PopulationSource::replay)
                 pop.fail("bootstrap", "bootstrap resamples a replayed log; a generated population makes every "
                                       "replication afresh, so leave bootstrap out");
-            sc.bootstrap = parse_bootstrap(Section(pop.child("bootstrap"), "population.bootstrap", file, "population.bootstrap"));
+            sc.population.bootstrap = parse_bootstrap(Section(pop.child("bootstrap"), "population.bootstrap", file, "population.bootstrap"));
         }
         if (pop.has("shift")) {
             const YAML::Node node = pop.child("shift");
-            sc.shift = parse_shift(Section(node, "population.shift", file, "population.shift"), sc);
-            sc.shift_at = {node.Mark().line + 1, node.Mark().column + 1};
+            sc.population.shift = parse_shift(Section(node, "population.shift", file, "population.shift"), sc);
+            sc.population.shift_at = {node.Mark().line + 1, node.Mark().column + 1};
         }
         if (std::string problem = replications_problem(sc, sc.replications); !problem.empty())
             top.fail("replications", problem);
@@ -609,19 +613,19 @@ Scenario scenario_from(const YAML::Node& root, const std::string& yaml_text, con
         Section s(top.child("reporting"), "reporting", file, "reporting");
         auto stamp = [&](std::string_view key) -> std::optional<Instant> {
             if (!s.has(key)) return std::nullopt;
-            auto t = parse_timestamp(s.text(key), sc.zone);
+            auto t = parse_timestamp(s.text(key), sc.simulation.zone);
             if (!t) s.fail(key, "expected a timestamp such as 2026-03-01T07:00:00 (local) or 2026-03-01T06:00:00Z");
             return t;
         };
-        sc.period_start = stamp("from");
-        sc.period_end = stamp("until");
-        if (sc.period_start && sc.period_end && *sc.period_end <= *sc.period_start)
+        sc.analysis.period_start = stamp("from");
+        sc.analysis.period_end = stamp("until");
+        if (sc.analysis.period_start && sc.analysis.period_end && *sc.analysis.period_end <= *sc.analysis.period_start)
             s.fail("until", "the reporting period ends before it starts");
     }
-    if (top.has("roles")) sc.roles = parse_roles(top, sc.shifts, file);
-    sc.escalation = parse_escalation(top, sc.roles, file);
+    if (top.has("roles")) sc.simulation.roles = parse_roles(top, sc.simulation.shifts, file);
+    sc.simulation.escalation = parse_escalation(top, sc.simulation.roles, file);
     if (top.has("chart_openings"))
-        sc.chart_openings = parse_chart_openings(Section(top.child("chart_openings"), "chart_openings", file, "chart_openings"),
+        sc.simulation.chart_openings = parse_chart_openings(Section(top.child("chart_openings"), "chart_openings", file, "chart_openings"),
                                                  directory);
     {
         YAML::Node list = top.child("plans");
@@ -636,9 +640,9 @@ Scenario scenario_from(const YAML::Node& root, const std::string& yaml_text, con
             p.description = s.text("description");
             p.channel = parse_channel(s);
             p.role = s.text("role", p.channel == Channel::chart_interruption ? "whoever opens the chart" : "responder");
-            if (sc.has_staff()) {
+            if (sc.simulation.has_staff()) {
                 std::vector<std::string> names;
-                for (const Role& r : sc.roles) names.push_back(r.name);
+                for (const Role& r : sc.simulation.roles) names.push_back(r.name);
                 const auto at = std::find(names.begin(), names.end(), p.role);
                 if (at == names.end()) {
                     std::string best = names.front();
@@ -656,7 +660,7 @@ Scenario scenario_from(const YAML::Node& root, const std::string& yaml_text, con
             if (at_end == "drop") p.staffing.at_shift_end = ShiftEndPolicy::drop;
             else if (at_end != "hand_over")
                 s.fail("at_shift_end", "unknown policy '" + at_end + "' (expected hand_over or drop)");
-            if (!sc.has_staff() && (s.has("queue") || s.has("at_shift_end")))
+            if (!sc.simulation.has_staff() && (s.has("queue") || s.has("at_shift_end")))
                 s.fail(s.has("queue") ? "queue" : "at_shift_end", "needs roles; declare the roles that answer notices");
             const std::string where = "plans[" + std::to_string(i - 1) + "]";
             if (s.has("rule"))
@@ -666,9 +670,9 @@ Scenario scenario_from(const YAML::Node& root, const std::string& yaml_text, con
             else
                 s.fail("rule", "required key 'rule' is missing (when the plan fires)");
             parse_channel_settings(s, p, sc, where);
-            sc.plans.push_back(std::move(p));
+            sc.simulation.plans.push_back(std::move(p));
         }
-        if (sc.plans.empty()) top.fail("plans", "at least one plan is needed");
+        if (sc.simulation.plans.empty()) top.fail("plans", "at least one plan is needed");
     }
     return sc;
 }
@@ -712,56 +716,54 @@ std::string describe_scenario(const Scenario& sc) {
     std::ostringstream o;
     o << "Scenario: " << sc.name << "\n";
     if (!sc.description.empty()) o << "  " << sc.description << "\n";
-    o << "Time zone: " << sc.time_zone_name << "; seed " << sc.seed << "; " << sc.replications
+    o << "Time zone: " << sc.time_zone_name << "; seed " << sc.simulation.seed << "; " << sc.replications
       << (sc.replications == 1 ? " replication" : " replications") << "\n";
     o << "Shifts:";
-    for (std::size_t i = 0; i < sc.shifts.names.size(); ++i)
-        o << " " << sc.shifts.names[i] << " from " << format_clock_minutes(sc.shifts.start_minutes[i])
-          << (sc.shifts.is_night[i] ? " (night)" : "") << (i + 1 < sc.shifts.names.size() ? "," : "");
+    for (std::size_t i = 0; i < sc.simulation.shifts.names.size(); ++i)
+        o << " " << sc.simulation.shifts.names[i] << " from " << format_clock_minutes(sc.simulation.shifts.start_minutes[i])
+          << (sc.simulation.shifts.is_night[i] ? " (night)" : "") << (i + 1 < sc.simulation.shifts.names.size() ? "," : "");
     o << "\n";
-    o << "Catch: an action starting between " << duration_words(sc.window) << " and " << duration_words(sc.min_lead)
+    o << "Catch: an action starting between " << duration_words(sc.analysis.window) << " and " << duration_words(sc.analysis.min_lead)
       << " before time zero\n";
-    if (sc.source == PopulationSource::replay) {
-        o << "Population: replay of " << sc.replay.encounters_path << " and " << sc.replay.scores_path;
-        if (sc.replay.latency_when_missing) o << " (latency " << duration_words(sc.replay.latency_when_missing) << " when available_at is empty)";
-        if (sc.replay.bad_rows == BadRows::skip) o << "; bad rows are skipped and counted (bad_rows: skip)";
-        if (sc.bootstrap)
-            o << "\nReplications 1, 2, ...: " << (sc.bootstrap->scheme == BlockScheme::stationary ? "stationary" : "moving-block")
-              << " bootstrap of " << sc.bootstrap->block_days << "-day blocks per unit, runs of " << num(sc.bootstrap->mean_run_blocks)
-              << " blocks" << (sc.bootstrap->mean_run_blocks > 1 && sc.bootstrap->scheme == BlockScheme::stationary ? " on average" : "");
+    if (sc.population.source == PopulationSource::replay) {
+        o << "Population: replay of " << sc.population.replay.encounters_path << " and " << sc.population.replay.scores_path;
+        if (sc.population.replay.latency_when_missing) o << " (latency " << duration_words(sc.population.replay.latency_when_missing) << " when available_at is empty)";
+        if (sc.population.replay.bad_rows == BadRows::skip) o << "; bad rows are skipped and counted (bad_rows: skip)";
+        if (sc.population.bootstrap)
+            o << "\nReplications 1, 2, ...: " << (sc.population.bootstrap->scheme == BlockScheme::stationary ? "stationary" : "moving-block")
+              << " bootstrap of " << sc.population.bootstrap->block_days << "-day blocks per unit, runs of " << num(sc.population.bootstrap->mean_run_blocks)
+              << " blocks" << (sc.population.bootstrap->mean_run_blocks > 1 && sc.population.bootstrap->scheme == BlockScheme::stationary ? " on average" : "");
     } else {
-        const GeneratorConfig& g = sc.generator;
+        const GeneratorConfig& g = sc.population.generator;
         int beds = 0;
         for (const UnitConfig& u : g.units) beds += u.beds;
-        o << "Population: generated, " << g.units.size() << " units with " << beds << " beds, " << format_local(g.period_start, sc.zone)
-          << " to " << format_local(g.period_end, sc.zone) << "; outcome in " << num(100 * g.outcome.probability)
+        o << "Population: generated, " << g.units.size() << " units with " << beds << " beds, " << format_local(g.period_start, sc.simulation.zone)
+          << " to " << format_local(g.period_end, sc.simulation.zone) << "; outcome in " << num(100 * g.outcome.probability)
           << " % of stays; scores every " << num(g.scores.cadence_minutes) << " min";
-        if (sc.target_auc) o << "; rise before time zero calibrated to an encounter-level AUC of " << num(*sc.target_auc);
+        if (sc.population.target_auc) o << "; rise before time zero calibrated to an encounter-level AUC of " << num(*sc.population.target_auc);
     }
-    if (sc.shift) {
-        const ShiftStress& x = *sc.shift;
+    if (sc.population.shift) {
+        const ShiftStress& x = *sc.population.shift;
         std::vector<std::string> parts;
         auto part = [&](const std::string& text) { parts.push_back(text); };
         if (x.outcome_rate_multiplier != 1) part("outcome rate x " + num(x.outcome_rate_multiplier));
         if (x.score_scale != 1 || x.score_offset != 0) part("scores x " + num(x.score_scale) + " + " + num(x.score_offset));
         if (x.cadence_minutes > 0) part("at most one score per " + num(x.cadence_minutes) + " min");
-        if (x.outage_hours > 0) part("feed outage of " + num(x.outage_hours) + " h from " + format_local(x.outage_start, sc.zone));
+        if (x.outage_hours > 0) part("feed outage of " + num(x.outage_hours) + " h from " + format_local(x.outage_start, sc.simulation.zone));
         for (const auto& [unit, m] : x.census_multiplier) part(unit + " admissions x " + num(m));
-        o << "\nStress test from " << format_local(x.from, sc.zone) << ":";
+        o << "\nStress test from " << format_local(x.from, sc.simulation.zone) << ":";
         for (std::size_t k = 0; k < parts.size(); ++k) o << (k ? "; " : " ") << parts[k];
     }
-    o << "\nPlans (" << sc.plans.size() << "):\n";
-    for (const Plan& p : sc.plans) {
-        Rule shown = p.rule;
-        if (p.channel == Channel::ranked_review) shown.snooze.reset();  // shown as the review's skip below
+    o << "\nPlans (" << sc.simulation.plans.size() << "):\n";
+    for (const Plan& p : sc.simulation.plans) {
         o << "  - " << p.name << ": " << to_string(p.channel) << " to " << p.role << " when "
-          << describe_rule(shown, sc.score_label) << "\n";
+          << describe_rule(p.rule, sc.score_label) << "\n";
         if (p.channel == Channel::chart_interruption)
             o << "      at each chart opening; " << num(p.chart.interruption_minutes) << " min per interruption; "
               << num(p.chart.acceptance_probability) << " of interruptions lead to an evaluation\n";
         if (p.channel == Channel::handoff_list) {
             o << "      flagged at each handoff (";
-            const auto& times = p.handoff.times_minutes.empty() ? sc.shifts.start_minutes : p.handoff.times_minutes;
+            const auto& times = p.handoff.times_minutes.empty() ? sc.simulation.shifts.start_minutes : p.handoff.times_minutes;
             for (std::size_t k = 0; k < times.size(); ++k) o << (k ? ", " : "") << format_clock_minutes(times[k]);
             o << "); " << num(p.handoff.minutes_per_flag) << " min per flag; " << num(p.handoff.follow_up_probability)
               << " of flags lead to an evaluation\n";
@@ -771,51 +773,47 @@ std::string describe_scenario(const Scenario& sc) {
               << " at";
             for (int t : p.review.times_minutes) o << " " << format_clock_minutes(t);
             o << "; " << num(p.review.minutes_per_review) << " min per review";
-            if (p.rule.snooze) o << "; skips patients reviewed in the last " << duration_words(*p.rule.snooze);
+            if (p.review.skip_reviewed) o << "; skips patients reviewed in the last " << duration_words(*p.review.skip_reviewed);
             if (p.review.max_reviews_per_round) o << "; at most " << *p.review.max_reviews_per_round << " reviews per round";
             o << "\n";
         }
         if (!p.description.empty()) o << "      " << p.description << "\n";
-        if (sc.has_staff()) {
-            o << "      escalation: " << describe(sc.escalation, escalation_path(sc.escalation, p.staffing.first_role))
+        if (sc.simulation.has_staff()) {
+            o << "      escalation: " << describe(sc.simulation.escalation, escalation_path(sc.simulation.escalation, p.staffing.first_role))
               << "\n";
             o << "      queue " << (p.staffing.discipline == QueueDiscipline::fifo ? "first come first served" : "highest score first")
               << "; at shift end " << (p.staffing.at_shift_end == ShiftEndPolicy::hand_over ? "hand over" : "drop") << "\n";
         }
     }
-    if (sc.has_staff()) {
-        o << "Staff (" << sc.roles.size() << " roles):\n";
-        for (const Role& r : sc.roles) {
+    if (sc.simulation.has_staff()) {
+        o << "Staff (" << sc.simulation.roles.size() << " roles):\n";
+        for (const Role& r : sc.simulation.roles) {
             o << "  - " << r.name << (r.per_unit ? " (a team on each unit)" : " (one team for the hospital)") << ": ";
-            for (std::size_t k = 0; k < sc.shifts.names.size(); ++k)
-                o << (k ? ", " : "") << sc.shifts.names[k] << " " << r.roster.by_shift[k];
+            for (std::size_t k = 0; k < sc.simulation.shifts.names.size(); ++k)
+                o << (k ? ", " : "") << sc.simulation.shifts.names[k] << " " << r.roster.by_shift[k];
             if (!r.roster.by_weekday.empty())
                 for (std::size_t d = 0; d < 7; ++d)
                     if (r.roster.by_weekday[d] != r.roster.by_shift) {
                         o << "; " << weekday_names[d];
-                        for (std::size_t k = 0; k < sc.shifts.names.size(); ++k)
-                            o << (k ? ", " : " ") << sc.shifts.names[k] << " " << r.roster.by_weekday[d][k];
+                        for (std::size_t k = 0; k < sc.simulation.shifts.names.size(); ++k)
+                            o << (k ? ", " : " ") << sc.simulation.shifts.names[k] << " " << r.roster.by_weekday[d][k];
                     }
             o << "; " << describe(r.minutes_per_task) << " per task\n";
         }
     } else {
         o << "Staff: none declared; every notice counts as evaluated at once.\n";
     }
-    if (sc.chart_openings) {
-        o << "Chart openings: " << (sc.chart_openings->replay_path.empty() ? "generated" : "replayed from " + sc.chart_openings->replay_path)
+    if (sc.simulation.chart_openings) {
+        o << "Chart openings: " << (sc.simulation.chart_openings->replay_path.empty() ? "generated" : "replayed from " + sc.simulation.chart_openings->replay_path)
           << "; roles:";
-        for (const auto& r : sc.chart_openings->roles) o << " " << r.name << " (" << num(r.clinicians_per_unit) << " per unit)";
+        for (const auto& r : sc.simulation.chart_openings->roles) o << " " << r.name << " (" << num(r.clinicians_per_unit) << " per unit)";
         o << "\n";
     }
     return o.str();
 }
 
-StaffModel staff_model(const Scenario& sc, std::uint32_t unit_count) {
-    StaffModel m;
-    m.roles = sc.roles;
-    m.escalation = sc.escalation;
-    m.unit_count = std::max<std::uint32_t>(1, unit_count);
-    return m;
+ShiftCalendar calendar_for(const Scenario& sc, const Population& population) {
+    return calendar_for(sc.simulation, population, sc.analysis.period_start, sc.analysis.period_end);
 }
 
 }  // namespace tocsin

@@ -1,4 +1,4 @@
-#include "analysis/review_size.hpp"
+#include "study/review_size.hpp"
 
 #include <map>
 #include <sstream>
@@ -11,26 +11,26 @@ namespace tocsin {
 
 ReviewSizing size_review_list(const Scenario& sc, const Population& pop, const ShiftCalendar& cal, std::size_t p,
                               int smallest_size, int largest_size, double target, std::uint64_t replication) {
-    if (p >= sc.plans.size() || sc.plans[p].channel != Channel::ranked_review)
+    if (p >= sc.simulation.plans.size() || sc.simulation.plans[p].channel != Channel::ranked_review)
         throw std::invalid_argument("list sizing needs a ranked_review plan");
     if (smallest_size < 1 || largest_size < smallest_size)
         throw std::invalid_argument("list sizes must be a range such as 1-30 (from at least 1)");
     ReviewSizing sizing;
-    sizing.plan = sc.plans[p].name;
+    sizing.plan = sc.simulation.plans[p].name;
     sizing.target_catch_rate = target;
-    const ReportingShifts rep = reporting_shifts(sc, pop, cal);
+    const ReportingShifts rep = reporting_shifts(sc.analysis, pop, cal);
     for (int n = smallest_size; n <= largest_size; ++n) {
-        Plan plan = sc.plans[p];
+        Plan plan = sc.simulation.plans[p];
         plan.review.top_n = n;
-        const PlanRecord record = run_round_channel(sc, pop, cal, plan, static_cast<std::uint32_t>(p), replication);
-        const PlanFigures f = plan_figures(sc, pop, cal, rep, record);
+        const PlanRecord record = run_round_channel(sc.simulation, pop, cal, plan, static_cast<std::uint32_t>(p), replication);
+        const PlanFigures f = plan_figures(sc.analysis, pop, cal, rep, record);
         ReviewSizeRow row;
         row.top_n = n;
         row.cases = f.cases;
         row.caught = f.caught;
         row.catch_rate = f.sensitivity;
         row.reviews = static_cast<std::int64_t>(record.notices.size());
-        for (const auto& listed_at : first_catch(sc, pop, record.listed)) row.on_list += listed_at.has_value();
+        for (const auto& listed_at : first_catch(sc.analysis, pop, record.listed)) row.on_list += listed_at.has_value();
         if (row.cases) row.on_list_share = static_cast<double>(row.on_list) / static_cast<double>(row.cases);
         std::map<Instant, std::pair<double, double>> per_round;  // reviews, minutes at one review time
         for (const Round& r : record.rounds) {

@@ -1,4 +1,4 @@
-#include "analysis/report.hpp"
+#include "report/report.hpp"
 
 #include <algorithm>
 #include <cmath>
@@ -8,7 +8,7 @@
 #include <stdexcept>
 
 #include "analysis/cautions.hpp"
-#include "analysis/html.hpp"
+#include "report/html.hpp"
 
 namespace tocsin {
 

@@ -1,4 +1,4 @@
-#include "analysis/report_evaluation.hpp"
+#include "report/report_evaluation.hpp"
 
 #include <algorithm>
 #include <cmath>

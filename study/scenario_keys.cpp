@@ -1,4 +1,4 @@
-#include "sim/scenario_keys.hpp"
+#include "study/scenario_keys.hpp"
 
 #include <algorithm>
 #include <cassert>

@@ -1,5 +1,5 @@
 #pragma once
-// Scenario keys are declared once, in sim/scenario_schema.cpp, with their kind,
+// Scenario keys are declared once, in study/scenario_schema.cpp, with their kind,
 // unit, default, valid range and one line of help. The same table drives
 // validation, error messages ("did you mean ...?"), `tocsin keys` and the
 // README's reference section, so they never disagree.

@@ -9,8 +9,8 @@
 #include <string>
 
 #include "analysis/table.hpp"
-#include "sim/experiment.hpp"
-#include "sim/scenario.hpp"
+#include "study/experiment.hpp"
+#include "study/scenario.hpp"
 
 namespace tocsin {
 
@@ -19,7 +19,7 @@ struct ShiftEffect {
     std::string text;  // terminal summary
 };
 
-// Requires scenario.shift. Runs every replication once more (same streams,
+// Requires scenario.population.shift. Runs every replication once more (same streams,
 // so the populations are those of the main run).
 ShiftEffect shift_effect(const Scenario& scenario, const PopulationFactory& make_population, unsigned threads);
 

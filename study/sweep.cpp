@@ -1,4 +1,4 @@
-#include "sim/sweep.hpp"
+#include "study/sweep.hpp"
 
 #include <algorithm>
 #include <charconv>
@@ -11,7 +11,7 @@
 #include <yaml-cpp/yaml.h>
 
 #include "models/errors.hpp"
-#include "sim/scenario_keys.hpp"
+#include "study/scenario_keys.hpp"
 
 namespace tocsin {
 
@@ -179,7 +179,7 @@ Scenario build_sweep(const std::string& path, const SweepRequest& request) {
             }
         }
     }
-    if (base.empty()) base = original.plans.front().name;
+    if (base.empty()) base = original.simulation.plans.front().name;
     if (axes.empty())
         throw InputError("command line", 0, 0, "--vary", "nothing to sweep: give --vary PATH=VALUES or a sweep section");
 

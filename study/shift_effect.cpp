@@ -1,4 +1,4 @@
-#include "analysis/shift_effect.hpp"
+#include "study/shift_effect.hpp"
 
 #include <cmath>
 #include <limits>
@@ -37,9 +37,9 @@ Cell cell(double v) { return std::isfinite(v) ? Cell(v) : Cell(); }
 }  // namespace
 
 ShiftEffect shift_effect(const Scenario& sc, const PopulationFactory& make_population, unsigned threads) {
-    if (!sc.shift) throw std::logic_error("shift_effect: the scenario declares no shift");
-    const Instant from = sc.shift->from;
-    const std::size_t n_plans = sc.plans.size();
+    if (!sc.population.shift) throw std::logic_error("shift_effect: the scenario declares no shift");
+    const Instant from = sc.population.shift->from;
+    const std::size_t n_plans = sc.simulation.plans.size();
     // values[plan][metric][period][replication]
     std::vector<std::vector<std::vector<std::vector<double>>>> values(
         n_plans, std::vector<std::vector<std::vector<double>>>(
@@ -49,7 +49,7 @@ ShiftEffect shift_effect(const Scenario& sc, const PopulationFactory& make_popul
     options.threads = threads;
     run_experiment(sc, make_population, options,
                    [&](std::uint64_t r, const Population& pop, const ShiftCalendar& cal, const ReplicationRecord& rec) {
-                       const ReportingShifts all = reporting_shifts(sc, pop, cal);
+                       const ReportingShifts all = reporting_shifts(sc.analysis, pop, cal);
                        ReportingShifts split[2];
                        split[before].from = all.from;
                        split[before].until = from;
@@ -62,13 +62,13 @@ ShiftEffect shift_effect(const Scenario& sc, const PopulationFactory& make_popul
                        }
                        for (std::size_t p = 0; p < n_plans; ++p) {
                            for (int period : {before, after}) {
-                               const PlanFigures f = plan_figures(sc, pop, cal, split[period], rec.plans[p]);
+                               const PlanFigures f = plan_figures(sc.analysis, pop, cal, split[period], rec.plans[p]);
                                values[p][0][period][r] = f.per_unit_night_mean.value_or(nan_value);
                                values[p][1][period][r] = split[period].shifts.empty() ? nan_value : f.per_unit_shift_mean;
                            }
                            std::vector<std::pair<std::uint32_t, Instant>> actions;
                            for (const Notice& n : rec.plans[p].notices) actions.emplace_back(n.encounter, n.at);
-                           const auto caught = first_catch(sc, pop, actions);
+                           const auto caught = first_catch(sc.analysis, pop, actions);
                            double cases[2] = {0, 0}, hits[2] = {0, 0};
                            for (std::size_t e = 0; e < pop.encounters.size(); ++e) {
                                const auto& t0 = pop.encounters[e].outcome_at;
@@ -88,10 +88,10 @@ ShiftEffect shift_effect(const Scenario& sc, const PopulationFactory& make_popul
     out.table.columns = {"plan", "metric", "before", "before_low", "before_high", "after", "after_low", "after_high",
                          "change", "change_low", "change_high", "replications"};
     std::ostringstream text;
-    text << "Stress test from " << format_local(from, sc.zone) << ": before -> after (change), mean over "
+    text << "Stress test from " << format_local(from, sc.simulation.zone) << ": before -> after (change), mean over "
          << sc.replications << (sc.replications == 1 ? " replication" : " replications") << "\n";
     for (std::size_t p = 0; p < n_plans; ++p) {
-        text << "  " << sc.plans[p].name << ":";
+        text << "  " << sc.simulation.plans[p].name << ":";
         for (std::size_t m = 0; m < n_metrics; ++m) {
             const auto& b = values[p][m][before];
             const auto& a = values[p][m][after];
@@ -104,7 +104,7 @@ ShiftEffect shift_effect(const Scenario& sc, const PopulationFactory& make_popul
                 if (mi.n == 0) return {Cell(), Cell(), Cell()};
                 return {cell(mi.mean), cell(mi.low), cell(mi.high)};
             };
-            std::vector<Cell> row = {sc.plans[p].name, std::string(metric_names_in_order[m])};
+            std::vector<Cell> row = {sc.simulation.plans[p].name, std::string(metric_names_in_order[m])};
             for (const MeanInterval* mi : {&mb, &ma, &mc})
                 for (Cell c : triple(*mi)) row.push_back(c);
             row.push_back(static_cast<std::int64_t>(change.size()));

@@ -1,4 +1,4 @@
-#include "sim/experiment.hpp"
+#include "study/experiment.hpp"
 
 #include <algorithm>
 #include <atomic>
@@ -32,7 +32,7 @@ void run_experiment(const Scenario& scenario, const PopulationFactory& make_popu
                 const Population population = make_population(r);
                 const ShiftCalendar calendar = calendar_for(scenario, population);
                 const ReplicationRecord record =
-                    simulate_replication(scenario, population, calendar, r, inner, options.replayed_openings);
+                    simulate_replication(scenario.simulation, population, calendar, r, inner, options.replayed_openings);
                 observe(r, population, calendar, record);
             } catch (...) {
                 errors[r] = std::current_exception();

@@ -1,0 +1,68 @@
+#pragma once
+// The population of each replication, as a scenario declares it: the
+// replayed log (or its bootstrap resamples), or a generated population, then
+// the stress-test shift when one is declared. Every replication is a pure
+// function of (setup, replication index).
+#include <cstdint>
+#include <functional>
+#include <optional>
+#include <string>
+
+#include "models/bootstrap.hpp"
+#include "models/generator.hpp"
+#include "models/population.hpp"
+#include "models/replay.hpp"
+#include "models/stress.hpp"
+#include "models/time.hpp"
+
+namespace tocsin {
+
+enum class PopulationSource { replay, generate };
+
+// Where a key sits in the scenario file, for errors found after loading.
+struct KeyLocation {
+    long line = 0;
+    long column = 0;
+};
+
+struct PopulationSetup {
+    PopulationSource source = PopulationSource::replay;
+    ReplaySource replay;                       // source == replay
+    std::optional<BootstrapConfig> bootstrap;  // replay: how replications 1, 2, ... resample the log
+    GeneratorConfig generator;                 // source == generate
+    std::optional<double> target_auc;          // generate: calibrate scores.drift_size to this
+    std::optional<ShiftStress> shift;          // stress test applied to every replication
+    TimeZone zone = TimeZone::utc();           // the log's local times
+    std::uint64_t seed = 1;
+    // Where target_auc and shift were declared, so errors found while
+    // preparing name the scenario file's line.
+    std::string file;
+    KeyLocation target_auc_at, shift_at;
+};
+
+// What is worth doing once per scenario rather than once per replication:
+// reading the log, or calibrating the generator to a target AUC.
+struct PreparedPopulation {
+    std::optional<Population> log;              // replay
+    GeneratorConfig generator;                  // generate, after calibration
+    std::optional<AucCalibration> calibration;  // generate with target_auc
+};
+
+// Throws InputError (naming the scenario key) on bad input, when a target AUC
+// is out of reach, or when a shift names a unit the log does not have.
+PreparedPopulation prepare_population(const PopulationSetup& setup);
+
+// Replication 0 of a replayed scenario is the log as replayed.
+Population population_for(const PopulationSetup& setup, const PreparedPopulation& prepared, std::uint64_t replication);
+
+// A line or two on where the population comes from (calibration result), for `check` and `run`.
+std::string describe_prepared(const PopulationSetup& setup, const PreparedPopulation& prepared);
+
+// Makes the population of any replication (safe to call from several threads at once).
+using PopulationFactory = std::function<Population(std::uint64_t replication)>;
+
+// The first form prepares the population itself.
+PopulationFactory population_factory(const PopulationSetup& setup);
+PopulationFactory population_factory(const PopulationSetup& setup, const PreparedPopulation& prepared);
+
+}  // namespace tocsin

@@ -1,0 +1,20 @@
+#pragma once
+// The files a run writes: its tables as CSV and JSON, the cautions, and the
+// run record.
+#include <string>
+#include <vector>
+
+#include "report/output.hpp"
+#include "study/run.hpp"
+
+namespace tocsin {
+
+// The machine-readable record of a run: tool version, scenario file and hash,
+// seed, replications, threads and time taken. It is the one output that
+// differs between identical runs (threads, time).
+std::string run_record_json(const Scenario& scenario, const RunSettings& settings, double seconds);
+
+// Every output file of a run (tables as CSV and JSON, cautions).
+std::vector<OutputFile> run_output_files(const RunOutput& output);
+
+}  // namespace tocsin
