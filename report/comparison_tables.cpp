@@ -4,11 +4,9 @@
 #include <cmath>
 #include <sstream>
 
-namespace tocsin {
+#include "report/cells.hpp"
 
-namespace {
-Cell real_or_empty(double v) { return std::isfinite(v) ? Cell(v) : Cell(); }
-}  // namespace
+namespace tocsin {
 
 ComparisonTables comparison_tables(const ReplicatedFigures& f, std::size_t ref) {
     ComparisonTables t;
@@ -26,15 +24,15 @@ ComparisonTables comparison_tables(const ReplicatedFigures& f, std::size_t ref) 
         for (std::size_t m = 0; m < metrics.size(); ++m) {
             const std::string name(metrics[m].name);
             const MeanInterval mi = mean_interval(f.of(p, m));
-            t.comparison.add_row({f.plans[p], name, real_or_empty(mi.mean), real_or_empty(mi.low),
-                                  real_or_empty(mi.high), static_cast<std::int64_t>(mi.n)});
+            t.comparison.add_row({f.plans[p], name, finite_or_empty(mi.mean), finite_or_empty(mi.low),
+                                  finite_or_empty(mi.high), static_cast<std::int64_t>(mi.n)});
             for (std::uint64_t r = 0; r < f.replications; ++r)
                 t.replication_figures.add_row({f.plans[p], static_cast<std::int64_t>(r), name,
-                                               real_or_empty(f.of(p, m)[r])});
+                                               finite_or_empty(f.of(p, m)[r])});
             if (p == ref) continue;
             const MeanInterval d = paired_difference(f, p, ref, m);
-            t.differences.add_row({f.plans[p], f.plans[ref], name, real_or_empty(d.mean), real_or_empty(d.low),
-                                   real_or_empty(d.high), static_cast<std::int64_t>(d.n)});
+            t.differences.add_row({f.plans[p], f.plans[ref], name, finite_or_empty(d.mean), finite_or_empty(d.low),
+                                   finite_or_empty(d.high), static_cast<std::int64_t>(d.n)});
         }
     return t;
 }
@@ -45,8 +43,8 @@ Table frontier_table(const ReplicatedFigures& f, std::size_t burden, std::size_t
     t.title = "Trade-off frontier";
     t.columns = {"plan", "burden_metric", "burden", "benefit_metric", "benefit", "on_frontier"};
     for (const FrontierPoint& p : frontier(f, burden, benefit))
-        t.add_row({f.plans[p.plan], std::string(plan_metrics()[burden].name), real_or_empty(p.burden),
-                   std::string(plan_metrics()[benefit].name), real_or_empty(p.benefit),
+        t.add_row({f.plans[p.plan], std::string(plan_metrics()[burden].name), finite_or_empty(p.burden),
+                   std::string(plan_metrics()[benefit].name), finite_or_empty(p.benefit),
                    std::int64_t{p.on_frontier ? 1 : 0}});
     return t;
 }

@@ -7,6 +7,7 @@
 #include <map>
 #include <sstream>
 
+#include "report/cells.hpp"
 #include "report/comparison_tables.hpp"
 #include "report/html.hpp"
 #include "report/run_tables.hpp"
@@ -169,11 +170,10 @@ void add_staff(ReportInput& in, const std::vector<RoleWorkload>& workload) {
     t.title = "Staff work and waits by plan and role (first replication)";
     t.columns = {"plan", "role", "team", "tasks_started", "staff_minutes_per_shift_mean", "staff_minutes_per_shift_p90",
                  "utilisation", "wait_minutes_median", "wait_minutes_p90", "never_taken_up"};
-    auto opt = [](const std::optional<double>& v) { return v ? Cell(*v) : Cell(); };
     for (const RoleWorkload& w : workload)
         t.add_row({w.plan, w.role, std::string(w.per_unit ? "each unit" : "hospital"), w.tasks_started,
-                   opt(w.staff_minutes_per_shift_mean), opt(w.staff_minutes_per_shift_p90), opt(w.utilisation),
-                   opt(w.wait_minutes_median), opt(w.wait_minutes_p90), w.never_taken_up});
+                   cell_or_empty(w.staff_minutes_per_shift_mean), cell_or_empty(w.staff_minutes_per_shift_p90), cell_or_empty(w.utilisation),
+                   cell_or_empty(w.wait_minutes_median), cell_or_empty(w.wait_minutes_p90), w.never_taken_up});
     in.staff_and_waits = std::move(t);
     in.staff_note = "Utilisation is the staff minutes worked over the minutes rostered. A wait runs from the "
                     "notice to the start of the evaluation; tasks never taken up are counted apart, not as waits.";

@@ -1,15 +1,9 @@
 #include "report/run_tables.hpp"
 
+#include "report/cells.hpp"
 #include "sim/notice.hpp"
 
 namespace tocsin {
-
-namespace {
-Cell opt(const std::optional<double>& v) { return v ? Cell(*v) : Cell(); }
-Cell opt(const std::optional<std::int64_t>& v) { return v ? Cell(*v) : Cell(); }
-Cell opt(const std::optional<std::string>& v) { return v ? Cell(*v) : Cell(); }
-Cell flag(bool b) { return std::int64_t{b ? 1 : 0}; }
-}  // namespace
 
 Table plan_summary_table(const ReplicationResults& results) {
     Table t;
@@ -26,10 +20,10 @@ Table plan_summary_table(const ReplicationResults& results) {
         const PlanFigures& f = p.figures;
         t.add_row({p.plan, std::string(to_string(p.channel)), f.notices, f.notices_first, f.notices_repeat,
                    f.notices_rise, f.per_unit_shift_mean, f.per_unit_shift_p90, f.per_unit_shift_max,
-                   opt(f.per_unit_night_mean), opt(f.per_unit_night_p90), opt(f.per_unit_night_max), f.cases, f.caught,
-                   f.missed, opt(f.sensitivity), opt(f.lead_median_hours), opt(f.lead_q1_hours), opt(f.lead_q3_hours),
-                   opt(f.notices_per_catch), f.evaluations, f.caught_by_notice, opt(f.lead_from_notice_median_hours),
-                   opt(f.wait_median_minutes), opt(f.wait_p90_minutes), opt(f.never_taken_up)});
+                   cell_or_empty(f.per_unit_night_mean), cell_or_empty(f.per_unit_night_p90), cell_or_empty(f.per_unit_night_max), f.cases, f.caught,
+                   f.missed, cell_or_empty(f.sensitivity), cell_or_empty(f.lead_median_hours), cell_or_empty(f.lead_q1_hours), cell_or_empty(f.lead_q3_hours),
+                   cell_or_empty(f.notices_per_catch), f.evaluations, f.caught_by_notice, cell_or_empty(f.lead_from_notice_median_hours),
+                   cell_or_empty(f.wait_median_minutes), cell_or_empty(f.wait_p90_minutes), cell_or_empty(f.never_taken_up)});
     }
     return t;
 }
@@ -40,7 +34,7 @@ Table unit_shift_notices_table(const ReplicationResults& results, const TimeZone
     t.title = "Notices per unit per shift";
     t.columns = {"plan", "unit", "shift_start", "shift", "night", "notices"};
     for (const UnitShiftNotices& u : results.unit_shift_notices)
-        t.add_row({u.plan, u.unit, format_local(u.shift_start, zone), u.shift, flag(u.night), u.notices});
+        t.add_row({u.plan, u.unit, format_local(u.shift_start, zone), u.shift, flag_cell(u.night), u.notices});
     return t;
 }
 
@@ -79,8 +73,8 @@ Table notice_log_table(const std::vector<LoggedNotice>& log) {
                  "evaluation", "opener", "delivery_minutes"};
     for (const LoggedNotice& n : log)
         t.add_row({n.plan, static_cast<std::int64_t>(n.replication), n.encounter, n.unit, format_utc(n.at), n.score,
-                   std::string(to_string(n.reason)), std::string(to_string(n.channel)), flag(n.asks_evaluation),
-                   opt(n.opener), n.delivery_minutes});
+                   std::string(to_string(n.reason)), std::string(to_string(n.channel)), flag_cell(n.asks_evaluation),
+                   cell_or_empty(n.opener), n.delivery_minutes});
     return t;
 }
 
@@ -94,9 +88,9 @@ Table staff_workload_table(const std::vector<RoleWorkload>& workload) {
                  "never_taken_up", "dropped", "handed_over", "overtime_minutes"};
     for (const RoleWorkload& w : workload)
         t.add_row({w.plan, w.role, std::string(w.per_unit ? "each unit" : "hospital"), w.team_shifts, w.staff_shifts,
-                   w.tasks_arrived, w.tasks_started, opt(w.staff_minutes_per_shift_mean),
-                   opt(w.staff_minutes_per_shift_p90), opt(w.utilisation), opt(w.tasks_per_staff_member_per_shift),
-                   opt(w.wait_minutes_median), opt(w.wait_minutes_p90), opt(w.wait_minutes_max), w.never_taken_up,
+                   w.tasks_arrived, w.tasks_started, cell_or_empty(w.staff_minutes_per_shift_mean),
+                   cell_or_empty(w.staff_minutes_per_shift_p90), cell_or_empty(w.utilisation), cell_or_empty(w.tasks_per_staff_member_per_shift),
+                   cell_or_empty(w.wait_minutes_median), cell_or_empty(w.wait_minutes_p90), cell_or_empty(w.wait_minutes_max), w.never_taken_up,
                    w.dropped, w.handed_over, w.overtime_minutes});
     return t;
 }
@@ -116,7 +110,7 @@ Table task_fate_table(const std::vector<TaskFateCount>& fates) {
     t.name = "task_fates";
     t.title = "What became of each task, by plan";
     t.columns = {"plan", "fate", "tasks", "share"};
-    for (const TaskFateCount& f : fates) t.add_row({f.plan, std::string(to_string(f.fate)), f.tasks, opt(f.share)});
+    for (const TaskFateCount& f : fates) t.add_row({f.plan, std::string(to_string(f.fate)), f.tasks, cell_or_empty(f.share)});
     return t;
 }
 
@@ -130,9 +124,9 @@ Table task_log_table(const std::vector<LoggedTask>& log, const TimeZone& zone) {
                  "overtime_minutes", "fate"};
     auto when = [&](Instant at) { return at == no_instant ? Cell{} : Cell{format_local(at, zone)}; };
     for (const LoggedTask& k : log)
-        t.add_row({k.plan, static_cast<std::int64_t>(k.replication), k.task, opt(k.encounter), opt(k.unit), k.score,
-                   when(k.created), k.first_role, k.role, when(k.started), when(k.ended), opt(k.wait_minutes),
-                   opt(k.work_minutes), k.escalations, std::string(k.handed_over ? "yes" : "no"), k.overtime_minutes,
+        t.add_row({k.plan, static_cast<std::int64_t>(k.replication), k.task, cell_or_empty(k.encounter), cell_or_empty(k.unit), k.score,
+                   when(k.created), k.first_role, k.role, when(k.started), when(k.ended), cell_or_empty(k.wait_minutes),
+                   cell_or_empty(k.work_minutes), k.escalations, std::string(k.handed_over ? "yes" : "no"), k.overtime_minutes,
                    std::string(to_string(k.fate))});
     return t;
 }
@@ -145,8 +139,8 @@ Table channel_burden_table(const std::vector<ChannelBurdenSummary>& burden) {
                  "burden", "burden_mean", "burden_p90", "burden_max", "minutes_mean", "minutes_p90"};
     for (const ChannelBurdenSummary& b : burden)
         t.add_row({b.plan, std::string(to_string(b.channel)), b.occasions, b.notices, b.evaluations, b.delivery_minutes,
-                   b.burden, opt(b.burden_mean), opt(b.burden_p90), opt(b.burden_max), opt(b.minutes_mean),
-                   opt(b.minutes_p90)});
+                   b.burden, cell_or_empty(b.burden_mean), cell_or_empty(b.burden_p90), cell_or_empty(b.burden_max), cell_or_empty(b.minutes_mean),
+                   cell_or_empty(b.minutes_p90)});
     return t;
 }
 

@@ -3,15 +3,13 @@
 #include <sstream>
 
 #include "report/cautions.hpp"
+#include "report/cells.hpp"
 #include "report/comparison_tables.hpp"
 #include "report/run_tables.hpp"
 
 namespace tocsin {
 
 namespace {
-
-Cell opt(const std::optional<double>& v) { return v ? Cell(*v) : Cell(); }
-Cell opt(const std::optional<std::int64_t>& v) { return v ? Cell(*v) : Cell(); }
 
 Table plans_view(const ReplicationResults& r) {
     Table view;
@@ -20,9 +18,9 @@ Table plans_view(const ReplicationResults& r) {
                     "caught", "missed", "sensitivity", "lead_median_h", "notices_per_catch"};
     for (const PlanResult& p : r.plans) {
         const PlanFigures& f = p.figures;
-        view.add_row({p.plan, f.notices, f.per_unit_shift_mean, f.per_unit_shift_p90, opt(f.per_unit_night_mean),
-                      opt(f.per_unit_night_p90), opt(f.per_unit_night_max), f.caught, f.missed, opt(f.sensitivity),
-                      opt(f.lead_median_hours), opt(f.notices_per_catch)});
+        view.add_row({p.plan, f.notices, f.per_unit_shift_mean, f.per_unit_shift_p90, cell_or_empty(f.per_unit_night_mean),
+                      cell_or_empty(f.per_unit_night_p90), cell_or_empty(f.per_unit_night_max), f.caught, f.missed, cell_or_empty(f.sensitivity),
+                      cell_or_empty(f.lead_median_hours), cell_or_empty(f.notices_per_catch)});
     }
     return view;
 }
@@ -36,8 +34,8 @@ Table staff_view(const ReplicationResults& r) {
                      "caught", "caught_by_notice", "lead_median_h", "lead_from_notice_median_h"};
     for (const PlanResult& p : r.plans) {
         const PlanFigures& f = p.figures;
-        staff.add_row({p.plan, f.evaluations, opt(f.wait_median_minutes), opt(f.wait_p90_minutes), opt(f.never_taken_up),
-                       f.caught, f.caught_by_notice, opt(f.lead_median_hours), opt(f.lead_from_notice_median_hours)});
+        staff.add_row({p.plan, f.evaluations, cell_or_empty(f.wait_median_minutes), cell_or_empty(f.wait_p90_minutes), cell_or_empty(f.never_taken_up),
+                       f.caught, f.caught_by_notice, cell_or_empty(f.lead_median_hours), cell_or_empty(f.lead_from_notice_median_hours)});
     }
     return staff;
 }
@@ -49,8 +47,8 @@ Table roles_view(const std::vector<RoleWorkload>& workload) {
                      "wait_p90_min", "wait_max_min", "never_taken_up", "overtime_min"};
     for (const RoleWorkload& w : workload)
         roles.add_row({w.plan, w.role, std::string(w.per_unit ? "each unit" : "hospital"),
-                       opt(w.staff_minutes_per_shift_mean), opt(w.staff_minutes_per_shift_p90), opt(w.utilisation),
-                       opt(w.tasks_per_staff_member_per_shift), opt(w.wait_minutes_p90), opt(w.wait_minutes_max),
+                       cell_or_empty(w.staff_minutes_per_shift_mean), cell_or_empty(w.staff_minutes_per_shift_p90), cell_or_empty(w.utilisation),
+                       cell_or_empty(w.tasks_per_staff_member_per_shift), cell_or_empty(w.wait_minutes_p90), cell_or_empty(w.wait_minutes_max),
                        w.never_taken_up, w.overtime_minutes});
     return roles;
 }
@@ -60,8 +58,8 @@ Table burden_view(const std::vector<ChannelBurdenSummary>& burden) {
     view.title = "\nBurden in each channel's own unit (mean, 90th percentile, worst; delivery minutes)";
     view.columns = {"plan", "channel", "burden", "mean", "p90", "max", "minutes_mean", "evaluations"};
     for (const ChannelBurdenSummary& b : burden)
-        view.add_row({b.plan, std::string(to_string(b.channel)), b.burden, opt(b.burden_mean), opt(b.burden_p90),
-                      opt(b.burden_max), opt(b.minutes_mean), b.evaluations});
+        view.add_row({b.plan, std::string(to_string(b.channel)), b.burden, cell_or_empty(b.burden_mean), cell_or_empty(b.burden_p90),
+                      cell_or_empty(b.burden_max), cell_or_empty(b.minutes_mean), b.evaluations});
     return view;
 }
 

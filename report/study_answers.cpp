@@ -3,6 +3,8 @@
 #include <cmath>
 #include <sstream>
 
+#include "report/cells.hpp"
+
 namespace tocsin {
 
 Table review_size_table(const ReviewSizing& s) {
@@ -43,14 +45,12 @@ std::string interval_text(const MeanInterval& m) {
     return s;
 }
 
-Cell cell(double v) { return std::isfinite(v) ? Cell(v) : Cell(); }
-
 void add_triple(std::vector<Cell>& row, const MeanInterval& mi) {
     if (mi.n == 0) {
         row.insert(row.end(), {Cell(), Cell(), Cell()});
         return;
     }
-    row.insert(row.end(), {cell(mi.mean), cell(mi.low), cell(mi.high)});
+    row.insert(row.end(), {finite_or_empty(mi.mean), finite_or_empty(mi.low), finite_or_empty(mi.high)});
 }
 
 }  // namespace
