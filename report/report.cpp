@@ -7,7 +7,7 @@
 #include <set>
 #include <stdexcept>
 
-#include "analysis/cautions.hpp"
+#include "report/cautions.hpp"
 #include "report/html.hpp"
 
 namespace tocsin {
