@@ -88,8 +88,7 @@ int run_evaluate_command(const EvaluateCommand& c) {
     if (!c.min_lead_hours.empty()) {
         // The key is in minutes, the option in hours: the same range, rescaled.
         KeySpec in_hours = key_spec("outcome", "min_lead_minutes");
-        in_hours.min /= 60;
-        in_hours.max /= 60;
+        in_hours.range = {*in_hours.range.min / 60, *in_hours.range.max / 60};
         in_hours.unit = "hours";
         min_lead_hours = option_real(in_hours, "--min-lead-hours", c.min_lead_hours);
     }
@@ -99,8 +98,7 @@ int run_evaluate_command(const EvaluateCommand& c) {
     const auto bootstrap = static_cast<int>(option_integer(spec.bootstrap, "--bootstrap", c.bootstrap_replicates));
     // A replication index is below the largest replication count a scenario may ask for.
     KeySpec replication_index = key_spec("top level", "replications");
-    replication_index.min = 0;
-    replication_index.max -= 1;
+    replication_index.range = {0, *replication_index.range.max - 1};
     const auto replication = static_cast<std::uint64_t>(option_integer(replication_index, "--replication", c.replication));
     std::vector<double> decision_thresholds, evaluations_per_case;
     for (const std::string& t : c.decision_thresholds)

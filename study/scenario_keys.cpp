@@ -7,6 +7,7 @@
 #include <cstdlib>
 #include <limits>
 #include <map>
+#include <sstream>
 
 #include "models/time.hpp"
 
@@ -56,19 +57,39 @@ std::string_view kind_name(KeyKind k) {
     return "?";
 }
 
+std::string range_number(double v) {
+    std::string s = std::to_string(v);
+    s.erase(s.find_last_not_of('0') + 1);
+    if (!s.empty() && s.back() == '.') s.pop_back();
+    return s;
+}
+
 std::string range_text(const KeySpec& k) {
-    const bool lo = k.min > -1e299, hi = k.max < 1e299;
-    auto num = [](double v) {
-        std::string s = std::to_string(v);
-        s.erase(s.find_last_not_of('0') + 1);
-        if (!s.empty() && s.back() == '.') s.pop_back();
-        return s;
-    };
-    if (lo && hi) return num(k.min) + " to " + num(k.max);
-    if (lo) return ">= " + num(k.min);
-    if (hi) return "<= " + num(k.max);
+    const Range& r = k.range;
+    if (r.min && r.max) return range_number(*r.min) + " to " + range_number(*r.max);
+    if (r.min) return ">= " + range_number(*r.min);
+    if (r.max) return "<= " + range_number(*r.max);
     return "";
 }
+
+std::string default_number(double v) {
+    std::ostringstream o;
+    o << v;
+    return o.str();
+}
+
+struct DefaultText {
+    std::string operator()(std::monostate) const { return {}; }
+    std::string operator()(std::int64_t v) const { return std::to_string(v); }
+    std::string operator()(double v) const { return default_number(v); }
+    std::string operator()(std::string_view v) const { return std::string(v); }
+    std::string operator()(bool v) const { return v ? "true" : "false"; }
+    std::string operator()(const std::vector<double>& v) const {
+        std::string out = "[";
+        for (std::size_t i = 0; i < v.size(); ++i) out += (i ? ", " : "") + default_number(v[i]);
+        return out + "]";
+    }
+};
 
 std::string location_text(const YAML::Mark& m) {
     return "line " + std::to_string(m.line + 1) + ", column " + std::to_string(m.column + 1);
@@ -117,6 +138,56 @@ void check_mapping_keys(const YAML::Node& root, const std::string& file) {
     check_keys_below(root, file, visits);
 }
 
+std::string default_text(const KeySpec& k) {
+    if (k.required) return "required";
+    if (!std::holds_alternative<std::monostate>(k.fallback)) return std::visit(DefaultText{}, k.fallback);
+    return std::string(k.absent);
+}
+
+namespace {
+
+template <class T>
+KeyDefault default_of(const std::optional<T>& v) {
+    if (v) return *v;
+    return std::monostate{};
+}
+
+KeySpec other(std::string_view name, KeyKind kind, const OtherKey& k) {
+    return {.name = name, .kind = kind, .unit = k.unit, .absent = k.absent, .required = k.required, .help = k.help};
+}
+
+}  // namespace
+
+KeySpec integer_key(std::string_view name, IntegerKey k) {
+    return {.name = name, .kind = KeyKind::integer, .unit = k.unit, .fallback = default_of(k.fallback),
+            .absent = k.absent, .required = k.required, .range = k.range, .help = k.help};
+}
+
+KeySpec real_key(std::string_view name, RealKey k) {
+    return {.name = name, .kind = KeyKind::real, .unit = k.unit, .fallback = default_of(k.fallback),
+            .absent = k.absent, .required = k.required, .range = k.range, .help = k.help};
+}
+
+KeySpec text_key(std::string_view name, TextKey k) {
+    return {.name = name, .kind = KeyKind::text, .unit = k.unit, .fallback = default_of(k.fallback),
+            .absent = k.absent, .required = k.required, .help = k.help};
+}
+
+KeySpec flag_key(std::string_view name, FlagKey k) {
+    return {.name = name, .kind = KeyKind::flag, .fallback = k.fallback, .help = k.help};
+}
+
+KeySpec clock_key(std::string_view name, OtherKey k) { return other(name, KeyKind::clock, k); }
+KeySpec section_key(std::string_view name, OtherKey k) { return other(name, KeyKind::section, k); }
+KeySpec list_key(std::string_view name, OtherKey k) { return other(name, KeyKind::list, k); }
+
+KeySpec real_list_key(std::string_view name, RealListKey k) {
+    KeyDefault fallback = std::monostate{};  // an empty list is no default
+    if (!k.fallback.empty()) fallback = std::move(k.fallback);
+    return {.name = name, .kind = KeyKind::list, .unit = k.unit, .fallback = std::move(fallback),
+            .required = k.required, .range = k.range, .help = k.help};
+}
+
 const KeySpec& key_spec(std::string_view section_path, std::string_view key) {
     for (const KeySpec& k : section_spec(section_path).keys)
         if (k.name == key) return k;
@@ -129,7 +200,7 @@ std::string number_problem(const KeySpec& k, double v, std::string_view as_writt
     const std::string expected =
         range.empty() ? std::string() : " (expected " + range + (k.unit.empty() ? "" : " " + std::string(k.unit)) + ")";
     if (!std::isfinite(v)) return "'" + std::string(as_written) + "' is not a finite number" + expected;
-    if (v < k.min || v > k.max) return "'" + std::string(as_written) + "' is out of range" + expected;
+    if ((k.range.min && v < *k.range.min) || (k.range.max && v > *k.range.max)) return "'" + std::string(as_written) + "' is out of range" + expected;
     return {};
 }
 
@@ -171,7 +242,7 @@ std::string keys_reference_markdown() {
         out += "| key | kind | unit | default | range | meaning |\n| --- | --- | --- | --- | --- | --- |\n";
         for (const KeySpec& k : s.keys) {
             out += "| `" + std::string(k.name) + "` | " + std::string(kind_name(k.kind)) + " | " + std::string(k.unit) +
-                   " | " + (k.required ? std::string("required") : std::string(k.default_value)) + " | " +
+                   " | " + default_text(k) + " | " +
                    range_text(k) + " | " + std::string(k.help) + " |\n";
         }
         out += "\n";
@@ -250,7 +321,23 @@ std::optional<double> Section::optional_real(std::string_view key) const {
     return check_range(key, d);
 }
 
-double Section::real(std::string_view key, double fallback) const { return optional_real(key).value_or(fallback); }
+namespace {
+
+// The declared default of `k`, of type T; a key read with a default must declare one.
+template <class T>
+T declared_default(const KeySpec& k) {
+    const T* v = std::get_if<T>(&k.fallback);
+    assert(v && "key read with its default declares none of this type");
+    if (!v) throw std::logic_error("key '" + std::string(k.name) + "' declares no default of this type");
+    return *v;
+}
+
+}  // namespace
+
+double Section::real(std::string_view key) const {
+    if (auto v = optional_real(key)) return *v;
+    return declared_default<double>(spec(key));
+}
 
 std::optional<std::int64_t> Section::optional_integer(std::string_view key) const {
     assert(spec(key).kind == KeyKind::integer);
@@ -269,12 +356,17 @@ std::optional<std::int64_t> Section::optional_integer(std::string_view key) cons
     return n;
 }
 
-std::int64_t Section::integer(std::string_view key, std::int64_t fallback) const {
-    return optional_integer(key).value_or(fallback);
+std::int64_t Section::integer(std::string_view key) const {
+    if (auto v = optional_integer(key)) return *v;
+    return declared_default<std::int64_t>(spec(key));
 }
 
-std::string Section::text(std::string_view key, std::string fallback) const {
-    if (!has(key)) return fallback;
+std::string Section::text(std::string_view key) const {
+    if (!has(key)) {
+        const KeySpec& k = spec(key);
+        return std::holds_alternative<std::monostate>(k.fallback) ? std::string()
+                                                                 : std::string(declared_default<std::string_view>(k));
+    }
     YAML::Node v = value(key);
     if (!v.IsScalar()) fail(key, "expected text, found a list or section");
     return v.Scalar();
@@ -290,8 +382,8 @@ std::optional<int> Section::clock(std::string_view key) const {
     return m;
 }
 
-bool Section::flag(std::string_view key, bool fallback) const {
-    if (!has(key)) return fallback;
+bool Section::flag(std::string_view key) const {
+    if (!has(key)) return declared_default<bool>(spec(key));
     YAML::Node v = value(key);
     bool b = false;
     if (!v.IsScalar() || !YAML::convert<bool>::decode(v, b)) fail(key, "expected true or false");
@@ -320,7 +412,10 @@ std::vector<std::string> Section::text_list(std::string_view key) const {
 
 std::vector<double> Section::real_list(std::string_view key) const {
     std::vector<double> out;
-    if (!has(key)) return out;
+    if (!has(key)) {
+        const KeySpec& k = spec(key);
+        return std::holds_alternative<std::monostate>(k.fallback) ? out : declared_default<std::vector<double>>(k);
+    }
     YAML::Node v = child(key);
     for (const auto& item : v) {
         double d = 0;

@@ -1,12 +1,13 @@
 #pragma once
 // Scenario keys are declared once, in study/scenario_schema.cpp, with their kind,
-// unit, default, valid range and one line of help. The same table drives
-// validation, error messages ("did you mean ...?"), `tocsin keys` and the
-// README's reference section, so they never disagree.
+// unit, typed default, valid range and one line of help. The same table drives
+// validation, the loader's defaults, error messages ("did you mean ...?"),
+// `tocsin keys` and the README's reference section, so they never disagree.
 #include <cstdint>
 #include <optional>
 #include <string>
 #include <string_view>
+#include <variant>
 #include <vector>
 
 #include <yaml-cpp/yaml.h>
@@ -17,16 +18,85 @@ namespace tocsin {
 
 enum class KeyKind { integer, real, text, clock, flag, section, list };
 
-struct KeySpec {
-    std::string_view name;
-    KeyKind kind;
-    std::string_view unit;           // e.g. "minutes", "points"; empty when none
-    std::string_view default_value;  // shown in help; empty = required or no default
-    bool required = false;
-    double min = -1e300;             // inclusive range for numbers
-    double max = 1e300;
-    std::string_view help;
+// Inclusive bounds of a numeric key; a side left empty is open. `any_range`
+// (both open) is the range of every key that is not a number.
+struct Range {
+    std::optional<double> min{};
+    std::optional<double> max{};
 };
+inline constexpr Range any_range{};
+
+// A key's value when the file leaves it out, of the key's own type: a whole
+// number, a number, text, a flag or a list of numbers. `std::monostate` for a
+// required key, or for an optional one whose absence means something that is
+// not a value (its `absent` word says what, e.g. "none").
+using KeyDefault = std::variant<std::monostate, std::int64_t, double, std::string_view, bool, std::vector<double>>;
+
+struct KeySpec {
+    std::string_view name{};
+    KeyKind kind = KeyKind::text;
+    std::string_view unit{};    // e.g. "minutes", "points"; empty when none
+    KeyDefault fallback{};      // the value when left out
+    std::string_view absent{};  // what leaving it out means when no value stands in ("none", "all", ...)
+    bool required = false;
+    Range range{};              // numbers only
+    std::string_view help{};
+};
+
+// The default as the reference shows it: "required", the value, or the word
+// for what absence means ("none"); empty when there is none of these.
+std::string default_text(const KeySpec& k);
+
+// Declaring keys, one builder per kind so a default has the key's type:
+//   real_key("window_hours", {.unit = "hours", .fallback = 24, .range = {0.0166, 24 * 365}, .help = "..."})
+struct IntegerKey {
+    std::string_view unit{};
+    std::optional<std::int64_t> fallback{};
+    std::string_view absent{};
+    bool required = false;
+    Range range{};
+    std::string_view help{};
+};
+struct RealKey {
+    std::string_view unit{};
+    std::optional<double> fallback{};
+    std::string_view absent{};
+    bool required = false;
+    Range range{};
+    std::string_view help{};
+};
+struct TextKey {
+    std::string_view unit{};
+    std::optional<std::string_view> fallback{};
+    std::string_view absent{};
+    bool required = false;
+    std::string_view help{};
+};
+struct FlagKey {
+    bool fallback = false;
+    std::string_view help{};
+};
+struct OtherKey {  // a clock time, a section or a list
+    std::string_view unit{};
+    std::string_view absent{};
+    bool required = false;
+    std::string_view help{};
+};
+struct RealListKey {  // a list of numbers
+    std::string_view unit{};
+    std::vector<double> fallback{};
+    bool required = false;
+    Range range{};  // of each number
+    std::string_view help{};
+};
+KeySpec integer_key(std::string_view name, IntegerKey k);
+KeySpec real_key(std::string_view name, RealKey k);
+KeySpec text_key(std::string_view name, TextKey k);
+KeySpec flag_key(std::string_view name, FlagKey k);
+KeySpec clock_key(std::string_view name, OtherKey k);
+KeySpec section_key(std::string_view name, OtherKey k);
+KeySpec list_key(std::string_view name, OtherKey k);
+KeySpec real_list_key(std::string_view name, RealListKey k);
 
 struct SectionSpec {
     std::string_view path;  // e.g. "plans[].rule"
@@ -47,16 +117,18 @@ public:
     Section(const YAML::Node& node, std::string_view spec_path, std::string file, std::string where);
 
     bool has(std::string_view key) const;
-    double real(std::string_view key, double fallback) const;
+    // The value given, or else the key's declared default; a key read this
+    // way must have one (or be required). Text with neither reads as empty.
+    double real(std::string_view key) const;
     std::optional<double> optional_real(std::string_view key) const;
-    std::int64_t integer(std::string_view key, std::int64_t fallback) const;
+    std::int64_t integer(std::string_view key) const;
     std::optional<std::int64_t> optional_integer(std::string_view key) const;
-    std::string text(std::string_view key, std::string fallback = {}) const;
+    std::string text(std::string_view key) const;
     std::optional<int> clock(std::string_view key) const;  // "HH:MM" -> minutes after midnight
-    bool flag(std::string_view key, bool fallback) const;
+    bool flag(std::string_view key) const;
     YAML::Node child(std::string_view key) const;  // a sub-section or list; null when absent
     std::vector<std::string> text_list(std::string_view key) const;
-    std::vector<double> real_list(std::string_view key) const;
+    std::vector<double> real_list(std::string_view key) const;  // the declared default when absent
 
     const std::string& file() const { return file_; }
     const std::string& where() const { return where_; }

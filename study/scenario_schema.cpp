@@ -1,255 +1,364 @@
-// Every scenario key, declared once. Keep in step with the loader in
-// study/scenario.cpp (a test checks every declared key is read and documented).
+// Every scenario key, declared once: its kind, unit, typed default, range and
+// one line of help. The loader (study/scenario_load_*.cpp) reads defaults and
+// ranges from here through `Section`; `tocsin keys` and README print them.
 #include "study/scenario_keys.hpp"
 
 namespace tocsin {
 
+namespace {
+
+SectionSpec top_level_keys() {
+    return {"top level",
+            "The scenario file.",
+            {
+                integer_key("scenario_schema", {.required = true, .range = {1, 1}, .help = "Schema version of this file; must be 1."}),
+                text_key("name", {.required = true, .help = "Short name shown on every report."}),
+                text_key("description", {.help = "The question the scenario answers, in plain words."}),
+                text_key("time_zone", {.required = true, .help = "IANA zone of the hospital's wall clock, e.g. Europe/Berlin; naive timestamps and all local-time rules use it."}),
+                integer_key("seed", {.fallback = 1, .range = {0, 9.2e18}, .help = "Seed of every random stream; same seed, same results."}),
+                integer_key("replications", {.fallback = 1, .range = {1, 100000}, .help = "How many replications of every plan to run (more than 1 needs a resampled or generated population)."}),
+                text_key("score_label", {.fallback = "score", .help = "What the score is called in reports, e.g. 'deterioration index'."}),
+                list_key("shifts", {.required = true, .help = "The daily shifts, one item each (see shifts[])."}),
+                section_key("outcome", {.required = true, .help = "What counts as catching a case (see outcome)."}),
+                section_key("population", {.required = true, .help = "Where encounters and scores come from (see population)."}),
+                section_key("reporting", {.help = "Optional reporting period (see reporting)."}),
+                list_key("plans", {.required = true, .help = "The candidate workflows to compare (see plans[])."}),
+                list_key("roles", {.absent = "none", .help = "Staff who answer notices, with rosters and minutes per task (see roles[]); without roles every notice counts as evaluated at once."}),
+                list_key("escalation", {.absent = "none", .help = "Where a task goes when nobody takes it up in time (see escalation[]); acyclic, one edge out of a role at most."}),
+                section_key("sweep", {.help = "Parameters `tocsin sweep` varies when none are given on the command line (see sweep)."}),
+                section_key("chart_openings", {.help = "When clinicians open charts, for chart-interruption plans (see chart_openings)."}),
+            }};
+}
+
+SectionSpec shifts_keys() {
+    return {"shifts[]",
+            "One daily shift, named by its local start time; it ends when the next shift starts.",
+            {
+                text_key("name", {.required = true, .help = "e.g. day, night."}),
+                clock_key("starts", {.unit = "local time", .required = true, .help = "Local start time \"HH:MM\"."}),
+                flag_key("night", {.fallback = false, .help = "Counts towards 'per night' figures."}),
+            }};
+}
+
+SectionSpec outcome_keys() {
+    return {"outcome",
+            "A case is caught when its first qualifying action starts within [time zero - window, time zero - min_lead].",
+            {
+                real_key("window_hours", {.unit = "hours", .fallback = 24, .range = {0.0166, 24 * 365}, .help = "How long before time zero an action can still count as a catch."}),
+                real_key("min_lead_minutes", {.unit = "minutes", .fallback = 0, .range = {0, 60 * 24 * 30}, .help = "How long before time zero an action must start to count."}),
+            }};
+}
+
+SectionSpec population_keys() {
+    return {"population",
+            "Where the encounters and their scores come from.",
+            {
+                section_key("replay", {.help = "Replay a silent-mode log (see population.replay); give replay or generate."}),
+                section_key("generate", {.help = "Generate invented patients and scores (see population.generate); give replay or generate."}),
+                section_key("bootstrap", {.help = "With replay: how replications 1, 2, ... resample the log (see population.bootstrap)."}),
+                section_key("shift", {.help = "A stress test: change the population from a given instant on (see population.shift)."}),
+            }};
+}
+
+SectionSpec population_generate_keys() {
+    return {"population.generate",
+            "Invented patients: arrivals per unit by hour of week (capped by beds), stays, outcomes and score trajectories.",
+            {
+                text_key("start", {.unit = "timestamp", .required = true, .help = "Start of the generated period (timestamp)."}),
+                text_key("end", {.unit = "timestamp", .required = true, .help = "End of the generated period (timestamp, exclusive)."}),
+                real_key("warmup_days", {.unit = "days", .fallback = 14, .range = {0, 365}, .help = "Arrivals start this long before `start`, so the census at the start is realistic."}),
+                list_key("units", {.required = true, .help = "The units, one item each (see population.generate.units[])."}),
+                section_key("stay", {.help = "Length of stay (see population.generate.stay)."}),
+                section_key("outcome", {.help = "How often and when time zero happens (see population.generate.outcome)."}),
+                section_key("scores", {.help = "Score scale, cadence, delays and trajectories (see population.generate.scores)."}),
+            }};
+}
+
+SectionSpec population_generate_units_keys() {
+    return {"population.generate.units[]",
+            "One unit. An arrival that finds every bed taken is turned away and counted.",
+            {
+                text_key("name", {.required = true, .help = "Unit name shown in every table."}),
+                integer_key("beds", {.unit = "beds", .required = true, .range = {1, 100000}, .help = "Beds; arrivals beyond them are turned away."}),
+                real_list_key("arrivals_per_hour", {.unit = "admissions per hour", .required = true, .range = {0, 1e6}, .help = "Mean admissions per hour by local hour of week: 1 number (every hour), 24 (every day alike), 168, or 7 rows of 24 (Monday first)."}),
+            }};
+}
+
+SectionSpec population_generate_stay_keys() {
+    return {"population.generate.stay",
+            "Length of stay, from admission to discharge (cases may leave at time zero).",
+            {
+                text_key("distribution", {.fallback = "lognormal", .help = "lognormal (median_hours, log_sd) or gamma (mean_hours, sd_hours)."}),
+                real_key("median_hours", {.unit = "hours", .fallback = 72, .range = {0.01, 1e5}, .help = "Lognormal: median stay."}),
+                real_key("log_sd", {.fallback = 0.7, .range = {0, 5}, .help = "Lognormal: standard deviation of log(stay)."}),
+                real_key("mean_hours", {.unit = "hours", .fallback = 80, .range = {0.01, 1e5}, .help = "Gamma: mean stay."}),
+                real_key("sd_hours", {.unit = "hours", .fallback = 60, .range = {0.01, 1e5}, .help = "Gamma: standard deviation of the stay."}),
+            }};
+}
+
+SectionSpec population_generate_outcome_keys() {
+    return {"population.generate.outcome",
+            "Time zero: whether and when an encounter reaches the outcome.",
+            {
+                real_key("probability", {.fallback = 0.05, .range = {0, 1}, .help = "Share of admitted encounters that reach the outcome."}),
+                real_key("earliest_fraction", {.fallback = 0.1, .range = {0, 1}, .help = "Time zero falls uniformly between this fraction of the drawn stay ..."}),
+                real_key("latest_fraction", {.fallback = 1, .range = {0, 1}, .help = "... and this one."}),
+                flag_key("ends_stay", {.fallback = true, .help = "The stay on the unit ends at time zero (e.g. ICU transfer)."}),
+            }};
+}
+
+SectionSpec population_generate_scores_keys() {
+    return {"population.generate.scores",
+            "Scores: latent level = baseline + patient offset + noise + (cases) a rise before time zero.",
+            {
+                text_key("scale", {.fallback = "points", .help = "points (0-100, latent in points) or probability (latent on the logit scale)."}),
+                real_key("cadence_minutes", {.unit = "minutes", .fallback = 60, .range = {1, 60 * 24 * 7}, .help = "Time between scheduled scores."}),
+                real_key("jitter_minutes", {.unit = "minutes", .fallback = 10, .range = {0, 60 * 24 * 7}, .help = "Each gap varies uniformly by up to this much (below the cadence)."}),
+                real_key("missing_probability", {.fallback = 0, .range = {0, 0.99}, .help = "Chance that a scheduled score is never recorded."}),
+                real_key("latency_median_minutes", {.unit = "minutes", .fallback = 0, .range = {0, 60 * 24}, .help = "Median delay from scored_at to available_at (lognormal; 0 = none)."}),
+                real_key("latency_log_sd", {.fallback = 0, .range = {0, 5}, .help = "Standard deviation of log(delay)."}),
+                real_key("baseline", {.unit = "latent", .fallback = 20, .range = {-1e6, 1e6}, .help = "Average level for everyone."}),
+                real_key("between_patient_sd", {.unit = "latent", .fallback = 6, .range = {0, 1e6}, .help = "Spread of patients' own levels."}),
+                real_key("within_patient_sd", {.unit = "latent", .fallback = 6, .range = {0, 1e6}, .help = "Score-to-score noise."}),
+                real_key("drift_size", {.unit = "latent", .fallback = 20, .range = {-1e6, 1e6}, .help = "Cases: rise reached at time zero (ignored when target_auc is given)."}),
+                real_key("drift_onset_min_hours", {.unit = "hours", .fallback = 6, .range = {0, 24 * 60}, .help = "Cases: the rise starts a uniform number of hours before time zero, from ..."}),
+                real_key("drift_onset_max_hours", {.unit = "hours", .fallback = 48, .range = {0, 24 * 60}, .help = "... to this."}),
+                real_key("target_auc", {.absent = "none", .range = {0.01, 0.999}, .help = "Find drift_size so that the encounter-level AUC is this (reported; refused when out of reach)."}),
+            }};
+}
+
+SectionSpec population_bootstrap_keys() {
+    return {"population.bootstrap",
+            "Replications from the log: whole days (or weeks) per unit with their stays and scores. See README, 'Replications from a log'.",
+            {
+                integer_key("block_days", {.unit = "days", .fallback = 1, .range = {1, 28}, .help = "Length of a resampled block: 1 = days, 7 = weeks."}),
+                text_key("scheme", {.fallback = "stationary", .help = "stationary (random run lengths) or moving_block (fixed run lengths)."}),
+                real_key("mean_run_blocks", {.unit = "blocks", .fallback = 7, .range = {1, 1000}, .help = "Mean (stationary) or exact (moving_block) number of consecutive blocks kept together."}),
+                flag_key("same_weekday", {.fallback = true, .help = "Day blocks: a jump lands on the same weekday, keeping the weekly pattern."}),
+            }};
+}
+
+SectionSpec population_shift_keys() {
+    return {"population.shift",
+            "A stress test applied from `from` on; everything before it is unchanged.",
+            {
+                text_key("from", {.unit = "timestamp", .required = true, .help = "When the shift starts (timestamp)."}),
+                list_key("units", {.absent = "all", .help = "Units the outcome, score and cadence changes apply to."}),
+                real_key("outcome_rate_multiplier", {.fallback = 1, .range = {0, 100}, .help = "Share of cases among later admissions is multiplied by this."}),
+                text_key("scale", {.fallback = "points", .help = "How scores map to the latent level for score_scale/score_offset (generated populations use their own scale)."}),
+                real_key("score_scale", {.fallback = 1, .range = {-1e6, 1e6}, .help = "Later scores: latent x score_scale + score_offset."}),
+                real_key("score_offset", {.unit = "latent", .fallback = 0, .range = {-1e6, 1e6}, .help = "Added to the latent level of later scores."}),
+                real_key("cadence_minutes", {.unit = "minutes", .absent = "none", .range = {1, 60 * 24 * 7}, .help = "Later scores: at most one per encounter in each such window (thins only)."}),
+                text_key("outage_start", {.unit = "timestamp", .absent = "from", .help = "Start of a feed outage (timestamp, not before `from`)."}),
+                real_key("outage_hours", {.unit = "hours", .fallback = 0, .range = {0, 24 * 365}, .help = "No score becomes available for this long; lost scores are counted."}),
+                list_key("census", {.help = "Raise a unit's census (see population.shift.census[])."}),
+            }};
+}
+
+SectionSpec population_shift_census_keys() {
+    return {"population.shift.census[]",
+            "Extra admissions on one unit after the shift starts (beds are not enforced).",
+            {
+                text_key("unit", {.required = true, .help = "Unit name."}),
+                real_key("multiplier", {.required = true, .range = {1, 100}, .help = "Admissions after the shift are multiplied by about this."}),
+            }};
+}
+
+SectionSpec population_replay_keys() {
+    return {"population.replay",
+            "Two CSV files (RFC 4180). Paths are relative to the scenario file.",
+            {
+                text_key("encounters", {.unit = "path", .required = true, .help = "CSV with columns encounter,unit,admitted,discharged,outcome_at."}),
+                text_key("scores", {.unit = "path", .required = true, .help = "CSV with columns encounter,scored_at,available_at,score."}),
+                real_key("latency_minutes", {.unit = "minutes", .fallback = 0, .range = {0, 60 * 24}, .help = "Delay added to scored_at when available_at is empty."}),
+                real_key("max_stay_days", {.unit = "days", .fallback = 365, .range = {1, 36500}, .help = "A longer stay is a bad row (a mistyped year stretches the reporting period)."}),
+                real_key("far_out_fence_iqr", {.unit = "interquartile ranges", .fallback = 3, .range = {0, 1000}, .help = "An admission or discharge more than this many interquartile ranges (at least this many times 30 days) outside the middle half of all of them is a bad row; 0 turns the check off."}),
+                real_list_key("score_range", {.unit = "score", .fallback = {0, 100}, .help = "[low, high]: scores outside it are bad rows; e.g. [0, 1] for a probability."}),
+                text_key("bad_rows", {.fallback = "stop", .help = "stop: a bad row stops the run at its file:line; skip: bad rows (here and in chart_openings.replay) are skipped and counted by reason with their first line numbers."}),
+            }};
+}
+
+SectionSpec reporting_keys() {
+    return {"reporting",
+            "Limits per-shift figures to complete shifts inside a period (default: complete shifts between the first admission and the last discharge).",
+            {
+                text_key("from", {.unit = "timestamp", .help = "Start of the reporting period (timestamp)."}),
+                text_key("until", {.unit = "timestamp", .help = "End of the reporting period (timestamp, exclusive)."}),
+            }};
+}
+
+SectionSpec chart_openings_keys() {
+    return {"chart_openings",
+            "When clinicians open a patient's chart: replayed from a log, or generated per patient by role and local hour of day (non-homogeneous Poisson process, thinning; Lewis & Shedler 1979). Every plan of a replication sees the same openings.",
+            {
+                text_key("replay", {.unit = "path", .absent = "none", .help = "CSV with columns encounter,opened_at,role (relative to the scenario file); none: generate from the roles' rates."}),
+                list_key("roles", {.required = true, .help = "The roles that open charts, one item each (see chart_openings.roles[])."}),
+            }};
+}
+
+SectionSpec chart_openings_roles_keys() {
+    return {"chart_openings.roles[]",
+            "One role that opens charts.",
+            {
+                text_key("name", {.required = true, .help = "e.g. ward nurse; replayed rows name it in their role column."}),
+                real_key("clinicians_per_unit", {.unit = "clinicians", .fallback = 1, .range = {0.001, 1000}, .help = "Headcount of the role on one unit in one shift, for 'interruptions per clinician per shift'."}),
+                real_list_key("openings_per_hour", {.unit = "openings per patient per hour", .help = "Rate by local hour: a list of one number (all day, e.g. [1.5]) or of 24 (hour 00 first); needed when openings are generated."}),
+            }};
+}
+
+SectionSpec plans_keys() {
+    return {"plans[]",
+            "One candidate workflow: a rule, a channel and who answers.",
+            {
+                text_key("name", {.required = true, .help = "Unique plan name shown in every table."}),
+                text_key("description", {.help = "One line on what the plan is for."}),
+                text_key("channel", {.fallback = "page", .help = "How a firing is delivered: page, chart_interruption, handoff_list or ranked_review."}),
+                text_key("role", {.fallback = "responder", .help = "Who answers the notice; when roles are declared, one of them. For a chart interruption, only openings by this chart-opening role are interrupted (default: every role)."}),
+                text_key("queue", {.fallback = "fifo", .help = "Order in which waiting tasks are taken up: fifo (first come) or priority (highest score first)."}),
+                text_key("at_shift_end", {.fallback = "hand_over", .help = "An evaluation still in progress when its nurse's shift ends: hand_over (an incoming colleague continues it) or drop (abandoned and counted)."}),
+                section_key("rule", {.help = "When the plan fires (see plans[].rule); required except for a ranked review without a floor."}),
+                section_key("chart", {.help = "Chart interruption settings (see plans[].chart); required for that channel."}),
+                section_key("handoff", {.help = "Handoff list settings (see plans[].handoff); required for that channel."}),
+                section_key("review", {.help = "Ranked review settings (see plans[].review); required for that channel."}),
+            }};
+}
+
+SectionSpec plans_rule_keys() {
+    return {"plans[].rule",
+            "When a plan fires for an encounter. Only `threshold` is required.",
+            {
+                real_key("threshold", {.unit = "score", .help = "A score qualifies when >= threshold. Required, except for a ranked review, where it is the optional floor."}),
+                integer_key("persistence", {.unit = "scores", .fallback = 1, .range = {1, 1000}, .help = "Fire only when the last k available scores all qualify."}),
+                real_key("snooze_minutes", {.unit = "minutes", .absent = "none", .range = {0, 60 * 24 * 60}, .help = "After a firing, no ordinary firing for this long."}),
+                real_key("rise", {.unit = "score", .absent = "none", .range = {.min = 1e-9}, .help = "A score at least this much above the last firing's score fires at once, despite snooze and re-arm."}),
+                real_key("rearm_below", {.unit = "score", .absent = "none", .help = "After a firing, stay silent until a score below this is seen (must be <= threshold)."}),
+                integer_key("max_per_shift", {.unit = "firings", .absent = "none", .range = {1, 1000}, .help = "At most this many firings per encounter per shift, rises included."}),
+                clock_key("quiet_from", {.unit = "local time", .absent = "none", .help = "Start of daily quiet hours \"HH:MM\" (nothing fires)."}),
+                clock_key("quiet_until", {.unit = "local time", .absent = "none", .help = "End of daily quiet hours \"HH:MM\" (exclusive; may wrap midnight)."}),
+            }};
+}
+
+SectionSpec sweep_keys() {
+    return {"sweep",
+            "What `tocsin sweep` varies by default. Paths as for --vary: plan.rule.threshold is relative to the swept plan.",
+            {
+                text_key("plan", {.absent = "first plan", .help = "Name of the plan to vary."}),
+                list_key("vary", {.required = true, .help = "One item per parameter (see sweep.vary[]); several make a grid."}),
+            }};
+}
+
+SectionSpec sweep_vary_keys() {
+    return {"sweep.vary[]",
+            "One swept parameter: a list of values, or a range from..to by step (inclusive).",
+            {
+                text_key("key", {.unit = "path", .required = true, .help = "Dotted path, e.g. plan.rule.threshold."}),
+                real_list_key("values", {.help = "The values to try."}),
+                real_key("from", {.help = "Start of a range."}),
+                real_key("to", {.help = "End of a range (inclusive)."}),
+                real_key("step", {.range = {.min = 1e-12}, .help = "Step of a range."}),
+            }};
+}
+
+SectionSpec roles_keys() {
+    return {"roles[]",
+            "One role that answers notices: a team on each unit or one for the hospital, its roster and its minutes per task.",
+            {
+                text_key("name", {.required = true, .help = "e.g. rapid response nurse; plans and escalation edges name it."}),
+                text_key("team", {.fallback = "hospital", .help = "hospital (one team for all units) or each_unit (a team of this roster on every unit)."}),
+                section_key("roster", {.unit = "people", .required = true, .help = "Headcount on duty per shift, by shift name, e.g. {day: 2, night: 1}; every shift must be given."}),
+                section_key("roster_by_weekday", {.unit = "people", .absent = "none", .help = "Overrides for some weekdays, e.g. {saturday: {day: 1, night: 1}}; days not listed use roster."}),
+                section_key("minutes", {.required = true, .help = "Minutes one evaluation takes (see roles[].minutes)."}),
+            }};
+}
+
+SectionSpec roles_minutes_keys() {
+    return {"roles[].minutes",
+            "Minutes per task, drawn per task from a seeded stream. Give distribution and only the keys it uses.",
+            {
+                text_key("distribution", {.required = true, .help = "fixed (minutes), exponential (mean), gamma (mean, sd), lognormal (median, spread) or empirical (values)."}),
+                real_key("minutes", {.unit = "minutes", .range = {0.001, 60 * 24}, .help = "fixed: every task takes this long."}),
+                real_key("mean", {.unit = "minutes", .range = {0.001, 60 * 24}, .help = "exponential, gamma: mean minutes per task."}),
+                real_key("sd", {.unit = "minutes", .range = {0.001, 60 * 24}, .help = "gamma: standard deviation of minutes per task."}),
+                real_key("median", {.unit = "minutes", .range = {0.001, 60 * 24}, .help = "lognormal: median minutes per task."}),
+                real_key("spread", {.unit = "ratio", .range = {1, 100}, .help = "lognormal: geometric sd; about 2 tasks in 3 take between median/spread and median*spread."}),
+                real_list_key("values", {.unit = "minutes", .help = "empirical: observed minutes, each equally likely, e.g. [5, 8, 12, 30]."}),
+            }};
+}
+
+SectionSpec escalation_keys() {
+    return {"escalation[]",
+            "One edge of the escalation graph: a task not taken up at `from` within the timeout moves to `to`.",
+            {
+                text_key("from", {.required = true, .help = "Role the task waits at."}),
+                text_key("to", {.required = true, .help = "Role it moves to."}),
+                real_key("after_minutes", {.unit = "minutes", .required = true, .range = {0.001, 60 * 24 * 7}, .help = "Acknowledgement timeout at `from`."}),
+            }};
+}
+
+SectionSpec plans_chart_keys() {
+    return {"plans[].chart",
+            "A chart interruption: the rule is asked each time a clinician opens the chart, on the latest score available then.",
+            {
+                real_key("interruption_minutes", {.unit = "minutes", .required = true, .range = {0, 600}, .help = "The opener's time taken by one interruption."}),
+                real_key("acceptance_probability", {.unit = "probability", .fallback = 1, .range = {0, 1}, .help = "Share of interruptions that lead to a bedside evaluation (the same draw per opening in every plan)."}),
+            }};
+}
+
+SectionSpec plans_handoff_keys() {
+    return {"plans[].handoff",
+            "A handoff list: at each handoff every current inpatient whose rule fires is flagged. Quiet hours and max_per_shift do not apply.",
+            {
+                list_key("times", {.unit = "local times", .absent = "shift starts", .help = "Local handoff times \"HH:MM\"; default: each shift's start."}),
+                real_key("minutes_per_flag", {.unit = "minutes", .required = true, .range = {0, 600}, .help = "Handoff time spent on each flagged patient."}),
+                real_key("follow_up_probability", {.unit = "probability", .fallback = 1, .range = {0, 1}, .help = "Share of flags that lead to a bedside evaluation (the same draw per patient and handoff in every plan)."}),
+            }};
+}
+
+SectionSpec plans_review_keys() {
+    return {"plans[].review",
+            "A ranked review: at each review time a team reviews the top N current inpatients by latest score. The rule's threshold is the floor; snooze_minutes, quiet hours and max_per_shift do not apply.",
+            {
+                list_key("times", {.unit = "local times", .required = true, .help = "Local review times \"HH:MM\", e.g. [\"08:00\"]."}),
+                integer_key("top_n", {.unit = "patients", .required = true, .range = {1, 100000}, .help = "How many patients the list holds (per unit or hospital-wide)."}),
+                text_key("scope", {.fallback = "unit", .help = "unit: one list per unit; hospital: one list for the whole hospital."}),
+                real_key("skip_reviewed_hours", {.unit = "hours", .absent = "none", .range = {0, 24 * 60}, .help = "Skip patients reviewed within this many hours (a rise still brings them back)."}),
+                real_key("minutes_per_review", {.unit = "minutes", .required = true, .range = {0, 600}, .help = "Team time per patient reviewed."}),
+                integer_key("max_reviews_per_round", {.unit = "reviews", .absent = "none", .range = {0, 100000}, .help = "The team's capacity per round; listed patients beyond it are not reviewed."}),
+                integer_key("team_size", {.unit = "clinicians", .absent = "none", .range = {1, 1000}, .help = "Capacity from staffing: team_size x team_minutes_per_round / minutes_per_review reviews (rounded down)."}),
+                real_key("team_minutes_per_round", {.unit = "minutes", .absent = "none", .range = {0, 24 * 60}, .help = "Minutes each team member has for one round (with team_size)."}),
+            }};
+}
+
+}  // namespace
+
 const std::vector<SectionSpec>& scenario_sections() {
     static const std::vector<SectionSpec> sections = {
-        {"top level",
-         "The scenario file.",
-         {
-             {"scenario_schema", KeyKind::integer, "", "", true, 1, 1, "Schema version of this file; must be 1."},
-             {"name", KeyKind::text, "", "", true, -1e300, 1e300, "Short name shown on every report."},
-             {"description", KeyKind::text, "", "", false, -1e300, 1e300, "The question the scenario answers, in plain words."},
-             {"time_zone", KeyKind::text, "", "", true, -1e300, 1e300, "IANA zone of the hospital's wall clock, e.g. Europe/Berlin; naive timestamps and all local-time rules use it."},
-             {"seed", KeyKind::integer, "", "1", false, 0, 9.2e18, "Seed of every random stream; same seed, same results."},
-             {"replications", KeyKind::integer, "", "1", false, 1, 100000, "How many replications of every plan to run (more than 1 needs a resampled or generated population)."},
-             {"score_label", KeyKind::text, "", "score", false, -1e300, 1e300, "What the score is called in reports, e.g. 'deterioration index'."},
-             {"shifts", KeyKind::list, "", "", true, -1e300, 1e300, "The daily shifts, one item each (see shifts[])."},
-             {"outcome", KeyKind::section, "", "", true, -1e300, 1e300, "What counts as catching a case (see outcome)."},
-             {"population", KeyKind::section, "", "", true, -1e300, 1e300, "Where encounters and scores come from (see population)."},
-             {"reporting", KeyKind::section, "", "", false, -1e300, 1e300, "Optional reporting period (see reporting)."},
-             {"plans", KeyKind::list, "", "", true, -1e300, 1e300, "The candidate workflows to compare (see plans[])."},
-             {"roles", KeyKind::list, "", "none", false, -1e300, 1e300, "Staff who answer notices, with rosters and minutes per task (see roles[]); without roles every notice counts as evaluated at once."},
-             {"escalation", KeyKind::list, "", "none", false, -1e300, 1e300, "Where a task goes when nobody takes it up in time (see escalation[]); acyclic, one edge out of a role at most."},
-             {"sweep", KeyKind::section, "", "", false, -1e300, 1e300, "Parameters `tocsin sweep` varies when none are given on the command line (see sweep)."},
-             {"chart_openings", KeyKind::section, "", "", false, -1e300, 1e300, "When clinicians open charts, for chart-interruption plans (see chart_openings)."},
-         }},
-        {"shifts[]",
-         "One daily shift, named by its local start time; it ends when the next shift starts.",
-         {
-             {"name", KeyKind::text, "", "", true, -1e300, 1e300, "e.g. day, night."},
-             {"starts", KeyKind::clock, "local time", "", true, -1e300, 1e300, "Local start time \"HH:MM\"."},
-             {"night", KeyKind::flag, "", "false", false, -1e300, 1e300, "Counts towards 'per night' figures."},
-         }},
-        {"outcome",
-         "A case is caught when its first qualifying action starts within [time zero - window, time zero - min_lead].",
-         {
-             {"window_hours", KeyKind::real, "hours", "24", false, 0.0166, 24 * 365, "How long before time zero an action can still count as a catch."},
-             {"min_lead_minutes", KeyKind::real, "minutes", "0", false, 0, 60 * 24 * 30, "How long before time zero an action must start to count."},
-         }},
-        {"population",
-         "Where the encounters and their scores come from.",
-         {
-             {"replay", KeyKind::section, "", "", false, -1e300, 1e300, "Replay a silent-mode log (see population.replay); give replay or generate."},
-             {"generate", KeyKind::section, "", "", false, -1e300, 1e300, "Generate invented patients and scores (see population.generate); give replay or generate."},
-             {"bootstrap", KeyKind::section, "", "", false, -1e300, 1e300, "With replay: how replications 1, 2, ... resample the log (see population.bootstrap)."},
-             {"shift", KeyKind::section, "", "", false, -1e300, 1e300, "A stress test: change the population from a given instant on (see population.shift)."},
-         }},
-        {"population.generate",
-         "Invented patients: arrivals per unit by hour of week (capped by beds), stays, outcomes and score trajectories.",
-         {
-             {"start", KeyKind::text, "timestamp", "", true, -1e300, 1e300, "Start of the generated period (timestamp)."},
-             {"end", KeyKind::text, "timestamp", "", true, -1e300, 1e300, "End of the generated period (timestamp, exclusive)."},
-             {"warmup_days", KeyKind::real, "days", "14", false, 0, 365, "Arrivals start this long before `start`, so the census at the start is realistic."},
-             {"units", KeyKind::list, "", "", true, -1e300, 1e300, "The units, one item each (see population.generate.units[])."},
-             {"stay", KeyKind::section, "", "", false, -1e300, 1e300, "Length of stay (see population.generate.stay)."},
-             {"outcome", KeyKind::section, "", "", false, -1e300, 1e300, "How often and when time zero happens (see population.generate.outcome)."},
-             {"scores", KeyKind::section, "", "", false, -1e300, 1e300, "Score scale, cadence, delays and trajectories (see population.generate.scores)."},
-         }},
-        {"population.generate.units[]",
-         "One unit. An arrival that finds every bed taken is turned away and counted.",
-         {
-             {"name", KeyKind::text, "", "", true, -1e300, 1e300, "Unit name shown in every table."},
-             {"beds", KeyKind::integer, "beds", "", true, 1, 100000, "Beds; arrivals beyond them are turned away."},
-             {"arrivals_per_hour", KeyKind::list, "admissions per hour", "", true, 0, 1e6, "Mean admissions per hour by local hour of week: 1 number (every hour), 24 (every day alike), 168, or 7 rows of 24 (Monday first)."},
-         }},
-        {"population.generate.stay",
-         "Length of stay, from admission to discharge (cases may leave at time zero).",
-         {
-             {"distribution", KeyKind::text, "", "lognormal", false, -1e300, 1e300, "lognormal (median_hours, log_sd) or gamma (mean_hours, sd_hours)."},
-             {"median_hours", KeyKind::real, "hours", "72", false, 0.01, 1e5, "Lognormal: median stay."},
-             {"log_sd", KeyKind::real, "", "0.7", false, 0, 5, "Lognormal: standard deviation of log(stay)."},
-             {"mean_hours", KeyKind::real, "hours", "80", false, 0.01, 1e5, "Gamma: mean stay."},
-             {"sd_hours", KeyKind::real, "hours", "60", false, 0.01, 1e5, "Gamma: standard deviation of the stay."},
-         }},
-        {"population.generate.outcome",
-         "Time zero: whether and when an encounter reaches the outcome.",
-         {
-             {"probability", KeyKind::real, "", "0.05", false, 0, 1, "Share of admitted encounters that reach the outcome."},
-             {"earliest_fraction", KeyKind::real, "", "0.1", false, 0, 1, "Time zero falls uniformly between this fraction of the drawn stay ..."},
-             {"latest_fraction", KeyKind::real, "", "1", false, 0, 1, "... and this one."},
-             {"ends_stay", KeyKind::flag, "", "true", false, -1e300, 1e300, "The stay on the unit ends at time zero (e.g. ICU transfer)."},
-         }},
-        {"population.generate.scores",
-         "Scores: latent level = baseline + patient offset + noise + (cases) a rise before time zero.",
-         {
-             {"scale", KeyKind::text, "", "points", false, -1e300, 1e300, "points (0-100, latent in points) or probability (latent on the logit scale)."},
-             {"cadence_minutes", KeyKind::real, "minutes", "60", false, 1, 60 * 24 * 7, "Time between scheduled scores."},
-             {"jitter_minutes", KeyKind::real, "minutes", "10", false, 0, 60 * 24 * 7, "Each gap varies uniformly by up to this much (below the cadence)."},
-             {"missing_probability", KeyKind::real, "", "0", false, 0, 0.99, "Chance that a scheduled score is never recorded."},
-             {"latency_median_minutes", KeyKind::real, "minutes", "0", false, 0, 60 * 24, "Median delay from scored_at to available_at (lognormal; 0 = none)."},
-             {"latency_log_sd", KeyKind::real, "", "0", false, 0, 5, "Standard deviation of log(delay)."},
-             {"baseline", KeyKind::real, "latent", "20", false, -1e6, 1e6, "Average level for everyone."},
-             {"between_patient_sd", KeyKind::real, "latent", "6", false, 0, 1e6, "Spread of patients' own levels."},
-             {"within_patient_sd", KeyKind::real, "latent", "6", false, 0, 1e6, "Score-to-score noise."},
-             {"drift_size", KeyKind::real, "latent", "20", false, -1e6, 1e6, "Cases: rise reached at time zero (ignored when target_auc is given)."},
-             {"drift_onset_min_hours", KeyKind::real, "hours", "6", false, 0, 24 * 60, "Cases: the rise starts a uniform number of hours before time zero, from ..."},
-             {"drift_onset_max_hours", KeyKind::real, "hours", "48", false, 0, 24 * 60, "... to this."},
-             {"target_auc", KeyKind::real, "", "none", false, 0.01, 0.999, "Find drift_size so that the encounter-level AUC is this (reported; refused when out of reach)."},
-         }},
-        {"population.bootstrap",
-         "Replications from the log: whole days (or weeks) per unit with their stays and scores. See README, 'Replications from a log'.",
-         {
-             {"block_days", KeyKind::integer, "days", "1", false, 1, 28, "Length of a resampled block: 1 = days, 7 = weeks."},
-             {"scheme", KeyKind::text, "", "stationary", false, -1e300, 1e300, "stationary (random run lengths) or moving_block (fixed run lengths)."},
-             {"mean_run_blocks", KeyKind::real, "blocks", "7", false, 1, 1000, "Mean (stationary) or exact (moving_block) number of consecutive blocks kept together."},
-             {"same_weekday", KeyKind::flag, "", "true", false, -1e300, 1e300, "Day blocks: a jump lands on the same weekday, keeping the weekly pattern."},
-         }},
-        {"population.shift",
-         "A stress test applied from `from` on; everything before it is unchanged.",
-         {
-             {"from", KeyKind::text, "timestamp", "", true, -1e300, 1e300, "When the shift starts (timestamp)."},
-             {"units", KeyKind::list, "", "all", false, -1e300, 1e300, "Units the outcome, score and cadence changes apply to."},
-             {"outcome_rate_multiplier", KeyKind::real, "", "1", false, 0, 100, "Share of cases among later admissions is multiplied by this."},
-             {"scale", KeyKind::text, "", "points", false, -1e300, 1e300, "How scores map to the latent level for score_scale/score_offset (generated populations use their own scale)."},
-             {"score_scale", KeyKind::real, "", "1", false, -1e6, 1e6, "Later scores: latent x score_scale + score_offset."},
-             {"score_offset", KeyKind::real, "latent", "0", false, -1e6, 1e6, "Added to the latent level of later scores."},
-             {"cadence_minutes", KeyKind::real, "minutes", "none", false, 1, 60 * 24 * 7, "Later scores: at most one per encounter in each such window (thins only)."},
-             {"outage_start", KeyKind::text, "timestamp", "from", false, -1e300, 1e300, "Start of a feed outage (timestamp, not before `from`)."},
-             {"outage_hours", KeyKind::real, "hours", "0", false, 0, 24 * 365, "No score becomes available for this long; lost scores are counted."},
-             {"census", KeyKind::list, "", "", false, -1e300, 1e300, "Raise a unit's census (see population.shift.census[])."},
-         }},
-        {"population.shift.census[]",
-         "Extra admissions on one unit after the shift starts (beds are not enforced).",
-         {
-             {"unit", KeyKind::text, "", "", true, -1e300, 1e300, "Unit name."},
-             {"multiplier", KeyKind::real, "", "", true, 1, 100, "Admissions after the shift are multiplied by about this."},
-         }},
-        {"population.replay",
-         "Two CSV files (RFC 4180). Paths are relative to the scenario file.",
-         {
-             {"encounters", KeyKind::text, "path", "", true, -1e300, 1e300, "CSV with columns encounter,unit,admitted,discharged,outcome_at."},
-             {"scores", KeyKind::text, "path", "", true, -1e300, 1e300, "CSV with columns encounter,scored_at,available_at,score."},
-             {"latency_minutes", KeyKind::real, "minutes", "0", false, 0, 60 * 24, "Delay added to scored_at when available_at is empty."},
-             {"max_stay_days", KeyKind::real, "days", "365", false, 1, 36500, "A longer stay is a bad row (a mistyped year stretches the reporting period)."},
-             {"far_out_fence_iqr", KeyKind::real, "interquartile ranges", "3", false, 0, 1000, "An admission or discharge more than this many interquartile ranges (at least this many times 30 days) outside the middle half of all of them is a bad row; 0 turns the check off."},
-             {"score_range", KeyKind::list, "score", "[0, 100]", false, -1e300, 1e300, "[low, high]: scores outside it are bad rows; e.g. [0, 1] for a probability."},
-             {"bad_rows", KeyKind::text, "", "stop", false, -1e300, 1e300, "stop: a bad row stops the run at its file:line; skip: bad rows (here and in chart_openings.replay) are skipped and counted by reason with their first line numbers."},
-         }},
-        {"reporting",
-         "Limits per-shift figures to complete shifts inside a period (default: complete shifts between the first admission and the last discharge).",
-         {
-             {"from", KeyKind::text, "timestamp", "", false, -1e300, 1e300, "Start of the reporting period (timestamp)."},
-             {"until", KeyKind::text, "timestamp", "", false, -1e300, 1e300, "End of the reporting period (timestamp, exclusive)."},
-         }},
-        {"chart_openings",
-         "When clinicians open a patient's chart: replayed from a log, or generated per patient by role and local hour of day (non-homogeneous Poisson process, thinning; Lewis & Shedler 1979). Every plan of a replication sees the same openings.",
-         {
-             {"replay", KeyKind::text, "path", "none", false, -1e300, 1e300, "CSV with columns encounter,opened_at,role (relative to the scenario file); none: generate from the roles' rates."},
-             {"roles", KeyKind::list, "", "", true, -1e300, 1e300, "The roles that open charts, one item each (see chart_openings.roles[])."},
-         }},
-        {"chart_openings.roles[]",
-         "One role that opens charts.",
-         {
-             {"name", KeyKind::text, "", "", true, -1e300, 1e300, "e.g. ward nurse; replayed rows name it in their role column."},
-             {"clinicians_per_unit", KeyKind::real, "clinicians", "1", false, 0.001, 1000, "Headcount of the role on one unit in one shift, for 'interruptions per clinician per shift'."},
-             {"openings_per_hour", KeyKind::list, "openings per patient per hour", "", false, -1e300, 1e300, "Rate by local hour: a list of one number (all day, e.g. [1.5]) or of 24 (hour 00 first); needed when openings are generated."},
-         }},
-        {"plans[]",
-         "One candidate workflow: a rule, a channel and who answers.",
-         {
-             {"name", KeyKind::text, "", "", true, -1e300, 1e300, "Unique plan name shown in every table."},
-             {"description", KeyKind::text, "", "", false, -1e300, 1e300, "One line on what the plan is for."},
-             {"channel", KeyKind::text, "", "page", false, -1e300, 1e300, "How a firing is delivered: page, chart_interruption, handoff_list or ranked_review."},
-             {"role", KeyKind::text, "", "responder", false, -1e300, 1e300, "Who answers the notice; when roles are declared, one of them. For a chart interruption, only openings by this chart-opening role are interrupted (default: every role)."},
-             {"queue", KeyKind::text, "", "fifo", false, -1e300, 1e300, "Order in which waiting tasks are taken up: fifo (first come) or priority (highest score first)."},
-             {"at_shift_end", KeyKind::text, "", "hand_over", false, -1e300, 1e300, "An evaluation still in progress when its nurse's shift ends: hand_over (an incoming colleague continues it) or drop (abandoned and counted)."},
-                          {"rule", KeyKind::section, "", "", false, -1e300, 1e300, "When the plan fires (see plans[].rule); required except for a ranked review without a floor."},
-             {"chart", KeyKind::section, "", "", false, -1e300, 1e300, "Chart interruption settings (see plans[].chart); required for that channel."},
-             {"handoff", KeyKind::section, "", "", false, -1e300, 1e300, "Handoff list settings (see plans[].handoff); required for that channel."},
-             {"review", KeyKind::section, "", "", false, -1e300, 1e300, "Ranked review settings (see plans[].review); required for that channel."},
-         }},
-        {"plans[].rule",
-         "When a plan fires for an encounter. Only `threshold` is required.",
-         {
-             {"threshold", KeyKind::real, "score", "", false, -1e300, 1e300, "A score qualifies when >= threshold. Required, except for a ranked review, where it is the optional floor."},
-             {"persistence", KeyKind::integer, "scores", "1", false, 1, 1000, "Fire only when the last k available scores all qualify."},
-             {"snooze_minutes", KeyKind::real, "minutes", "none", false, 0, 60 * 24 * 60, "After a firing, no ordinary firing for this long."},
-             {"rise", KeyKind::real, "score", "none", false, 1e-9, 1e300, "A score at least this much above the last firing's score fires at once, despite snooze and re-arm."},
-             {"rearm_below", KeyKind::real, "score", "none", false, -1e300, 1e300, "After a firing, stay silent until a score below this is seen (must be <= threshold)."},
-             {"max_per_shift", KeyKind::integer, "firings", "none", false, 1, 1000, "At most this many firings per encounter per shift, rises included."},
-             {"quiet_from", KeyKind::clock, "local time", "none", false, -1e300, 1e300, "Start of daily quiet hours \"HH:MM\" (nothing fires)."},
-             {"quiet_until", KeyKind::clock, "local time", "none", false, -1e300, 1e300, "End of daily quiet hours \"HH:MM\" (exclusive; may wrap midnight)."},
-         }},
-        {"sweep",
-         "What `tocsin sweep` varies by default. Paths as for --vary: plan.rule.threshold is relative to the swept plan.",
-         {
-             {"plan", KeyKind::text, "", "first plan", false, -1e300, 1e300, "Name of the plan to vary."},
-             {"vary", KeyKind::list, "", "", true, -1e300, 1e300, "One item per parameter (see sweep.vary[]); several make a grid."},
-         }},
-        {"sweep.vary[]",
-         "One swept parameter: a list of values, or a range from..to by step (inclusive).",
-         {
-             {"key", KeyKind::text, "path", "", true, -1e300, 1e300, "Dotted path, e.g. plan.rule.threshold."},
-             {"values", KeyKind::list, "", "", false, -1e300, 1e300, "The values to try."},
-             {"from", KeyKind::real, "", "", false, -1e300, 1e300, "Start of a range."},
-             {"to", KeyKind::real, "", "", false, -1e300, 1e300, "End of a range (inclusive)."},
-             {"step", KeyKind::real, "", "", false, 1e-12, 1e300, "Step of a range."},
-         }},
-        {"roles[]",
-         "One role that answers notices: a team on each unit or one for the hospital, its roster and its minutes per task.",
-         {
-             {"name", KeyKind::text, "", "", true, -1e300, 1e300, "e.g. rapid response nurse; plans and escalation edges name it."},
-             {"team", KeyKind::text, "", "hospital", false, -1e300, 1e300, "hospital (one team for all units) or each_unit (a team of this roster on every unit)."},
-             {"roster", KeyKind::section, "people", "", true, -1e300, 1e300, "Headcount on duty per shift, by shift name, e.g. {day: 2, night: 1}; every shift must be given."},
-             {"roster_by_weekday", KeyKind::section, "people", "none", false, -1e300, 1e300, "Overrides for some weekdays, e.g. {saturday: {day: 1, night: 1}}; days not listed use roster."},
-             {"minutes", KeyKind::section, "", "", true, -1e300, 1e300, "Minutes one evaluation takes (see roles[].minutes)."},
-         }},
-        {"roles[].minutes",
-         "Minutes per task, drawn per task from a seeded stream. Give distribution and only the keys it uses.",
-         {
-             {"distribution", KeyKind::text, "", "", true, -1e300, 1e300, "fixed (minutes), exponential (mean), gamma (mean, sd), lognormal (median, spread) or empirical (values)."},
-             {"minutes", KeyKind::real, "minutes", "", false, 0.001, 60 * 24, "fixed: every task takes this long."},
-             {"mean", KeyKind::real, "minutes", "", false, 0.001, 60 * 24, "exponential, gamma: mean minutes per task."},
-             {"sd", KeyKind::real, "minutes", "", false, 0.001, 60 * 24, "gamma: standard deviation of minutes per task."},
-             {"median", KeyKind::real, "minutes", "", false, 0.001, 60 * 24, "lognormal: median minutes per task."},
-             {"spread", KeyKind::real, "ratio", "", false, 1, 100, "lognormal: geometric sd; about 2 tasks in 3 take between median/spread and median*spread."},
-             {"values", KeyKind::list, "minutes", "", false, -1e300, 1e300, "empirical: observed minutes, each equally likely, e.g. [5, 8, 12, 30]."},
-         }},
-        {"escalation[]",
-         "One edge of the escalation graph: a task not taken up at `from` within the timeout moves to `to`.",
-         {
-             {"from", KeyKind::text, "", "", true, -1e300, 1e300, "Role the task waits at."},
-             {"to", KeyKind::text, "", "", true, -1e300, 1e300, "Role it moves to."},
-             {"after_minutes", KeyKind::real, "minutes", "", true, 0.001, 60 * 24 * 7, "Acknowledgement timeout at `from`."},
-         }},
-        {"plans[].chart",
-         "A chart interruption: the rule is asked each time a clinician opens the chart, on the latest score available then.",
-         {
-             {"interruption_minutes", KeyKind::real, "minutes", "", true, 0, 600, "The opener's time taken by one interruption."},
-             {"acceptance_probability", KeyKind::real, "probability", "1", false, 0, 1, "Share of interruptions that lead to a bedside evaluation (the same draw per opening in every plan)."},
-         }},
-        {"plans[].handoff",
-         "A handoff list: at each handoff every current inpatient whose rule fires is flagged. Quiet hours and max_per_shift do not apply.",
-         {
-             {"times", KeyKind::list, "local times", "shift starts", false, -1e300, 1e300, "Local handoff times \"HH:MM\"; default: each shift's start."},
-             {"minutes_per_flag", KeyKind::real, "minutes", "", true, 0, 600, "Handoff time spent on each flagged patient."},
-             {"follow_up_probability", KeyKind::real, "probability", "1", false, 0, 1, "Share of flags that lead to a bedside evaluation (the same draw per patient and handoff in every plan)."},
-         }},
-        {"plans[].review",
-         "A ranked review: at each review time a team reviews the top N current inpatients by latest score. The rule's threshold is the floor; snooze_minutes, quiet hours and max_per_shift do not apply.",
-         {
-             {"times", KeyKind::list, "local times", "", true, -1e300, 1e300, "Local review times \"HH:MM\", e.g. [\"08:00\"]."},
-             {"top_n", KeyKind::integer, "patients", "", true, 1, 100000, "How many patients the list holds (per unit or hospital-wide)."},
-             {"scope", KeyKind::text, "", "unit", false, -1e300, 1e300, "unit: one list per unit; hospital: one list for the whole hospital."},
-             {"skip_reviewed_hours", KeyKind::real, "hours", "none", false, 0, 24 * 60, "Skip patients reviewed within this many hours (a rise still brings them back)."},
-             {"minutes_per_review", KeyKind::real, "minutes", "", true, 0, 600, "Team time per patient reviewed."},
-             {"max_reviews_per_round", KeyKind::integer, "reviews", "none", false, 0, 100000, "The team's capacity per round; listed patients beyond it are not reviewed."},
-             {"team_size", KeyKind::integer, "clinicians", "none", false, 1, 1000, "Capacity from staffing: team_size x team_minutes_per_round / minutes_per_review reviews (rounded down)."},
-             {"team_minutes_per_round", KeyKind::real, "minutes", "none", false, 0, 24 * 60, "Minutes each team member has for one round (with team_size)."},
-         }},
+        top_level_keys(),
+        shifts_keys(),
+        outcome_keys(),
+        population_keys(),
+        population_generate_keys(),
+        population_generate_units_keys(),
+        population_generate_stay_keys(),
+        population_generate_outcome_keys(),
+        population_generate_scores_keys(),
+        population_bootstrap_keys(),
+        population_shift_keys(),
+        population_shift_census_keys(),
+        population_replay_keys(),
+        reporting_keys(),
+        chart_openings_keys(),
+        chart_openings_roles_keys(),
+        plans_keys(),
+        plans_rule_keys(),
+        sweep_keys(),
+        sweep_vary_keys(),
+        roles_keys(),
+        roles_minutes_keys(),
+        escalation_keys(),
+        plans_chart_keys(),
+        plans_handoff_keys(),
+        plans_review_keys(),
     };
     return sections;
 }

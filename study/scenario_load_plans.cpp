@@ -1,0 +1,250 @@
+#include <algorithm>
+#include <cmath>
+#include <limits>
+#include <set>
+
+#include "study/scenario_load.hpp"
+
+// plans[] with their rules and channels, and the chart_openings they are asked at.
+
+namespace tocsin::scenario_load {
+
+namespace {
+
+Rule parse_rule(const Section& s, Channel channel) {
+    Rule r;
+    const bool review = channel == Channel::ranked_review;
+    if (s.has("threshold")) r.threshold = *s.optional_real("threshold");
+    else if (review) r.threshold = -std::numeric_limits<double>::infinity();  // no floor
+    else s.fail("threshold", "required key 'threshold' is missing (a score qualifies when >= threshold)");
+    r.persistence = static_cast<int>(s.integer("persistence"));
+    if (auto v = s.optional_real("snooze_minutes")) r.snooze = seconds_from_minutes(*v);
+    r.rise = s.optional_real("rise");
+    r.rearm_below = s.optional_real("rearm_below");
+    if (r.rearm_below && *r.rearm_below > r.threshold)
+        s.fail("rearm_below", "re-arm level must be at or below the threshold (" + std::to_string(r.threshold) +
+                                  "), or the rule could never be silent between firings");
+    if (auto v = s.optional_integer("max_per_shift")) r.max_per_shift = static_cast<int>(*v);
+    r.quiet_start_minute = s.clock("quiet_from");
+    r.quiet_end_minute = s.clock("quiet_until");
+    if (r.quiet_start_minute.has_value() != r.quiet_end_minute.has_value())
+        s.fail(r.quiet_start_minute ? "quiet_from" : "quiet_until", "quiet hours need both quiet_from and quiet_until");
+    if (r.quiet_start_minute && *r.quiet_start_minute == *r.quiet_end_minute)
+        s.fail("quiet_until", "quiet_from and quiet_until are equal; leave both out for no quiet hours");
+    // Clauses that make no sense for a channel whose instants are few and fixed.
+    const char* quiet_key = s.has("quiet_from") ? "quiet_from" : "quiet_until";
+    if (channel == Channel::handoff_list) {
+        if (r.max_per_shift)
+            s.fail("max_per_shift", "a handoff list flags a patient at most once per handoff, so a per-shift cap does "
+                                    "not apply; keep a patient off the next lists with snooze_minutes instead");
+        if (r.quiet_start_minute)
+            s.fail(quiet_key, "a handoff list is read only at its handoff times, so quiet hours do not apply; leave "
+                              "a time out of handoff.times instead");
+    }
+    if (review) {
+        if (r.snooze)
+            s.fail("snooze_minutes", "a ranked review skips recently reviewed patients with review.skip_reviewed_hours, "
+                                     "not snooze_minutes");
+        if (r.max_per_shift)
+            s.fail("max_per_shift", "a patient is reviewed at most once per round, so a per-shift cap does not apply; "
+                                    "cap the team's work with review.max_reviews_per_round");
+        if (r.quiet_start_minute)
+            s.fail(quiet_key, "a ranked review happens only at its review.times, so quiet hours do not apply; choose "
+                              "the review times instead");
+    }
+    return r;
+}
+
+Channel parse_channel(const Section& s) {
+    const std::string c = s.text("channel");
+    for (Channel k : {Channel::page, Channel::chart_interruption, Channel::handoff_list, Channel::ranked_review})
+        if (c == to_string(k)) return k;
+    s.fail("channel", "unknown channel '" + c + "' (expected: page, chart_interruption, handoff_list or ranked_review)");
+}
+
+std::vector<int> clock_list(const Section& s, std::string_view key) {
+    std::vector<int> out;
+    if (!s.has(key)) return out;
+    for (const auto& item : s.child(key)) {
+        std::optional<int> m;
+        if (item.IsScalar()) m = parse_clock_minutes(item.Scalar());
+        if (!m) throw s.error(item, key, "expected a list of local times of day as \"HH:MM\" (quoted)");
+        if (std::find(out.begin(), out.end(), *m) != out.end()) throw s.error(item, key, "the same time appears twice");
+        out.push_back(*m);
+    }
+    std::sort(out.begin(), out.end());
+    if (out.empty()) s.fail(key, "at least one time is needed");
+    return out;
+}
+
+// The channel's own section: required for its channel, rejected for others.
+void check_channel_sections(const Section& s, Channel channel) {
+    struct Own { const char* key; Channel channel; };
+    for (Own own : {Own{"chart", Channel::chart_interruption}, Own{"handoff", Channel::handoff_list},
+                    Own{"review", Channel::ranked_review}}) {
+        if (own.channel == channel && !s.has(own.key))
+            s.fail("channel", "a " + std::string(to_string(own.channel)) + " plan needs a '" + own.key +
+                                  "' section (see plans[]." + own.key + ")");
+        if (own.channel != channel && s.has(own.key))
+            s.fail(own.key, "a '" + std::string(own.key) + "' section applies only to channel " +
+                                std::string(to_string(own.channel)) + ", not " + std::string(to_string(channel)));
+    }
+}
+
+void parse_chart(const Section& s, Plan& p, const Scenario& sc, const std::string& where) {
+    Section c(s.child("chart"), "plans[].chart", s.file(), where + ".chart");
+    if (!sc.simulation.chart_openings)
+        s.fail("channel", "a chart_interruption plan needs the top-level chart_openings section (when charts are opened)");
+    p.chart.interruption_minutes = c.real("interruption_minutes");
+    p.chart.acceptance_probability = c.real("acceptance_probability");
+    if (s.has("role")) {
+        const auto& roles = sc.simulation.chart_openings->roles;
+        std::size_t r = 0;
+        while (r < roles.size() && roles[r].name != p.role) ++r;
+        if (r == roles.size())
+            s.fail("role", "a chart interruption goes to whoever opens the chart: role must be one of the "
+                           "chart_openings roles, or left out for every role");
+        p.chart.role = static_cast<std::uint8_t>(r);
+    }
+}
+
+void parse_handoff(const Section& s, Plan& p, const std::string& where) {
+    Section h(s.child("handoff"), "plans[].handoff", s.file(), where + ".handoff");
+    p.handoff.times_minutes = clock_list(h, "times");
+    p.handoff.minutes_per_flag = h.real("minutes_per_flag");
+    p.handoff.follow_up_probability = h.real("follow_up_probability");
+}
+
+// The team's capacity per round: given, or from staffing (team_size x
+// team_minutes_per_round / minutes_per_review, rounded down); none when neither.
+std::optional<int> review_capacity(const Section& r, double minutes_per_review) {
+    const bool by_max = r.has("max_reviews_per_round");
+    const bool by_team = r.has("team_size") || r.has("team_minutes_per_round");
+    if (by_max && by_team)
+        r.fail("max_reviews_per_round", "give the team's capacity either as max_reviews_per_round or as team_size "
+                                        "with team_minutes_per_round, not both");
+    if (by_max) return static_cast<int>(*r.optional_integer("max_reviews_per_round"));
+    if (!by_team) return std::nullopt;
+    if (!r.has("team_size") || !r.has("team_minutes_per_round"))
+        r.fail(r.has("team_size") ? "team_size" : "team_minutes_per_round",
+               "team capacity needs both team_size and team_minutes_per_round");
+    if (!(minutes_per_review > 0))
+        r.fail("minutes_per_review", "a capacity in team minutes needs minutes_per_review above 0");
+    const double reviews = static_cast<double>(*r.optional_integer("team_size")) *
+                           *r.optional_real("team_minutes_per_round") / minutes_per_review;
+    return static_cast<int>(std::floor(reviews + 1e-9));
+}
+
+void parse_review(const Section& s, Plan& p, const std::string& where) {
+    Section r(s.child("review"), "plans[].review", s.file(), where + ".review");
+    p.review.times_minutes = clock_list(r, "times");
+    p.review.top_n = static_cast<int>(r.integer("top_n"));
+    const std::string scope = r.text("scope");
+    if (scope == "unit") p.review.scope = ReviewScope::unit;
+    else if (scope == "hospital") p.review.scope = ReviewScope::hospital;
+    else r.fail("scope", "unknown scope '" + scope + "' (expected: unit or hospital)");
+    if (auto h = r.optional_real("skip_reviewed_hours")) p.review.skip_reviewed = static_cast<Seconds>(std::llround(*h * 3600));
+    p.review.minutes_per_review = r.real("minutes_per_review");
+    p.review.max_reviews_per_round = review_capacity(r, p.review.minutes_per_review);
+}
+
+void parse_channel_settings(const Section& s, Plan& p, const Scenario& sc, const std::string& where) {
+    check_channel_sections(s, p.channel);
+    if (p.channel == Channel::chart_interruption) parse_chart(s, p, sc, where);
+    else if (p.channel == Channel::handoff_list) parse_handoff(s, p, where);
+    else if (p.channel == Channel::ranked_review) parse_review(s, p, where);
+}
+
+// Who answers, in what order and what happens at shift end.
+void parse_staffing(const Section& s, Plan& p, const SimulationSetup& setup) {
+    if (setup.has_staff()) {
+        std::vector<std::string> names;
+        for (const Role& r : setup.roles) names.push_back(r.name);
+        const auto at = std::find(names.begin(), names.end(), p.role);
+        if (at == names.end()) {
+            std::string best = names.front();
+            for (const std::string& n : names)
+                if (edit_distance(p.role, n) < edit_distance(p.role, best)) best = n;
+            s.fail("role", "unknown role '" + p.role + "'; did you mean '" + best + "'? (declared roles: " +
+                               joined(names) + ")");
+        }
+        p.staffing.first_role = static_cast<std::uint32_t>(at - names.begin());
+    }
+    const std::string queue = s.text("queue");
+    if (queue == "priority") p.staffing.discipline = QueueDiscipline::priority_by_score;
+    else if (queue != "fifo") s.fail("queue", "unknown queue '" + queue + "' (expected fifo or priority)");
+    const std::string at_end = s.text("at_shift_end");
+    if (at_end == "drop") p.staffing.at_shift_end = ShiftEndPolicy::drop;
+    else if (at_end != "hand_over")
+        s.fail("at_shift_end", "unknown policy '" + at_end + "' (expected hand_over or drop)");
+    if (!setup.has_staff() && (s.has("queue") || s.has("at_shift_end")))
+        s.fail(s.has("queue") ? "queue" : "at_shift_end", "needs roles; declare the roles that answer notices");
+}
+
+Plan parse_plan(const Section& s, const Scenario& sc, const std::string& where) {
+    Plan p;
+    p.name = s.text("name");
+    if (p.name.empty()) s.fail("name", "plan name is empty");
+    p.description = s.text("description");
+    p.channel = parse_channel(s);
+    // A chart interruption goes to whoever opens the chart unless a role is named.
+    p.role = p.channel == Channel::chart_interruption && !s.has("role") ? "whoever opens the chart" : s.text("role");
+    parse_staffing(s, p, sc.simulation);
+    if (s.has("rule"))
+        p.rule = parse_rule(Section(s.child("rule"), "plans[].rule", s.file(), where + ".rule"), p.channel);
+    else if (p.channel == Channel::ranked_review)
+        p.rule.threshold = -std::numeric_limits<double>::infinity();  // no floor
+    else
+        s.fail("rule", "required key 'rule' is missing (when the plan fires)");
+    parse_channel_settings(s, p, sc, where);
+    return p;
+}
+}  // namespace
+
+ChartOpeningSource load_chart_openings(const Section& s, const std::string& directory) {
+    ChartOpeningSource src;
+    if (s.has("replay")) src.replay_path = resolve(directory, s.text("replay"));
+    std::size_t i = 0;
+    for (const auto& node : s.child("roles")) {
+        Section r(node, "chart_openings.roles[]", s.file(), "chart_openings.roles[" + std::to_string(i++) + "]");
+        ChartOpeningRole role;
+        role.name = r.text("name");
+        if (role.name.empty()) r.fail("name", "role name is empty");
+        for (const auto& other : src.roles)
+            if (other.name == role.name) r.fail("name", "two chart-opening roles are named '" + role.name + "'");
+        role.clinicians_per_unit = r.real("clinicians_per_unit");
+        const std::vector<double> rates = r.real_list("openings_per_hour");
+        if (!r.has("openings_per_hour") && src.replay_path.empty())
+            r.fail("openings_per_hour", "generated chart openings need a rate for each role (or give chart_openings.replay)");
+        if (r.has("openings_per_hour")) {
+            if (rates.size() != 1 && rates.size() != 24)
+                r.fail("openings_per_hour", "expected one rate (all day) or 24 rates (hour 00 first), found " +
+                                                std::to_string(rates.size()));
+            for (double v : rates)
+                if (!std::isfinite(v) || v < 0 || v > 1000)
+                    r.fail("openings_per_hour", "rates must be between 0 and 1000 openings per patient per hour");
+            for (std::size_t h = 0; h < 24; ++h) role.openings_per_hour[h] = rates.size() == 1 ? rates[0] : rates[h];
+        }
+        src.roles.push_back(std::move(role));
+    }
+    if (src.roles.empty()) s.fail("roles", "at least one role is needed");
+    if (src.roles.size() > 255) s.fail("roles", "at most 255 chart-opening roles");
+    return src;
+}
+
+
+
+std::vector<Plan> load_plans(const Section& top, const Scenario& sc) {
+    std::vector<Plan> plans;
+    std::set<std::string> names;
+    std::size_t i = 0;
+    for (const auto& node : top.child("plans")) {
+        const std::string where = "plans[" + std::to_string(i++) + "]";
+        Section s(node, "plans[]", top.file(), where);
+        if (!names.insert(s.text("name")).second) s.fail("name", "two plans are named '" + s.text("name") + "'");
+        plans.push_back(parse_plan(s, sc, where));
+    }
+    if (plans.empty()) top.fail("plans", "at least one plan is needed");
+    return plans;
+}
+}  // namespace tocsin::scenario_load
