@@ -24,8 +24,12 @@ const std::string generated_demo = source_dir + "/scenarios/demo.yaml";
 // Set TOCSIN_UPDATE_GOLDEN=1 to rewrite the golden files after an intended change.
 void check_golden(const std::string& produced_path, const std::string& golden_name) {
     const std::string golden_path = source_dir + "/tests/golden/" + golden_name;
-    const std::string produced = read_file(produced_path);
+    // Outputs name the scenario's files by the path given, so the checkout's
+    // own path stands as <source> in a golden file.
+    std::string produced = read_file(produced_path);
     REQUIRE_FALSE(produced.empty());
+    for (std::size_t at = produced.find(source_dir); at != std::string::npos; at = produced.find(source_dir, at))
+        produced.replace(at, source_dir.size(), "<source>");
     if (std::getenv("TOCSIN_UPDATE_GOLDEN")) {
         std::ofstream(golden_path, std::ios::binary) << produced;
         MESSAGE("golden file rewritten: " << golden_path);
