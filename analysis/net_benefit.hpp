@@ -12,7 +12,6 @@
 #include <span>
 #include <vector>
 
-
 namespace tocsin {
 
 double net_benefit(std::int64_t true_positives, std::int64_t false_positives, std::int64_t total,

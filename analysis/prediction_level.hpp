@@ -14,7 +14,7 @@ namespace tocsin {
 struct RankedPredictions {
     std::vector<double> value;
     std::vector<std::uint32_t> encounter;
-    std::vector<std::int32_t> seconds_to_outcome;  // no_outcome for non-cases
+    std::vector<std::int32_t> seconds_to_outcome;  // INT32_MAX for non-cases
     std::vector<Instant> available_at;
     std::vector<std::uint32_t> encounters_used;  // encounters with at least one prediction, ascending
 };

@@ -12,7 +12,6 @@
 #include <span>
 #include <vector>
 
-
 namespace tocsin {
 
 struct Interval {
