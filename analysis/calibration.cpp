@@ -67,48 +67,43 @@ LogisticRecalibration logistic_recalibration(std::span<const double> p, std::spa
     return logistic_recalibration_grouped(p, trials, events);
 }
 
-LogisticRecalibration logistic_recalibration_grouped(std::span<const double> p, std::span<const double> trials,
-                                                     std::span<const double> events) {
-    if (p.size() != trials.size() || p.size() != events.size())
-        throw std::invalid_argument("calibration: probabilities, trials and events differ in length");
-    LogisticRecalibration out;
-    std::vector<double> x(p.size());
-    double n_total = 0.0, events_total = 0.0;
-    for (std::size_t i = 0; i < p.size(); ++i) {
-        std::int64_t clamped = 0;
-        x[i] = logit(clamp_probability(p[i], clamped));
-        out.clamped += clamped * static_cast<std::int64_t>(trials[i]);
-        n_total += trials[i];
-        events_total += events[i];
-    }
-    out.predictions = static_cast<std::int64_t>(n_total);
-    out.intercept = out.slope = out.calibration_in_the_large = not_a_number;
-    out.intercept_se = out.slope_se = out.calibration_in_the_large_se = not_a_number;
-    if (events_total == 0.0 || events_total == n_total) return out;
+namespace {
 
-    // Fisher information and score of the two-parameter model at beta.
-    auto accumulate = [&](const Eigen::Vector2d& beta, Eigen::Matrix2d& information, Eigen::Vector2d& score) {
-        information.setZero();
-        score.setZero();
-        for (std::size_t i = 0; i < x.size(); ++i) {
-            const double mu = expit(beta[0] + beta[1] * x[i]);
-            const double w = trials[i] * mu * (1.0 - mu);
-            const double r = events[i] - trials[i] * mu;
-            information(0, 0) += w;
-            information(0, 1) += w * x[i];
-            information(1, 1) += w * x[i] * x[i];
-            score[0] += r;
-            score[1] += r * x[i];
-        }
-        information(1, 0) = information(0, 1);
-    };
-    // Newton-Raphson on the log-likelihood, started at perfect calibration.
-    // For the logit link this is exactly IRLS: beta += (X'WX)^-1 X'(y - mu).
+constexpr int max_newton_iterations = 100;
+
+// Grouped binomial data on the logit scale: group i has trials[i]
+// predictions of logit x[i], events[i] of them with the outcome.
+struct LogitGroups {
+    std::vector<double> x;
+    std::span<const double> trials, events;
+};
+
+// Fisher information and score of logit P(y = 1) = a + b x at beta = (a, b).
+void information_and_score(const LogitGroups& g, const Eigen::Vector2d& beta, Eigen::Matrix2d& information,
+                           Eigen::Vector2d& score) {
+    information.setZero();
+    score.setZero();
+    for (std::size_t i = 0; i < g.x.size(); ++i) {
+        const double mu = expit(beta[0] + beta[1] * g.x[i]);
+        const double w = g.trials[i] * mu * (1.0 - mu);
+        const double r = g.events[i] - g.trials[i] * mu;
+        information(0, 0) += w;
+        information(0, 1) += w * g.x[i];
+        information(1, 1) += w * g.x[i] * g.x[i];
+        score[0] += r;
+        score[1] += r * g.x[i];
+    }
+    information(1, 0) = information(0, 1);
+}
+
+// Intercept and slope. Newton-Raphson on the log-likelihood, started at
+// perfect calibration; for the logit link this is exactly IRLS:
+// beta += (X'WX)^-1 X'(y - mu).
+void fit_intercept_and_slope(const LogitGroups& g, LogisticRecalibration& out) {
     Eigen::Vector2d beta(0.0, 1.0), score;
     Eigen::Matrix2d information;
-    constexpr int max_iterations = 100;
-    for (out.iterations = 1; out.iterations <= max_iterations; ++out.iterations) {
-        accumulate(beta, information, score);
+    for (out.iterations = 1; out.iterations <= max_newton_iterations; ++out.iterations) {
+        information_and_score(g, beta, information, score);
         const Eigen::Vector2d step = information.ldlt().solve(score);
         if (!step.allFinite()) break;
         beta += step;
@@ -117,43 +112,70 @@ LogisticRecalibration logistic_recalibration_grouped(std::span<const double> p, 
             break;
         }
     }
-    if (out.converged) {
-        accumulate(beta, information, score);  // information at the final estimate
-        const Eigen::Matrix2d covariance = information.inverse();
-        out.intercept = beta[0];
-        out.slope = beta[1];
-        out.intercept_se = std::sqrt(covariance(0, 0));
-        out.slope_se = std::sqrt(covariance(1, 1));
-    }
+    if (!out.converged) return;
+    information_and_score(g, beta, information, score);  // information at the final estimate
+    const Eigen::Matrix2d covariance = information.inverse();
+    out.intercept = beta[0];
+    out.slope = beta[1];
+    out.intercept_se = std::sqrt(covariance(0, 0));
+    out.slope_se = std::sqrt(covariance(1, 1));
+}
 
-    // Calibration-in-the-large: one-parameter Newton with logit(p) as offset.
-    auto offset_fit = [&](double a, double& information_a) {
-        double s = 0.0;
-        information_a = 0.0;
-        for (std::size_t i = 0; i < x.size(); ++i) {
-            const double mu = expit(a + x[i]);
-            s += events[i] - trials[i] * mu;
-            information_a += trials[i] * mu * (1.0 - mu);
-        }
-        return s;
-    };
-    double a = 0.0, information_a = 0.0;
-    bool converged_a = false;
-    for (int it = 0; it < max_iterations; ++it) {
-        const double step = offset_fit(a, information_a) / information_a;
-        if (!std::isfinite(step)) break;
+// Score of the intercept-only model with logit(p) as offset, at intercept a;
+// sets its Fisher information.
+double offset_model_score(const LogitGroups& g, double a, double& information) {
+    double score = 0.0;
+    information = 0.0;
+    for (std::size_t i = 0; i < g.x.size(); ++i) {
+        const double mu = expit(a + g.x[i]);
+        score += g.events[i] - g.trials[i] * mu;
+        information += g.trials[i] * mu * (1.0 - mu);
+    }
+    return score;
+}
+
+// Calibration-in-the-large: the intercept with the slope held at 1, by
+// one-parameter Newton. Returns whether it converged.
+bool fit_calibration_in_the_large(const LogitGroups& g, LogisticRecalibration& out) {
+    double a = 0.0, information = 0.0;
+    for (int it = 0; it < max_newton_iterations; ++it) {
+        const double step = offset_model_score(g, a, information) / information;
+        if (!std::isfinite(step)) return false;
         a += step;
         if (std::abs(step) < 1e-10 * (1.0 + std::abs(a))) {
-            converged_a = true;
-            break;
+            offset_model_score(g, a, information);
+            out.calibration_in_the_large = a;
+            out.calibration_in_the_large_se = 1.0 / std::sqrt(information);
+            return true;
         }
     }
-    if (converged_a) {
-        offset_fit(a, information_a);
-        out.calibration_in_the_large = a;
-        out.calibration_in_the_large_se = 1.0 / std::sqrt(information_a);
+    return false;
+}
+
+}  // namespace
+
+LogisticRecalibration logistic_recalibration_grouped(std::span<const double> p, std::span<const double> trials,
+                                                     std::span<const double> events) {
+    if (p.size() != trials.size() || p.size() != events.size())
+        throw std::invalid_argument("calibration: probabilities, trials and events differ in length");
+    LogisticRecalibration out;
+    LogitGroups groups{std::vector<double>(p.size()), trials, events};
+    double n_total = 0.0, events_total = 0.0;
+    for (std::size_t i = 0; i < p.size(); ++i) {
+        std::int64_t clamped = 0;
+        groups.x[i] = logit(clamp_probability(p[i], clamped));
+        out.clamped += clamped * static_cast<std::int64_t>(trials[i]);
+        n_total += trials[i];
+        events_total += events[i];
     }
-    out.converged = out.converged && converged_a;
+    out.predictions = static_cast<std::int64_t>(n_total);
+    out.intercept = out.slope = out.calibration_in_the_large = not_a_number;
+    out.intercept_se = out.slope_se = out.calibration_in_the_large_se = not_a_number;
+    // One class only: no finite estimate exists.
+    if (events_total == 0.0 || events_total == n_total) return out;
+    fit_intercept_and_slope(groups, out);
+    const bool converged_in_the_large = fit_calibration_in_the_large(groups, out);
+    out.converged = out.converged && converged_in_the_large;
     return out;
 }
 

@@ -11,7 +11,6 @@
 #include <vector>
 
 #include "analysis/roc.hpp"
-#include "analysis/table.hpp"
 
 namespace tocsin {
 
@@ -86,6 +85,8 @@ struct SmoothedCurve {
     double bandwidth_logit = 0.0;
     std::vector<SmoothedPoint> points;
 };
+inline constexpr const char* smoothed_calibration_method =
+    "Nadaraya-Watson, Gaussian kernel, 2048 linear bins (Wand 1994)";
 SmoothedCurve smoothed_calibration(std::span<const double> probabilities, std::span<const std::uint8_t> outcomes,
                                    int points = 50, double bandwidth_logit = 0.0);
 

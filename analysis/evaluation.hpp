@@ -13,13 +13,16 @@
 //    A non-case's predictions are all negative, including those whose H hours
 //    run past discharge (the outcome did not happen on this unit).
 //
-// Every result is a Table with the column names documented at each function.
+// Results are typed; report/evaluation_tables.hpp turns them into tables.
 #include <cstdint>
+#include <map>
 #include <optional>
 #include <string>
 #include <vector>
 
-#include "analysis/table.hpp"
+#include "analysis/calibration.hpp"
+#include "analysis/net_benefit.hpp"
+#include "analysis/roc.hpp"
 #include "models/population.hpp"
 #include "models/time.hpp"
 
@@ -62,46 +65,91 @@ struct EvaluationOptions {
     int smoothed_points = 50;
 };
 
-// The tables. Columns of those built by the parts below are documented there;
-// the others:
-//  calibration (one row; prediction level, label = the mapping's horizon):
-//    outcome, horizon_hours (empty = before discharge), predictions, observed,
-//    expected, oe_ratio, oe_lower, oe_upper (delta method, predictions taken
-//    as independent), oe_bootstrap_lower, oe_bootstrap_upper (encounter
-//    bootstrap, percentile), calibration_intercept(_se), calibration_slope(_se),
-//    calibration_in_the_large(_se), probabilities_clamped, converged.
-//  calibration_bins: group, predictions, outcomes, predicted_low,
-//    predicted_high, mean_predicted, observed, observed_lower, observed_upper (Wilson).
-//  calibration_smoothed: predicted, observed, effective_n, bandwidth_logit, method.
-//  drift (one row per period, prediction level; label = the mapping's horizon,
-//    else the first horizon): period, period_start, outcome, horizon_hours,
-//    predictions, positive_predictions, auc, observed, expected, oe_ratio,
-//    oe_lower, oe_upper (the last five empty without a probability mapping).
-//    Periods with no prediction are listed with zero counts.
-//  decision_curve (encounter level: an encounter is evaluated when its highest
-//    probability before time zero reaches pt): see decision_curve_table in
-//    analysis/net_benefit.hpp.
+// Counts behind every measure, with the population's exclusions by reason.
+struct EvaluationCounts {
+    std::int64_t encounters = 0;
+    std::int64_t encounters_with_score = 0;  // the others are left out of every measure
+    std::int64_t cases = 0, cases_with_score = 0;
+    std::int64_t predictions = 0;  // usable scores
+    std::map<std::string, std::int64_t> scores_excluded, encounters_excluded, notes;
+};
+
+// Encounter level. The interval is DeLong's (1988).
+struct EncounterAuc {
+    std::int64_t encounters = 0, cases = 0, non_cases = 0;
+    double auc = 0.0, standard_error = 0.0;  // NaN when either class is empty
+    Interval interval;
+    double confidence = 0.95;
+};
+
+// Prediction level, one per horizon. The interval is the percentile interval
+// of an encounter bootstrap (whole encounters resampled with replacement, so
+// an encounter's many predictions move together); NaN without replicates.
+struct PredictionAuc {
+    double horizon_hours = 0.0;
+    std::int64_t predictions = 0, positive_predictions = 0;
+    std::int64_t encounters = 0, encounters_with_positive = 0;
+    double auc = 0.0;
+    Interval interval;
+    int bootstrap_replicates = 0;
+};
+
+// Lead time of the first crossing per case at one threshold: the first usable
+// score >= threshold no earlier than window_hours before time zero. Shares are
+// of all cases with a usable score (none when there is no such case); "late"
+// = crossed, but less than min_lead_hours before time zero.
+struct LeadTimes {
+    double threshold = 0.0;
+    std::int64_t cases = 0, cases_crossed = 0, cases_late = 0;
+    std::optional<double> share_crossed, share_late;
+    double p10_hours = 0.0, p25_hours = 0.0, median_hours = 0.0, p75_hours = 0.0, p90_hours = 0.0;  // NaN when none crossed
+    double min_lead_hours = 0.0, window_hours = 0.0;
+};
+
+// Prediction level, label = the mapping's horizon (0: before discharge).
+struct CalibrationSummary {
+    double horizon_hours = 0.0;
+    ObservedExpected observed_expected;  // interval: delta method, predictions taken as independent
+    Interval oe_bootstrap;               // encounter bootstrap, percentile; NaN without replicates
+    LogisticRecalibration recalibration;
+};
+
+// One period of the drift check (prediction level; label = the mapping's
+// horizon, else the first horizon). Periods with no prediction are listed
+// with zero counts.
+struct DriftPeriod {
+    std::string label;         // "2026-03", or the first day of a block of days
+    std::string start;         // local time of the period's start
+    double horizon_hours = 0.0;  // 0: before discharge
+    std::int64_t predictions = 0, positive_predictions = 0;
+    double auc = 0.0;  // NaN when either class is empty
+    std::optional<ObservedExpected> observed_expected;  // with a probability mapping
+};
+
+// Encounter level: an encounter is evaluated when its highest probability
+// before time zero reaches pt.
+struct DecisionCurveResult {
+    std::int64_t encounters = 0;
+    std::vector<DecisionCurvePoint> points;
+    std::vector<std::string> source;  // per point: "grid", "given" or "evaluations_per_case"
+};
+
 struct Evaluation {
-    Table counts;                // evaluation_counts
-    Table encounter_auc;         // evaluation_encounter_auc
-    Table thresholds;            // evaluation_thresholds (see threshold_table in analysis/roc.hpp)
-    Table prediction_auc;        // evaluation_prediction_auc
-    Table lead_times;            // evaluation_lead_times
-    Table calibration;           // evaluation_calibration (no rows without a probability mapping)
-    Table calibration_bins;      // evaluation_calibration_bins
-    Table calibration_smoothed;  // evaluation_calibration_smoothed
-    Table drift;                 // evaluation_drift
-    Table decision_curve;        // evaluation_decision_curve (no rows without a probability mapping)
+    EvaluationCounts counts;
+    EncounterAuc encounter_auc;
+    std::vector<ThresholdMeasures> thresholds;  // source "grid" or "given"
+    std::vector<PredictionAuc> prediction_auc;
+    std::vector<LeadTimes> lead_times;          // one per threshold, in the same order
+    // Without a probability mapping: no calibration and no decision curve.
+    std::optional<CalibrationSummary> calibration;
+    std::vector<CalibrationBin> calibration_bins;
+    SmoothedCurve calibration_smoothed;
+    std::vector<DriftPeriod> drift;
+    std::optional<DecisionCurveResult> decision_curve;
 };
 
 // All of the measures. Throws std::invalid_argument for unusable options.
 Evaluation evaluate(const Population& population, const EvaluationOptions& options);
-
-// The tables in a fixed order, for writers.
-std::vector<const Table*> evaluation_tables(const Evaluation& evaluation);
-
-// A few lines for a terminal: AUCs with intervals, calibration, lead time.
-std::string evaluation_summary(const Evaluation& evaluation);
 
 // ---- The parts, usable on their own ----------------------------------------
 
@@ -114,16 +162,11 @@ struct EncounterScore {
 };
 std::vector<EncounterScore> encounter_level_scores(const Population& population);
 
-// Counts behind every measure: encounters, cases, encounters without a usable
-// score, predictions, and excluded scores and encounters by reason.
-// Columns: item, count.
-Table evaluation_counts(const Population& population);
+EvaluationCounts evaluation_counts(const Population& population);
 
-// Columns: level ("encounter"), encounters, cases, non_cases, auc, auc_se,
-// auc_lower, auc_upper, confidence, interval_method.
-Table encounter_auc_table(const std::vector<EncounterScore>& scores, double confidence);
+EncounterAuc encounter_level_auc(const std::vector<EncounterScore>& scores, double confidence);
 
-// Thresholds used by the threshold and lead-time tables: the grid (when
+// Thresholds for the threshold measures and lead times: the grid (when
 // grid_points > 0) followed by the given ones; source[i] says which.
 struct ThresholdList {
     std::vector<double> values;
@@ -131,23 +174,15 @@ struct ThresholdList {
 };
 ThresholdList evaluation_thresholds(const std::vector<EncounterScore>& scores, const EvaluationOptions& options);
 
-// Prediction level. Columns: horizon_hours, predictions, positive_predictions,
-// encounters, encounters_with_positive, auc, auc_lower, auc_upper,
-// bootstrap_replicates, interval_method. The interval is the percentile
-// interval of an encounter bootstrap (whole encounters resampled with
-// replacement, so an encounter's many predictions move together); empty when
-// bootstrap_replicates == 0.
-Table prediction_auc_table(const Population& population, const EvaluationOptions& options);
+// Prediction level, one per horizon of the options.
+std::vector<PredictionAuc> prediction_level_auc(const Population& population, const EvaluationOptions& options);
 
-// Lead time of the first crossing per case, summarised per threshold: the
-// first usable score >= threshold no earlier than window_hours before time
-// zero. Columns: threshold, cases, cases_crossed, share_crossed,
-// lead_hours_p10, lead_hours_p25, lead_hours_median, lead_hours_p75,
-// lead_hours_p90, cases_late, share_late, min_lead_hours, window_hours.
-// share_* are shares of all cases with a usable score; "late" = crossed, but
-// less than min_lead_hours before time zero.
-Table lead_time_table(const Population& population, const std::vector<double>& thresholds,
-                      double window_hours, double min_lead_hours);
+// Encounter level at each threshold of the list.
+std::vector<ThresholdMeasures> encounter_threshold_measures(const std::vector<EncounterScore>& scores,
+                                                            const ThresholdList& thresholds, double confidence);
+
+std::vector<LeadTimes> lead_times_by_threshold(const Population& population, const std::vector<double>& thresholds,
+                                               double window_hours, double min_lead_hours);
 // The lead times (hours) of the cases that crossed, in encounter order.
 std::vector<double> first_crossing_lead_hours(const Population& population, double threshold, double window_hours);
 

@@ -50,20 +50,4 @@ std::vector<DecisionCurvePoint> decision_curve(std::span<const double> p, std::s
     return out;
 }
 
-Table decision_curve_table(const std::vector<DecisionCurvePoint>& curve, std::int64_t total,
-                           const std::vector<std::string>& source, std::string name, std::string title) {
-    Table t;
-    t.name = std::move(name);
-    t.title = std::move(title);
-    t.columns = {"threshold_source", "threshold_probability", "evaluations_per_case", "true_positives",
-                 "false_positives", "total", "net_benefit_model", "net_benefit_treat_all", "net_benefit_treat_none"};
-    for (std::size_t r = 0; r < curve.size(); ++r) {
-        const DecisionCurvePoint& d = curve[r];
-        t.add_row({r < source.size() && !source[r].empty() ? source[r] : std::string("grid"), d.threshold_probability,
-                   1.0 / d.threshold_probability, d.true_positives, d.false_positives, total, d.net_benefit_model,
-                   d.net_benefit_treat_all, d.net_benefit_treat_none});
-    }
-    return t;
-}
-
 }  // namespace tocsin

@@ -12,8 +12,6 @@
 #include <span>
 #include <vector>
 
-#include "analysis/table.hpp"
-
 namespace tocsin {
 
 double net_benefit(std::int64_t true_positives, std::int64_t false_positives, std::int64_t total,
@@ -34,12 +32,5 @@ struct DecisionCurvePoint {
 std::vector<DecisionCurvePoint> decision_curve(std::span<const double> probabilities,
                                                std::span<const std::uint8_t> outcomes,
                                                std::span<const double> threshold_probabilities);
-
-// Columns: threshold_source ("grid" or "evaluations_per_case"),
-// threshold_probability, evaluations_per_case (1 / pt), true_positives,
-// false_positives, total, net_benefit_model, net_benefit_treat_all,
-// net_benefit_treat_none. `source[i]` labels row i ("grid" when missing).
-Table decision_curve_table(const std::vector<DecisionCurvePoint>& curve, std::int64_t total,
-                           const std::vector<std::string>& source, std::string name, std::string title);
 
 }  // namespace tocsin

@@ -239,44 +239,33 @@ std::vector<double> even_grid(double low, double high, int points) {
     return out;
 }
 
-Table threshold_table(const std::vector<ThresholdCounts>& counts, const std::vector<std::string>& source,
-                      double confidence, std::string name, std::string title) {
-    Table t;
-    t.name = std::move(name);
-    t.title = std::move(title);
-    t.columns = {"threshold_source", "threshold", "true_positives", "false_positives", "false_negatives",
-                 "true_negatives", "sensitivity", "sensitivity_lower", "sensitivity_upper", "specificity",
-                 "specificity_lower", "specificity_upper", "ppv", "ppv_lower", "ppv_upper", "npv", "npv_lower",
-                 "npv_upper", "share_flagged", "share_flagged_lower", "share_flagged_upper"};
+namespace {
+
+std::optional<Proportion> proportion(std::int64_t k, std::int64_t n, double confidence) {
+    if (n == 0) return std::nullopt;
+    return Proportion{static_cast<double>(k) / static_cast<double>(n), wilson_interval(k, n, confidence)};
+}
+
+}  // namespace
+
+std::vector<ThresholdMeasures> threshold_measures(const std::vector<ThresholdCounts>& counts,
+                                                  const std::vector<std::string>& source, double confidence) {
+    std::vector<ThresholdMeasures> out;
     for (std::size_t r = 0; r < counts.size(); ++r) {
         const ThresholdCounts& c = counts[r];
-        std::vector<Cell> row;
-        row.emplace_back(r < source.size() && !source[r].empty() ? source[r] : std::string("given"));
-        row.emplace_back(c.threshold);
-        row.emplace_back(c.true_positives);
-        row.emplace_back(c.false_positives);
-        row.emplace_back(c.false_negatives);
-        row.emplace_back(c.true_negatives);
-        auto proportion = [&](std::int64_t k, std::int64_t n) {
-            if (n == 0) {
-                for (int i = 0; i < 3; ++i) row.emplace_back(std::monostate{});
-                return;
-            }
-            const Interval ci = wilson_interval(k, n, confidence);
-            row.emplace_back(static_cast<double>(k) / static_cast<double>(n));
-            row.emplace_back(ci.lower);
-            row.emplace_back(ci.upper);
-        };
+        ThresholdMeasures m;
+        m.source = r < source.size() && !source[r].empty() ? source[r] : std::string("given");
+        m.counts = c;
         const std::int64_t flagged = c.true_positives + c.false_positives;
         const std::int64_t total = flagged + c.false_negatives + c.true_negatives;
-        proportion(c.true_positives, c.true_positives + c.false_negatives);
-        proportion(c.true_negatives, c.true_negatives + c.false_positives);
-        proportion(c.true_positives, flagged);
-        proportion(c.true_negatives, c.true_negatives + c.false_negatives);
-        proportion(flagged, total);
-        t.add_row(std::move(row));
+        m.sensitivity = proportion(c.true_positives, c.true_positives + c.false_negatives, confidence);
+        m.specificity = proportion(c.true_negatives, c.true_negatives + c.false_positives, confidence);
+        m.ppv = proportion(c.true_positives, flagged, confidence);
+        m.npv = proportion(c.true_negatives, c.true_negatives + c.false_negatives, confidence);
+        m.share_flagged = proportion(flagged, total, confidence);
+        out.push_back(std::move(m));
     }
-    return t;
+    return out;
 }
 
 }  // namespace tocsin

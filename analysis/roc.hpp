@@ -7,10 +7,10 @@
 // Convention used throughout: a higher score means more concern, and a score
 // is "flagged" at threshold t when score >= t.
 #include <cstdint>
+#include <optional>
+#include <string>
 #include <span>
 #include <vector>
-
-#include "analysis/table.hpp"
 
 namespace tocsin {
 
@@ -80,16 +80,23 @@ std::vector<ThresholdCounts> counts_at_thresholds(std::span<const double> scores
 // `points` evenly spaced values from low to high inclusive (one point: low).
 std::vector<double> even_grid(double low, double high, int points);
 
-// One row per threshold. Columns:
-//   threshold_source ("grid" or "given"), threshold, true_positives,
-//   false_positives, false_negatives, true_negatives,
-//   sensitivity, sensitivity_lower, sensitivity_upper,
-//   specificity, specificity_lower, specificity_upper,
-//   ppv, ppv_lower, ppv_upper, npv, npv_lower, npv_upper,
-//   share_flagged, share_flagged_lower, share_flagged_upper.
-// Intervals are Wilson; a proportion with an empty denominator is an empty cell.
-// `source[i]` labels row i; it may be empty (then "given").
-Table threshold_table(const std::vector<ThresholdCounts>& counts, const std::vector<std::string>& source,
-                      double confidence, std::string name, std::string title);
+// A proportion k / n with its Wilson interval.
+struct Proportion {
+    double value = 0.0;
+    Interval interval;
+};
+
+// The 2x2 table at one threshold and what is read from it. A proportion
+// with an empty denominator is absent.
+struct ThresholdMeasures {
+    std::string source;  // where the threshold came from: "grid" or "given"
+    ThresholdCounts counts;
+    std::optional<Proportion> sensitivity, specificity;
+    std::optional<Proportion> ppv, npv;  // positive and negative predictive value
+    std::optional<Proportion> share_flagged;
+};
+// `source[i]` labels threshold i; it may be empty (then "given").
+std::vector<ThresholdMeasures> threshold_measures(const std::vector<ThresholdCounts>& counts,
+                                                  const std::vector<std::string>& source, double confidence);
 
 }  // namespace tocsin

@@ -17,6 +17,7 @@
 #include <string>
 
 #include "analysis/evaluation.hpp"
+#include "report/evaluation_tables.hpp"
 #include "analysis/roc.hpp"
 #include "models/random_streams.hpp"
 
@@ -109,23 +110,16 @@ int main(int argc, char** argv) {
     // Encounter level: counts, AUC with DeLong CI, threshold table (21 grid +
     // 3 given thresholds, Wilson CIs), lead times at the same 24 thresholds.
     mark = Mark();
-    const Table counts = evaluation_counts(pop);
+    const EvaluationCounts counts = evaluation_counts(pop);
     const auto encounter_scores = encounter_level_scores(pop);
-    const Table auc = encounter_auc_table(encounter_scores, o.confidence);
+    const EncounterAuc auc = encounter_level_auc(encounter_scores, o.confidence);
     const ThresholdList thresholds = evaluation_thresholds(encounter_scores, o);
-    std::vector<double> values;
-    std::vector<std::uint8_t> labels;
-    for (const EncounterScore& s : encounter_scores) {
-        values.push_back(s.highest_score);
-        labels.push_back(s.is_case ? 1 : 0);
-    }
-    const Table by_threshold = threshold_table(counts_at_thresholds(values, labels, thresholds.values),
-                                               thresholds.source, o.confidence, "t", "t");
-    const Table lead = lead_time_table(pop, thresholds.values, o.window_hours, o.min_lead_hours);
+    const auto by_threshold = encounter_threshold_measures(encounter_scores, thresholds, o.confidence);
+    const auto lead = lead_times_by_threshold(pop, thresholds.values, o.window_hours, o.min_lead_hours);
     const Elapsed encounter = since(mark);
 
     mark = Mark();
-    const Table prediction = prediction_auc_table(pop, o);
+    const auto prediction = prediction_level_auc(pop, o);
     const Elapsed predictions = since(mark);
 
     std::printf("encounter level (AUC + DeLong, %zu thresholds with Wilson CIs, lead times): wall %.2f s, cpu %.2f s\n",
@@ -137,7 +131,7 @@ int main(int argc, char** argv) {
 
     o.bootstrap_replicates = replicates;
     mark = Mark();
-    const Table boot = prediction_auc_table(pop, o);
+    const auto boot = prediction_level_auc(pop, o);
     const Elapsed with_boot = since(mark);
     const double boot_cpu = with_boot.cpu - predictions.cpu;
     std::printf("encounter bootstrap, %d replicates x 3 horizons: cpu %.2f s extra (%.3f s per replicate)\n", replicates,
@@ -156,7 +150,8 @@ int main(int argc, char** argv) {
     std::printf("full evaluate() with calibration, drift and decision curve, no bootstrap: wall %.2f s, cpu %.2f s\n",
                 full.wall, full.cpu);
 
-    std::printf("\n%s\n%s\n%s\n", to_text(auc, 4).c_str(), to_text(prediction, 4).c_str(), to_text(boot, 4).c_str());
+    std::printf("\n%s\n%s\n%s\n", to_text(encounter_auc_table(auc), 4).c_str(),
+                to_text(prediction_auc_table(prediction), 4).c_str(), to_text(prediction_auc_table(boot), 4).c_str());
     std::printf("%s\n", evaluation_summary(all).c_str());
     (void)counts;
     (void)by_threshold;

@@ -7,6 +7,7 @@
 #include "report/cautions.hpp"
 #include "analysis/evaluation.hpp"
 #include "study/evaluation_scenario.hpp"
+#include "report/evaluation_tables.hpp"
 #include "report/output.hpp"
 #include "cli/option_specs.hpp"
 #include "models/errors.hpp"
@@ -128,11 +129,11 @@ int run_evaluate_command(const EvaluateCommand& c) {
     o.replication = replication;
 
     const Evaluation ev = evaluate(pop, o);
-    std::cout << evaluation_summary(ev) << "\n" << to_text(ev.encounter_auc, 3) << "\n"
-              << to_text(ev.prediction_auc, 3) << "\n" << cautions_text() << "\n";
+    std::cout << evaluation_summary(ev) << "\n" << to_text(encounter_auc_table(ev.encounter_auc), 3) << "\n"
+              << to_text(prediction_auc_table(ev.prediction_auc), 3) << "\n" << cautions_text() << "\n";
     if (!c.out_dir.empty()) {
         std::vector<OutputFile> files;
-        for (const Table* t : evaluation_tables(ev)) add_table_files(files, *t);
+        for (const Table& t : evaluation_tables(ev)) add_table_files(files, t);
         files.push_back({"CAUTIONS.txt", cautions_text() + "\n"});
         write_output_files(c.out_dir, files);
         std::cout << "Wrote " << files.size() << " files to " << c.out_dir << "\n";

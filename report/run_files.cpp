@@ -4,6 +4,7 @@
 
 #include "report/cautions.hpp"
 #include "report/comparison_tables.hpp"
+#include "report/evaluation_tables.hpp"
 #include "report/run_tables.hpp"
 
 namespace tocsin {
@@ -38,7 +39,7 @@ std::vector<OutputFile> run_output_files(const Scenario& sc, const RunOutput& ou
                                           metric_index(*find_metric(settings.benefit_metric))));
     add_table_files(files, plan_net_benefit_table(out.plan_net_benefit));
     if (out.evaluation)
-        for (const Table* table : evaluation_tables(*out.evaluation)) add_table_files(files, *table);
+        for (const Table& table : evaluation_tables(*out.evaluation)) add_table_files(files, table);
     if (t.notice_log) add_table_files(files, *t.notice_log);
     for (const auto* staff : {&t.staff_workload, &t.staff_escalations, &t.task_fates, &t.task_log})
         if (*staff) add_table_files(files, **staff);

@@ -5,6 +5,7 @@
 #include "report/cautions.hpp"
 #include "report/cells.hpp"
 #include "report/comparison_tables.hpp"
+#include "report/evaluation_tables.hpp"
 #include "report/run_tables.hpp"
 
 namespace tocsin {

@@ -7,6 +7,7 @@
 #include <string>
 
 #include "analysis/evaluation.hpp"
+#include "report/evaluation_tables.hpp"
 #include "study/evaluation_scenario.hpp"
 #include "models/population_source.hpp"
 #include "study/scenario.hpp"
@@ -31,11 +32,11 @@ TEST_CASE("evaluate.cli_writes_the_library_tables") {
     o.thresholds = {60};
     o.bootstrap_replicates = 20;
     const Evaluation ev = evaluate(pop, o);
-    for (const Table* t : evaluation_tables(ev)) {
-        CAPTURE(t->name);
-        CHECK(std::filesystem::exists(dir.path("one/" + t->name + ".json")));
+    for (const Table& t : evaluation_tables(ev)) {
+        CAPTURE(t.name);
+        CHECK(std::filesystem::exists(dir.path("one/" + t.name + ".json")));
         // The command's numbers are the library's on the same population.
-        CHECK(read_file(dir.path("one/" + t->name + ".csv")) == to_csv(*t));
+        CHECK(read_file(dir.path("one/" + t.name + ".csv")) == to_csv(t));
     }
 
     CHECK(read_file(dir.path("one/CAUTIONS.txt")).find("not a medical device") != std::string::npos);

@@ -10,6 +10,7 @@
 #include <boost/random/uniform_int_distribution.hpp>
 
 #include "analysis/evaluation.hpp"
+#include "report/evaluation_tables.hpp"
 #include "models/random_streams.hpp"
 
 using namespace tocsin;
@@ -96,14 +97,18 @@ TEST_CASE("evaluation.encounter_level_uses_the_highest_usable_score") {
     CHECK(s[3].highest_score == 7.5);  // E
     // Cases {7, 8} against non-cases {6, 7.5}: 7 beats 6 (1), 8 beats both (2);
     // AUC = 3 / 4.
-    const Table t = encounter_auc_table(s, 0.95);
-    CHECK(cell_number(t, 0, "auc") == doctest::Approx(0.75));
-    CHECK(cell_number(t, 0, "cases") == 2);
-    CHECK(cell_number(t, 0, "non_cases") == 2);
+    const EncounterAuc t = encounter_level_auc(s, 0.95);
+    CHECK(t.auc == doctest::Approx(0.75));
+    CHECK(t.cases == 2);
+    CHECK(t.non_cases == 2);
 
-    const Table counts = evaluation_counts(pop);
+    const EvaluationCounts counts = evaluation_counts(pop);
+    const auto excluded = counts.scores_excluded.find("available at or after the outcome (time zero)");
+    REQUIRE(excluded != counts.scores_excluded.end());
+    CHECK(excluded->second == 1);
+    // The table says so under the same reason.
     bool saw_exclusion = false;
-    for (const auto& row : counts.rows)
+    for (const auto& row : evaluation_counts_table(counts).rows)
         if (std::get<std::string>(row[0]) == "scores excluded: available at or after the outcome (time zero)") {
             saw_exclusion = true;
             CHECK(std::get<std::int64_t>(row[1]) == 1);
@@ -122,23 +127,24 @@ TEST_CASE("evaluation.prediction_level_labels_by_horizon") {
     //       4 beats 3, 2, 1 -> 3; 8 beats all 7 -> 7; AUC = 10 / 14
     // 12 h: positives {7, 4, 8}; negatives {3, 5, 2, 6, 1, 7.5}
     //       7 beats 5 of them, 4 beats 3, 8 beats 6; AUC = 14 / 18
-    const Table t = prediction_auc_table(pop, o);
-    REQUIRE(t.rows.size() == 2);
-    CHECK(cell_number(t, 0, "predictions") == 9);
-    CHECK(cell_number(t, 0, "positive_predictions") == 2);
-    CHECK(cell_number(t, 0, "encounters") == 4);
-    CHECK(cell_number(t, 0, "encounters_with_positive") == 2);
-    CHECK(cell_number(t, 0, "auc") == doctest::Approx(10.0 / 14.0));
-    CHECK(cell_number(t, 1, "positive_predictions") == 3);
-    CHECK(cell_number(t, 1, "auc") == doctest::Approx(14.0 / 18.0));
-    CHECK(std::isnan(cell_number(t, 0, "auc_lower")));  // no bootstrap asked for
+    const auto t = prediction_level_auc(pop, o);
+    REQUIRE(t.size() == 2);
+    CHECK(t[0].predictions == 9);
+    CHECK(t[0].positive_predictions == 2);
+    CHECK(t[0].encounters == 4);
+    CHECK(t[0].encounters_with_positive == 2);
+    CHECK(t[0].auc == doctest::Approx(10.0 / 14.0));
+    CHECK(t[1].positive_predictions == 3);
+    CHECK(t[1].auc == doctest::Approx(14.0 / 18.0));
+    CHECK(std::isnan(t[0].interval.lower));  // no bootstrap asked for
+    CHECK(std::isnan(cell_number(prediction_auc_table(t), 0, "auc_lower")));  // an empty cell
 
     // A horizon of exactly 3 h still counts time zero 3 h ahead (the interval
     // is (available_at, available_at + H]); 2.9 h does not.
     o.horizons_hours = {3, 2.9};
-    const Table edge = prediction_auc_table(pop, o);
-    CHECK(cell_number(edge, 0, "positive_predictions") == 2);
-    CHECK(cell_number(edge, 1, "positive_predictions") == 0);
+    const auto edge = prediction_level_auc(pop, o);
+    CHECK(edge[0].positive_predictions == 2);
+    CHECK(edge[1].positive_predictions == 0);
 }
 
 TEST_CASE("evaluation.lead_time_of_first_crossing") {
@@ -152,12 +158,14 @@ TEST_CASE("evaluation.lead_time_of_first_crossing") {
     CHECK(first_crossing_lead_hours(pop, 7.8, 24) == std::vector<double>{3.0});
 
     // Min lead 4 h: C's 3 h is late; 1 of 2 cases.
-    const Table t = lead_time_table(pop, {5.0}, 24, 4);
-    CHECK(cell_number(t, 0, "cases") == 2);
-    CHECK(cell_number(t, 0, "cases_crossed") == 2);
-    CHECK(cell_number(t, 0, "cases_late") == 1);
-    CHECK(cell_number(t, 0, "share_late") == 0.5);
-    CHECK(cell_number(t, 0, "lead_hours_median") == doctest::Approx(11.5));  // type 7 between 3 and 20
+    const auto t = lead_times_by_threshold(pop, {5.0}, 24, 4);
+    REQUIRE(t.size() == 1);
+    CHECK(t[0].cases == 2);
+    CHECK(t[0].cases_crossed == 2);
+    CHECK(t[0].cases_late == 1);
+    REQUIRE(t[0].share_late);
+    CHECK(*t[0].share_late == 0.5);
+    CHECK(t[0].median_hours == doctest::Approx(11.5));  // type 7 between 3 and 20
 }
 
 TEST_CASE("evaluation.drift_by_month_and_calibration_sums") {
@@ -177,37 +185,40 @@ TEST_CASE("evaluation.drift_by_month_and_calibration_sums") {
 
     // Months (UTC): March holds A, B, C (8 predictions, 3 positive at 12 h);
     // April holds E's one negative prediction.
-    REQUIRE(ev.drift.rows.size() == 2);
-    CHECK(std::get<std::string>(ev.drift.rows[0][0]) == "2026-03");
-    CHECK(std::get<std::string>(ev.drift.rows[1][0]) == "2026-04");
-    CHECK(cell_number(ev.drift, 0, "predictions") == 8);
-    CHECK(cell_number(ev.drift, 0, "positive_predictions") == 3);
-    CHECK(cell_number(ev.drift, 1, "predictions") == 1);
+    REQUIRE(ev.drift.size() == 2);
+    CHECK(ev.drift[0].label == "2026-03");
+    CHECK(ev.drift[1].label == "2026-04");
+    CHECK(ev.drift[0].predictions == 8);
+    CHECK(ev.drift[0].positive_predictions == 3);
+    CHECK(ev.drift[1].predictions == 1);
     // March without E's 7.5: 7 beats 3, 5, 2, 6, 1 (5), 4 beats 3, 2, 1 (3), 8 beats 5; AUC 13/15.
-    CHECK(cell_number(ev.drift, 0, "auc") == doctest::Approx(13.0 / 15.0));
-    CHECK(std::isnan(cell_number(ev.drift, 1, "auc")));  // no positive in April
+    CHECK(ev.drift[0].auc == doctest::Approx(13.0 / 15.0));
+    CHECK(std::isnan(ev.drift[1].auc));  // no positive in April
     // Expected in March = (3 + 5 + 7 + 4 + 2 + 6 + 1 + 8) / 10 = 3.6; observed 3.
-    CHECK(cell_number(ev.drift, 0, "expected") == doctest::Approx(3.6));
-    CHECK(cell_number(ev.drift, 0, "oe_ratio") == doctest::Approx(3.0 / 3.6));
+    REQUIRE(ev.drift[0].observed_expected);
+    CHECK(ev.drift[0].observed_expected->expected == doctest::Approx(3.6));
+    CHECK(ev.drift[0].observed_expected->ratio == doctest::Approx(3.0 / 3.6));
 
     // Whole population: expected 4.35 (adding E's 0.75), observed 3.
-    REQUIRE(ev.calibration.rows.size() == 1);
-    CHECK(cell_number(ev.calibration, 0, "expected") == doctest::Approx(4.35));
-    CHECK(cell_number(ev.calibration, 0, "observed") == 3);
+    REQUIRE(ev.calibration);
+    CHECK(ev.calibration->observed_expected.expected == doctest::Approx(4.35));
+    CHECK(ev.calibration->observed_expected.observed == 3);
 
     // Decision curve at the encounter level: probabilities A 0.7, B 0.6, C 0.8,
     // E 0.75.
     // pt = 0.7: act on A, C, E -> TP 2, FP 1 of 4; NB = 2/4 - 1/4 x 0.7/0.3 = -0.0833.
     // pt = 0.8 (N = 1.25): act on C -> TP 1, FP 0; NB = 1/4.
-    REQUIRE(ev.decision_curve.rows.size() == 2);
-    CHECK(cell_number(ev.decision_curve, 0, "net_benefit_model") == doctest::Approx(0.5 - 0.25 * 0.7 / 0.3));
-    CHECK(std::get<std::string>(ev.decision_curve.rows[1][0]) == "evaluations_per_case");
-    CHECK(cell_number(ev.decision_curve, 1, "threshold_probability") == doctest::Approx(0.8));
-    CHECK(cell_number(ev.decision_curve, 1, "net_benefit_model") == doctest::Approx(0.25));
+    REQUIRE(ev.decision_curve);
+    const DecisionCurveResult& dc = *ev.decision_curve;
+    REQUIRE(dc.points.size() == 2);
+    CHECK(dc.points[0].net_benefit_model == doctest::Approx(0.5 - 0.25 * 0.7 / 0.3));
+    CHECK(dc.source[1] == "evaluations_per_case");
+    CHECK(dc.points[1].threshold_probability == doctest::Approx(0.8));
+    CHECK(dc.points[1].net_benefit_model == doctest::Approx(0.25));
     // Treat all at 0.8: 2/4 - 2/4 x 4 = -1.5.
-    CHECK(cell_number(ev.decision_curve, 1, "net_benefit_treat_all") == doctest::Approx(-1.5));
+    CHECK(dc.points[1].net_benefit_treat_all == doctest::Approx(-1.5));
     // Every table has a stable name and the summary mentions the given threshold.
-    for (const Table* t : evaluation_tables(ev)) CHECK_FALSE(t->name.empty());
+    for (const Table& t : evaluation_tables(ev)) CHECK_FALSE(t.name.empty());
     CHECK(evaluation_summary(ev).find("Threshold 5:") != std::string::npos);
 }
 
@@ -220,10 +231,10 @@ TEST_CASE("evaluation.fixed_length_periods") {
     // Period origin is the population's start, 1 March 00:00; E on 1 April
     // falls in the fifth week (31 days = 4 weeks + 3 days). Weeks 2-4 are
     // empty but still listed, so a gap in the data shows up as a gap.
-    REQUIRE(ev.drift.rows.size() == 5);
-    CHECK(std::get<std::string>(ev.drift.rows[4][0]) == "2026-03-29");
-    CHECK(cell_number(ev.drift, 4, "predictions") == 1);
-    CHECK(cell_number(ev.drift, 1, "predictions") == 0);
+    REQUIRE(ev.drift.size() == 5);
+    CHECK(ev.drift[4].label == "2026-03-29");
+    CHECK(ev.drift[4].predictions == 1);
+    CHECK(ev.drift[1].predictions == 0);
 }
 
 TEST_CASE("evaluation.bootstrap_is_reproducible") {
@@ -242,12 +253,12 @@ TEST_CASE("evaluation.bootstrap_is_reproducible") {
     o.horizons_hours = {4, 8};
     o.bootstrap_replicates = 50;
     o.seed = 5;
-    const std::string first = to_csv(prediction_auc_table(pop, o));
-    CHECK(first == to_csv(prediction_auc_table(pop, o)));
+    const std::string first = to_csv(prediction_auc_table(prediction_level_auc(pop, o)));
+    CHECK(first == to_csv(prediction_auc_table(prediction_level_auc(pop, o))));
     o.seed = 6;
-    CHECK(first != to_csv(prediction_auc_table(pop, o)));
-    const Table t = prediction_auc_table(pop, o);
-    CHECK(cell_number(t, 0, "auc_lower") < cell_number(t, 0, "auc_upper"));
+    CHECK(first != to_csv(prediction_auc_table(prediction_level_auc(pop, o))));
+    const auto t = prediction_level_auc(pop, o);
+    CHECK(t[0].interval.lower < t[0].interval.upper);
 }
 
 TEST_CASE("evaluation.bootstrap_replicate_is_the_resampled_population") {
@@ -271,7 +282,7 @@ TEST_CASE("evaluation.bootstrap_replicate_is_the_resampled_population") {
     o.bootstrap_replicates = 1;
     o.seed = 17;
     o.replication = 2;
-    const Table boot = prediction_auc_table(pop, o);
+    const auto boot = prediction_level_auc(pop, o);
 
     RandomEngine engine = make_stream(17, 2, StreamPurpose::evaluation_bootstrap, 0);
     boost::random::uniform_int_distribution<std::size_t> pick(0, pop.encounters.size() - 1);
@@ -283,9 +294,9 @@ TEST_CASE("evaluation.bootstrap_replicate_is_the_resampled_population") {
         for (const Score& s : pop.scores_of(e)) copy.score(id, s.available_at, s.value);
     }
     o.bootstrap_replicates = 0;
-    const Table resampled = prediction_auc_table(copy.build(), o);
-    CHECK(cell_number(boot, 0, "auc_lower") == doctest::Approx(cell_number(resampled, 0, "auc")).epsilon(1e-12));
-    CHECK(cell_number(boot, 0, "auc_upper") == cell_number(boot, 0, "auc_lower"));
+    const auto resampled = prediction_level_auc(copy.build(), o);
+    CHECK(boot[0].interval.lower == doctest::Approx(resampled[0].auc).epsilon(1e-12));
+    CHECK(boot[0].interval.upper == boot[0].interval.lower);
 }
 
 TEST_CASE("evaluation.rejects_bad_options") {

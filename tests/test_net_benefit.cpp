@@ -5,6 +5,7 @@
 #include <vector>
 
 #include "analysis/net_benefit.hpp"
+#include "report/evaluation_tables.hpp"
 
 using namespace tocsin;
 

@@ -130,9 +130,7 @@ TEST_CASE("reference.evaluation_sklearn_statsmodels") {
     std::vector<double> t_values;
     for (const auto& t : thresholds) t_values.push_back(std::stod(t));
     const auto counts = counts_at_thresholds(d.score, d.label, t_values);
-    const Table table = threshold_table(counts, {}, 0.95, "t", "t");
-    const std::vector<std::pair<std::string, std::size_t>> columns{
-        {"sensitivity", 7}, {"specificity", 10}, {"ppv", 13}, {"npv", 16}, {"share_flagged", 19}};
+    const auto measures = threshold_measures(counts, {}, 0.95);
     for (std::size_t i = 0; i < thresholds.size(); ++i) {
         CAPTURE(thresholds[i]);
         const auto& c = ref.at("counts " + thresholds[i]);
@@ -140,11 +138,16 @@ TEST_CASE("reference.evaluation_sklearn_statsmodels") {
         CHECK(counts[i].false_positives == c[1]);
         CHECK(counts[i].false_negatives == c[2]);
         CHECK(counts[i].true_negatives == c[3]);
-        for (const auto& [name, column] : columns) {
+        const ThresholdMeasures& m = measures[i];
+        const std::vector<std::pair<std::string, const std::optional<Proportion>*>> proportions{
+            {"sensitivity", &m.sensitivity}, {"specificity", &m.specificity}, {"ppv", &m.ppv}, {"npv", &m.npv},
+            {"share_flagged", &m.share_flagged}};
+        for (const auto& [name, proportion] : proportions) {
             CAPTURE(name);
             const auto& w = ref.at("wilson " + name + " " + thresholds[i]);
-            CHECK(std::abs(std::get<double>(table.rows[i][column]) - w[0]) < 1e-12);
-            CHECK(std::abs(std::get<double>(table.rows[i][column + 1]) - w[1]) < 1e-12);
+            REQUIRE(*proportion);
+            CHECK(std::abs((*proportion)->interval.lower - w[0]) < 1e-12);
+            CHECK(std::abs((*proportion)->interval.upper - w[1]) < 1e-12);
         }
     }
 

@@ -31,7 +31,7 @@ TEST_CASE("report_evaluation.demo_score") {
     // The ROC only, from (0, 0) to (1, 1) in order of false-positive rate.
     REQUIRE(in.evaluation_charts.size() == 1);
     const auto& roc = in.evaluation_charts[0].curves[0].points;
-    REQUIRE(roc.size() == e.thresholds.rows.size() + 2);
+    REQUIRE(roc.size() == e.thresholds.size() + 2);
     CHECK(roc.front().x == 0);
     CHECK(roc.back().y == 1);
     for (std::size_t i = 1; i < roc.size(); ++i) CHECK(roc[i - 1].x <= roc[i].x);

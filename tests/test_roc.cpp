@@ -10,6 +10,7 @@
 
 #include "analysis/roc.hpp"
 #include "models/random_streams.hpp"
+#include "report/evaluation_tables.hpp"
 
 using namespace tocsin;
 
@@ -194,15 +195,35 @@ TEST_CASE("roc.counts_at_thresholds") {
     CHECK(c[2].true_positives == 0);
     CHECK(c[2].false_negatives == 3);
 
-    const Table table = threshold_table(c, {"grid", "given", "given"}, 0.95, "x", "x");
-    REQUIRE(table.rows.size() == 3);
+    const auto measures = threshold_measures(c, {"grid", "given", "given"}, 0.95);
+    REQUIRE(measures.size() == 3);
+    CHECK(measures[0].source == "grid");
+    CHECK(measures[1].source == "given");
     // At threshold 4: sensitivity 2/3, specificity 3/3, PPV 2/2, NPV 3/4, flagged 2/6.
+    const ThresholdMeasures& m = measures[1];
+    REQUIRE(m.sensitivity);
+    REQUIRE(m.specificity);
+    REQUIRE(m.ppv);
+    REQUIRE(m.npv);
+    REQUIRE(m.share_flagged);
+    CHECK(m.sensitivity->value == doctest::Approx(2.0 / 3.0));
+    CHECK(m.specificity->value == 1.0);
+    CHECK(m.ppv->value == 1.0);
+    CHECK(m.npv->value == doctest::Approx(0.75));
+    CHECK(m.share_flagged->value == doctest::Approx(2.0 / 6.0));
+    // Nothing flagged at the highest threshold: no PPV.
+    CHECK_FALSE(measures[2].ppv);
+
+    // The table (report/) puts each proportion before its interval.
+    const Table table = threshold_table(measures, "x", "x");
+    REQUIRE(table.rows.size() == 3);
     const auto& row = table.rows[1];
     CHECK(std::get<double>(row[6]) == doctest::Approx(2.0 / 3.0));
     CHECK(std::get<double>(row[9]) == 1.0);
     CHECK(std::get<double>(row[12]) == 1.0);
     CHECK(std::get<double>(row[15]) == doctest::Approx(0.75));
     CHECK(std::get<double>(row[18]) == doctest::Approx(2.0 / 6.0));
+    CHECK(std::holds_alternative<std::monostate>(table.rows[2][12]));
     CHECK(std::get<double>(row[7]) == doctest::Approx(wilson_interval(2, 3).lower));
     // At threshold 9 nothing is flagged: PPV has no denominator, so it is empty.
     CHECK(std::holds_alternative<std::monostate>(table.rows[2][12]));
