@@ -9,7 +9,7 @@
 #include <stdexcept>
 
 #include "analysis/quantiles.hpp"
-#include "analysis/table.hpp"  // format_real, for a message
+#include "models/text.hpp"
 #include "models/random_streams.hpp"
 
 namespace tocsin {

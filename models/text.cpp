@@ -1,5 +1,6 @@
 #include "models/text.hpp"
 
+#include <cmath>
 #include <cstdio>
 
 namespace tocsin {
@@ -60,6 +61,19 @@ void append_utf8_or_replacement(std::string& out, std::string_view text, std::si
         out.append(text.substr(i, length));
         i += length;
     }
+}
+
+std::string format_real(double v, int max_decimals) {
+    if (!std::isfinite(v)) return std::isnan(v) ? "NaN" : (v > 0 ? "Inf" : "-Inf");
+    char buf[64];
+    std::snprintf(buf, sizeof buf, "%.*f", max_decimals, v);
+    std::string s = buf;
+    if (s.find('.') != std::string::npos) {
+        while (!s.empty() && s.back() == '0') s.pop_back();
+        if (!s.empty() && s.back() == '.') s.pop_back();
+    }
+    if (s == "-0") s = "0";
+    return s;
 }
 
 }  // namespace tocsin

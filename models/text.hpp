@@ -18,6 +18,10 @@ inline constexpr std::string_view replacement_character = "\xEF\xBF\xBD";
 // byte there starts none, and moves `i` past what it read.
 void append_utf8_or_replacement(std::string& out, std::string_view text, std::size_t& i);
 
+// A number rounded to at most `max_decimals`, trailing zeros dropped: for
+// people (messages, the terminal, the report).
+std::string format_real(double value, int max_decimals = 6);
+
 // Why `text` is not acceptable as a name or id read from a file, or "" when it
 // is: it must be valid UTF-8 without control characters (U+0000 to U+001F,
 // U+007F to U+009F; tabs and line breaks included, since a unit name or id

@@ -4,7 +4,7 @@
 #include <cstdint>
 #include <optional>
 
-#include "analysis/table.hpp"
+#include "report/table.hpp"
 
 namespace tocsin {
 

@@ -8,7 +8,7 @@
 
 #include "analysis/comparison.hpp"
 #include "analysis/plan_net_benefit.hpp"
-#include "analysis/table.hpp"
+#include "report/table.hpp"
 
 namespace tocsin {
 

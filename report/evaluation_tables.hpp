@@ -6,7 +6,7 @@
 #include <vector>
 
 #include "analysis/evaluation.hpp"
-#include "analysis/table.hpp"
+#include "report/table.hpp"
 
 namespace tocsin {
 

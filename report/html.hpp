@@ -6,7 +6,7 @@
 #include <string>
 #include <string_view>
 
-#include "analysis/table.hpp"
+#include "report/table.hpp"
 
 namespace tocsin {
 

@@ -8,7 +8,7 @@
 #include <utility>
 #include <vector>
 
-#include "analysis/table.hpp"
+#include "report/table.hpp"
 
 namespace tocsin {
 

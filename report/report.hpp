@@ -17,7 +17,7 @@
 #include <vector>
 
 #include "report/svg.hpp"
-#include "analysis/table.hpp"
+#include "report/table.hpp"
 
 namespace tocsin {
 

@@ -5,7 +5,7 @@
 #include <optional>
 
 #include "analysis/results.hpp"
-#include "analysis/table.hpp"
+#include "report/table.hpp"
 #include "models/time.hpp"
 
 namespace tocsin {

@@ -4,7 +4,7 @@
 // (study/shift_effect.hpp).
 #include <string>
 
-#include "analysis/table.hpp"
+#include "report/table.hpp"
 #include "models/time.hpp"
 #include "study/review_size.hpp"
 #include "study/shift_effect.hpp"

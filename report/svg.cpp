@@ -7,7 +7,7 @@
 
 #include "report/html.hpp"
 #include "report/svg_drawing.hpp"
-#include "analysis/table.hpp"
+#include "report/table.hpp"
 
 namespace tocsin {
 

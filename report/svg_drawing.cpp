@@ -3,7 +3,7 @@
 #include <algorithm>
 #include <cmath>
 
-#include "analysis/table.hpp"
+#include "report/table.hpp"
 #include "models/text.hpp"
 #include "report/html.hpp"
 

@@ -17,7 +17,7 @@
 #include <unistd.h>
 
 #include "report/output.hpp"
-#include "analysis/table.hpp"
+#include "report/table.hpp"
 #include "test_support.hpp"
 
 using namespace tocsin;

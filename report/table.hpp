@@ -7,6 +7,8 @@
 #include <variant>
 #include <vector>
 
+#include "models/text.hpp"
+
 namespace tocsin {
 
 // A cell is empty (missing / not applicable), text, a whole number or a real.
@@ -39,8 +41,7 @@ std::string csv_field(std::string_view text);  // quoted only when needed
 // The shortest text that reads back to the same double (std::to_chars), which
 // may use an exponent (1.2e-05); zero is "0", a non-finite value "".
 std::string format_number(double value);
-// Rounded to at most `max_decimals`, trailing zeros dropped: for people.
-std::string format_real(double value, int max_decimals = 6);
+// format_real (rounded for people) is in models/text.hpp.
 
 // The text with every invalid UTF-8 sequence (utf8_sequence_length in
 // models/text.hpp, the one decoder) replaced by U+FFFD, byte by byte.

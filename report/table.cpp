@@ -1,4 +1,4 @@
-#include "analysis/table.hpp"
+#include "report/table.hpp"
 
 #include <algorithm>
 #include <cassert>
@@ -13,19 +13,6 @@ namespace tocsin {
 void Table::add_row(std::vector<Cell> row) {
     assert(row.size() == columns.size());
     rows.push_back(std::move(row));
-}
-
-std::string format_real(double v, int max_decimals) {
-    if (!std::isfinite(v)) return std::isnan(v) ? "NaN" : (v > 0 ? "Inf" : "-Inf");
-    char buf[64];
-    std::snprintf(buf, sizeof buf, "%.*f", max_decimals, v);
-    std::string s = buf;
-    if (s.find('.') != std::string::npos) {
-        while (!s.empty() && s.back() == '0') s.pop_back();
-        if (!s.empty() && s.back() == '.') s.pop_back();
-    }
-    if (s == "-0") s = "0";
-    return s;
 }
 
 std::string valid_utf8(std::string_view text) {
