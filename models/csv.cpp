@@ -66,7 +66,7 @@ bool CsvReader::next(std::vector<std::string_view>& fields) {
             if (!refill()) return false;
             continue;
         }
-        std::size_t p = begin_;
+        std::size_t p = 0;
         long lines = 0;
         if (!parse_record(p, lines)) {
             // The buffer ends inside the record: read more and parse it again.
@@ -84,39 +84,54 @@ bool CsvReader::next(std::vector<std::string_view>& fields) {
     }
 }
 
-bool CsvReader::parse_record(std::size_t& p, long& lines) {
+bool CsvReader::parse_record(std::size_t& record_end, long& record_lines) {
+    // Locals, not the references, in the loop: the compiler keeps them in
+    // registers (stores into spans_ could otherwise alias them).
+    std::size_t p = begin_;
+    long lines = 0;
     const char* base = buffer_.data();
+    const std::size_t end = end_;
+    const bool eof = eof_;
     spans_.clear();
     std::size_t quoted_used = 0;
+    auto done = [&] {
+        record_end = p;
+        record_lines = lines;
+        return true;
+    };
     for (;;) {
-        if (p < end_ && base[p] == '"') {
-            if (!parse_quoted(p, lines, quoted_used)) return false;
+        if (p < end && base[p] == '"') {
+            std::size_t q = p;  // a copy, so that p's address is never taken
+            long quoted_lines = lines;
+            if (!parse_quoted(q, quoted_lines, quoted_used)) return false;
+            p = q;
+            lines = quoted_lines;
         } else {
             const std::size_t start = p;
-            while (p < end_ && base[p] != ',' && base[p] != '\n' && base[p] != '\r') {
+            while (p < end && base[p] != ',' && base[p] != '\n' && base[p] != '\r') {
                 if (base[p] == '"')
                     throw InputError(path_, next_line_, static_cast<long>(spans_.size() + 1), "",
                                      "a quote inside an unquoted field (quote the whole field and double inner quotes)");
                 ++p;
             }
-            if (p == end_ && !eof_) return false;
+            if (p == end && !eof) return false;
             spans_.emplace_back(start, p - start);
         }
-        if (p == end_) return eof_;  // the last record of the file ends without a line break
+        if (p == end) return eof && done();  // the last record of the file ends without a line break
         const char c = base[p];
         if (c == ',') {
             ++p;
-            if (p == end_ && !eof_) return false;
-            if (p == end_) {  // trailing comma at end of file: one more empty field
+            if (p == end && !eof) return false;
+            if (p == end) {  // trailing comma at end of file: one more empty field
                 spans_.emplace_back(p, 0);
-                return true;
+                return done();
             }
             continue;
         }
         if (c == '\r') {
-            if (p + 1 == end_ && !eof_) return false;
+            if (p + 1 == end && !eof) return false;
             ++p;
-            if (p < end_ && base[p] == '\n') ++p;
+            if (p < end && base[p] == '\n') ++p;
         } else if (c == '\n') {
             ++p;
         } else {
@@ -124,7 +139,7 @@ bool CsvReader::parse_record(std::size_t& p, long& lines) {
                              "unexpected character after a closing quote");
         }
         ++lines;
-        return true;
+        return done();
     }
 }
 
