@@ -18,6 +18,39 @@ int local_hour(const TimeZone& zone, Instant at) {
     return static_cast<int>(((local % 86400) + 86400) % 86400 / 3600);
 }
 
+namespace {
+
+// The index of the role named `name`, or roles.size().
+std::size_t role_index(const std::vector<ChartOpeningRole>& roles, std::string_view name) {
+    std::size_t r = 0;
+    while (r < roles.size() && roles[r].name != name) ++r;
+    return r;
+}
+
+std::string declared_roles(const std::vector<ChartOpeningRole>& roles) {
+    std::string declared;
+    for (const auto& d : roles) declared += (declared.empty() ? "" : ", ") + d.name;
+    return declared;
+}
+
+// Fills log.start and log.openings: the openings grouped by their owner
+// encounter (a stable counting sort), then in time order within each group.
+void group_by_encounter(const std::vector<ChartOpening>& openings, const std::vector<std::uint32_t>& owner,
+                        std::size_t n, ChartOpeningLog& log) {
+    log.start.assign(n + 1, 0);
+    for (std::uint32_t e : owner) ++log.start[e + 1];
+    for (std::size_t e = 0; e < n; ++e) log.start[e + 1] += log.start[e];
+    log.openings.resize(openings.size());
+    std::vector<std::size_t> next(log.start.begin(), log.start.end() - 1);
+    for (std::size_t i = 0; i < openings.size(); ++i) log.openings[next[owner[i]]++] = openings[i];
+    for (std::size_t e = 0; e < n; ++e)
+        std::stable_sort(log.openings.begin() + static_cast<std::ptrdiff_t>(log.start[e]),
+                         log.openings.begin() + static_cast<std::ptrdiff_t>(log.start[e + 1]),
+                         [](const ChartOpening& a, const ChartOpening& b) { return a.at < b.at; });
+}
+
+}  // namespace
+
 ChartOpeningLog load_chart_openings(const std::string& path, const std::vector<ChartOpeningRole>& roles,
                                     const Population& pop, const TimeZone& zone, BadRows bad_rows) {
     ChartOpeningLog log;
@@ -68,15 +101,12 @@ ChartOpeningLog load_chart_openings(const std::string& path, const std::vector<C
                      "expected a timestamp such as 2026-03-03T19:05:00Z, 2026-03-03T20:05:00+01:00 or "
                      "2026-03-03 20:05:00 (local time), found '" + std::string(fields[col[1]]) + "'");
             const std::string_view role = fields[col[2]];
-            std::size_t r = 0;
-            while (r < roles.size() && roles[r].name != role) ++r;
+            const std::size_t r = role_index(roles, role);
             if (r == roles.size()) {
                 text(col[2], "role");
-                std::string declared;
-                for (const auto& d : roles) declared += (declared.empty() ? "" : ", ") + d.name;
                 fail(col[2], "role", "role not declared in chart_openings.roles",
-                     "role '" + std::string(role) + "' is not declared in chart_openings.roles (declared: " + declared +
-                         ")");
+                     "role '" + std::string(role) + "' is not declared in chart_openings.roles (declared: " +
+                         declared_roles(roles) + ")");
             }
             if (note.mapping == LocalMapping::ambiguous_took_earlier)
                 ++log.notes["local time in a repeated hour (daylight saving ended): earlier instant taken"];
@@ -93,18 +123,7 @@ ChartOpeningLog load_chart_openings(const std::string& path, const std::vector<C
             log.rows_skipped[std::filesystem::path(path).filename().string() + ": " + bad.reason].add(bad.error.line);
         }
     }
-    // Group by encounter (stable counting sort), then time order within each group.
-    const std::size_t n = pop.encounters.size();
-    log.start.assign(n + 1, 0);
-    for (std::uint32_t e : owner) ++log.start[e + 1];
-    for (std::size_t e = 0; e < n; ++e) log.start[e + 1] += log.start[e];
-    log.openings.resize(openings.size());
-    std::vector<std::size_t> next(log.start.begin(), log.start.end() - 1);
-    for (std::size_t i = 0; i < openings.size(); ++i) log.openings[next[owner[i]]++] = openings[i];
-    for (std::size_t e = 0; e < n; ++e)
-        std::stable_sort(log.openings.begin() + static_cast<std::ptrdiff_t>(log.start[e]),
-                         log.openings.begin() + static_cast<std::ptrdiff_t>(log.start[e + 1]),
-                         [](const ChartOpening& a, const ChartOpening& b) { return a.at < b.at; });
+    group_by_encounter(openings, owner, pop.encounters.size(), log);
     if (before_admission) log.excluded_by_reason["opened before admission"] = before_admission;
     if (after_outcome) log.excluded_by_reason["opened at or after the outcome (time zero)"] = after_outcome;
     if (after_discharge) log.excluded_by_reason["opened at or after discharge"] = after_discharge;

@@ -61,116 +61,123 @@ bool CsvReader::refill() {
 
 bool CsvReader::next(std::vector<std::string_view>& fields) {
     fields.clear();
-    std::size_t quoted_used = 0;
     for (;;) {
-        // Try to parse one whole record from buffer_[begin_, end_).
-        const char* base = buffer_.data();
-        std::size_t p = begin_;
-        long lines = 0;
-        bool complete = false;
-        auto& spans = spans_;  // (offset, length); length SIZE_MAX marks an unquoted_ index
-        spans.clear();
-        quoted_used = 0;
-        if (p == end_) {
+        if (begin_ == end_) {
             if (!refill()) return false;
             continue;
         }
-        for (;;) {
-            if (p < end_ && base[p] == '"') {
-                // Quoted field.
-                saw_quote_ = true;
-                if (unquoted_.size() <= quoted_used) unquoted_.emplace_back();
-                std::string& out = unquoted_[quoted_used];
-                out.clear();
-                ++p;
-                bool closed = false;
-                while (p < end_) {
-                    char c = base[p];
-                    if (c == '"') {
-                        if (p + 1 < end_ && base[p + 1] == '"') {
-                            out += '"';
-                            p += 2;
-                            continue;
-                        }
-                        if (p + 1 == end_ && !eof_) break;  // need to see the next byte
-                        closed = true;
-                        ++p;
-                        break;
-                    }
-                    // A line break inside quotes counts like one between records:
-                    // CRLF once, LF or a lone CR once each.
-                    if (c == '\r') {
-                        if (p + 1 == end_ && !eof_) break;  // need to see whether LF follows
-                        if (p + 1 == end_ || base[p + 1] != '\n') ++lines;
-                    } else if (c == '\n') {
-                        ++lines;
-                    }
-                    out += c;
-                    ++p;
-                }
-                if (!closed) {
-                    if (eof_ && p >= end_)
-                        throw InputError(path_, next_line_, static_cast<long>(spans.size() + 1), "",
-                                         "a quoted field is never closed (missing \")");
-                    break;  // incomplete: refill and retry
-                }
-                spans.emplace_back(quoted_used++, SIZE_MAX);
-            } else {
-                std::size_t start = p;
-                while (p < end_ && base[p] != ',' && base[p] != '\n' && base[p] != '\r') {
-                    if (base[p] == '"')
-                        throw InputError(path_, next_line_, static_cast<long>(spans.size() + 1), "",
-                                         "a quote inside an unquoted field (quote the whole field and double inner quotes)");
-                    ++p;
-                }
-                if (p == end_ && !eof_) break;
-                spans.emplace_back(start, p - start);
-            }
-            if (p == end_) {
-                if (!eof_) break;
-                complete = true;
-                break;
-            }
-            char c = base[p];
-            if (c == ',') {
-                ++p;
-                if (p == end_ && !eof_) break;
-                if (p == end_) {  // trailing comma at end of file: one more empty field
-                    spans.emplace_back(p, 0);
-                    complete = true;
-                    break;
-                }
-                continue;
-            }
-            if (c == '\r') {
-                if (p + 1 == end_ && !eof_) break;
-                ++p;
-                if (p < end_ && base[p] == '\n') ++p;
-            } else if (c == '\n') {
-                ++p;
-            } else {
-                throw InputError(path_, next_line_, static_cast<long>(spans.size()), "",
-                                 "unexpected character after a closing quote");
-            }
-            ++lines;
-            complete = true;
-            break;
-        }
-        if (!complete) {
-            if (!refill()) {
-                if (end_ == begin_) return false;
-            }
+        std::size_t p = 0;
+        long lines = 0;
+        if (!parse_record(p, lines)) {
+            // The buffer ends inside the record: read more and parse it again.
+            if (!refill() && end_ == begin_) return false;
             continue;
         }
         record_line_ = next_line_;
         next_line_ += lines;
         begin_ = p;
-        for (const auto& [a, b] : spans) {
+        for (const auto& [a, b] : spans_) {
             if (b == SIZE_MAX) fields.emplace_back(unquoted_[a]);
             else fields.emplace_back(buffer_.data() + a, b);
         }
         return true;
     }
+}
+
+bool CsvReader::parse_record(std::size_t& record_end, long& record_lines) {
+    // Locals, not the references, in the loop: the compiler keeps them in
+    // registers (stores into spans_ could otherwise alias them).
+    std::size_t p = begin_;
+    long lines = 0;
+    const char* base = buffer_.data();
+    const std::size_t end = end_;
+    const bool eof = eof_;
+    spans_.clear();
+    std::size_t quoted_used = 0;
+    auto done = [&] {
+        record_end = p;
+        record_lines = lines;
+        return true;
+    };
+    for (;;) {
+        if (p < end && base[p] == '"') {
+            std::size_t q = p;  // a copy, so that p's address is never taken
+            long quoted_lines = lines;
+            if (!parse_quoted(q, quoted_lines, quoted_used)) return false;
+            p = q;
+            lines = quoted_lines;
+        } else {
+            const std::size_t start = p;
+            while (p < end && base[p] != ',' && base[p] != '\n' && base[p] != '\r') {
+                if (base[p] == '"')
+                    throw InputError(path_, next_line_, static_cast<long>(spans_.size() + 1), "",
+                                     "a quote inside an unquoted field (quote the whole field and double inner quotes)");
+                ++p;
+            }
+            if (p == end && !eof) return false;
+            spans_.emplace_back(start, p - start);
+        }
+        if (p == end) return eof && done();  // the last record of the file ends without a line break
+        const char c = base[p];
+        if (c == ',') {
+            ++p;
+            if (p == end && !eof) return false;
+            if (p == end) {  // trailing comma at end of file: one more empty field
+                spans_.emplace_back(p, 0);
+                return done();
+            }
+            continue;
+        }
+        if (c == '\r') {
+            if (p + 1 == end && !eof) return false;
+            ++p;
+            if (p < end && base[p] == '\n') ++p;
+        } else if (c == '\n') {
+            ++p;
+        } else {
+            throw InputError(path_, next_line_, static_cast<long>(spans_.size()), "",
+                             "unexpected character after a closing quote");
+        }
+        ++lines;
+        return done();
+    }
+}
+
+bool CsvReader::parse_quoted(std::size_t& p, long& lines, std::size_t& quoted_used) {
+    const char* base = buffer_.data();
+    saw_quote_ = true;
+    if (unquoted_.size() <= quoted_used) unquoted_.emplace_back();
+    std::string& out = unquoted_[quoted_used];
+    out.clear();
+    ++p;
+    while (p < end_) {
+        const char c = base[p];
+        if (c == '"') {
+            if (p + 1 < end_ && base[p + 1] == '"') {
+                out += '"';
+                p += 2;
+                continue;
+            }
+            if (p + 1 == end_ && !eof_) return false;  // need to see the next byte
+            ++p;
+            spans_.emplace_back(quoted_used++, SIZE_MAX);
+            return true;
+        }
+        // A line break inside quotes counts like one between records:
+        // CRLF once, LF or a lone CR once each.
+        if (c == '\r') {
+            if (p + 1 == end_ && !eof_) return false;  // need to see whether LF follows
+            if (p + 1 == end_ || base[p + 1] != '\n') ++lines;
+        } else if (c == '\n') {
+            ++lines;
+        }
+        out += c;
+        ++p;
+    }
+    if (eof_)
+        throw InputError(path_, next_line_, static_cast<long>(spans_.size() + 1), "",
+                         "a quoted field is never closed (missing \")");
+    return false;
 }
 
 long long next_record_start(const std::string& path, long long from, long long size) {

@@ -42,6 +42,13 @@ public:
 
 private:
     bool refill();
+    // Parses one whole record starting at buffer_[begin_] into spans_ (and
+    // unquoted_): sets record_end just past its line break and record_lines to
+    // the lines it spans; false when the buffer ends before the record does.
+    bool parse_record(std::size_t& record_end, long& record_lines);
+    // Parses the quoted field starting at buffer_[p] into unquoted_[quoted_used]
+    // and appends its span; false when the buffer ends inside it.
+    bool parse_quoted(std::size_t& p, long& lines, std::size_t& quoted_used);
     std::string path_;
     std::FILE* file_ = nullptr;
     std::vector<char> buffer_;

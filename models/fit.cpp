@@ -66,12 +66,8 @@ int highest_census(const Population& pop, std::uint32_t unit) {
     return highest;
 }
 
-}  // namespace
-
-GeneratorFit fit_generator(const Population& pop, const FitOptions& options) {
-    GeneratorFit fit;
-    GeneratorConfig& c = fit.config;
-    c.zone = options.zone;
+// The population's period, or the default period of its encounters.
+void fit_period(const Population& pop, GeneratorConfig& c) {
     c.period_start = pop.period_start;
     c.period_end = pop.period_end;
     if (c.period_start == 0 && c.period_end == 0) {
@@ -82,8 +78,11 @@ GeneratorFit fit_generator(const Population& pop, const FitOptions& options) {
         c.period_end = copy_period.period_end;
     }
     if (c.period_end <= c.period_start) throw std::invalid_argument("fit_generator: the population covers no period");
+}
 
-    // Arrivals: admissions per local hour of week / hours of that kind in the period.
+// Arrivals: admissions per local hour of week / hours of that kind in the period.
+void fit_arrivals(const Population& pop, const FitOptions& options, GeneratorFit& fit) {
+    GeneratorConfig& c = fit.config;
     std::vector<std::array<double, hours_per_week>> admissions(pop.units.size());
     for (const Encounter& e : pop.encounters) {
         if (e.admitted < c.period_start || e.admitted >= c.period_end) continue;
@@ -117,9 +116,12 @@ GeneratorFit fit_generator(const Population& pop, const FitOptions& options) {
     }
     fit.notes.push_back("arrival rates count admissions only; arrivals turned away when a unit was full are not in a log");
     fit.notes.push_back("beds = highest census seen in the log (a lower bound)");
+}
 
-    // Stays and outcome, on encounters admitted inside the period (those present at
-    // the start are a length-biased sample: longer stays are more often caught).
+// Stays and outcome, on encounters admitted inside the period (those present at
+// the start are a length-biased sample: longer stays are more often caught).
+void fit_stay_and_outcome(const Population& pop, const FitOptions& options, GeneratorFit& fit) {
+    GeneratorConfig& c = fit.config;
     std::vector<double> control_stays, case_times, case_fractions;
     for (const Encounter& e : pop.encounters) {
         if (e.admitted < c.period_start || e.admitted >= c.period_end) continue;
@@ -160,8 +162,12 @@ GeneratorFit fit_generator(const Population& pop, const FitOptions& options) {
         c.outcome.earliest_fraction = std::clamp(m - half_width, 0.0, 1.0);
         c.outcome.latest_fraction = std::clamp(m + half_width, c.outcome.earliest_fraction, 1.0);
     }
+}
 
-    // Cadence and missing scores from the gaps between consecutive scored_at.
+// Cadence and missing scores from the gaps between consecutive scored_at;
+// charting delay from available_at - scored_at.
+void fit_cadence_and_latency(const Population& pop, GeneratorFit& fit) {
+    GeneratorConfig& c = fit.config;
     std::vector<double> gaps_minutes, latencies_seconds;
     std::int64_t zero_latency = 0;
     for (std::size_t e = 0; e < pop.encounters.size(); ++e) {
@@ -198,8 +204,10 @@ GeneratorFit fit_generator(const Population& pop, const FitOptions& options) {
         c.scores.latency_median_minutes = 0.0;
         c.scores.latency_log_sd = 0.0;
     }
+}
 
-    // Score levels on controls: one-way random effects by moments.
+// Score levels on controls: one-way random effects by moments.
+void fit_score_levels(const Population& pop, const FitOptions& options, GeneratorConfig& c) {
     c.scores.scale = options.scale;
     std::vector<double> encounter_means, within_over_n;
     double within_ss = 0.0, within_df = 0.0;
@@ -218,10 +226,12 @@ GeneratorFit fit_generator(const Population& pop, const FitOptions& options) {
     c.scores.baseline = mean_of(encounter_means);
     c.scores.within_patient_sd = std::sqrt(within_var);
     c.scores.between_patient_sd = std::sqrt(std::max(0.0, variance_of(encounter_means) - within_var * mean_of(within_over_n)));
+}
 
-    // Pre-outcome rise: mean excess over the baseline by hour before time zero,
-    // then least squares over onset ranges [a, b] on a 1-hour grid (the size is
-    // linear given [a, b], so it is solved in closed form).
+// Pre-outcome rise: mean excess over the baseline by hour before time zero,
+// then least squares over onset ranges [a, b] on a 1-hour grid (the size is
+// linear given [a, b], so it is solved in closed form).
+void fit_drift(const Population& pop, const FitOptions& options, GeneratorConfig& c) {
     const int bins = std::max(1, static_cast<int>(options.drift_window_hours));
     std::vector<double> excess_sum(static_cast<std::size_t>(bins)), hours_sum(static_cast<std::size_t>(bins)),
         count(static_cast<std::size_t>(bins));
@@ -263,6 +273,19 @@ GeneratorFit fit_generator(const Population& pop, const FitOptions& options) {
     c.scores.drift_size = best_size;
     c.scores.drift_onset_min_hours = best_a;
     c.scores.drift_onset_max_hours = best_b;
+}
+
+}  // namespace
+
+GeneratorFit fit_generator(const Population& pop, const FitOptions& options) {
+    GeneratorFit fit;
+    fit.config.zone = options.zone;
+    fit_period(pop, fit.config);
+    fit_arrivals(pop, options, fit);
+    fit_stay_and_outcome(pop, options, fit);
+    fit_cadence_and_latency(pop, fit);
+    fit_score_levels(pop, options, fit.config);
+    fit_drift(pop, options, fit.config);
     if (fit.cases < 30) fit.notes.push_back("only " + std::to_string(fit.cases) + " cases: the pre-outcome rise is poorly determined");
     return fit;
 }

@@ -14,6 +14,7 @@
 
 #include "models/csv.hpp"
 #include "models/errors.hpp"
+#include "models/parallel.hpp"
 #include "models/text.hpp"
 
 namespace tocsin {
@@ -182,65 +183,43 @@ void parse_score_rows(CsvReader& reader, const ScoreColumns& c, const IdIndex& i
     out.lines = reader.lines_read();
 }
 
-// Reads the scores file. Large files are cut at line breaks into one chunk
-// per core and parsed in parallel; chunks are joined in file order, so the
-// result (and the first error reported) does not depend on the core count.
-void read_scores(const ReplaySource& source, const TimeZone& zone, const IdIndex& index, Exclusions& excluded,
-                 std::vector<Score>& scores, std::vector<std::uint32_t>& owner, ScoreColumns& columns) {
-    const std::string& path = source.scores_path;
-    std::vector<std::string_view> fields;
-    long long body = 0;  // offset of the first record after the header
-    bool header_quoted = false;
-    {
-        CsvReader reader(path);
-        if (!reader.next(fields)) throw InputError(path, 1, 0, "", "file is empty (expected a header)");
-        columns.col = header_columns(reader, fields, {"encounter", "scored_at", "available_at", "score"});
-        columns.width = fields.size();
-        body = reader.offset();
-        header_quoted = reader.saw_quote();
-    }
-    // Chunk boundaries just after a line break, found by the same rule the
-    // reader uses (LF, CRLF or a lone CR). A header with quotes is read by the
-    // plain path.
-    const long long size = static_cast<long long>(std::filesystem::file_size(path));
+// Chunk boundaries for the scores file's body [body, size): just after a line
+// break, found by the same rule the reader uses (LF, CRLF or a lone CR), one
+// chunk per core (at most 8) of at least parallel_chunk_bytes. A header with
+// quotes is read by the plain path (one chunk).
+std::vector<long long> score_chunk_cuts(const ReplaySource& source, long long body, long long size,
+                                        bool header_quoted) {
     std::vector<long long> cuts{body};
-    {
-        const unsigned cores = std::max(1u, std::min(8u, std::thread::hardware_concurrency()));
-        const long long chunk_min = std::max(1LL, source.parallel_chunk_bytes);
-        const long long chunks =
-            header_quoted ? 1 : std::min<long long>(cores, std::max(1LL, (size - body) / chunk_min));
-        for (long long k = 1; k < chunks; ++k) {
-            const long long cut = next_record_start(path, body + (size - body) * k / chunks, size);
-            if (cut > cuts.back() && cut < size) cuts.push_back(cut);
-        }
-        cuts.push_back(size);
+    const unsigned cores = std::max(1u, std::min(8u, std::thread::hardware_concurrency()));
+    const long long chunk_min = std::max(1LL, source.parallel_chunk_bytes);
+    const long long chunks = header_quoted ? 1 : std::min<long long>(cores, std::max(1LL, (size - body) / chunk_min));
+    for (long long k = 1; k < chunks; ++k) {
+        const long long cut = next_record_start(source.scores_path, body + (size - body) * k / chunks, size);
+        if (cut > cuts.back() && cut < size) cuts.push_back(cut);
     }
-    auto parse = [&](const std::vector<long long>& bounds) {
-        std::vector<ScoreChunk> chunks(bounds.size() - 1);
-        auto work = [&](std::size_t k) {
-            CsvReader reader(path, bounds[k], bounds[k + 1]);
-            // Reserve from the average row length so the arrays never regrow.
-            const auto expected = static_cast<std::size_t>((bounds[k + 1] - bounds[k]) / 40 + 16);
-            chunks[k].scores.reserve(expected);
-            chunks[k].owner.reserve(expected);
-            parse_score_rows(reader, columns, index, source, zone, chunks[k]);
-        };
-        if (chunks.size() == 1) {
-            work(0);
-        } else {
-            std::vector<std::thread> pool;
-            for (std::size_t k = 0; k < chunks.size(); ++k) pool.emplace_back(work, k);
-            for (auto& t : pool) t.join();
-        }
-        return chunks;
-    };
-    std::vector<ScoreChunk> chunks = parse(cuts);
-    // A cut inside a quoted field (a line break within quotes) would split a
-    // record: any quote before the last chunk sends the file down the plain path.
-    bool quoted = false;
-    for (std::size_t k = 0; k + 1 < chunks.size(); ++k) quoted = quoted || chunks[k].saw_quote;
-    if (quoted) chunks = parse({cuts.front(), cuts.back()});
+    cuts.push_back(size);
+    return cuts;
+}
 
+// Parses the chunks between consecutive `bounds`, one thread each.
+std::vector<ScoreChunk> parse_score_chunks(const ReplaySource& source, const TimeZone& zone, const IdIndex& index,
+                                           const ScoreColumns& columns, const std::vector<long long>& bounds) {
+    std::vector<ScoreChunk> chunks(bounds.size() - 1);
+    parallel_for(chunks.size(), static_cast<unsigned>(chunks.size()), [&](std::size_t k) {
+        CsvReader reader(source.scores_path, bounds[k], bounds[k + 1]);
+        // Reserve from the average row length so the arrays never regrow.
+        const auto expected = static_cast<std::size_t>((bounds[k + 1] - bounds[k]) / 40 + 16);
+        chunks[k].scores.reserve(expected);
+        chunks[k].owner.reserve(expected);
+        parse_score_rows(reader, columns, index, source, zone, chunks[k]);
+    });
+    return chunks;
+}
+
+// Joins the chunks in file order into `scores` and `owner`, with their notes
+// and skipped rows (lines made absolute); throws the first chunk's error.
+void join_score_chunks(std::vector<ScoreChunk>& chunks, Exclusions& excluded, std::vector<Score>& scores,
+                       std::vector<std::uint32_t>& owner) {
     long line_offset = 1;  // the header
     std::size_t total = 0;
     for (ScoreChunk& c : chunks) {
@@ -266,6 +245,34 @@ void read_scores(const ReplaySource& source, const TimeZone& zone, const IdIndex
         std::vector<Score>().swap(c.scores);
         std::vector<std::uint32_t>().swap(c.owner);
     }
+}
+
+// Reads the scores file. Large files are cut at line breaks into one chunk
+// per core and parsed in parallel; chunks are joined in file order, so the
+// result (and the first error reported) does not depend on the core count.
+void read_scores(const ReplaySource& source, const TimeZone& zone, const IdIndex& index, Exclusions& excluded,
+                 std::vector<Score>& scores, std::vector<std::uint32_t>& owner, ScoreColumns& columns) {
+    const std::string& path = source.scores_path;
+    long long body = 0;  // offset of the first record after the header
+    bool header_quoted = false;
+    {
+        std::vector<std::string_view> fields;
+        CsvReader reader(path);
+        if (!reader.next(fields)) throw InputError(path, 1, 0, "", "file is empty (expected a header)");
+        columns.col = header_columns(reader, fields, {"encounter", "scored_at", "available_at", "score"});
+        columns.width = fields.size();
+        body = reader.offset();
+        header_quoted = reader.saw_quote();
+    }
+    const long long size = static_cast<long long>(std::filesystem::file_size(path));
+    const std::vector<long long> cuts = score_chunk_cuts(source, body, size, header_quoted);
+    std::vector<ScoreChunk> chunks = parse_score_chunks(source, zone, index, columns, cuts);
+    // A cut inside a quoted field (a line break within quotes) would split a
+    // record: any quote before the last chunk sends the file down the plain path.
+    bool quoted = false;
+    for (std::size_t k = 0; k + 1 < chunks.size(); ++k) quoted = quoted || chunks[k].saw_quote;
+    if (quoted) chunks = parse_score_chunks(source, zone, index, columns, {cuts.front(), cuts.back()});
+    join_score_chunks(chunks, excluded, scores, owner);
 }
 
 using ScoreKey = std::pair<std::uint32_t, Instant>;  // encounter, scored_at
@@ -369,159 +376,187 @@ Instant quartile(std::vector<Instant>& v, double q) {
     return v[k];
 }
 
+// What reading the encounters file leaves for reading the scores and for
+// messages: the id index, the units in first-seen order, each kept
+// encounter's file line and the columns of the header.
+struct EncounterFile {
+    IdIndex index;
+    std::vector<std::string> unit_names;
+    std::unordered_map<std::string, std::uint32_t> unit_index;
+    std::vector<long> line;  // file line of each kept encounter
+    std::vector<std::size_t> col;
+};
+
+// The times of one encounter row, checked (stay, outcome).
+void parse_encounter_times(const RowContext& row, const std::vector<std::size_t>& col, const ReplaySource& source,
+                           Seconds max_stay, Encounter& e) {
+    const auto& fields = row.fields;
+    e.admitted = row.timestamp(col[2], "admitted");
+    e.discharged = row.timestamp(col[3], "discharged");
+    if (e.discharged <= e.admitted)
+        row.fail(col[3], "discharged", "discharged not after admitted",
+                 "discharged must be after admitted (" + std::string(fields[col[2]]) + ")");
+    if (e.discharged - e.admitted > max_stay)
+        row.fail(col[3], "discharged", "stay longer than max_stay_days",
+                 "a stay of " + format_number(static_cast<double>(e.discharged - e.admitted) / 86400.0) +
+                     " days is longer than max_stay_days (" + format_number(source.max_stay_days) + "; admitted " +
+                     std::string(fields[col[2]]) + "): a mistyped year?");
+    if (!fields[col[4]].empty()) {
+        Instant t0 = row.timestamp(col[4], "outcome_at");
+        if (t0 < e.admitted || t0 > e.discharged)
+            row.fail(col[4], "outcome_at", "outcome outside the stay",
+                     "outcome must lie within the stay (admitted to discharged)");
+        e.outcome_at = t0;
+    }
+}
+
+// One encounter row, checked and appended to pop.encounters, or throws RowProblem.
+void read_encounter_row(const RowContext& row, const ReplaySource& source, Seconds max_stay, Population& pop,
+                        EncounterFile& file) {
+    const auto& col = file.col;
+    const auto& fields = row.fields;
+    Encounter e;
+    if (fields[col[0]].empty()) row.fail(col[0], "encounter", "empty encounter id", "encounter id is empty");
+    row.text(col[0], "encounter");
+    if (fields[col[1]].empty()) row.fail(col[1], "unit", "empty unit", "unit is empty");
+    row.text(col[1], "unit");
+    e.id = std::string(fields[col[0]]);
+    if (auto seen = file.index.find(e.id); seen != file.index.end()) {
+        if (seen->second == skipped_encounter)
+            row.fail(col[0], "encounter", "repeated encounter id of a skipped row",
+                     "duplicate encounter id '" + e.id + "'");
+        row.fail(col[0], "encounter", "repeated encounter id (the first row is kept)",
+                 "duplicate encounter id '" + e.id + "' (first seen on line " +
+                     std::to_string(file.line[seen->second]) + ")");
+    }
+    try {
+        parse_encounter_times(row, col, source, max_stay, e);
+    } catch (const RowProblem&) {
+        // Its scores are then counted as belonging to a skipped row, not as unknown.
+        if (source.bad_rows == BadRows::skip) file.index.emplace(e.id, skipped_encounter);
+        throw;
+    }
+    std::string unit(fields[col[1]]);
+    auto [it, added] = file.unit_index.emplace(unit, static_cast<std::uint32_t>(file.unit_names.size()));
+    if (added) file.unit_names.push_back(unit);
+    e.unit = it->second;
+    file.index.emplace(e.id, static_cast<std::uint32_t>(pop.encounters.size()));
+    pop.encounters.push_back(std::move(e));
+    file.line.push_back(row.reader.line());
+}
+
+// Reads the encounters file into pop.encounters (units numbered in first-seen order).
+void read_encounters(const ReplaySource& source, const TimeZone& zone, Population& pop, EncounterFile& file) {
+    const std::string& enc_path = source.encounters_path;
+    std::vector<std::string_view> fields;
+    CsvReader reader(enc_path);
+    if (!reader.next(fields)) throw InputError(enc_path, 1, 0, "", "file is empty (expected a header)");
+    const long header_line = reader.line();
+    const std::vector<std::string_view> required = {"encounter", "unit", "admitted", "discharged", "outcome_at"};
+    file.col = header_columns(reader, fields, required);
+    const std::size_t width = fields.size();
+    const Seconds max_stay = static_cast<Seconds>(std::llround(source.max_stay_days * 86400.0));
+    bool any_row = false;
+    while (reader.next(fields)) {
+        if (blank(fields)) continue;
+        any_row = true;
+        RowContext row{reader, fields, zone, pop.excluded};
+        try {
+            row.width(width);
+            read_encounter_row(row, source, max_stay, pop, file);
+        } catch (const RowProblem& p) {
+            handle(p, source.bad_rows, pop.excluded.rows_skipped);
+        }
+    }
+    if (!any_row)
+        throw InputError(enc_path, header_line, 0, "", "no encounters: nothing to simulate (the file has a header and no rows)");
+    if (pop.encounters.empty())
+        throw InputError(enc_path, header_line, 0, "",
+                         "no encounters left after skipping bad rows (bad_rows: skip): nothing to simulate");
+}
+
+// Drops (or stops at) encounters admitted or discharged far outside the rest
+// of the log: a mistyped year that still gives a plausible stay (2062 for
+// 2026) lies far outside every other instant.
+void drop_far_out_encounters(const ReplaySource& source, Population& pop, EncounterFile& file) {
+    if (source.far_out_fence_iqr <= 0 || pop.encounters.size() < 4) return;
+    const std::string& enc_path = source.encounters_path;
+    std::vector<Instant> instants;
+    instants.reserve(2 * pop.encounters.size());
+    for (const Encounter& e : pop.encounters) {
+        instants.push_back(e.admitted);
+        instants.push_back(e.discharged);
+    }
+    const Instant q1 = quartile(instants, 0.25), q3 = quartile(instants, 0.75);
+    const double spread = std::max(static_cast<double>(q3 - q1), 30.0 * 86400.0) * source.far_out_fence_iqr;
+    const double low = static_cast<double>(q1) - spread, high = static_cast<double>(q3) + spread;
+    auto far = [&](Instant t) { return static_cast<double>(t) < low || static_cast<double>(t) > high; };
+    std::vector<char> drop(pop.encounters.size(), 0);
+    bool any = false;
+    for (std::size_t i = 0; i < pop.encounters.size(); ++i) {
+        const Encounter& e = pop.encounters[i];
+        if (!far(e.admitted) && !far(e.discharged)) continue;
+        const bool admitted = far(e.admitted);
+        const Instant t = admitted ? e.admitted : e.discharged;
+        const RowProblem p{"admission or discharge far outside the rest of the log",
+                           InputError(enc_path, file.line[i], static_cast<long>(file.col[admitted ? 2 : 3] + 1),
+                                      admitted ? "admitted" : "discharged",
+                                      format_utc(t) + " lies far outside the rest of the log (half of all admissions "
+                                      "and discharges lie between " + format_utc(q1) + " and " + format_utc(q3) +
+                                      "; the fence is " + format_number(source.far_out_fence_iqr) +
+                                      " interquartile ranges beyond): a mistyped year?")};
+        handle(p, source.bad_rows, pop.excluded.rows_skipped);
+        drop[i] = 1;
+        any = true;
+    }
+    if (!any) return;
+    std::size_t out = 0;
+    for (std::size_t i = 0; i < pop.encounters.size(); ++i) {
+        if (drop[i]) {
+            file.index[pop.encounters[i].id] = skipped_encounter;
+            continue;
+        }
+        file.index[pop.encounters[i].id] = static_cast<std::uint32_t>(out);
+        file.line[out] = file.line[i];
+        pop.encounters[out++] = std::move(pop.encounters[i]);
+    }
+    pop.encounters.resize(out);
+    file.line.resize(out);
+    if (pop.encounters.empty())
+        throw InputError(enc_path, 1, 0, "", "no encounters left after skipping bad rows (bad_rows: skip): nothing to simulate");
+}
+
+// Units are numbered in name order so that outputs do not depend on row
+// order; a unit whose every row was skipped does not appear.
+void number_units_by_name(Population& pop, const std::vector<std::string>& unit_names) {
+    std::vector<char> used(unit_names.size(), 0);
+    for (const Encounter& e : pop.encounters) used[e.unit] = 1;
+    std::vector<std::uint32_t> order;
+    for (std::uint32_t i = 0; i < unit_names.size(); ++i)
+        if (used[i]) order.push_back(i);
+    std::sort(order.begin(), order.end(), [&](auto a, auto b) { return unit_names[a] < unit_names[b]; });
+    std::vector<std::uint32_t> renumber(unit_names.size(), 0);
+    for (std::uint32_t k = 0; k < order.size(); ++k) {
+        renumber[order[k]] = k;
+        pop.units.push_back(unit_names[order[k]]);
+    }
+    for (Encounter& e : pop.encounters) e.unit = renumber[e.unit];
+}
+
 }  // namespace
 
 Population load_replay(const ReplaySource& source, const TimeZone& zone) {
     Population pop;
-    IdIndex index;
-    std::vector<std::string> unit_names;
-    std::unordered_map<std::string, std::uint32_t> unit_index;
-    std::vector<std::string_view> fields;
-    std::vector<long> encounter_line;  // file line of each kept encounter
-    const std::string& enc_path = source.encounters_path;
-    std::vector<std::size_t> col;
-
-    {
-        CsvReader reader(enc_path);
-        if (!reader.next(fields)) throw InputError(enc_path, 1, 0, "", "file is empty (expected a header)");
-        const long header_line = reader.line();
-        const std::vector<std::string_view> required = {"encounter", "unit", "admitted", "discharged", "outcome_at"};
-        col = header_columns(reader, fields, required);
-        const std::size_t width = fields.size();
-        const Seconds max_stay = static_cast<Seconds>(std::llround(source.max_stay_days * 86400.0));
-        bool any_row = false;
-        while (reader.next(fields)) {
-            if (blank(fields)) continue;
-            any_row = true;
-            RowContext row{reader, fields, zone, pop.excluded};
-            try {
-                row.width(width);
-                Encounter e;
-                if (fields[col[0]].empty()) row.fail(col[0], "encounter", "empty encounter id", "encounter id is empty");
-                row.text(col[0], "encounter");
-                if (fields[col[1]].empty()) row.fail(col[1], "unit", "empty unit", "unit is empty");
-                row.text(col[1], "unit");
-                e.id = std::string(fields[col[0]]);
-                if (auto seen = index.find(e.id); seen != index.end()) {
-                    if (seen->second == skipped_encounter)
-                        row.fail(col[0], "encounter", "repeated encounter id of a skipped row",
-                                 "duplicate encounter id '" + e.id + "'");
-                    row.fail(col[0], "encounter", "repeated encounter id (the first row is kept)",
-                             "duplicate encounter id '" + e.id + "' (first seen on line " +
-                                 std::to_string(encounter_line[seen->second]) + ")");
-                }
-                try {
-                    e.admitted = row.timestamp(col[2], "admitted");
-                    e.discharged = row.timestamp(col[3], "discharged");
-                    if (e.discharged <= e.admitted)
-                        row.fail(col[3], "discharged", "discharged not after admitted",
-                                 "discharged must be after admitted (" + std::string(fields[col[2]]) + ")");
-                    if (e.discharged - e.admitted > max_stay)
-                        row.fail(col[3], "discharged", "stay longer than max_stay_days",
-                                 "a stay of " + format_number(static_cast<double>(e.discharged - e.admitted) / 86400.0) +
-                                     " days is longer than max_stay_days (" + format_number(source.max_stay_days) +
-                                     "; admitted " + std::string(fields[col[2]]) + "): a mistyped year?");
-                    if (!fields[col[4]].empty()) {
-                        Instant t0 = row.timestamp(col[4], "outcome_at");
-                        if (t0 < e.admitted || t0 > e.discharged)
-                            row.fail(col[4], "outcome_at", "outcome outside the stay",
-                                     "outcome must lie within the stay (admitted to discharged)");
-                        e.outcome_at = t0;
-                    }
-                } catch (const RowProblem&) {
-                    // Its scores are then counted as belonging to a skipped row, not as unknown.
-                    if (source.bad_rows == BadRows::skip) index.emplace(e.id, skipped_encounter);
-                    throw;
-                }
-                std::string unit(fields[col[1]]);
-                auto [it, added] = unit_index.emplace(unit, static_cast<std::uint32_t>(unit_names.size()));
-                if (added) unit_names.push_back(unit);
-                e.unit = it->second;
-                index.emplace(e.id, static_cast<std::uint32_t>(pop.encounters.size()));
-                pop.encounters.push_back(std::move(e));
-                encounter_line.push_back(reader.line());
-            } catch (const RowProblem& p) {
-                handle(p, source.bad_rows, pop.excluded.rows_skipped);
-            }
-        }
-        if (!any_row)
-            throw InputError(enc_path, header_line, 0, "",
-                             "no encounters: nothing to simulate (the file has a header and no rows)");
-        if (pop.encounters.empty())
-            throw InputError(enc_path, header_line, 0, "",
-                             "no encounters left after skipping bad rows (bad_rows: skip): nothing to simulate");
-    }
-    // A mistyped year that still gives a plausible stay (2062 for 2026) lies
-    // far outside every other instant of the log.
-    if (source.far_out_fence_iqr > 0 && pop.encounters.size() >= 4) {
-        std::vector<Instant> instants;
-        instants.reserve(2 * pop.encounters.size());
-        for (const Encounter& e : pop.encounters) {
-            instants.push_back(e.admitted);
-            instants.push_back(e.discharged);
-        }
-        const Instant q1 = quartile(instants, 0.25), q3 = quartile(instants, 0.75);
-        const double spread = std::max(static_cast<double>(q3 - q1), 30.0 * 86400.0) * source.far_out_fence_iqr;
-        const double low = static_cast<double>(q1) - spread, high = static_cast<double>(q3) + spread;
-        auto far = [&](Instant t) { return static_cast<double>(t) < low || static_cast<double>(t) > high; };
-        std::vector<char> drop(pop.encounters.size(), 0);
-        bool any = false;
-        for (std::size_t i = 0; i < pop.encounters.size(); ++i) {
-            const Encounter& e = pop.encounters[i];
-            if (!far(e.admitted) && !far(e.discharged)) continue;
-            const bool admitted = far(e.admitted);
-            const Instant t = admitted ? e.admitted : e.discharged;
-            const RowProblem p{"admission or discharge far outside the rest of the log",
-                               InputError(enc_path, encounter_line[i], static_cast<long>(col[admitted ? 2 : 3] + 1),
-                                          admitted ? "admitted" : "discharged",
-                                          format_utc(t) + " lies far outside the rest of the log (half of all admissions "
-                                          "and discharges lie between " + format_utc(q1) + " and " + format_utc(q3) +
-                                          "; the fence is " + format_number(source.far_out_fence_iqr) +
-                                          " interquartile ranges beyond): a mistyped year?")};
-            handle(p, source.bad_rows, pop.excluded.rows_skipped);
-            drop[i] = 1;
-            any = true;
-        }
-        if (any) {
-            std::size_t out = 0;
-            for (std::size_t i = 0; i < pop.encounters.size(); ++i) {
-                if (drop[i]) {
-                    index[pop.encounters[i].id] = skipped_encounter;
-                    continue;
-                }
-                index[pop.encounters[i].id] = static_cast<std::uint32_t>(out);
-                encounter_line[out] = encounter_line[i];
-                pop.encounters[out++] = std::move(pop.encounters[i]);
-            }
-            pop.encounters.resize(out);
-            encounter_line.resize(out);
-            if (pop.encounters.empty())
-                throw InputError(enc_path, 1, 0, "", "no encounters left after skipping bad rows (bad_rows: skip): nothing to simulate");
-        }
-    }
-    // Units are numbered in name order so that outputs do not depend on row
-    // order; a unit whose every row was skipped does not appear.
-    {
-        std::vector<char> used(unit_names.size(), 0);
-        for (const Encounter& e : pop.encounters) used[e.unit] = 1;
-        std::vector<std::uint32_t> order;
-        for (std::uint32_t i = 0; i < unit_names.size(); ++i)
-            if (used[i]) order.push_back(i);
-        std::sort(order.begin(), order.end(), [&](auto a, auto b) { return unit_names[a] < unit_names[b]; });
-        std::vector<std::uint32_t> renumber(unit_names.size(), 0);
-        for (std::uint32_t k = 0; k < order.size(); ++k) {
-            renumber[order[k]] = k;
-            pop.units.push_back(unit_names[order[k]]);
-        }
-        for (Encounter& e : pop.encounters) e.unit = renumber[e.unit];
-    }
-
+    EncounterFile file;
+    read_encounters(source, zone, pop, file);
+    drop_far_out_encounters(source, pop, file);
+    number_units_by_name(pop, file.unit_names);
     std::vector<Score> scores;
     std::vector<std::uint32_t> owner;
     ScoreColumns columns;
-    read_scores(source, zone, index, pop.excluded, scores, owner, columns);
+    read_scores(source, zone, file.index, pop.excluded, scores, owner, columns);
     group_scores_by_encounter(pop, scores, owner);
-    resolve_repeated_scores(pop, source, zone, index, columns);
+    resolve_repeated_scores(pop, source, zone, file.index, columns);
     apply_score_exclusions(pop);
     default_period(pop);
     return pop;

@@ -73,110 +73,120 @@ void validate(const ShiftStress& s, const Population& pop) {
     }
 }
 
-Population apply_shift(const Population& pop, const ShiftStress& stress, std::uint64_t seed,
-                       std::uint64_t replication) {
-    validate(stress, pop);
-    std::vector<bool> affected(pop.units.size(), stress.units.empty());
-    for (const std::string& u : stress.units) affected[static_cast<std::size_t>(unit_index(pop, u, "units"))] = true;
-    auto uniform = [](RandomEngine& e) { return boost::random::uniform_01<double>()(e); };
-    auto pick = [](RandomEngine& e, const std::vector<std::size_t>& from) {
-        return from[static_cast<std::size_t>(
-            boost::random::uniform_int_distribution<std::size_t>(0, from.size() - 1)(e))];
-    };
+namespace {
 
-    // Donor stays per unit: cases and controls admitted inside the period.
-    std::vector<std::vector<std::size_t>> cases(pop.units.size()), controls(pop.units.size()), all(pop.units.size());
+double uniform(RandomEngine& e) { return boost::random::uniform_01<double>()(e); }
+
+std::size_t pick(RandomEngine& e, const std::vector<std::size_t>& from) {
+    return from[static_cast<std::size_t>(boost::random::uniform_int_distribution<std::size_t>(0, from.size() - 1)(e))];
+}
+
+// Donor stays per unit: cases and controls admitted inside the period.
+struct Donors {
+    std::vector<std::vector<std::size_t>> cases, controls, all;
+};
+
+Donors donors_by_unit(const Population& pop) {
+    Donors d{std::vector<std::vector<std::size_t>>(pop.units.size()),
+             std::vector<std::vector<std::size_t>>(pop.units.size()),
+             std::vector<std::vector<std::size_t>>(pop.units.size())};
     for (std::size_t e = 0; e < pop.encounters.size(); ++e) {
         const Encounter& enc = pop.encounters[e];
         if (enc.admitted < pop.period_start) continue;
-        (enc.outcome_at ? cases : controls)[enc.unit].push_back(e);
-        all[enc.unit].push_back(e);
+        (enc.outcome_at ? d.cases : d.controls)[enc.unit].push_back(e);
+        d.all[enc.unit].push_back(e);
     }
+    return d;
+}
 
-    Population out;
-    out.units = pop.units;
-    out.period_start = pop.period_start;
-    out.period_end = pop.period_end;
-    out.excluded = pop.excluded;
+// What apply_shift works on: the stress, its streams, the donors, and the
+// stays and exclusions of the population it builds.
+struct ShiftWork {
+    const Population& pop;
+    const ShiftStress& stress;
+    std::uint64_t seed;
+    std::uint64_t replication;
+    std::vector<bool> affected;  // per unit
+    Donors donors;
     std::vector<Stay> stays;
-    stays.reserve(pop.encounters.size());
-    for (std::size_t e = 0; e < pop.encounters.size(); ++e) {
-        Stay s{pop.encounters[e], {}};
-        auto sc = pop.scores_of(e);
-        s.scores.assign(sc.begin(), sc.end());
-        stays.push_back(std::move(s));
-    }
+    Exclusions& excluded;
+};
 
-    // A raised census: extra admissions following each admission after `from`.
-    for (const auto& [name, multiplier] : stress.census_multiplier) {
+// A raised census: extra admissions following each admission after `from`.
+void raise_census(ShiftWork& w) {
+    const Population& pop = w.pop;
+    for (const auto& [name, multiplier] : w.stress.census_multiplier) {
         const auto u = static_cast<std::uint32_t>(unit_index(pop, name, "census_multiplier"));
-        if (all[u].empty()) continue;
+        if (w.donors.all[u].empty()) continue;
         std::int64_t extra = 0;
         for (std::size_t e = 0; e < pop.encounters.size(); ++e) {
             const Encounter& trigger = pop.encounters[e];
-            if (trigger.unit != u || trigger.admitted < stress.from) continue;
+            if (trigger.unit != u || trigger.admitted < w.stress.from) continue;
             RandomEngine engine =
-                make_stream(seed, replication, StreamPurpose::shift, text_entity(trigger.id + "#census"));
+                make_stream(w.seed, w.replication, StreamPurpose::shift, text_entity(trigger.id + "#census"));
             const double wanted = multiplier - 1.0;
             const int copies = static_cast<int>(std::floor(wanted)) + (uniform(engine) < wanted - std::floor(wanted) ? 1 : 0);
             for (int k = 0; k < copies; ++k) {
-                const std::size_t donor = pick(engine, all[u]);
+                const std::size_t donor = pick(engine, w.donors.all[u]);
                 const auto offset = static_cast<Seconds>((2.0 * uniform(engine) - 1.0) * 1800.0);
-                const Instant at = std::clamp<Instant>(trigger.admitted + offset, stress.from, pop.period_end - 1);
-                stays.push_back(moved_copy(pop, donor, at, trigger.id + "+extra" + std::to_string(k + 1), u));
+                const Instant at = std::clamp<Instant>(trigger.admitted + offset, w.stress.from, pop.period_end - 1);
+                w.stays.push_back(moved_copy(pop, donor, at, trigger.id + "+extra" + std::to_string(k + 1), u));
                 ++extra;
             }
         }
-        if (extra) out.excluded.notes["shift: extra admissions (census raised): " + name] += extra;
+        if (extra) w.excluded.notes["shift: extra admissions (census raised): " + name] += extra;
     }
+}
 
-    // Outcome mix among admissions at or after `from`, unit by unit.
-    if (stress.outcome_rate_multiplier != 1.0) {
-        std::int64_t replaced = 0;
-        for (std::uint32_t u = 0; u < pop.units.size(); ++u) {
-            if (!affected[u]) continue;
-            double n = 0, n_cases = 0;
-            for (const Stay& s : stays)
-                if (s.encounter.unit == u && s.encounter.admitted >= stress.from) {
-                    n += 1;
-                    n_cases += s.encounter.outcome_at ? 1 : 0;
-                }
-            if (n == 0) continue;
-            const double p = n_cases / n, target = std::min(1.0, stress.outcome_rate_multiplier * p);
-            const bool raise = target > p;
-            const std::vector<std::size_t>& donors = raise ? cases[u] : controls[u];
-            if (donors.empty() || p == 0.0 || p == 1.0) {
-                out.excluded.notes["shift: outcome rate unchanged, no donor stays on unit: " + pop.units[u]] += 1;
-                continue;
-            }
-            const double replace_probability = raise ? (target - p) / (1.0 - p) : (p - target) / p;
-            for (Stay& s : stays) {
-                const Encounter& enc = s.encounter;
-                if (enc.unit != u || enc.admitted < stress.from || enc.outcome_at.has_value() == raise) continue;
-                RandomEngine engine = make_stream(seed, replication, StreamPurpose::shift, text_entity(enc.id + "#mix"));
-                const double u_replace = uniform(engine);
-                const std::size_t donor = pick(engine, donors);
-                if (u_replace >= replace_probability) continue;
-                s = moved_copy(pop, donor, enc.admitted, enc.id + "~mix", u);
-                ++replaced;
-            }
+// Outcome mix among admissions at or after `from` on unit u: stays replaced
+// by moved copies of donor cases (raising the rate) or controls (lowering it).
+std::int64_t change_outcome_mix(ShiftWork& w, std::uint32_t u) {
+    const ShiftStress& stress = w.stress;
+    double n = 0, n_cases = 0;
+    for (const Stay& s : w.stays)
+        if (s.encounter.unit == u && s.encounter.admitted >= stress.from) {
+            n += 1;
+            n_cases += s.encounter.outcome_at ? 1 : 0;
         }
-        if (replaced) out.excluded.notes["shift: stays replaced to change the outcome rate"] += replaced;
+    if (n == 0) return 0;
+    const double p = n_cases / n, target = std::min(1.0, stress.outcome_rate_multiplier * p);
+    const bool raise = target > p;
+    const std::vector<std::size_t>& donors = raise ? w.donors.cases[u] : w.donors.controls[u];
+    if (donors.empty() || p == 0.0 || p == 1.0) {
+        w.excluded.notes["shift: outcome rate unchanged, no donor stays on unit: " + w.pop.units[u]] += 1;
+        return 0;
     }
+    const double replace_probability = raise ? (target - p) / (1.0 - p) : (p - target) / p;
+    std::int64_t replaced = 0;
+    for (Stay& s : w.stays) {
+        const Encounter& enc = s.encounter;
+        if (enc.unit != u || enc.admitted < stress.from || enc.outcome_at.has_value() == raise) continue;
+        RandomEngine engine = make_stream(w.seed, w.replication, StreamPurpose::shift, text_entity(enc.id + "#mix"));
+        const double u_replace = uniform(engine);
+        const std::size_t donor = pick(engine, donors);
+        if (u_replace >= replace_probability) continue;
+        s = moved_copy(w.pop, donor, enc.admitted, enc.id + "~mix", u);
+        ++replaced;
+    }
+    return replaced;
+}
 
-    // Scores from `from` on: value change, thinned cadence, outage.
+// Scores from `from` on: value change, thinned cadence, outage. Moves the
+// stays (by unit, then admission) into `out` with their kept scores.
+void shift_scores(ShiftWork& w, Population& out) {
+    const ShiftStress& stress = w.stress;
     const Instant outage_end = stress.outage_start + static_cast<Seconds>(std::llround(stress.outage_hours * 3600.0));
     const Seconds window = static_cast<Seconds>(std::llround(stress.cadence_minutes * 60.0));
     std::int64_t outage_lost = 0, thinned = 0;
     std::vector<Score> scores;
     std::vector<std::uint32_t> owner;
-    std::stable_sort(stays.begin(), stays.end(), [](const Stay& a, const Stay& b) {
+    std::stable_sort(w.stays.begin(), w.stays.end(), [](const Stay& a, const Stay& b) {
         return a.encounter.unit != b.encounter.unit ? a.encounter.unit < b.encounter.unit
                                                     : a.encounter.admitted < b.encounter.admitted;
     });
-    for (Stay& s : stays) {
+    for (Stay& s : w.stays) {
         const auto index = static_cast<std::uint32_t>(out.encounters.size());
-        const bool on_affected = affected[s.encounter.unit];
+        const bool on_affected = w.affected[s.encounter.unit];
         std::vector<Score> by_time = s.scores;  // cadence windows follow the clinical clock
         std::stable_sort(by_time.begin(), by_time.end(),
                          [](const Score& a, const Score& b) { return a.scored_at < b.scored_at; });
@@ -188,12 +198,12 @@ Population apply_shift(const Population& pop, const ShiftStress& stress, std::ui
             }
             if (on_affected && sc.scored_at >= stress.from) {
                 if (window > 0) {
-                    const Instant w = (sc.scored_at - stress.from) / window;
-                    if (w == last_window) {
+                    const Instant win = (sc.scored_at - stress.from) / window;
+                    if (win == last_window) {
                         ++thinned;
                         continue;
                     }
-                    last_window = w;
+                    last_window = win;
                 }
                 if (stress.score_scale != 1.0 || stress.score_offset != 0.0)
                     sc.value = from_latent(to_latent(sc.value, stress.scale) * stress.score_scale + stress.score_offset,
@@ -210,6 +220,36 @@ Population apply_shift(const Population& pop, const ShiftStress& stress, std::ui
         out.excluded.notes["shift: cadence unchanged, scores were already this far apart; generate with a faster "
                            "cadence to score more often"] += 1;
     group_scores_by_encounter(out, scores, owner);
+}
+
+}  // namespace
+
+Population apply_shift(const Population& pop, const ShiftStress& stress, std::uint64_t seed,
+                       std::uint64_t replication) {
+    validate(stress, pop);
+    Population out;
+    out.units = pop.units;
+    out.period_start = pop.period_start;
+    out.period_end = pop.period_end;
+    out.excluded = pop.excluded;
+    ShiftWork w{pop, stress, seed, replication, std::vector<bool>(pop.units.size(), stress.units.empty()),
+                donors_by_unit(pop), {}, out.excluded};
+    for (const std::string& u : stress.units) w.affected[static_cast<std::size_t>(unit_index(pop, u, "units"))] = true;
+    w.stays.reserve(pop.encounters.size());
+    for (std::size_t e = 0; e < pop.encounters.size(); ++e) {
+        Stay s{pop.encounters[e], {}};
+        auto sc = pop.scores_of(e);
+        s.scores.assign(sc.begin(), sc.end());
+        w.stays.push_back(std::move(s));
+    }
+    raise_census(w);
+    if (stress.outcome_rate_multiplier != 1.0) {
+        std::int64_t replaced = 0;
+        for (std::uint32_t u = 0; u < pop.units.size(); ++u)
+            if (w.affected[u]) replaced += change_outcome_mix(w, u);
+        if (replaced) out.excluded.notes["shift: stays replaced to change the outcome rate"] += replaced;
+    }
+    shift_scores(w, out);
     return out;
 }
 

@@ -1,10 +1,9 @@
 #include "sim/simulate.hpp"
 
 #include <algorithm>
-#include <atomic>
 #include <stdexcept>
-#include <thread>
 
+#include "models/parallel.hpp"
 #include "sim/channels.hpp"
 
 namespace tocsin {
@@ -21,111 +20,137 @@ ShiftCalendar calendar_for(const SimulationSetup& setup, const Population& popul
     return ShiftCalendar(setup.shifts, setup.zone, from, to + 1);
 }
 
+namespace {
+
+// What the per-encounter plans (page, chart interruption) gave on one block of
+// encounters: per plan, the notices in encounter order and the occasions.
+struct EncounterBlock {
+    std::vector<std::vector<Notice>> notices;
+    std::vector<std::int64_t> occasions;
+};
+
+bool has_chart_plan(const SimulationSetup& setup) {
+    return std::any_of(setup.plans.begin(), setup.plans.end(),
+                       [](const Plan& p) { return p.channel == Channel::chart_interruption; });
+}
+
+// Every per-encounter plan over encounters [first, last): all plans for one
+// encounter while its scores are in cache. Handoff lists and ranked reviews
+// share their instants across patients: they run as sweeps over the current
+// inpatients (run_round_channel).
+void fire_encounter_plans(const SimulationSetup& setup, const Population& population, const RuleClock& clock,
+                          const ChartOpeningLog* replayed_openings, std::uint64_t replication, std::size_t first,
+                          std::size_t last, EncounterBlock& out) {
+    const std::size_t n_plans = setup.plans.size();
+    out.notices.assign(n_plans, {});
+    out.occasions.assign(n_plans, 0);
+    const bool any_chart = has_chart_plan(setup);
+    EncounterOpenings openings;
+    for (std::size_t e = first; e < last; ++e) {
+        const auto scores = population.scores_of(e);
+        if (scores.empty() && !any_chart) continue;
+        const auto enc = static_cast<std::uint32_t>(e);
+        const std::uint32_t unit = population.encounters[e].unit;
+        // Openings are drawn once per encounter and shared by every chart plan.
+        if (any_chart) openings_for_encounter(setup, population, replayed_openings, e, replication, openings);
+        for (std::size_t p = 0; p < n_plans; ++p) {
+            const Plan& plan = setup.plans[p];
+            const auto pi = static_cast<std::uint32_t>(p);
+            if (plan.channel == Channel::page) {
+                fire_page_rule(plan.rule, clock, scores, enc, unit, pi, plan.channel, out.notices[p]);
+                out.occasions[p] += static_cast<std::int64_t>(scores.size());
+            } else if (plan.channel == Channel::chart_interruption) {
+                out.occasions[p] += fire_chart_rule(plan, clock, scores, openings, enc, unit, pi, out.notices[p]);
+            }
+        }
+    }
+}
+
+// Plan p's notices from every block, concatenated in block order (so in
+// encounter order) and then put in time order; the blocks' notices are freed.
+void join_blocks(std::vector<EncounterBlock>& blocks, std::size_t p, PlanRecord& out) {
+    std::size_t total = 0;
+    for (const EncounterBlock& b : blocks) {
+        total += b.notices[p].size();
+        out.occasions += b.occasions[p];
+    }
+    out.notices.reserve(total);
+    for (EncounterBlock& b : blocks) {
+        out.notices.insert(out.notices.end(), b.notices[p].begin(), b.notices[p].end());
+        std::vector<Notice>().swap(b.notices[p]);
+    }
+    std::stable_sort(out.notices.begin(), out.notices.end(),
+                     [](const Notice& a, const Notice& b) { return a.at < b.at; });
+}
+
+// One plan's staff. Only notices that ask for a bedside evaluation become
+// tasks (an interruption that is dismissed, a flag nobody follows up, do not);
+// TaskRecord::notice is mapped back to the index among all the plan's notices.
+StaffRun staff_for_plan(const std::vector<Notice>& notices, const StaffModel& model, const StaffPlan& staffing,
+                        const ShiftCalendar& calendar, ReplicationSeed draws) {
+    std::vector<Notice> asked;
+    std::vector<std::uint32_t> original;
+    for (std::uint32_t i = 0; i < notices.size(); ++i)
+        if (notices[i].asks_evaluation) {
+            asked.push_back(notices[i]);
+            original.push_back(i);
+        }
+    StaffRun run = simulate_staff(asked, model, staffing, calendar, calendar.shifts().back().end, draws);
+    for (TaskRecord& t : run.tasks) t.notice = original[t.notice];
+    return run;
+}
+
+// Each plan has a staff of its own: plans are alternatives, not rivals for the
+// same nurses. Plans are independent here, so they run side by side with
+// identical results, busiest first, each taken by the next free thread.
+void run_staff(const SimulationSetup& setup, const Population& population, const ShiftCalendar& calendar,
+               std::uint64_t replication, unsigned threads, ReplicationRecord& record) {
+    const std::size_t n_plans = setup.plans.size();
+    const StaffModel model = staff_model(setup, static_cast<std::uint32_t>(population.units.size()));
+    std::vector<std::size_t> order(n_plans);
+    for (std::size_t p = 0; p < n_plans; ++p) order[p] = p;
+    std::stable_sort(order.begin(), order.end(), [&](std::size_t a, std::size_t b) {
+        return record.plans[a].notices.size() > record.plans[b].notices.size();
+    });
+    parallel_for(n_plans, threads, [&](std::size_t k) {
+        const std::size_t p = order[k];
+        record.plans[p].staff = staff_for_plan(record.plans[p].notices, model, setup.plans[p].staffing, calendar,
+                                               ReplicationSeed{setup.seed, replication});
+    });
+}
+
+}  // namespace
+
 ReplicationRecord simulate_replication(const SimulationSetup& setup, const Population& population,
                                        const ShiftCalendar& calendar, std::uint64_t replication, unsigned threads,
                                        const ChartOpeningLog* replayed_openings) {
     const std::size_t n_plans = setup.plans.size();
     const std::size_t n_enc = population.encounters.size();
-    threads = std::max(1u, std::min<unsigned>(threads, static_cast<unsigned>(std::max<std::size_t>(1, n_enc / 1024))));
-    // blocks[b][plan]: notices of encounters in block b, in encounter order.
-    std::vector<std::vector<std::vector<Notice>>> blocks(threads, std::vector<std::vector<Notice>>(n_plans));
-    const RuleClock clock{&setup.zone, &calendar};
-    std::vector<std::vector<std::int64_t>> occasions(threads, std::vector<std::int64_t>(n_plans, 0));
-    const bool any_chart = std::any_of(setup.plans.begin(), setup.plans.end(),
-                                       [](const Plan& p) { return p.channel == Channel::chart_interruption; });
-    if (any_chart && setup.chart_openings && !setup.chart_openings->replay_path.empty() && !replayed_openings)
+    if (has_chart_plan(setup) && setup.chart_openings && !setup.chart_openings->replay_path.empty() &&
+        !replayed_openings)
         throw std::logic_error("the scenario replays chart openings but none were passed to the simulation");
-    auto work = [&](unsigned b) {
-        const std::size_t first = n_enc * b / threads, last = n_enc * (b + 1) / threads;
-        EncounterOpenings openings;
-        for (std::size_t e = first; e < last; ++e) {
-            const auto scores = population.scores_of(e);
-            if (scores.empty() && !any_chart) continue;
-            const auto enc = static_cast<std::uint32_t>(e);
-            const std::uint32_t unit = population.encounters[e].unit;
-            // Openings are drawn once per encounter and shared by every chart plan.
-            if (any_chart) openings_for_encounter(setup, population, replayed_openings, e, replication, openings);
-            // All plans for one encounter while its scores are in cache.
-            for (std::size_t p = 0; p < n_plans; ++p) {
-                const Plan& plan = setup.plans[p];
-                const auto pi = static_cast<std::uint32_t>(p);
-                if (plan.channel == Channel::page) {
-                    fire_page_rule(plan.rule, clock, scores, enc, unit, pi, plan.channel, blocks[b][p]);
-                    occasions[b][p] += static_cast<std::int64_t>(scores.size());
-                } else if (plan.channel == Channel::chart_interruption) {
-                    occasions[b][p] += fire_chart_rule(plan, clock, scores, openings, enc, unit, pi, blocks[b][p]);
-                }
-                // Handoff lists and ranked reviews share their instants across
-                // patients: they run below as sweeps over the current inpatients.
-            }
-        }
-    };
-    if (threads == 1) {
-        work(0);
-    } else {
-        std::vector<std::thread> pool;
-        for (unsigned b = 0; b < threads; ++b) pool.emplace_back(work, b);
-        for (auto& t : pool) t.join();
-    }
+    // Contiguous blocks of encounters, one per thread, joined in block order:
+    // the record is identical whatever the thread count.
+    const unsigned n_blocks =
+        std::max(1u, std::min<unsigned>(threads, static_cast<unsigned>(std::max<std::size_t>(1, n_enc / 1024))));
+    std::vector<EncounterBlock> blocks(n_blocks);
+    const RuleClock clock{&setup.zone, &calendar};
+    parallel_for(n_blocks, n_blocks, [&](std::size_t b) {
+        fire_encounter_plans(setup, population, clock, replayed_openings, replication, n_enc * b / n_blocks,
+                             n_enc * (b + 1) / n_blocks, blocks[b]);
+    });
     ReplicationRecord record;
     record.replication = replication;
     record.plans.resize(n_plans);
     for (std::size_t p = 0; p < n_plans; ++p) {
-        auto& out = record.plans[p].notices;
         const Plan& plan = setup.plans[p];
-        if (plan.channel == Channel::handoff_list || plan.channel == Channel::ranked_review) {
-            record.plans[p] = run_round_channel(setup, population, calendar, plan, static_cast<std::uint32_t>(p),
-                                                replication);
-            continue;
-        }
-        std::size_t total = 0;
-        for (unsigned b = 0; b < threads; ++b) {
-            total += blocks[b][p].size();
-            record.plans[p].occasions += occasions[b][p];
-        }
-        out.reserve(total);
-        for (unsigned b = 0; b < threads; ++b) {
-            out.insert(out.end(), blocks[b][p].begin(), blocks[b][p].end());
-            std::vector<Notice>().swap(blocks[b][p]);
-        }
-        std::stable_sort(out.begin(), out.end(), [](const Notice& a, const Notice& b) { return a.at < b.at; });
+        if (plan.channel == Channel::handoff_list || plan.channel == Channel::ranked_review)
+            record.plans[p] =
+                run_round_channel(setup, population, calendar, plan, static_cast<std::uint32_t>(p), replication);
+        else
+            join_blocks(blocks, p, record.plans[p]);
     }
-    if (setup.has_staff()) {
-        // Each plan has a staff of its own: plans are alternatives, not rivals for the same nurses.
-        // Plans are independent here, so they can run side by side with identical results.
-        const StaffModel model = staff_model(setup, static_cast<std::uint32_t>(population.units.size()));
-        // Busiest plans first, each taken by the next free worker.
-        std::vector<std::size_t> order(n_plans);
-        for (std::size_t p = 0; p < n_plans; ++p) order[p] = p;
-        std::stable_sort(order.begin(), order.end(), [&](std::size_t a, std::size_t b) {
-            return record.plans[a].notices.size() > record.plans[b].notices.size();
-        });
-        std::atomic<std::size_t> next{0};
-        auto staff_plans = [&] {
-            for (std::size_t k = next++; k < n_plans; k = next++) {
-                const std::size_t p = order[k];
-                // Only notices that ask for a bedside evaluation become tasks (an
-                // interruption that is dismissed, a flag nobody follows up, do not).
-                const auto& notices = record.plans[p].notices;
-                std::vector<Notice> asked;
-                std::vector<std::uint32_t> original;
-                for (std::uint32_t i = 0; i < notices.size(); ++i)
-                    if (notices[i].asks_evaluation) {
-                        asked.push_back(notices[i]);
-                        original.push_back(i);
-                    }
-                StaffRun run = simulate_staff(asked, model, setup.plans[p].staffing, calendar,
-                                              calendar.shifts().back().end, ReplicationSeed{setup.seed, replication});
-                for (TaskRecord& t : run.tasks) t.notice = original[t.notice];
-                record.plans[p].staff = std::move(run);
-            }
-        };
-        const std::size_t workers = std::min<std::size_t>(std::max(1u, threads), n_plans);
-        std::vector<std::thread> pool;
-        for (std::size_t w = 1; w < workers; ++w) pool.emplace_back(staff_plans);
-        staff_plans();
-        for (auto& t : pool) t.join();
-    }
+    if (setup.has_staff()) run_staff(setup, population, calendar, replication, n_blocks, record);
     return record;
 }
 

@@ -1,12 +1,11 @@
 #include "study/experiment.hpp"
 
 #include <algorithm>
-#include <atomic>
 #include <exception>
 #include <mutex>
 #include <stdexcept>
-#include <thread>
-#include <vector>
+
+#include "models/parallel.hpp"
 
 namespace tocsin {
 
@@ -20,38 +19,28 @@ void run_experiment(const Scenario& scenario, const PopulationFactory& make_popu
         static_cast<unsigned>(std::max<std::uint64_t>(1, std::min<std::uint64_t>(options.threads, total)));
     // With fewer replications than threads, the spare threads work inside a replication.
     const unsigned inner = std::max(1u, options.threads / workers);
-    std::atomic<std::uint64_t> next{0};
     std::mutex lock;
     std::uint64_t done = 0;
-    std::vector<std::exception_ptr> errors(total);
-    auto work = [&] {
-        for (;;) {
-            const std::uint64_t r = next.fetch_add(1);
-            if (r >= total) return;
-            try {
-                const Population population = make_population(r);
-                const ShiftCalendar calendar = calendar_for(scenario, population);
-                const ReplicationRecord record =
-                    simulate_replication(scenario.simulation, population, calendar, r, inner, options.replayed_openings);
-                observe(r, population, calendar, record);
-            } catch (...) {
-                errors[r] = std::current_exception();
-                next.store(total);  // stop handing out work
-            }
-            std::lock_guard<std::mutex> guard(lock);
+    // A failed replication counts as done too; parallel_for rethrows the error
+    // of the lowest-numbered failing replication once every thread has stopped.
+    parallel_for(total, workers, [&](std::uint64_t r) {
+        std::exception_ptr error;
+        try {
+            const Population population = make_population(r);
+            const ShiftCalendar calendar = calendar_for(scenario, population);
+            const ReplicationRecord record =
+                simulate_replication(scenario.simulation, population, calendar, r, inner, options.replayed_openings);
+            observe(r, population, calendar, record);
+        } catch (...) {
+            error = std::current_exception();
+        }
+        {
+            const std::lock_guard<std::mutex> guard(lock);
             ++done;
             if (options.progress) options.progress(done, total);
         }
-    };
-    if (workers == 1) {
-        work();
-    } else {
-        std::vector<std::thread> pool;
-        for (unsigned w = 0; w < workers; ++w) pool.emplace_back(work);
-        for (auto& t : pool) t.join();
-    }
-    for (const auto& e : errors)
-        if (e) std::rethrow_exception(e);
+        if (error) std::rethrow_exception(error);
+    });
 }
 
 }  // namespace tocsin

@@ -23,12 +23,7 @@ inline ShiftCalendar calendar_from(Instant from, Instant to) {
 }
 
 inline Notice notice_at(Instant at, double score = 0.5, std::uint32_t unit = 0, std::uint32_t encounter = 0) {
-    Notice n;
-    n.at = at;
-    n.score = score;
-    n.unit = unit;
-    n.encounter = encounter;
-    return n;
+    return make_notice(NoticeOrigin{encounter, unit, 0, Channel::page}, at, score, NoticeReason::first);
 }
 
 inline Role role(std::string name, std::vector<int> by_shift, ServiceTime minutes, bool per_unit = false) {

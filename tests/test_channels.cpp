@@ -501,13 +501,9 @@ TEST_CASE("channels.burden_in_each_channels_unit") {
         Plan chart;
         chart.channel = Channel::chart_interruption;
         PlanRecord r;
-        for (std::uint8_t role : {0, 0, 1}) {
-            Notice n;
-            n.at = at(3, 9);
-            n.channel = Channel::chart_interruption;
-            n.opener_role = role;
-            r.notices.push_back(n);
-        }
+        for (std::uint8_t role : {0, 0, 1})
+            r.notices.push_back(make_notice(NoticeOrigin{0, 0, 0, Channel::chart_interruption}, at(3, 9), 0.0,
+                                            NoticeReason::first, true, role));
         b = channel_burden(w.sc.simulation, w.pop, cal, rep, chart, r);
         CHECK(b.measure == "interruptions per clinician per shift");
         REQUIRE(b.values.size() == 12);
