@@ -18,7 +18,6 @@
 #include <vector>
 
 #include "analysis/results.hpp"
-#include "analysis/table.hpp"
 
 namespace tocsin {
 
@@ -73,23 +72,7 @@ struct BudgetAnswer {
 BudgetAnswer best_within_budget(const ReplicatedFigures& f, std::size_t burden_metric, double limit,
                                 std::size_t benefit_metric);
 
-struct ComparisonTables {
-    Table comparison;    // plan, metric, mean, ci_low, ci_high, replications
-    Table differences;   // plan, versus, metric, mean_difference, ci_low, ci_high, replications
-    Table replication_figures;  // plan, replication, metric, value
-};
-// Differences are each plan minus `reference_plan` (default the first).
-ComparisonTables comparison_tables(const ReplicatedFigures& f, std::size_t reference_plan = 0);
-Table frontier_table(const ReplicatedFigures& f, std::size_t burden_metric, std::size_t benefit_metric);
-
-// "1.3 (1.1 to 1.5)" with the given decimals; just the mean when there is no interval.
-std::string with_interval(const MeanInterval& m, int decimals);
-// A compact terminal view: the main figures with intervals, and paired
-// differences from the reference plan.
-std::string comparison_text(const ReplicatedFigures& f, std::size_t reference_plan = 0);
-// The plans on the frontier, lightest first.
-std::string frontier_text(const ReplicatedFigures& f, std::size_t burden_metric, std::size_t benefit_metric);
-std::string budget_text(const ReplicatedFigures& f, const BudgetAnswer& answer, std::size_t burden_metric,
-                        double limit, std::size_t benefit_metric);
+// A paired difference: each replication's figure of `plan` minus that of `versus`.
+MeanInterval paired_difference(const ReplicatedFigures& f, std::size_t plan, std::size_t versus, std::size_t metric);
 
 }  // namespace tocsin

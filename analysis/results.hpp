@@ -2,23 +2,21 @@
 // What a run reports, computed from the records of a replication. Every
 // figure and its column name is defined in README, "Output columns"; the
 // names are stable.
+#include <cstdint>
 #include <optional>
+#include <string>
 #include <vector>
 
-#include "analysis/table.hpp"
+#include "analysis/channel_burden.hpp"
+#include "analysis/reporting.hpp"
+#include "analysis/workload.hpp"
+#include "models/chart_openings.hpp"
 #include "models/population.hpp"
 #include "analysis/settings.hpp"
 #include "sim/setup.hpp"
 #include "sim/simulate.hpp"
 
 namespace tocsin {
-
-// The complete shifts whose per-unit counts are reported.
-struct ReportingShifts {
-    std::vector<std::size_t> shifts;  // indices into the calendar, ascending
-    Instant from = 0, until = 0;
-};
-ReportingShifts reporting_shifts(const AnalysisSettings& settings, const Population& population, const ShiftCalendar& calendar);
 
 struct PlanFigures {
     std::int64_t notices = 0;
@@ -49,30 +47,81 @@ std::vector<std::optional<Instant>> first_catch(const AnalysisSettings& settings
 PlanFigures plan_figures(const AnalysisSettings& settings, const Population& population, const ShiftCalendar& calendar,
                          const ReportingShifts& reporting, const PlanRecord& record);
 
-struct RunTables {
-    Table plan_summary;
-    Table unit_shift_notices;  // the data behind the per-shift distributions
-    Table exclusions;
-    std::optional<Table> notice_log;  // opt-in: holds encounter ids
-    // When the scenario declares roles (analysis/workload.hpp):
-    std::optional<Table> staff_workload, staff_escalations, task_fates;
-    std::optional<Table> task_log;    // opt-in: holds encounter ids
-    Table channel_burden;             // each channel's burden in its own unit (analysis/channel_tables.hpp)
-    Table rounds;                     // handoff lists and review rounds
-    Table chart_interruptions;        // per unit x shift x opening role
+// The population a run used, in summary (the population itself is not kept:
+// a replayed year holds tens of millions of scores).
+struct PopulationSummary {
+    std::size_t encounters = 0, units = 0, scores = 0;
+    std::int64_t cases = 0;  // encounters with the outcome
+    std::size_t reporting_shifts = 0;
+    Instant from = 0, until = 0;  // the reporting period
+};
+PopulationSummary population_summary(const Population& population, const ReportingShifts& reporting);
+
+// Input left out or adjusted, by reason.
+enum class Excluded { encounters, scores, notes, skipped_rows, chart_openings, chart_opening_timestamps };
+struct Exclusion {
+    Excluded what{};
+    std::string reason;
+    std::string lines;  // skipped rows: which lines (describe_lines)
+    std::int64_t count = 0;
+};
+// `replayed_openings`: the replayed chart-opening log, for its exclusions.
+std::vector<Exclusion> exclusions(const Population& population, const ChartOpeningLog* replayed_openings = nullptr);
+
+// One plan's figures in one replication.
+struct PlanResult {
+    std::string plan;
+    Channel channel{};
+    PlanFigures figures;
 };
 
-// `replayed_openings`: the replayed chart-opening log, for its exclusions.
-RunTables run_tables(const SimulationSetup& setup, const AnalysisSettings& settings, const Population& population, const ShiftCalendar& calendar,
-                     const ReplicationRecord& record, bool with_notice_log, bool with_task_log = false,
-                     const ChartOpeningLog* replayed_openings = nullptr);
+// Notices of one plan on one unit in one reporting shift (the data behind the
+// per-shift distributions).
+struct UnitShiftNotices {
+    std::string plan, unit;
+    Instant shift_start = 0;
+    std::string shift;
+    bool night = false;
+    std::int64_t notices = 0;
+};
 
-// Parts of the terminal summary: the population and exclusions; the plan table.
-std::string run_header_text(const std::string& title, const TimeZone& zone, const Population& population, const RunTables& tables,
-                            const ReportingShifts& reporting);
-std::string plan_summary_text(const RunTables& tables);
-// A readable terminal summary of a run of one replication.
-std::string run_summary_text(const std::string& title, const TimeZone& zone, const Population& population, const RunTables& tables,
-                             const ReportingShifts& reporting);
+// One notice, with the names it is reported under. Patient-level (encounter ids).
+struct LoggedNotice {
+    std::string plan;
+    std::uint64_t replication = 0;
+    std::string encounter, unit;
+    Instant at = 0;
+    double score = 0;
+    NoticeReason reason{};
+    Channel channel{};
+    bool asks_evaluation = false;
+    std::optional<std::string> opener;  // chart interruptions: the opening role
+    double delivery_minutes = 0;
+};
+
+// What the staff did, when the scenario declares roles (analysis/workload.hpp).
+struct StaffResults {
+    std::vector<RoleWorkload> workload;
+    std::vector<EscalationCount> escalations;
+    std::vector<TaskFateCount> fates;
+    std::optional<std::vector<LoggedTask>> task_log;  // opt-in: holds encounter ids
+};
+
+// Everything a run reports about one replication.
+struct ReplicationResults {
+    std::uint64_t replication = 0;
+    PopulationSummary population;
+    std::vector<PlanResult> plans;
+    std::vector<UnitShiftNotices> unit_shift_notices;
+    std::vector<Exclusion> exclusions;
+    std::optional<std::vector<LoggedNotice>> notice_log;  // opt-in: holds encounter ids
+    std::optional<StaffResults> staff;
+    ChannelResults channels;  // each channel's burden in its own unit (analysis/channel_burden.hpp)
+};
+
+ReplicationResults replication_results(const SimulationSetup& setup, const AnalysisSettings& settings,
+                                       const Population& population, const ShiftCalendar& calendar,
+                                       const ReplicationRecord& record, bool with_notice_log, bool with_task_log = false,
+                                       const ChartOpeningLog* replayed_openings = nullptr);
 
 }  // namespace tocsin

@@ -10,12 +10,6 @@
 
 namespace tocsin {
 
-namespace {
-
-const char* const replacement_character = "\xEF\xBF\xBD";
-
-}  // namespace
-
 void Table::add_row(std::vector<Cell> row) {
     assert(row.size() == columns.size());
     rows.push_back(std::move(row));
@@ -38,14 +32,7 @@ std::string valid_utf8(std::string_view text) {
     std::string out;
     out.reserve(text.size());
     for (std::size_t i = 0; i < text.size();) {
-        const std::size_t length = utf8_sequence_length(text, i);
-        if (length == 0) {
-            out += replacement_character;
-            ++i;
-        } else {
-            out.append(text.substr(i, length));
-            i += length;
-        }
+        append_utf8_or_replacement(out, text, i);
     }
     return out;
 }

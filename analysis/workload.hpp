@@ -17,12 +17,13 @@
 // - A ReportPeriod limits every table to tasks created inside it and the
 //   per-shift figures to complete shifts inside it (the simulation itself
 //   runs over the whole calendar, so queues carried in are real).
+#include <cstdint>
 #include <limits>
+#include <optional>
 #include <span>
 #include <string>
 #include <vector>
 
-#include "analysis/table.hpp"
 #include "models/time.hpp"
 #include "sim/shifts.hpp"
 #include "sim/staff.hpp"
@@ -42,16 +43,56 @@ struct ReportPeriod {
     bool contains(Instant t) const { return t >= from && t < until; }
 };
 
-// One row per plan and role on the plan's escalation path.
-Table staff_workload_table(std::span<const PlanStaffRun> runs, const ShiftCalendar& calendar,
-                           const ReportPeriod& period = {});
-// One row per plan and escalation edge on its path: tasks that followed it.
-Table escalation_table(std::span<const PlanStaffRun> runs, const ReportPeriod& period = {});
-// One row per plan and fate: every task is exactly one.
-Table task_fate_table(std::span<const PlanStaffRun> runs, const ReportPeriod& period = {});
-// One row per task; patient-level (encounter ids), so exported only on request.
+// What one role on a plan's escalation path did (one per plan and role).
+// Figures with nothing to measure (no team-shift, no task started) are empty.
+struct RoleWorkload {
+    std::string plan, role;
+    bool per_unit = false;  // one team per unit, else one for the hospital
+    std::int64_t team_shifts = 0, staff_shifts = 0, tasks_arrived = 0, tasks_started = 0;
+    std::optional<double> staff_minutes_per_shift_mean, staff_minutes_per_shift_p90;
+    std::optional<double> utilisation, tasks_per_staff_member_per_shift;
+    std::optional<double> wait_minutes_median, wait_minutes_p90, wait_minutes_max;
+    std::int64_t never_taken_up = 0, dropped = 0, handed_over = 0;
+    double overtime_minutes = 0;
+};
+std::vector<RoleWorkload> staff_workload(std::span<const PlanStaffRun> runs, const ShiftCalendar& calendar,
+                                         const ReportPeriod& period = {});
+
+// Tasks that followed one escalation edge of a plan's path.
+struct EscalationCount {
+    std::string plan, from_role, to_role;
+    double timeout_minutes = 0;
+    std::int64_t tasks_escalated = 0;
+};
+std::vector<EscalationCount> escalations(std::span<const PlanStaffRun> runs, const ReportPeriod& period = {});
+
+// Every task is exactly one fate: the count per plan and fate (every fate listed).
+struct TaskFateCount {
+    std::string plan;
+    TaskFate fate{};
+    std::int64_t tasks = 0;
+    std::optional<double> share;  // of the plan's tasks; empty when it had none
+};
+std::vector<TaskFateCount> task_fates(std::span<const PlanStaffRun> runs, const ReportPeriod& period = {});
+
+// One task, with the names it is reported under. Patient-level (encounter ids),
+// so exported only on request.
+struct LoggedTask {
+    std::string plan;
+    std::uint64_t replication = 0;
+    std::int64_t task = 0;  // position in the plan's task records
+    std::optional<std::string> encounter, unit;
+    double score = 0;
+    Instant created = no_instant, started = no_instant, ended = no_instant;
+    std::string first_role, role;
+    std::optional<double> wait_minutes, work_minutes;  // when started
+    std::int64_t escalations = 0;
+    bool handed_over = false;
+    double overtime_minutes = 0;
+    TaskFate fate{};
+};
 // `encounter_ids` and `unit_names` are indexed as in the notices.
-Table task_log_table(std::span<const PlanStaffRun> runs, std::span<const std::string> encounter_ids,
-                     std::span<const std::string> unit_names, const TimeZone& zone);
+std::vector<LoggedTask> task_log(std::span<const PlanStaffRun> runs, std::span<const std::string> encounter_ids,
+                                 std::span<const std::string> unit_names, std::uint64_t replication);
 
 }  // namespace tocsin

@@ -17,6 +17,7 @@
 #include <boost/random/uniform_real_distribution.hpp>
 
 #include "analysis/results.hpp"
+#include "report/run_tables.hpp"
 #include "models/random_streams.hpp"
 #include "models/replay.hpp"
 #include "sim/simulate.hpp"
@@ -177,7 +178,7 @@ int main(int argc, char** argv) {
     std::printf("replay: 4 plans x %zu scores in %.2f s (%u threads) = %.1f million score evaluations/s; %zu notices\n",
                 pop.scores.size(), replay, threads, 4.0 * static_cast<double>(pop.scores.size()) / replay / 1e6, notices);
     t = std::chrono::steady_clock::now();
-    const RunTables tables = run_tables(sc.simulation, sc.analysis, pop, cal, rec, false);
+    const RunTables tables = run_tables(replication_results(sc.simulation, sc.analysis, pop, cal, rec, false), sc.simulation.zone);
     std::printf("results: tables in %.2f s; replay + results %.2f s\n", seconds_since(t), replay + seconds_since(t));
     // The same replay with staff and escalation (issue 3's speed goal: under 2x the time without).
     Scenario staffed = sc;
@@ -205,7 +206,8 @@ int main(int argc, char** argv) {
                 "%zu tasks, staff part %.2f s\n",
                 with_staff, with_staff / without_staff, without_staff, tasks, with_staff - without_staff);
     t = std::chrono::steady_clock::now();
-    const RunTables staffed_tables = run_tables(staffed.simulation, staffed.analysis, pop, cal, staffed_rec, false);
+    const RunTables staffed_tables =
+        run_tables(replication_results(staffed.simulation, staffed.analysis, pop, cal, staffed_rec, false), staffed.simulation.zone);
     std::printf("results with staff tables: %.2f s\n", seconds_since(t));
     std::printf("peak RSS: %ld MiB\n", peak_rss_mib());
     if (!keep) std::filesystem::remove_all(dir);

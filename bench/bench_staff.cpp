@@ -12,6 +12,7 @@
 #include <cstdlib>
 
 #include "analysis/workload.hpp"
+#include "report/run_tables.hpp"
 #include "sim/staff.hpp"
 
 using namespace tocsin;
@@ -89,9 +90,9 @@ int main(int argc, char** argv) {
         t0 = std::chrono::steady_clock::now();
         std::vector<PlanStaffRun> prs;
         for (std::uint32_t p = 0; p < 4; ++p) prs.push_back({"plan " + std::to_string(p), &model, StaffPlan{}, &runs[p]});
-        const Table w = staff_workload_table(prs, calendar);
-        const Table e = escalation_table(prs);
-        const Table f = task_fate_table(prs);
+        const Table w = staff_workload_table(staff_workload(prs, calendar));
+        const Table e = escalation_table(escalations(prs));
+        const Table f = task_fate_table(task_fates(prs));
         best_tables = std::min(best_tables, seconds_since(t0));
         if (repeat == 0) std::printf("%s\n%s\n", to_text(w).c_str(), to_text(e).c_str());
     }

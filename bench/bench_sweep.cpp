@@ -76,7 +76,7 @@ int main(int argc, char** argv) {
         const RunOutput out = run_scenario(sc, factory, settings);
         const double s = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
         std::string tables;
-        for (const OutputFile& f : run_output_files(out)) tables += f.content;
+        for (const OutputFile& f : run_output_files(sc, out, settings)) tables += f.content;
         if (threads == 1) {
             first = tables;
             one_thread = s;

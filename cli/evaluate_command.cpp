@@ -4,7 +4,7 @@
 #include <optional>
 #include <sstream>
 
-#include "analysis/cautions.hpp"
+#include "report/cautions.hpp"
 #include "analysis/evaluation.hpp"
 #include "study/evaluation_scenario.hpp"
 #include "report/output.hpp"

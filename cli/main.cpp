@@ -14,14 +14,15 @@
 
 #include <unistd.h>
 
-#include "analysis/cautions.hpp"
+#include "report/cautions.hpp"
 #include "analysis/comparison.hpp"
 #include "report/output.hpp"
-#include "analysis/results.hpp"
 #include "report/report.hpp"
 #include "report/report_evaluation.hpp"
 #include "report/report_run.hpp"
 #include "report/run_files.hpp"
+#include "report/run_text.hpp"
+#include "report/study_answers.hpp"
 #include "study/shift_effect.hpp"
 #include "cli/evaluate_command.hpp"
 #include "cli/option_specs.hpp"
@@ -227,11 +228,11 @@ int command_run(const RunOptions& opt, bool sweep) {
     settings.budget_limit = max_burden;
     settings.budget_metric = opt.budget_metric;
     const RunOutput out = run_scenario(sc, factory, settings);
-    std::cout << out.text;
+    std::cout << run_text(sc, out, settings);
     std::optional<ShiftEffect> effect;
     if (sc.population.shift) {
         effect = shift_effect(sc, factory, settings.threads);
-        std::cout << "\n" << effect->text;
+        std::cout << "\n" << shift_effect_text(*effect, sc.simulation.zone);
     }
     std::string report;
     if (!opt.out_dir.empty() || !opt.report_path.empty()) {
@@ -244,9 +245,9 @@ int command_run(const RunOptions& opt, bool sweep) {
         std::cout << "Wrote the report to " << opt.report_path << "\n";
     }
     if (!opt.out_dir.empty()) {
-        std::vector<OutputFile> files = run_output_files(out);
+        std::vector<OutputFile> files = run_output_files(sc, out, settings);
         files.push_back({"report.html", report});
-        if (effect) add_table_files(files, effect->table);
+        if (effect) add_table_files(files, shift_effect_table(*effect));
         files.push_back({"run_record.json",
                          run_record_json(sc, settings, std::chrono::duration<double>(std::chrono::steady_clock::now() - started).count())});
         write_output_files(opt.out_dir, files);

@@ -20,11 +20,11 @@ enum class StreamPurpose : std::uint64_t {
     bootstrap = 4,          // entity: unit
     task_minutes = 5,       // entity: entity_key(encounter, notice instant, occurrence, escalation step); see sim/staff.hpp
     chart_openings = 6,     // entity: entity_key(encounter, opening role name)
-    acceptance = 7,         // unused (was per plan); the value stays reserved
+    retired_acceptance = 7, // reserved: retired (was per plan); never reuse the value
     calibration_search = 8, // entity: 0
     evaluation_bootstrap = 9,
     shift = 10,             // entity: unit
-    staff = 11,             // unused (was per plan); the value stays reserved
+    retired_staff = 11,     // reserved: retired (was per plan); never reuse the value
     chart_acceptance = 12,  // entity: entity_key(encounter, opening role name, opening instant, occurrence)
     handoff_follow_up = 13, // entity: entity_key(encounter, handoff instant)
 };

@@ -51,4 +51,15 @@ std::string text_problem(std::string_view text) {
     return "";
 }
 
+void append_utf8_or_replacement(std::string& out, std::string_view text, std::size_t& i) {
+    const std::size_t length = utf8_sequence_length(text, i);
+    if (length == 0) {
+        out += replacement_character;
+        ++i;
+    } else {
+        out.append(text.substr(i, length));
+        i += length;
+    }
+}
+
 }  // namespace tocsin

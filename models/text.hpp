@@ -11,6 +11,13 @@ namespace tocsin {
 // (RFC 3629: no overlong forms, no surrogates, nothing above U+10FFFF).
 std::size_t utf8_sequence_length(std::string_view text, std::size_t i);
 
+// U+FFFD, which stands in for a byte that is not UTF-8 when text is written out.
+inline constexpr std::string_view replacement_character = "\xEF\xBF\xBD";
+
+// Appends the valid UTF-8 sequence at text[i] to `out`, or U+FFFD when the
+// byte there starts none, and moves `i` past what it read.
+void append_utf8_or_replacement(std::string& out, std::string_view text, std::size_t& i);
+
 // Why `text` is not acceptable as a name or id read from a file, or "" when it
 // is: it must be valid UTF-8 without control characters (U+0000 to U+001F,
 // U+007F to U+009F; tabs and line breaks included, since a unit name or id

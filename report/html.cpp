@@ -10,12 +10,6 @@
 
 namespace tocsin {
 
-namespace {
-
-const char* const replacement_character = "\xEF\xBF\xBD";
-
-}  // namespace
-
 std::string html_escape(std::string_view text) {
     std::string out;
     out.reserve(text.size() + 16);
@@ -36,14 +30,7 @@ std::string html_escape(std::string_view text) {
             ++i;
             continue;
         }
-        const std::size_t length = utf8_sequence_length(text, i);
-        if (length == 0) {
-            out += replacement_character;
-            ++i;
-        } else {
-            out.append(text.substr(i, length));
-            i += length;
-        }
+        append_utf8_or_replacement(out, text, i);
     }
     return out;
 }

@@ -7,7 +7,7 @@
 #include <set>
 #include <stdexcept>
 
-#include "analysis/cautions.hpp"
+#include "report/cautions.hpp"
 #include "report/html.hpp"
 
 namespace tocsin {
@@ -321,91 +321,105 @@ LineChart decision_curve_chart(std::vector<CurvePoint> score, std::vector<CurveP
     return c;
 }
 
-std::string render_report(const ReportInput& in) {
-    std::vector<Section> sections;
+namespace {
 
-    {
-        std::string body = paragraphs(in.question.empty() ? "(The scenario states no question.)" : in.question);
-        if (!in.key_findings.empty()) body += "<div class=\"findings\">" + list(in.key_findings, "findings-list") + "</div>\n";
-        sections.push_back({"question", "The question", body});
+Section question_section(const ReportInput& in) {
+    std::string body = paragraphs(in.question.empty() ? "(The scenario states no question.)" : in.question);
+    if (!in.key_findings.empty()) body += "<div class=\"findings\">" + list(in.key_findings, "findings-list") + "</div>\n";
+    return {"question", "The question", body};
+}
+
+Section comparison_section(const ReportInput& in, const HtmlTableOptions& table_options) {
+    std::string body;
+    if (given(in.comparison)) body += html_table(in.comparison, table_options) + paragraph(in.interval_note, "note");
+    if (given(in.differences)) {
+        body += "<h3>Differences between plans, paired within each replication</h3>\n";
+        body += paragraph("Each replication runs every plan on the same patients, so a difference is measured "
+                          "patient for patient and its interval is narrower than the two plans' intervals suggest.");
+        body += html_table(*in.differences, table_options) + paragraph(in.differences_note, "note");
     }
+    return {"comparison", "Plans side by side", body};
+}
+
+Section burden_section(const ReportInput& in) {
+    BoxChart chart;
+    chart.id = "fig-burden";
+    chart.title = "Distribution of " + in.burden_per_night_label + ", by plan";
+    chart.value_label = in.burden_per_night_label;
+    chart.groups = groups_of(in.burden_per_night);
+    chart.limit = in.per_night_limit;
+    std::string caption = (in.burden_note.empty() ? "" : "One value is " + in.burden_note + ". ") + box_reading;
+    if (in.per_night_limit) caption += " The dashed line marks the budget of " + format_for_people(*in.per_night_limit) + ".";
+    return distribution_section("burden", "Burden per night, by plan",
+                                "How the burden spreads over nights: the average hides the bad nights a ward remembers.",
+                                {{chart, caption}});
+}
+
+Section lead_time_section(const ReportInput& in) {
+    std::vector<std::pair<BoxChart, std::string>> charts;
+    const std::string each = (in.lead_time_note.empty() ? "One value is one caught case. " : in.lead_time_note + " ");
+    if (!in.lead_times_hours.empty()) {
+        BoxChart chart;
+        chart.id = "fig-lead-notice";
+        chart.title = "Hours from the first notice to the outcome, caught cases, by plan";
+        chart.value_label = "hours before the outcome (from the first notice)";
+        chart.groups = groups_of(in.lead_times_hours);
+        charts.emplace_back(chart, each + box_reading);
+    }
+    if (!in.lead_times_from_evaluation_hours.empty()) {
+        BoxChart chart;
+        chart.id = "fig-lead-evaluation";
+        chart.title = "Hours from the start of the first evaluation to the outcome, caught cases, by plan";
+        chart.value_label = "hours before the outcome (from the first evaluation)";
+        chart.groups = groups_of(in.lead_times_from_evaluation_hours);
+        const std::string gap =
+            in.lead_times_hours.empty() ? "" : "The gap to the chart above is the time spent waiting for staff. ";
+        charts.emplace_back(chart, each + gap + box_reading);
+    }
+    return distribution_section("lead-times", "How early cases were reached",
+                                "More hours before the outcome leave more room to act.", charts);
+}
+
+Section evaluation_section(const ReportInput& in, const HtmlTableOptions& table_options) {
+    std::string body = paragraph("How the score itself performs on the same data and exclusions, apart from any workflow.");
+    for (const Table& t : in.evaluation_tables)
+        if (given(t)) body += html_table(t, table_options);
+    for (std::size_t i = 0; i < in.evaluation_charts.size(); ++i) {
+        const LineChart& chart = in.evaluation_charts[i];
+        body += "<figure>" + figure_title(chart.title) + line_svg(chart, "fig-evaluation-" + std::to_string(i + 1)) +
+                "<figcaption>" + html_escape(chart.description) + "</figcaption></figure>\n";
+    }
+    body += paragraph(in.evaluation_note, "note");
+    return {"evaluation", "How well the score performs", body};
+}
+
+// The sections the input gives, in reading order; empty inputs are left out.
+std::vector<Section> report_sections(const ReportInput& in) {
+    std::vector<Section> sections{question_section(in)};
     if (!in.assumptions.empty())
         sections.push_back({"assumptions", "What the scenario assumes",
                             paragraph("Every figure below rests on these assumptions and changes when they change.") +
                                 list(in.assumptions, "assumptions")});
-
     HtmlTableOptions table_options;
     table_options.column_labels = in.column_labels;
-    if (given(in.comparison) || given(in.differences)) {
-        std::string body;
-        if (given(in.comparison)) body += html_table(in.comparison, table_options) + paragraph(in.interval_note, "note");
-        if (given(in.differences)) {
-            body += "<h3>Differences between plans, paired within each replication</h3>\n";
-            body += paragraph("Each replication runs every plan on the same patients, so a difference is measured "
-                              "patient for patient and its interval is narrower than the two plans' intervals suggest.");
-            body += html_table(*in.differences, table_options) + paragraph(in.differences_note, "note");
-        }
-        sections.push_back({"comparison", "Plans side by side", body});
-    }
+    if (given(in.comparison) || given(in.differences)) sections.push_back(comparison_section(in, table_options));
     if (!in.frontier.empty()) sections.push_back(frontier_section(in));
-    if (!in.burden_per_night.empty()) {
-        BoxChart chart;
-        chart.id = "fig-burden";
-        chart.title = "Distribution of " + in.burden_per_night_label + ", by plan";
-        chart.value_label = in.burden_per_night_label;
-        chart.groups = groups_of(in.burden_per_night);
-        chart.limit = in.per_night_limit;
-        std::string caption = (in.burden_note.empty() ? "" : "One value is " + in.burden_note + ". ") + box_reading;
-        if (in.per_night_limit) caption += " The dashed line marks the budget of " + format_for_people(*in.per_night_limit) + ".";
-        sections.push_back(distribution_section(
-            "burden", "Burden per night, by plan",
-            "How the burden spreads over nights: the average hides the bad nights a ward remembers.",
-            {{chart, caption}}));
-    }
-    if (!in.lead_times_hours.empty() || !in.lead_times_from_evaluation_hours.empty()) {
-        std::vector<std::pair<BoxChart, std::string>> charts;
-        const std::string each = (in.lead_time_note.empty() ? "One value is one caught case. " : in.lead_time_note + " ");
-        if (!in.lead_times_hours.empty()) {
-            BoxChart chart;
-            chart.id = "fig-lead-notice";
-            chart.title = "Hours from the first notice to the outcome, caught cases, by plan";
-            chart.value_label = "hours before the outcome (from the first notice)";
-            chart.groups = groups_of(in.lead_times_hours);
-            charts.emplace_back(chart, each + box_reading);
-        }
-        if (!in.lead_times_from_evaluation_hours.empty()) {
-            BoxChart chart;
-            chart.id = "fig-lead-evaluation";
-            chart.title = "Hours from the start of the first evaluation to the outcome, caught cases, by plan";
-            chart.value_label = "hours before the outcome (from the first evaluation)";
-            chart.groups = groups_of(in.lead_times_from_evaluation_hours);
-            const std::string gap = in.lead_times_hours.empty()
-                                        ? ""
-                                        : "The gap to the chart above is the time spent waiting for staff. ";
-            charts.emplace_back(chart, each + gap + box_reading);
-        }
-        sections.push_back(distribution_section("lead-times", "How early cases were reached",
-                                                 "More hours before the outcome leave more room to act.", charts));
-    }
+    if (!in.burden_per_night.empty()) sections.push_back(burden_section(in));
+    if (!in.lead_times_hours.empty() || !in.lead_times_from_evaluation_hours.empty())
+        sections.push_back(lead_time_section(in));
     if (given(in.staff_and_waits))
         sections.push_back({"staff", "Staff time and waiting, by role",
                             html_table(*in.staff_and_waits, table_options) + paragraph(in.staff_note, "note")});
-    if (!in.evaluation_tables.empty() || !in.evaluation_charts.empty()) {
-        std::string body = paragraph(
-            "How the score itself performs on the same data and exclusions, apart from any workflow.");
-        for (const Table& t : in.evaluation_tables)
-            if (given(t)) body += html_table(t, table_options);
-        for (std::size_t i = 0; i < in.evaluation_charts.size(); ++i) {
-            const LineChart& chart = in.evaluation_charts[i];
-            body += "<figure>" + figure_title(chart.title) + line_svg(chart, "fig-evaluation-" + std::to_string(i + 1)) +
-                    "<figcaption>" +
-                    html_escape(chart.description) + "</figcaption></figure>\n";
-        }
-        body += paragraph(in.evaluation_note, "note");
-        sections.push_back({"evaluation", "How well the score performs", body});
-    }
+    if (!in.evaluation_tables.empty() || !in.evaluation_charts.empty())
+        sections.push_back(evaluation_section(in, table_options));
     sections.push_back({"run", "How this report was made", run_record_body(in.run)});
+    return sections;
+}
 
+}  // namespace
+
+std::string render_report(const ReportInput& in) {
+    const std::vector<Section> sections = report_sections(in);
     const std::string cautions = in.cautions.empty() ? cautions_text() : in.cautions;
     const std::string title = in.title.empty() ? "Untitled scenario" : in.title;
 

@@ -7,7 +7,10 @@
 #include <map>
 #include <sstream>
 
+#include "report/cells.hpp"
+#include "report/comparison_tables.hpp"
 #include "report/html.hpp"
+#include "report/run_tables.hpp"
 
 namespace tocsin {
 
@@ -18,9 +21,6 @@ const std::vector<std::string> shown_metrics = {"per_unit_night_mean", "per_unit
                                                 "sensitivity", "lead_median_h", "notices_per_catch"};
 
 // The staff workload columns the report shows, and their headers.
-const std::vector<std::string> staff_columns = {"plan", "role", "team", "tasks_started", "staff_minutes_per_shift_mean",
-                                                "staff_minutes_per_shift_p90", "utilisation", "wait_minutes_median",
-                                                "wait_minutes_p90", "never_taken_up"};
 const std::vector<std::pair<std::string, std::string>> staff_labels = {
     {"role", "Role"},
     {"team", "Team"},
@@ -31,38 +31,6 @@ const std::vector<std::pair<std::string, std::string>> staff_labels = {
     {"wait_minutes_median", "median wait, minutes"},
     {"wait_minutes_p90", "wait, 90th percentile, minutes"},
     {"never_taken_up", "never taken up"}};
-
-// The named columns of a table that it has, in the order named.
-Table columns_of(const Table& t, const std::vector<std::string>& names) {
-    Table out;
-    out.name = t.name;
-    out.title = t.title;
-    std::vector<std::size_t> keep;
-    for (const std::string& n : names) {
-        const auto found = std::find(t.columns.begin(), t.columns.end(), n);
-        if (found == t.columns.end()) continue;
-        keep.push_back(static_cast<std::size_t>(found - t.columns.begin()));
-        out.columns.push_back(n);
-    }
-    for (const auto& row : t.rows) {
-        std::vector<Cell> cells;
-        for (std::size_t i : keep) cells.push_back(row[i]);
-        out.add_row(std::move(cells));
-    }
-    return out;
-}
-
-double real_of(const Cell& c) {
-    if (std::holds_alternative<double>(c)) return std::get<double>(c);
-    if (std::holds_alternative<std::int64_t>(c)) return static_cast<double>(std::get<std::int64_t>(c));
-    return NAN;
-}
-
-std::string text_of(const Cell& c) { return std::holds_alternative<std::string>(c) ? std::get<std::string>(c) : ""; }
-
-std::size_t column(const Table& t, const std::string& name) {
-    return static_cast<std::size_t>(std::find(t.columns.begin(), t.columns.end(), name) - t.columns.begin());
-}
 
 // The scenario's description (study/describe.hpp) after its name and
 // question, one line per statement: a list's entries stand alone, named by
@@ -113,103 +81,96 @@ std::string budget_sentence(const RunOutput& out, const Metric& budget, const Me
     return s;
 }
 
-}  // namespace
+// Rows a dirty log lost under bad_rows: skip change every figure, so the
+// report says so where it states what the figures rest on.
+void add_skipped_rows(ReportInput& in, const std::vector<Exclusion>& exclusions) {
+    for (const Exclusion& e : exclusions)
+        if (e.what == Excluded::skipped_rows)
+            in.assumptions.push_back("Input rows skipped (bad_rows: skip): " + std::to_string(e.count) +
+                                     (e.count == 1 ? " row, " : " rows, ") + exclusion_reason(e) + ".");
+}
 
-ReportInput report_input_for_run(const Scenario& sc, const RunOutput& out, const RunSettings& settings) {
-    ReportInput in;
-    in.title = sc.name;
-    in.question = sc.description;
-    in.assumptions = assumptions_of(sc);
-    // Rows a dirty log lost under bad_rows: skip change every figure, so the
-    // report says so where it states what the figures rest on.
-    for (const auto& row : out.first_replication.exclusions.rows)
-        if (std::get<std::string>(row[0]) == "skipped rows")
-            in.assumptions.push_back("Input rows skipped (bad_rows: skip): " + std::to_string(std::get<std::int64_t>(row[2])) +
-                                     (std::get<std::int64_t>(row[2]) == 1 ? " row, " : " rows, ") +
-                                     std::get<std::string>(row[1]) + ".");
-    for (const Metric& m : plan_metrics()) in.column_labels[std::string(m.name)] = std::string(m.label);
-    in.column_labels["plan"] = "Plan";
-
-    const ReplicatedFigures& f = out.figures;
-    const Metric* burden = find_metric(settings.burden_metric);
-    const Metric* benefit = find_metric(settings.benefit_metric);
+// The figures the comparison shows: the usual ones, then the frontier's axes.
+std::vector<std::string> compared_metrics(const Metric* burden, const Metric* benefit) {
     std::vector<std::string> metrics;
     for (const std::string& m : shown_metrics)
         if (find_metric(m)) metrics.push_back(m);
     for (const Metric* m : {burden, benefit})
         if (m && std::find(metrics.begin(), metrics.end(), m->name) == metrics.end()) metrics.emplace_back(m->name);
+    return metrics;
+}
 
-    in.comparison = wide_intervals(out.comparison.comparison, "mean", metrics);
+void add_comparison(ReportInput& in, const ReplicatedFigures& f, const std::vector<std::string>& metrics) {
+    const ComparisonTables tables = comparison_tables(f);
+    in.comparison = wide_intervals(tables.comparison, "mean", metrics);
     in.comparison.title = "Plans compared over " + std::to_string(f.replications) +
                           (f.replications == 1 ? " replication" : " replications");
-    if (f.replications > 1) {
-        in.interval_note = "Brackets: 95% confidence interval of the mean over the " + std::to_string(f.replications) +
-                           " replications (mean \xC2\xB1 t \xC3\x97 standard deviation / \xE2\x88\x9A" "replications; "
-                           "Student 1908). Replications in which a figure is undefined are left out of it.";
-        if (f.plans.size() > 1 && !out.comparison.differences.rows.empty()) {
-            in.differences = wide_intervals(out.comparison.differences, "mean_difference", metrics);
-            in.differences_note = "Each figure is the plan's value minus " + f.plans.front() +
-                                  "'s in the same replication, averaged, with its own 95% interval.";
-        }
-    } else {
+    if (f.replications <= 1) {
         in.interval_note = "One replication: no interval. Set replications in the scenario for intervals.";
+        return;
     }
+    in.interval_note = "Brackets: 95% confidence interval of the mean over the " + std::to_string(f.replications) +
+                       " replications (mean \xC2\xB1 t \xC3\x97 standard deviation / \xE2\x88\x9A" "replications; "
+                       "Student 1908). Replications in which a figure is undefined are left out of it.";
+    if (f.plans.size() > 1 && !tables.differences.rows.empty()) {
+        in.differences = wide_intervals(tables.differences, "mean_difference", metrics);
+        in.differences_note = "Each figure is the plan's value minus " + f.plans.front() +
+                              "'s in the same replication, averaged, with its own 95% interval.";
+    }
+}
 
-    if (burden && benefit) {
-        in.burden_label = std::string(burden->label);
-        in.benefit_label = std::string(benefit->label);
-        const std::vector<FrontierPoint> points = frontier(f, metric_index(*burden), metric_index(*benefit));
-        for (const FrontierPoint& p : points) {
-            const MeanInterval b = mean_interval(f.of(p.plan, metric_index(*burden)));
-            const MeanInterval g = mean_interval(f.of(p.plan, metric_index(*benefit)));
-            in.frontier.push_back({f.plans[p.plan], b.mean, b.low, b.high, g.mean, g.low, g.high, p.on_frontier});
-        }
+void add_frontier(ReportInput& in, const ReplicatedFigures& f, const Metric& burden, const Metric& benefit) {
+    in.burden_label = std::string(burden.label);
+    in.benefit_label = std::string(benefit.label);
+    for (const FrontierPoint& p : frontier(f, metric_index(burden), metric_index(benefit))) {
+        const MeanInterval b = mean_interval(f.of(p.plan, metric_index(burden)));
+        const MeanInterval g = mean_interval(f.of(p.plan, metric_index(benefit)));
+        in.frontier.push_back({f.plans[p.plan], b.mean, b.low, b.high, g.mean, g.low, g.high, p.on_frontier});
     }
-    const Metric* budget = find_metric(settings.budget_metric);
-    if (settings.budget_limit && budget && benefit && out.budget) {
-        in.budget_answer = budget_sentence(out, *budget, *benefit, *settings.budget_limit);
-        if (budget == burden) in.burden_limit = settings.budget_limit;
-        if (budget->name.rfind("per_unit_night", 0) == 0) in.per_night_limit = settings.budget_limit;
-    }
+}
 
-    // Pages per unit per night: every unit-night of the first replication.
-    const Table& shifts = out.first_replication.unit_shift_notices;
-    const std::size_t plan_col = column(shifts, "plan"), night_col = column(shifts, "night"),
-                      count_col = column(shifts, "notices");
-    if (night_col < shifts.columns.size() && count_col < shifts.columns.size()) {
-        std::map<std::string, std::vector<double>> nights;
-        for (const auto& row : shifts.rows) {
-            const Cell& night = row[night_col];
-            const bool is_night = std::holds_alternative<std::int64_t>(night) ? std::get<std::int64_t>(night) != 0
-                                                                             : text_of(night) == "true" || text_of(night) == "1";
-            if (is_night) nights[text_of(row[plan_col])].push_back(real_of(row[count_col]));
-        }
-        if (!nights.empty())
-            for (const std::string& plan : f.plans) in.burden_per_night.push_back({plan, nights[plan]});
-        in.burden_note = "one unit on one night of the first replication";
-    }
+// Pages per unit per night: every unit-night of the first replication.
+void add_burden_per_night(ReportInput& in, const ReplicationResults& first, const std::vector<std::string>& plans) {
+    std::map<std::string, std::vector<double>> nights;
+    for (const UnitShiftNotices& u : first.unit_shift_notices)
+        if (u.night) nights[u.plan].push_back(static_cast<double>(u.notices));
+    if (!nights.empty())
+        for (const std::string& plan : plans) in.burden_per_night.push_back({plan, nights[plan]});
+    in.burden_note = "one unit on one night of the first replication";
+}
 
-    // Lead times: the run keeps each replication's median, not every case, so
-    // with several replications the chart shows how that median varies. With
-    // staff, lead time counts from the start of the evaluation.
-    const bool with_staff = out.first_replication.staff_workload.has_value();
-    if (const Metric* lead = find_metric("lead_median_h"); lead && f.replications > 1) {
-        auto& series = with_staff ? in.lead_times_from_evaluation_hours : in.lead_times_hours;
-        for (std::size_t p = 0; p < f.plans.size(); ++p) {
-            const auto values = f.of(p, metric_index(*lead));
-            series.push_back({f.plans[p], std::vector<double>(values.begin(), values.end())});
-        }
-        in.lead_time_note = "One value is the median lead time of the caught cases in one replication.";
+// Lead times: the run keeps each replication's median, not every case, so
+// with several replications the chart shows how that median varies. With
+// staff, lead time counts from the start of the evaluation.
+void add_lead_times(ReportInput& in, const ReplicatedFigures& f, bool with_staff) {
+    const Metric* lead = find_metric("lead_median_h");
+    if (!lead || f.replications <= 1) return;
+    auto& series = with_staff ? in.lead_times_from_evaluation_hours : in.lead_times_hours;
+    for (std::size_t p = 0; p < f.plans.size(); ++p) {
+        const auto values = f.of(p, metric_index(*lead));
+        series.push_back({f.plans[p], std::vector<double>(values.begin(), values.end())});
     }
+    in.lead_time_note = "One value is the median lead time of the caught cases in one replication.";
+}
 
-    if (with_staff) {
-        in.staff_and_waits = columns_of(*out.first_replication.staff_workload, staff_columns);
-        in.staff_and_waits->title = "Staff work and waits by plan and role (first replication)";
-        in.staff_note = "Utilisation is the staff minutes worked over the minutes rostered. A wait runs from the "
-                        "notice to the start of the evaluation; tasks never taken up are counted apart, not as waits.";
-        for (const auto& [name, label] : staff_labels) in.column_labels[name] = label;
-    }
+void add_staff(ReportInput& in, const std::vector<RoleWorkload>& workload) {
+    Table t;
+    t.name = "staff_workload";
+    t.title = "Staff work and waits by plan and role (first replication)";
+    t.columns = {"plan", "role", "team", "tasks_started", "staff_minutes_per_shift_mean", "staff_minutes_per_shift_p90",
+                 "utilisation", "wait_minutes_median", "wait_minutes_p90", "never_taken_up"};
+    for (const RoleWorkload& w : workload)
+        t.add_row({w.plan, w.role, std::string(w.per_unit ? "each unit" : "hospital"), w.tasks_started,
+                   cell_or_empty(w.staff_minutes_per_shift_mean), cell_or_empty(w.staff_minutes_per_shift_p90), cell_or_empty(w.utilisation),
+                   cell_or_empty(w.wait_minutes_median), cell_or_empty(w.wait_minutes_p90), w.never_taken_up});
+    in.staff_and_waits = std::move(t);
+    in.staff_note = "Utilisation is the staff minutes worked over the minutes rostered. A wait runs from the "
+                    "notice to the start of the evaluation; tasks never taken up are counted apart, not as waits.";
+    for (const auto& [name, label] : staff_labels) in.column_labels[name] = label;
+}
 
+void add_run_record(ReportInput& in, const Scenario& sc, const ReplicatedFigures& f, const Metric* burden,
+                    const Metric* benefit) {
     char hash[32];
     std::snprintf(hash, sizeof hash, "fnv1a64:%016llx", static_cast<unsigned long long>(sc.source_hash));
     in.run.tool_version = TOCSIN_VERSION;
@@ -220,6 +181,35 @@ ReportInput report_input_for_run(const Scenario& sc, const RunOutput& out, const
     in.run.other = {{"Scenario file", sc.file}};
     if (burden) in.run.other.emplace_back("Burden measure", std::string(burden->name));
     if (benefit) in.run.other.emplace_back("Benefit measure", std::string(benefit->name));
+}
+
+}  // namespace
+
+ReportInput report_input_for_run(const Scenario& sc, const RunOutput& out, const RunSettings& settings) {
+    ReportInput in;
+    in.title = sc.name;
+    in.question = sc.description;
+    in.assumptions = assumptions_of(sc);
+    add_skipped_rows(in, out.first_replication.exclusions);
+    for (const Metric& m : plan_metrics()) in.column_labels[std::string(m.name)] = std::string(m.label);
+    in.column_labels["plan"] = "Plan";
+
+    const ReplicatedFigures& f = out.figures;
+    const Metric* burden = find_metric(settings.burden_metric);
+    const Metric* benefit = find_metric(settings.benefit_metric);
+    add_comparison(in, f, compared_metrics(burden, benefit));
+    if (burden && benefit) add_frontier(in, f, *burden, *benefit);
+    const Metric* budget = find_metric(settings.budget_metric);
+    if (settings.budget_limit && budget && benefit && out.budget) {
+        in.budget_answer = budget_sentence(out, *budget, *benefit, *settings.budget_limit);
+        if (budget == burden) in.burden_limit = settings.budget_limit;
+        if (budget->name.rfind("per_unit_night", 0) == 0) in.per_night_limit = settings.budget_limit;
+    }
+    add_burden_per_night(in, out.first_replication, f.plans);
+    const bool with_staff = out.first_replication.staff.has_value();
+    add_lead_times(in, f, with_staff);
+    if (with_staff) add_staff(in, out.first_replication.staff->workload);
+    add_run_record(in, sc, f, burden, benefit);
     return in;
 }
 

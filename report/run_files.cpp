@@ -2,7 +2,9 @@
 
 #include <cstdio>
 
-#include "analysis/cautions.hpp"
+#include "report/cautions.hpp"
+#include "report/comparison_tables.hpp"
+#include "report/run_tables.hpp"
 
 namespace tocsin {
 
@@ -19,24 +21,25 @@ std::string run_record_json(const Scenario& sc, const RunSettings& settings, dou
            ",\n  \"plans\": [" + plans + "]\n}\n";
 }
 
-std::vector<OutputFile> run_output_files(const RunOutput& out) {
+std::vector<OutputFile> run_output_files(const Scenario& sc, const RunOutput& out, const RunSettings& settings) {
     std::vector<OutputFile> files;
-    add_table_files(files, out.first_replication.plan_summary);
-    add_table_files(files, out.first_replication.unit_shift_notices);
-    add_table_files(files, out.first_replication.exclusions);
-    add_table_files(files, out.first_replication.channel_burden);
-    if (!out.first_replication.rounds.rows.empty()) add_table_files(files, out.first_replication.rounds);
-    if (!out.first_replication.chart_interruptions.rows.empty())
-        add_table_files(files, out.first_replication.chart_interruptions);
-    add_table_files(files, out.comparison.comparison);
-    add_table_files(files, out.comparison.differences);
-    add_table_files(files, out.comparison.replication_figures);
-    add_table_files(files, out.frontier);
-    add_table_files(files, out.plan_net_benefit);
+    const RunTables t = run_tables(out.first_replication, sc.simulation.zone);
+    add_table_files(files, t.plan_summary);
+    add_table_files(files, t.unit_shift_notices);
+    add_table_files(files, t.exclusions);
+    add_table_files(files, t.channel_burden);
+    if (!t.rounds.rows.empty()) add_table_files(files, t.rounds);
+    if (!t.chart_interruptions.rows.empty()) add_table_files(files, t.chart_interruptions);
+    const ComparisonTables comparison = comparison_tables(out.figures);
+    add_table_files(files, comparison.comparison);
+    add_table_files(files, comparison.differences);
+    add_table_files(files, comparison.replication_figures);
+    add_table_files(files, frontier_table(out.figures, metric_index(*find_metric(settings.burden_metric)),
+                                          metric_index(*find_metric(settings.benefit_metric))));
+    add_table_files(files, plan_net_benefit_table(out.plan_net_benefit));
     if (out.evaluation)
         for (const Table* table : evaluation_tables(*out.evaluation)) add_table_files(files, *table);
-    if (out.first_replication.notice_log) add_table_files(files, *out.first_replication.notice_log);
-    const RunTables& t = out.first_replication;
+    if (t.notice_log) add_table_files(files, *t.notice_log);
     for (const auto* staff : {&t.staff_workload, &t.staff_escalations, &t.task_fates, &t.task_log})
         if (*staff) add_table_files(files, **staff);
     files.push_back({"CAUTIONS.txt", cautions_text() + "\n"});

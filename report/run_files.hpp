@@ -15,6 +15,6 @@ namespace tocsin {
 std::string run_record_json(const Scenario& scenario, const RunSettings& settings, double seconds);
 
 // Every output file of a run (tables as CSV and JSON, cautions).
-std::vector<OutputFile> run_output_files(const RunOutput& output);
+std::vector<OutputFile> run_output_files(const Scenario& scenario, const RunOutput& output, const RunSettings& settings);
 
 }  // namespace tocsin

@@ -57,6 +57,7 @@ std::int64_t fire_chart_rule(const Plan& plan, const RuleClock& clock, std::span
                              const EncounterOpenings& openings, std::uint32_t encounter, std::uint32_t unit,
                              std::uint32_t plan_index, std::vector<Notice>& out) {
     RuleState state(plan.rule, clock);
+    const NoticeOrigin origin{encounter, unit, plan_index, Channel::chart_interruption};
     std::size_t next = 0;
     std::int64_t asked = 0;
     for (std::size_t i = 0; i < openings.openings.size(); ++i) {
@@ -66,17 +67,8 @@ std::int64_t fire_chart_rule(const Plan& plan, const RuleClock& clock, std::span
         while (next < scores.size() && scores[next].available_at <= o.at) state.see(scores[next++]);
         const auto reason = state.fire_if_due(o.at);
         if (!reason) continue;
-        Notice n;
-        n.at = o.at;
-        n.score = state.latest();
-        n.encounter = encounter;
-        n.unit = unit;
-        n.plan = plan_index;
-        n.reason = *reason;
-        n.channel = Channel::chart_interruption;
-        n.asks_evaluation = openings.acceptance_draws[i] < plan.chart.acceptance_probability;
-        n.opener_role = o.role;
-        out.push_back(n);
+        const bool accepted = openings.acceptance_draws[i] < plan.chart.acceptance_probability;
+        out.push_back(make_notice(origin, o.at, state.latest(), *reason, accepted, o.role));
     }
     return asked;
 }
@@ -110,6 +102,94 @@ struct Inpatient {
     RuleState rule;
 };
 
+// The current inpatients at the last instant the census was advanced to, each
+// with its rule state fed every score available by then. Instants must be
+// visited in increasing order.
+class Census {
+public:
+    Census(const Population& pop, const Rule& rule, const RuleClock& clock)
+        : pop_(pop), rule_(rule), clock_(clock), by_admission_(pop.encounters.size()) {
+        for (std::uint32_t e = 0; e < by_admission_.size(); ++e) {
+            by_admission_[e] = e;
+            first_ = std::min(first_, pop.encounters[e].admitted);
+            last_ = std::max(last_, Population::usable_until(pop.encounters[e]));
+        }
+        std::stable_sort(by_admission_.begin(), by_admission_.end(), [&](std::uint32_t a, std::uint32_t b) {
+            return pop.encounters[a].admitted < pop.encounters[b].admitted;
+        });
+    }
+
+    // The earliest admission and the latest end of a usable stay.
+    Instant first() const { return first_; }
+    Instant last() const { return last_; }
+
+    // Admits the patients admitted by `t`, lets go those whose stay is no
+    // longer usable at `t`, and feeds every patient the scores available at `t`.
+    void advance_to(Instant t) {
+        for (; next_admission_ < by_admission_.size() && pop_.encounters[by_admission_[next_admission_]].admitted <= t;
+             ++next_admission_) {
+            const std::uint32_t e = by_admission_[next_admission_];
+            if (Population::usable_until(pop_.encounters[e]) <= t) continue;
+            patients_.try_emplace(e, rule_, clock_);
+        }
+        std::erase_if(patients_,
+                      [&](const auto& item) { return Population::usable_until(pop_.encounters[item.first]) <= t; });
+        for (auto& [e, patient] : patients_) {
+            const auto scores = pop_.scores_of(e);
+            while (patient.next_score < scores.size() && scores[patient.next_score].available_at <= t)
+                patient.rule.see(scores[patient.next_score++]);
+        }
+    }
+
+    // Ordered by encounter index.
+    std::map<std::uint32_t, Inpatient>& patients() { return patients_; }
+
+private:
+    const Population& pop_;
+    const Rule& rule_;
+    RuleClock clock_;
+    std::vector<std::uint32_t> by_admission_;
+    std::size_t next_admission_ = 0;
+    Instant first_ = INT64_MAX, last_ = INT64_MIN;
+    std::map<std::uint32_t, Inpatient> patients_;
+};
+
+// What one plan's round needs besides the census.
+struct RoundContext {
+    const Population& pop;
+    const Plan& plan;
+    std::uint32_t plan_index;
+    ReplicationSeed draws;
+};
+
+NoticeOrigin origin_of(const RoundContext& c, std::uint32_t e) {
+    return NoticeOrigin{e, c.pop.encounters[e].unit, c.plan_index, c.plan.channel};
+}
+
+// A handoff at `t`: every current inpatient whose rule fires is flagged, one
+// round per unit.
+void handoff_round(const RoundContext& c, Instant t, Census& census, PlanRecord& record) {
+    std::vector<Round> rounds(c.pop.units.size());
+    for (std::uint32_t u = 0; u < rounds.size(); ++u) rounds[u] = Round{t, u, 0, 0, 0.0};
+    boost::random::uniform_01<double> draw;
+    for (auto& [e, patient] : census.patients()) {
+        const auto reason = patient.rule.fire_if_due(t);
+        if (!reason) continue;
+        // Keyed by patient and handoff instant: the same draw in every plan
+        // flagging this patient at this handoff, whatever its other handoff times.
+        SplitMixEngine follow_up = make_short_stream(c.draws, StreamPurpose::handoff_follow_up,
+                                                     entity_key({e, static_cast<std::uint64_t>(t)}));
+        const bool followed_up = draw(follow_up) < c.plan.handoff.follow_up_probability;
+        const Notice& n = record.notices.emplace_back(
+            make_notice(origin_of(c, e), t, patient.rule.latest(), *reason, followed_up));
+        Round& r = rounds[n.unit];
+        ++r.listed;
+        ++r.acted;
+        r.minutes += c.plan.handoff.minutes_per_flag;
+    }
+    record.rounds.insert(record.rounds.end(), rounds.begin(), rounds.end());
+}
+
 struct Candidate {
     double score;
     Instant score_available_at;
@@ -124,6 +204,45 @@ bool ranks_before(const Candidate& a, const Candidate& b) {
     return *a.id < *b.id;
 }
 
+// A review at `t`: the candidates whose rule would fire, per scope group,
+// ranked and cut to the top N; the team reviews them rank by rank across
+// groups within its capacity.
+void review_round(const RoundContext& c, Instant t, Census& census, PlanRecord& record) {
+    const ReviewSettings& review = c.plan.review;
+    const bool per_unit = review.scope == ReviewScope::unit;
+    std::vector<std::vector<Candidate>> groups(per_unit ? c.pop.units.size() : 1);
+    for (auto& [e, patient] : census.patients()) {
+        const auto reason = patient.rule.would_fire(t);
+        if (!reason) continue;
+        const Score& latest = c.pop.scores_of(e)[patient.next_score - 1];
+        groups[per_unit ? c.pop.encounters[e].unit : 0].push_back(
+            {latest.value, latest.available_at, &c.pop.encounters[e].id, e, *reason});
+    }
+    const auto top_n = static_cast<std::size_t>(review.top_n);
+    std::vector<Round> rounds(groups.size());
+    for (std::size_t g = 0; g < groups.size(); ++g) {
+        auto& list = groups[g];
+        std::sort(list.begin(), list.end(), ranks_before);
+        if (list.size() > top_n) list.resize(top_n);
+        rounds[g] = Round{t, per_unit ? static_cast<std::uint32_t>(g) : whole_hospital,
+                          static_cast<std::int32_t>(list.size()), 0, 0.0};
+        for (const Candidate& cand : list) record.listed.emplace_back(cand.encounter, t);
+    }
+    const int capacity = review.max_reviews_per_round.value_or(INT_MAX);
+    int reviewed = 0;
+    for (std::size_t rank = 0; rank < top_n; ++rank)
+        for (std::size_t g = 0; g < groups.size(); ++g) {
+            if (rank >= groups[g].size() || reviewed >= capacity) continue;
+            const Candidate& cand = groups[g][rank];
+            census.patients().at(cand.encounter).rule.fired(t, cand.reason);
+            record.notices.push_back(make_notice(origin_of(c, cand.encounter), t, cand.score, cand.reason));
+            ++reviewed;
+            ++rounds[g].acted;
+            rounds[g].minutes += review.minutes_per_review;
+        }
+    record.rounds.insert(record.rounds.end(), rounds.begin(), rounds.end());
+}
+
 }  // namespace
 
 PlanRecord run_round_channel(const SimulationSetup& setup, const Population& pop, const ShiftCalendar& cal, const Plan& plan,
@@ -134,102 +253,15 @@ PlanRecord run_round_channel(const SimulationSetup& setup, const Population& pop
     const std::vector<int>& times = handoff ? (plan.handoff.times_minutes.empty() ? setup.shifts.start_minutes
                                                                                    : plan.handoff.times_minutes)
                                             : plan.review.times_minutes;
-    Instant from = INT64_MAX, to = INT64_MIN;
-    std::vector<std::uint32_t> by_admission(pop.encounters.size());
-    for (std::uint32_t e = 0; e < by_admission.size(); ++e) {
-        by_admission[e] = e;
-        from = std::min(from, pop.encounters[e].admitted);
-        to = std::max(to, Population::usable_until(pop.encounters[e]));
-    }
-    std::stable_sort(by_admission.begin(), by_admission.end(), [&](std::uint32_t a, std::uint32_t b) {
-        return pop.encounters[a].admitted < pop.encounters[b].admitted;
-    });
-    const RuleClock clock{&setup.zone, &cal};
     const Rule rule = channel_rule(plan);
-    const std::size_t n_units = pop.units.size();
-    std::map<std::uint32_t, Inpatient> census;  // ordered by encounter index
-    std::size_t next_admission = 0;
-    boost::random::uniform_01<double> draw;
-    const int capacity = plan.review.max_reviews_per_round.value_or(INT_MAX);
-
-    for (const Instant t : daily_instants(times, setup.zone, from, to)) {
-        for (; next_admission < by_admission.size() && pop.encounters[by_admission[next_admission]].admitted <= t;
-             ++next_admission) {
-            const std::uint32_t e = by_admission[next_admission];
-            if (Population::usable_until(pop.encounters[e]) <= t) continue;
-            census.try_emplace(e, rule, clock);
-        }
-        std::erase_if(census, [&](const auto& item) { return Population::usable_until(pop.encounters[item.first]) <= t; });
-        for (auto& [e, patient] : census) {
-            const auto scores = pop.scores_of(e);
-            while (patient.next_score < scores.size() && scores[patient.next_score].available_at <= t)
-                patient.rule.see(scores[patient.next_score++]);
-        }
-        auto notice = [&](std::uint32_t e, NoticeReason reason, double score) {
-            Notice n;
-            n.at = t;
-            n.score = score;
-            n.encounter = e;
-            n.unit = pop.encounters[e].unit;
-            n.plan = plan_index;
-            n.reason = reason;
-            n.channel = plan.channel;
-            return n;
-        };
-        if (handoff) {
-            std::vector<Round> rounds(n_units);
-            for (std::uint32_t u = 0; u < n_units; ++u) rounds[u] = Round{t, u, 0, 0, 0.0};
-            for (auto& [e, patient] : census) {
-                const auto reason = patient.rule.fire_if_due(t);
-                if (!reason) continue;
-                Notice n = notice(e, *reason, patient.rule.latest());
-                // Keyed by patient and handoff instant: the same draw in every plan
-                // flagging this patient at this handoff, whatever its other handoff times.
-                SplitMixEngine follow_up = make_short_stream(ReplicationSeed{setup.seed, replication},
-                                                             StreamPurpose::handoff_follow_up,
-                                                             entity_key({e, static_cast<std::uint64_t>(t)}));
-                n.asks_evaluation = draw(follow_up) < plan.handoff.follow_up_probability;
-                record.notices.push_back(n);
-                Round& r = rounds[n.unit];
-                ++r.listed;
-                ++r.acted;
-                r.minutes += plan.handoff.minutes_per_flag;
-            }
-            record.rounds.insert(record.rounds.end(), rounds.begin(), rounds.end());
-            continue;
-        }
-        // Ranked review: candidates per scope group, ranked, listed, reviewed within capacity.
-        const bool per_unit = plan.review.scope == ReviewScope::unit;
-        std::vector<std::vector<Candidate>> groups(per_unit ? n_units : 1);
-        for (auto& [e, patient] : census) {
-            const auto reason = patient.rule.would_fire(t);
-            if (!reason) continue;
-            const Score& latest = pop.scores_of(e)[patient.next_score - 1];
-            groups[per_unit ? pop.encounters[e].unit : 0].push_back(
-                {latest.value, latest.available_at, &pop.encounters[e].id, e, *reason});
-        }
-        std::vector<Round> rounds(groups.size());
-        for (std::size_t g = 0; g < groups.size(); ++g) {
-            auto& list = groups[g];
-            std::sort(list.begin(), list.end(), ranks_before);
-            if (list.size() > static_cast<std::size_t>(plan.review.top_n)) list.resize(static_cast<std::size_t>(plan.review.top_n));
-            rounds[g] = Round{t, per_unit ? static_cast<std::uint32_t>(g) : whole_hospital,
-                              static_cast<std::int32_t>(list.size()), 0, 0.0};
-            for (const Candidate& c : list) record.listed.emplace_back(c.encounter, t);
-        }
-        int reviewed = 0;
-        for (std::size_t rank = 0; rank < static_cast<std::size_t>(plan.review.top_n); ++rank)
-            for (std::size_t g = 0; g < groups.size(); ++g) {
-                if (rank >= groups[g].size() || reviewed >= capacity) continue;
-                const Candidate& c = groups[g][rank];
-                census.at(c.encounter).rule.fired(t, c.reason);
-                Notice n = notice(c.encounter, c.reason, c.score);
-                record.notices.push_back(n);
-                ++reviewed;
-                ++rounds[g].acted;
-                rounds[g].minutes += plan.review.minutes_per_review;
-            }
-        record.rounds.insert(record.rounds.end(), rounds.begin(), rounds.end());
+    Census census(pop, rule, RuleClock{&setup.zone, &cal});
+    const RoundContext context{pop, plan, plan_index, ReplicationSeed{setup.seed, replication}};
+    for (const Instant t : daily_instants(times, setup.zone, census.first(), census.last())) {
+        census.advance_to(t);
+        if (handoff)
+            handoff_round(context, t, census, record);
+        else
+            review_round(context, t, census, record);
     }
     record.occasions = static_cast<std::int64_t>(record.rounds.size());
     return record;

@@ -58,14 +58,4 @@ private:
     std::uint64_t next_sequence_ = 0;
 };
 
-// Pops and handles events until the queue is empty or the next event is at or
-// after `until`. The handler may schedule more events.
-template <class Payload, class Handler>
-void run_until(EventQueue<Payload>& queue, Instant until, Handler&& handle) {
-    while (!queue.empty() && queue.next_at() < until) {
-        auto event = queue.pop();
-        handle(queue, event);
-    }
-}
-
 }  // namespace tocsin

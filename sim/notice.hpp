@@ -32,4 +32,30 @@ struct Notice {
     std::uint8_t opener_role = 0;
 };
 
+// Where a notice comes from and whom it is about: one plan's channel, one
+// encounter on its unit.
+struct NoticeOrigin {
+    std::uint32_t encounter = 0;
+    std::uint32_t unit = 0;
+    std::uint32_t plan = 0;
+    Channel channel = Channel::page;
+};
+
+// The one way the simulation builds a notice: the rule of `origin` fired at
+// `at` on `score` for `reason`. asks_evaluation and opener_role as in Notice.
+inline Notice make_notice(const NoticeOrigin& origin, Instant at, double score, NoticeReason reason,
+                          bool asks_evaluation = true, std::uint8_t opener_role = 0) {
+    Notice n;
+    n.at = at;
+    n.score = score;
+    n.encounter = origin.encounter;
+    n.unit = origin.unit;
+    n.plan = origin.plan;
+    n.reason = reason;
+    n.channel = origin.channel;
+    n.asks_evaluation = asks_evaluation;
+    n.opener_role = opener_role;
+    return n;
+}
+
 }  // namespace tocsin

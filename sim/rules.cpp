@@ -56,19 +56,11 @@ void fire_page_rule(const Rule& rule, const RuleClock& clock, std::span<const Sc
                     std::uint32_t encounter, std::uint32_t unit, std::uint32_t plan, Channel channel,
                     std::vector<Notice>& out) {
     RuleState state(rule, clock);
+    const NoticeOrigin origin{encounter, unit, plan, channel};
     for (const Score& s : scores) {
         state.see(s);
-        if (auto reason = state.fire_if_due(s.available_at)) {
-            Notice n;
-            n.at = s.available_at;
-            n.score = s.value;
-            n.encounter = encounter;
-            n.unit = unit;
-            n.plan = plan;
-            n.reason = *reason;
-            n.channel = channel;
-            out.push_back(n);
-        }
+        if (auto reason = state.fire_if_due(s.available_at))
+            out.push_back(make_notice(origin, s.available_at, s.value, *reason));
     }
 }
 

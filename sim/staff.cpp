@@ -129,9 +129,11 @@ struct Event {
 constexpr int finish_priority = 0;
 constexpr int escalation_priority = 1;
 
-class Simulation {
+// The staff on duty for one plan: shift changes, notices and the event queue of
+// task finishes and escalation timeouts, merged in time order (see staff.hpp).
+class StaffQueue {
 public:
-    Simulation(std::span<const Notice> notices, const StaffModel& model, const StaffPlan& plan,
+    StaffQueue(std::span<const Notice> notices, const StaffModel& model, const StaffPlan& plan,
                const ShiftCalendar& calendar, Instant until, ReplicationSeed draws)
         : notices_(notices), model_(model), plan_(plan), calendar_(calendar), until_(until),
           minutes_seed_(purpose_seed(draws.seed, draws.replication, StreamPurpose::task_minutes)) {
@@ -459,7 +461,7 @@ StaffRun simulate_staff(std::span<const Notice> notices, const StaffModel& model
                                         std::to_string(n.unit) + " but the staff model has " +
                                         std::to_string(model.unit_count) + " units");
     }
-    return Simulation(notices, model, plan, calendar, until, draws).run();
+    return StaffQueue(notices, model, plan, calendar, until, draws).run();
 }
 
 std::uint64_t task_minutes_entity(std::uint32_t encounter, Instant at, std::uint32_t occurrence,

@@ -1,7 +1,6 @@
 #include "study/review_size.hpp"
 
 #include <map>
-#include <sstream>
 #include <stdexcept>
 
 #include "analysis/results.hpp"
@@ -47,35 +46,6 @@ ReviewSizing size_review_list(const Scenario& sc, const Population& pop, const S
         sizing.rows.push_back(row);
     }
     return sizing;
-}
-
-Table review_size_table(const ReviewSizing& s) {
-    Table t;
-    t.name = "review_size";
-    t.title = "Review list length for plan " + s.plan + " (target catch rate " + format_real(s.target_catch_rate) + ")";
-    t.columns = {"top_n", "cases", "caught", "catch_rate", "on_list", "on_list_share", "reviews", "reviews_per_round",
-                 "minutes_per_round", "reaches_target"};
-    for (const ReviewSizeRow& r : s.rows)
-        t.add_row({std::int64_t{r.top_n}, r.cases, r.caught, r.catch_rate ? Cell(*r.catch_rate) : Cell(), r.on_list,
-                   r.on_list_share ? Cell(*r.on_list_share) : Cell(), r.reviews, r.reviews_per_round,
-                   r.minutes_per_round,
-                   std::int64_t{r.catch_rate && *r.catch_rate >= s.target_catch_rate ? 1 : 0}});
-    return t;
-}
-
-std::string review_size_answer(const ReviewSizing& s) {
-    std::ostringstream o;
-    if (!s.smallest_n) {
-        o << "No list length from " << s.rows.front().top_n << " to " << s.rows.back().top_n
-          << " reaches a catch rate of " << format_real(s.target_catch_rate) << ".";
-        return o.str();
-    }
-    const ReviewSizeRow& r = s.rows[static_cast<std::size_t>(*s.smallest_n - s.rows.front().top_n)];
-    o << "The shortest list reaching a catch rate of " << format_real(s.target_catch_rate) << " is N = " << r.top_n
-      << ": " << r.caught << " of " << r.cases << " cases caught (" << format_real(*r.catch_rate, 3) << "), "
-      << format_real(r.reviews_per_round, 1) << " reviews and " << format_real(r.minutes_per_round, 0)
-      << " staff minutes per review round.";
-    return o.str();
 }
 
 }  // namespace tocsin

@@ -16,7 +16,6 @@
 #include <string>
 #include <vector>
 
-#include "analysis/table.hpp"
 #include "models/population.hpp"
 #include "study/scenario.hpp"
 #include "sim/shifts.hpp"
@@ -41,9 +40,5 @@ struct ReviewSizing {
 ReviewSizing size_review_list(const Scenario& scenario, const Population& population, const ShiftCalendar& calendar,
                               std::size_t plan, int smallest_size, int largest_size, double target_catch_rate,
                               std::uint64_t replication = 0);
-
-Table review_size_table(const ReviewSizing& sizing);
-// The answer in one sentence.
-std::string review_size_answer(const ReviewSizing& sizing);
 
 }  // namespace tocsin

@@ -1,6 +1,6 @@
 #pragma once
-// A whole run: every plan over every replication, reduced to tables. The
-// command-line tool prints and writes what this returns.
+// A whole run: every plan over every replication, reduced to typed results.
+// report/ renders them; the command-line tool prints and writes what it renders.
 #include <cstdint>
 #include <optional>
 #include <string>
@@ -8,6 +8,7 @@
 
 #include "analysis/comparison.hpp"
 #include "analysis/evaluation.hpp"
+#include "analysis/plan_net_benefit.hpp"
 #include "analysis/results.hpp"
 #include "study/experiment.hpp"
 #include "study/scenario.hpp"
@@ -29,28 +30,18 @@ struct RunSettings {
 };
 
 struct RunOutput {
-    // Replication 0's population in summary: its header text and size (the
-    // population itself is not kept: a replayed year holds tens of millions of scores).
-    std::string first_header;
-    std::size_t first_encounters = 0;
-    RunTables first_replication;      // tables of replication 0 (and the notice log of all, when asked)
-    ReplicatedFigures figures;
-    ComparisonTables comparison;
-    Table frontier;
-    std::optional<BudgetAnswer> budget;
+    // Replication 0's results (with the notice and task logs of every
+    // replication, when asked). The population itself is not kept: a replayed
+    // year holds tens of millions of scores.
+    ReplicationResults first_replication;
+    ReplicatedFigures figures;            // every plan's figures in every replication
+    std::vector<PlanNetBenefit> plan_net_benefit;  // replication 0, an evaluation as the intervention
+    std::optional<BudgetAnswer> budget;   // when a budget limit was given
     std::optional<Evaluation> evaluation;  // on replication 0's population
-    Table plan_net_benefit;                // each plan's net benefit, an evaluation as the intervention
-    std::string text;                 // the terminal summary
 };
 
+// Runs every plan over every replication. report/run_text.hpp and
+// report/run_tables.hpp render what it returns.
 RunOutput run_scenario(const Scenario& scenario, const PopulationFactory& make_population, const RunSettings& settings);
-
-// Net benefit of each plan (Vickers & Elkin 2006), treating a bedside
-// evaluation as the intervention: a caught case is a true positive, a patient
-// without the outcome who was evaluated a false positive. Thresholds are given
-// as N, the evaluations one would accept per case found (pt = 1 / N), so model
-// and workflow are judged in the same unit as the decision curve.
-Table plan_net_benefit_table(const std::vector<std::string>& plans, const std::vector<PlanFigures>& figures,
-                             std::size_t encounters, const std::vector<double>& evaluations_per_case);
 
 }  // namespace tocsin

@@ -6,17 +6,33 @@
 // whether time zero falls before or after it. Changes are paired by
 // replication (after - before in the same replication), with the interval of
 // analysis/comparison.hpp (Student t over replications).
+#include <cstdint>
 #include <string>
+#include <vector>
 
-#include "analysis/table.hpp"
+#include "analysis/comparison.hpp"
 #include "study/experiment.hpp"
 #include "study/scenario.hpp"
 
 namespace tocsin {
 
+// The figures split at the shift, in this order for each plan.
+enum class ShiftEffectMetric { per_unit_night_mean, per_unit_shift_mean, sensitivity };
+std::string_view to_string(ShiftEffectMetric metric);
+
+// One figure of one plan before and after the shift's start. `before` and
+// `after` are over the replications where each is defined; `change` over those
+// where both are (its n is the replications column).
+struct ShiftEffectFigure {
+    std::string plan;
+    ShiftEffectMetric metric{};
+    MeanInterval before, after, change;
+};
+
 struct ShiftEffect {
-    Table table;       // "shift_effect": plan, metric, before/after/change with 95% intervals
-    std::string text;  // terminal summary
+    Instant from = 0;  // the shift's start
+    std::uint64_t replications = 0;
+    std::vector<ShiftEffectFigure> figures;  // plans in scenario order, metrics in enum order
 };
 
 // Requires scenario.population.shift. Runs every replication once more (same streams,

@@ -9,7 +9,8 @@
 #include <string>
 #include <vector>
 
-#include "analysis/channel_tables.hpp"
+#include "analysis/channel_burden.hpp"
+#include "report/study_answers.hpp"
 #include "analysis/results.hpp"
 #include "study/review_size.hpp"
 #include "sim/channels.hpp"

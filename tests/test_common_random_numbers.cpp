@@ -14,6 +14,8 @@
 #include <vector>
 
 #include "study/run.hpp"
+#include "report/comparison_tables.hpp"
+#include "report/run_tables.hpp"
 #include "models/population_source.hpp"
 #include "study/sweep.hpp"
 #include "test_support.hpp"
@@ -55,11 +57,20 @@ std::string cell_text(const Cell& c) {
 // (so a plan copied under another name compares equal).
 using RowsByPlan = std::map<std::string, std::map<std::string, std::vector<std::string>>>;
 
-RowsByPlan rows_by_plan(const RunOutput& out) {
-    const RunTables& t = out.first_replication;
+// A run's output and the zone its tables show times in.
+struct RunWithZone {
+    RunOutput out;
+    TimeZone zone;
+};
+
+RowsByPlan rows_by_plan(const RunWithZone& run) {
+    const RunOutput& out = run.out;
+    const RunTables t = run_tables(out.first_replication, run.zone);
+    const ComparisonTables comparison = comparison_tables(out.figures);
+    const Table net_benefit = plan_net_benefit_table(out.plan_net_benefit);
     std::vector<const Table*> tables = {&t.plan_summary, &t.unit_shift_notices, &t.channel_burden, &t.rounds,
-                                        &t.chart_interruptions, &out.comparison.comparison,
-                                        &out.comparison.replication_figures, &out.plan_net_benefit};
+                                        &t.chart_interruptions, &comparison.comparison,
+                                        &comparison.replication_figures, &net_benefit};
     for (const auto* opt : {&t.notice_log, &t.staff_workload, &t.staff_escalations, &t.task_fates, &t.task_log})
         if (*opt) tables.push_back(&**opt);
     RowsByPlan rows;
@@ -76,7 +87,7 @@ RowsByPlan rows_by_plan(const RunOutput& out) {
     return rows;
 }
 
-RunOutput run_text(const std::string& yaml) {
+RunWithZone run_text(const std::string& yaml) {
     Scenario sc = parse_scenario(yaml, "fernhollow-replay.yaml", scenario_dir);
     sc.replications = 2;
     RunSettings settings;
@@ -84,7 +95,7 @@ RunOutput run_text(const std::string& yaml) {
     settings.notice_log = true;
     settings.task_log = true;
     settings.evaluate = false;
-    return run_scenario(sc, population_factory(sc.population), settings);
+    return {run_scenario(sc, population_factory(sc.population), settings), sc.simulation.zone};
 }
 
 // Every table row of plan `plan` in `a` equals the rows of plan `as` in `b`;
@@ -224,8 +235,9 @@ TEST_CASE("common_random_numbers.staffing_sweep_points_draw_the_same_minutes") {
     settings.task_log = true;
     settings.evaluate = false;
     const RunOutput out = run_scenario(sc, population_factory(sc.population), settings);
-    REQUIRE(out.first_replication.task_log);
-    const Table& log = *out.first_replication.task_log;
+    const RunTables tables = run_tables(out.first_replication, sc.simulation.zone);
+    REQUIRE(tables.task_log);
+    const Table& log = *tables.task_log;
     const auto column = [&](const char* name) {
         const auto at = std::find(log.columns.begin(), log.columns.end(), name) - log.columns.begin();
         REQUIRE(static_cast<std::size_t>(at) < log.columns.size());

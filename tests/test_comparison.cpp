@@ -6,6 +6,7 @@
 #include <limits>
 
 #include "analysis/comparison.hpp"
+#include "report/comparison_tables.hpp"
 #include "study/run.hpp"
 
 using namespace tocsin;
@@ -131,7 +132,7 @@ TEST_CASE("comparison.plan_net_benefit") {
     f.cases = 5;
     f.caught = 3;
     f.evaluated_non_cases = 4;
-    const Table t = plan_net_benefit_table({"p"}, {f}, 20, {5, 2});
+    const Table t = plan_net_benefit_table(plan_net_benefit({"p"}, {f}, 20, {5, 2}));
     REQUIRE(t.rows.size() == 2);
     CHECK(std::get<double>(t.rows[0][2]) == doctest::Approx(0.2));
     CHECK(std::get<double>(t.rows[0][6]) == doctest::Approx(0.10));

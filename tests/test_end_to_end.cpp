@@ -6,6 +6,10 @@
 
 #include <algorithm>
 #include <filesystem>
+#include <fstream>
+#include <sstream>
+#include <string>
+#include <vector>
 
 #include "test_support.hpp"
 
@@ -30,6 +34,33 @@ void check_golden(const std::string& produced_path, const std::string& golden_na
                   << " (if the change is intended, rerun with TOCSIN_UPDATE_GOLDEN=1 and review the diff)");
 }
 
+// Every CSV table of an output directory in one text, in file-name order, so
+// one golden holds them all and a diff names the file.
+std::string all_tables(const std::string& directory) {
+    std::vector<std::string> names;
+    for (const auto& entry : std::filesystem::directory_iterator(directory))
+        if (entry.path().extension() == ".csv") names.push_back(entry.path().filename().string());
+    std::sort(names.begin(), names.end());
+    std::string out;
+    for (const std::string& name : names) out += "== " + name + " ==\n" + read_file(directory + "/" + name);
+    return out;
+}
+
+// The terminal text without the line that reports where files went and how long it took.
+std::string terminal_text(const std::string& output) {
+    std::string out;
+    std::istringstream in(output);
+    for (std::string line; std::getline(in, line);)
+        if (line.rfind("Wrote ", 0) != 0) out += line + "\n";
+    return out;
+}
+
+void check_golden_text(const ScratchDir& dir, const std::string& text, const std::string& golden_name) {
+    const std::string path = dir.path(golden_name);
+    std::ofstream(path, std::ios::binary) << text;
+    check_golden(path, golden_name);
+}
+
 }  // namespace
 
 TEST_CASE("end_to_end.demo_golden") {
@@ -46,6 +77,11 @@ TEST_CASE("end_to_end.demo_golden") {
     check_golden(dir.path("out/task_fates.csv"), "replay_task_fates.csv");
     check_golden(dir.path("out/channel_burden.csv"), "replay_channel_burden.csv");
     CHECK(std::filesystem::exists(dir.path("out/CAUTIONS.txt")));
+    // Every table, the HTML report and the terminal summary, so that a change
+    // of structure that should not change a byte is proved not to.
+    check_golden_text(dir, all_tables(dir.path("out")), "replay_all_tables.txt");
+    check_golden(dir.path("out/report.html"), "replay_report.html");
+    check_golden_text(dir, terminal_text(r.output), "replay_terminal.txt");
 }
 
 TEST_CASE("end_to_end.same_bytes_whatever_the_threads") {
@@ -114,6 +150,7 @@ TEST_CASE("end_to_end.review_size") {
     CHECK(std::count(csv.begin(), csv.end(), '\n') == 7);
     CHECK((r.output.find("The shortest list reaching a catch rate of 0.6 is N = ") != std::string::npos ||
            r.output.find("No list length from 1 to 6") != std::string::npos));
+    check_golden_text(dir, read_file(dir.path("size/review_size.csv")) + terminal_text(r.output), "replay_review_size.txt");
     const auto page = run_tocsin("review-size " + demo + " --plan page-70");
     CHECK(page.exit_code == 2);
     CHECK(page.output.find("list sizing needs a ranked_review plan") != std::string::npos);
@@ -126,6 +163,8 @@ TEST_CASE("end_to_end.check_describes_the_scenario") {
     CHECK(r.output.find("page-55-rise: page to rapid response nurse when deterioration score >= 55; snooze 4 h; a rise of 10") != std::string::npos);
     CHECK(r.output.find("The scenario is valid.") != std::string::npos);
     CHECK(r.output.find("escalation: rapid response nurse -(30 min)-> house physician; worst case 30 min to reach house physician") != std::string::npos);
+    ScratchDir dir;
+    check_golden_text(dir, r.output, "replay_check.txt");
 }
 
 TEST_CASE("end_to_end.generated_demo_with_replications") {
@@ -140,6 +179,9 @@ TEST_CASE("end_to_end.generated_demo_with_replications") {
     CHECK(one.output.find("not a medical device") != std::string::npos);
     check_golden(dir.path("one/plan_comparison.csv"), "demo_plan_comparison.csv");
     check_golden(dir.path("one/plan_differences.csv"), "demo_plan_differences.csv");
+    check_golden_text(dir, all_tables(dir.path("one")), "demo_all_tables.txt");
+    check_golden(dir.path("one/report.html"), "demo_report.html");
+    check_golden_text(dir, terminal_text(one.output), "demo_terminal.txt");
     REQUIRE(run_tocsin("run " + generated_demo + " --threads 2 --out " + dir.path("two")).exit_code == 0);
     for (const auto& entry : std::filesystem::directory_iterator(dir.path("one"))) {
         const std::string name = entry.path().filename().string();
@@ -195,4 +237,32 @@ TEST_CASE("end_to_end.lone_cr_log_checks_like_the_original") {
     };
     CHECK_FALSE(input_line(original.output).empty());
     CHECK(input_line(cr.output) == input_line(original.output));
+}
+
+TEST_CASE("end_to_end.stress_test_sweep_and_evaluate_goldens") {
+    // The other commands' every output, byte for byte: a generated population
+    // under a stress-test shift, a two-axis sweep, and the model evaluation
+    // with a probability mapping (calibration and decision curve included).
+    ScratchDir dir;
+    const auto shifted = run_tocsin("run " + source_dir + "/scenarios/generated.yaml -r 3 --threads 2 --out " + dir.path("shifted"));
+    INFO(shifted.output);
+    REQUIRE(shifted.exit_code == 0);
+    check_golden_text(dir, all_tables(dir.path("shifted")), "generated_all_tables.txt");
+    check_golden(dir.path("shifted/report.html"), "generated_report.html");
+    check_golden_text(dir, terminal_text(shifted.output), "generated_terminal.txt");
+
+    const auto sweep = run_tocsin("sweep " + generated_demo +
+                                  " --vary plan.rule.threshold=50:70:5 --vary plan.rule.snooze_minutes=60,240 -r 2 --threads 2 --out " +
+                                  dir.path("sweep"));
+    INFO(sweep.output);
+    REQUIRE(sweep.exit_code == 0);
+    check_golden_text(dir, all_tables(dir.path("sweep")), "sweep_all_tables.txt");
+    check_golden(dir.path("sweep/report.html"), "sweep_report.html");
+    check_golden_text(dir, terminal_text(sweep.output), "sweep_terminal.txt");
+
+    const auto evaluation = run_tocsin("evaluate " + demo + " --probability divide:100 --evaluate-per-case 5 --out " +
+                                       dir.path("evaluation"));
+    INFO(evaluation.output);
+    REQUIRE(evaluation.exit_code == 0);
+    check_golden_text(dir, all_tables(dir.path("evaluation")) + terminal_text(evaluation.output), "evaluate_all.txt");
 }

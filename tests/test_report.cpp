@@ -10,7 +10,7 @@
 #include <limits>
 #include <regex>
 
-#include "analysis/cautions.hpp"
+#include "report/cautions.hpp"
 #include "report/html.hpp"
 #include "report/report.hpp"
 #include "report/svg.hpp"

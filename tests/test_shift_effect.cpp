@@ -2,6 +2,7 @@
 #include <doctest/doctest.h>
 
 #include "study/shift_effect.hpp"
+#include "report/study_answers.hpp"
 #include "models/population_source.hpp"
 #include "study/scenario.hpp"
 
@@ -35,15 +36,16 @@ TEST_CASE("shift_effect.raised_census_shows_as_more_notices") {
     const Scenario sc = parse_scenario(scenario("    census: [{unit: north, multiplier: 3}, {unit: south, multiplier: 3}]\n"),
                                        "s.yaml", "");
     const ShiftEffect effect = shift_effect(sc, population_factory(sc.population), 2);
-    REQUIRE(effect.table.rows.size() == 3);  // one plan x three metrics
-    const auto& night = effect.table.rows[0];
+    const Table table = shift_effect_table(effect);
+    REQUIRE(table.rows.size() == 3);  // one plan x three metrics
+    const auto& night = table.rows[0];
     CHECK(std::get<std::string>(night[1]) == "per_unit_night_mean");
     const double before = std::get<double>(night[2]), after = std::get<double>(night[5]);
     const double change_low = std::get<double>(night[9]);
     CHECK(after > 1.5 * before);
     CHECK(change_low > 0);
     CHECK(std::get<std::int64_t>(night[11]) == 8);
-    CHECK(effect.text.find("notices per unit per night") != std::string::npos);
+    CHECK(shift_effect_text(effect, sc.simulation.zone).find("notices per unit per night") != std::string::npos);
 }
 
 TEST_CASE("shift_effect.feed_outage_silences_its_hours") {
@@ -51,7 +53,8 @@ TEST_CASE("shift_effect.feed_outage_silences_its_hours") {
     // score available at night after the shift: notices at night drop to 0.
     const Scenario sc = parse_scenario(scenario("    outage_hours: 336\n"), "s.yaml", "");
     const ShiftEffect effect = shift_effect(sc, population_factory(sc.population), 1);
-    const auto& night = effect.table.rows[0];
+    const Table table = shift_effect_table(effect);
+    const auto& night = table.rows[0];
     CHECK(std::get<double>(night[2]) > 0);
     CHECK(std::get<double>(night[5]) == 0);
 }

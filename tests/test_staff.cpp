@@ -9,6 +9,7 @@
 #include <tuple>
 
 #include "analysis/workload.hpp"
+#include "report/run_tables.hpp"
 #include "staff_stories.hpp"
 
 using namespace tocsin;
@@ -79,7 +80,7 @@ TEST_CASE("staff.two_nurses_three_tasks_one_escalation") {
 
         const PlanStaffRun pr{"night pages", &model, plan, &run};
         const ShiftCalendar calendar = calendar_from(march(2, 7, 0), march(4, 7, 0));
-        const Table workload = staff_workload_table(std::span(&pr, 1), calendar);
+        const Table workload = staff_workload_table(staff_workload(std::span(&pr, 1), calendar));
         // Shifts in the run (07:00 to 23:00): the day shift and the night shift.
         const auto& ward = row_of(workload, {"night pages", "ward nurse"});
         CHECK(cell<std::int64_t>(workload, ward, "team_shifts") == 2);
@@ -95,7 +96,7 @@ TEST_CASE("staff.two_nurses_three_tasks_one_escalation") {
         CHECK(cell<std::int64_t>(workload, charge, "tasks_arrived") == 1);
         CHECK(cell<double>(workload, charge, "wait_minutes_median") == doctest::Approx(10));
 
-        const Table escalations = escalation_table(std::span(&pr, 1));
+        const Table escalations = escalation_table(tocsin::escalations(std::span(&pr, 1)));
         REQUIRE(escalations.rows.size() == 1);
         CHECK(cell<std::int64_t>(escalations, escalations.rows[0], "tasks_escalated") == 1);
         CHECK(cell<double>(escalations, escalations.rows[0], "timeout_minutes") == doctest::Approx(10));
@@ -148,7 +149,7 @@ TEST_CASE("staff.shift_end") {
         CHECK(run.tasks[0].fate == TaskFate::finished);
         // Staff minutes are counted where they were worked: 10 by day, 20 by night.
         const PlanStaffRun pr{"p", &model, plan, &run};
-        const Table w = staff_workload_table(std::span(&pr, 1), calendar);
+        const Table w = staff_workload_table(staff_workload(std::span(&pr, 1), calendar));
         CHECK(cell<double>(w, w.rows[0], "staff_minutes_per_shift_mean") == doctest::Approx(15));
         CHECK(cell<double>(w, w.rows[0], "staff_minutes_per_shift_p90") == doctest::Approx(10 + 0.9 * 10));
         CHECK(cell<std::int64_t>(w, w.rows[0], "handed_over") == 1);
@@ -166,7 +167,7 @@ TEST_CASE("staff.shift_end") {
         CHECK(run.tasks[1].fate == TaskFate::never_taken_up);
         CHECK_FALSE(run.tasks[1].started());
         const PlanStaffRun pr{"p", &model, plan, &run};
-        const Table w = staff_workload_table(std::span(&pr, 1), calendar);
+        const Table w = staff_workload_table(staff_workload(std::span(&pr, 1), calendar));
         CHECK(cell<double>(w, w.rows[0], "overtime_minutes") == doctest::Approx(20));
         CHECK(cell<std::int64_t>(w, w.rows[0], "never_taken_up") == 1);
     }
@@ -198,7 +199,7 @@ TEST_CASE("staff.shift_end") {
         CHECK(run.tasks[0].started_at == march(2, 18, 50));
         CHECK(run.tasks[0].ended_at == march(2, 19, 0));
         const PlanStaffRun pr{"p", &model, plan, &run};
-        const Table w = staff_workload_table(std::span(&pr, 1), calendar);
+        const Table w = staff_workload_table(staff_workload(std::span(&pr, 1), calendar));
         CHECK(cell<std::int64_t>(w, w.rows[0], "dropped") == 1);
         CHECK(cell<double>(w, w.rows[0], "staff_minutes_per_shift_mean") == doctest::Approx(5));
     }

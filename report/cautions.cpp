@@ -1,4 +1,4 @@
-#include "analysis/cautions.hpp"
+#include "report/cautions.hpp"
 
 namespace tocsin {
 

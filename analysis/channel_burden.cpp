@@ -1,4 +1,4 @@
-#include "analysis/channel_tables.hpp"
+#include "analysis/channel_burden.hpp"
 
 #include <algorithm>
 
@@ -29,11 +29,45 @@ std::vector<std::uint8_t> chart_roles(const SimulationSetup& setup, const Plan& 
     return roles;
 }
 
-Cell summary(const std::vector<double>& values, double q) {
-    if (values.empty()) return Cell();
+std::optional<double> summary(const std::vector<double>& values, double q) {
+    if (values.empty()) return std::nullopt;
     std::vector<double> v = values;
     std::sort(v.begin(), v.end());
-    return q < 0 ? Cell(mean(v)) : Cell(quantile_sorted(v, q));
+    return q < 0 ? mean(v) : quantile_sorted(v, q);
+}
+
+ChannelBurdenSummary burden_summary(const Plan& plan, const PlanRecord& rec, const ChannelBurden& b) {
+    ChannelBurdenSummary s;
+    s.plan = plan.name;
+    s.channel = plan.channel;
+    s.occasions = rec.occasions;
+    s.notices = static_cast<std::int64_t>(rec.notices.size());
+    for (const Notice& n : rec.notices) s.evaluations += n.asks_evaluation;
+    s.delivery_minutes = delivery_minutes(plan) * static_cast<double>(rec.notices.size());
+    s.burden = b.measure;
+    s.burden_mean = summary(b.values, -1);
+    s.burden_p90 = summary(b.values, 0.9);
+    if (!b.values.empty()) s.burden_max = *std::max_element(b.values.begin(), b.values.end());
+    s.minutes_mean = summary(b.minutes, -1);
+    s.minutes_p90 = summary(b.minutes, 0.9);
+    return s;
+}
+
+// Each unit x reporting shift x opening role the plan interrupts.
+void add_chart_interruptions(std::vector<ChartInterruptionCount>& out, const SimulationSetup& setup, const Population& pop,
+                             const ShiftCalendar& cal, const ReportingShifts& rep, const Plan& plan, const ChannelBurden& b) {
+    const auto roles = chart_roles(setup, plan);
+    std::size_t i = 0;
+    for (std::size_t u = 0; u < pop.units.size(); ++u)
+        for (std::size_t k = 0; k < rep.shifts.size(); ++k)
+            for (std::uint8_t r : roles) {
+                const std::size_t s = rep.shifts[k];
+                const double heads = setup.chart_openings->roles[r].clinicians_per_unit;
+                const double per = b.values[i], mins = b.minutes[i];
+                ++i;
+                out.push_back({plan.name, pop.units[u], setup.chart_openings->roles[r].name, cal.shifts()[s].start,
+                               cal.name_of(s), per * heads, heads, per, mins * heads});
+            }
 }
 
 }  // namespace
@@ -94,62 +128,21 @@ ChannelBurden channel_burden(const SimulationSetup& setup, const Population& pop
     return b;
 }
 
-ChannelTables channel_tables(const SimulationSetup& setup, const AnalysisSettings& settings, const Population& pop, const ShiftCalendar& cal,
-                             const ReplicationRecord& record) {
-    ChannelTables t;
-    const ReportingShifts rep = reporting_shifts(settings, pop, cal);
-    t.channel_burden.name = "channel_burden";
-    t.channel_burden.title = "Burden by channel, in each channel's own unit (reporting period)";
-    t.channel_burden.columns = {"plan", "channel", "occasions", "notices", "evaluations", "delivery_minutes",
-                                "burden", "burden_mean", "burden_p90", "burden_max", "minutes_mean", "minutes_p90"};
-    t.rounds.name = "rounds";
-    t.rounds.title = "Handoff lists and review rounds";
-    t.rounds.columns = {"plan", "channel", "scope", "at", "listed", "acted", "minutes"};
-    t.chart_interruptions.name = "chart_interruptions";
-    t.chart_interruptions.title = "Chart interruptions per unit, shift and opening role";
-    t.chart_interruptions.columns = {"plan", "unit", "role", "shift_start", "shift", "interruptions", "clinicians",
-                                     "per_clinician", "minutes"};
+ChannelResults channel_results(const SimulationSetup& setup, const ReportingShifts& rep, const Population& pop,
+                               const ShiftCalendar& cal, const ReplicationRecord& record) {
+    ChannelResults out;
     for (std::size_t p = 0; p < setup.plans.size(); ++p) {
         const Plan& plan = setup.plans[p];
         const PlanRecord& rec = record.plans[p];
         const ChannelBurden b = channel_burden(setup, pop, cal, rep, plan, rec);
-        std::int64_t evaluations = 0;
-        for (const Notice& n : rec.notices) evaluations += n.asks_evaluation;
-        const double minutes = delivery_minutes(plan) * static_cast<double>(rec.notices.size());
-        t.channel_burden.add_row({plan.name, std::string(to_string(plan.channel)), rec.occasions,
-                                  static_cast<std::int64_t>(rec.notices.size()), evaluations, minutes, b.measure,
-                                  summary(b.values, -1), summary(b.values, 0.9),
-                                  b.values.empty() ? Cell() : Cell(*std::max_element(b.values.begin(), b.values.end())),
-                                  summary(b.minutes, -1), summary(b.minutes, 0.9)});
+        out.burden.push_back(burden_summary(plan, rec, b));
         for (const Round& r : rec.rounds)
-            t.rounds.add_row({plan.name, std::string(to_string(plan.channel)),
-                              r.unit == whole_hospital ? std::string("hospital") : pop.units[r.unit],
-                              format_local(r.at, setup.zone), std::int64_t{r.listed}, std::int64_t{r.acted}, r.minutes});
-        if (plan.channel == Channel::chart_interruption) {
-            const std::size_t n_shifts = rep.shifts.size();
-            const auto roles = chart_roles(setup, plan);
-            std::size_t i = 0;
-            for (std::size_t u = 0; u < pop.units.size(); ++u)
-                for (std::size_t k = 0; k < n_shifts; ++k)
-                    for (std::uint8_t r : roles) {
-                        const std::size_t s = rep.shifts[k];
-                        const double heads = setup.chart_openings->roles[r].clinicians_per_unit;
-                        const double per = b.values[i], mins = b.minutes[i];
-                        ++i;
-                        t.chart_interruptions.add_row({plan.name, pop.units[u], setup.chart_openings->roles[r].name,
-                                                       format_local(cal.shifts()[s].start, setup.zone), cal.name_of(s),
-                                                       per * heads, heads, per, mins * heads});
-                    }
-        }
+            out.rounds.push_back({plan.name, plan.channel, r.unit == whole_hospital ? std::string("hospital") : pop.units[r.unit],
+                                  r.at, std::int64_t{r.listed}, std::int64_t{r.acted}, r.minutes});
+        if (plan.channel == Channel::chart_interruption)
+            add_chart_interruptions(out.chart_interruptions, setup, pop, cal, rep, plan, b);
     }
-    return t;
-}
-
-void add_chart_opening_exclusions(Table& exclusions, const ChartOpeningLog& log) {
-    for (const auto& [reason, n] : log.excluded_by_reason) exclusions.add_row({"chart openings", reason, n});
-    for (const auto& [reason, n] : log.notes) exclusions.add_row({"timestamps", "chart openings: " + reason, n});
-    for (const auto& [reason, rows] : log.rows_skipped)
-        exclusions.add_row({"skipped rows", reason + " (" + describe_lines(rows) + ")", rows.count});
+    return out;
 }
 
 }  // namespace tocsin

@@ -1,0 +1,141 @@
+#include "report/comparison_tables.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <sstream>
+
+#include "report/cells.hpp"
+
+namespace tocsin {
+
+ComparisonTables comparison_tables(const ReplicatedFigures& f, std::size_t ref) {
+    ComparisonTables t;
+    const auto& metrics = plan_metrics();
+    t.comparison.name = "plan_comparison";
+    t.comparison.title = "Plans compared across replications (mean and 95% CI)";
+    t.comparison.columns = {"plan", "metric", "mean", "ci_low", "ci_high", "replications"};
+    t.differences.name = "plan_differences";
+    t.differences.title = "Paired differences from " + f.plans[ref] + " (same patients in each replication)";
+    t.differences.columns = {"plan", "versus", "metric", "mean_difference", "ci_low", "ci_high", "replications"};
+    t.replication_figures.name = "replication_figures";
+    t.replication_figures.title = "Every figure of every replication";
+    t.replication_figures.columns = {"plan", "replication", "metric", "value"};
+    for (std::size_t p = 0; p < f.plans.size(); ++p)
+        for (std::size_t m = 0; m < metrics.size(); ++m) {
+            const std::string name(metrics[m].name);
+            const MeanInterval mi = mean_interval(f.of(p, m));
+            t.comparison.add_row({f.plans[p], name, finite_or_empty(mi.mean), finite_or_empty(mi.low),
+                                  finite_or_empty(mi.high), static_cast<std::int64_t>(mi.n)});
+            for (std::uint64_t r = 0; r < f.replications; ++r)
+                t.replication_figures.add_row({f.plans[p], static_cast<std::int64_t>(r), name,
+                                               finite_or_empty(f.of(p, m)[r])});
+            if (p == ref) continue;
+            const MeanInterval d = paired_difference(f, p, ref, m);
+            t.differences.add_row({f.plans[p], f.plans[ref], name, finite_or_empty(d.mean), finite_or_empty(d.low),
+                                   finite_or_empty(d.high), static_cast<std::int64_t>(d.n)});
+        }
+    return t;
+}
+
+Table frontier_table(const ReplicatedFigures& f, std::size_t burden, std::size_t benefit) {
+    Table t;
+    t.name = "frontier";
+    t.title = "Trade-off frontier";
+    t.columns = {"plan", "burden_metric", "burden", "benefit_metric", "benefit", "on_frontier"};
+    for (const FrontierPoint& p : frontier(f, burden, benefit))
+        t.add_row({f.plans[p.plan], std::string(plan_metrics()[burden].name), finite_or_empty(p.burden),
+                   std::string(plan_metrics()[benefit].name), finite_or_empty(p.benefit),
+                   std::int64_t{p.on_frontier ? 1 : 0}});
+    return t;
+}
+
+std::string with_interval(const MeanInterval& m, int decimals) {
+    if (!std::isfinite(m.mean)) return "-";
+    auto fmt = [&](double v) { return format_real(v, decimals); };
+    if (!std::isfinite(m.low)) return fmt(m.mean);
+    return fmt(m.mean) + " (" + fmt(m.low) + " to " + fmt(m.high) + ")";
+}
+
+namespace {
+std::size_t metric_index(std::string_view name) { return metric_index(*find_metric(name)); }
+}  // namespace
+
+std::string frontier_text(const ReplicatedFigures& f, std::size_t burden, std::size_t benefit) {
+    auto points = frontier(f, burden, benefit);
+    std::vector<FrontierPoint> on;
+    for (const auto& p : points)
+        if (p.on_frontier) on.push_back(p);
+    std::sort(on.begin(), on.end(), [](const FrontierPoint& a, const FrontierPoint& b) { return a.burden < b.burden; });
+    std::ostringstream o;
+    o << "Trade-off frontier (" << on.size() << " of " << points.size() << " plans are not beaten on both "
+      << plan_metrics()[burden].name << " and " << plan_metrics()[benefit].name << "):\n";
+    for (const auto& p : on)
+        o << "  " << f.plans[p.plan] << ": " << format_real(p.burden, 2) << " " << plan_metrics()[burden].name << ", "
+          << format_real(p.benefit, 2) << " " << plan_metrics()[benefit].name << "\n";
+    return o.str();
+}
+
+std::string comparison_text(const ReplicatedFigures& f, std::size_t ref) {
+    std::ostringstream o;
+    const std::vector<std::pair<std::string_view, int>> shown = {
+        {"per_unit_night_mean", 2}, {"per_unit_night_p90", 1}, {"caught", 1}, {"sensitivity", 2}, {"lead_median_h", 1}};
+    Table view;
+    view.title = f.replications > 1
+                     ? "Plans compared over " + std::to_string(f.replications) + " replications: mean (95% CI)"
+                     : "Plans compared (one replication: no interval)";
+    view.columns = {"plan", "night_mean", "night_p90", "caught", "sensitivity", "lead_median_h"};
+    for (std::size_t p = 0; p < f.plans.size(); ++p) {
+        std::vector<Cell> row{f.plans[p]};
+        for (const auto& [name, d] : shown) row.push_back(with_interval(mean_interval(f.of(p, metric_index(name))), d));
+        view.add_row(row);
+    }
+    o << to_text(view);
+    if (f.replications > 1 && f.plans.size() > 1) {
+        o << "\nPaired differences from " << f.plans[ref] << " (same patients in each replication):\n";
+        const std::size_t night = metric_index("per_unit_night_mean"), caught = metric_index("caught");
+        for (std::size_t p = 0; p < f.plans.size(); ++p) {
+            if (p == ref) continue;
+            const MeanInterval a = paired_difference(f, p, ref, night), c = paired_difference(f, p, ref, caught);
+            o << "  " << f.plans[p] << ": " << with_interval(a, 2) << " notices per unit per night, "
+              << with_interval(c, 1) << " cases caught\n";
+        }
+    }
+    return o.str();
+}
+
+std::string budget_text(const ReplicatedFigures& f, const BudgetAnswer& a, std::size_t burden, double limit,
+                        std::size_t benefit) {
+    std::ostringstream o;
+    const Metric& bm = plan_metrics()[burden];
+    const Metric& gm = plan_metrics()[benefit];
+    o << "Budget: " << bm.label << " at most " << format_real(limit, 3) << " (mean over replications).\n";
+    for (std::size_t p = 0; p < f.plans.size(); ++p) {
+        const bool in = std::find(a.within.begin(), a.within.end(), p) != a.within.end();
+        o << "  " << (in ? "within " : "over   ") << f.plans[p] << ": " << with_interval(mean_interval(f.of(p, burden)), 2)
+          << " " << bm.name << ", within the limit in " << format_real(100 * a.share_within[p], 0)
+          << "% of replications; " << with_interval(mean_interval(f.of(p, benefit)), 1) << " " << gm.name << "\n";
+    }
+    if (!a.best) {
+        o << "No plan keeps " << bm.label << " within " << format_real(limit, 3) << ".\n";
+    } else {
+        o << "Best within the budget: " << f.plans[*a.best] << " (most " << gm.label << "); it had the most "
+          << gm.name << " among the plans within the budget in " << format_real(100 * a.share_best, 0) << "% of "
+          << f.replications << " replications.\n";
+    }
+    return o.str();
+}
+
+Table plan_net_benefit_table(const std::vector<PlanNetBenefit>& rows) {
+    Table t;
+    t.name = "plan_net_benefit";
+    t.title = "Net benefit of each plan (an evaluation as the intervention; replication 0)";
+    t.columns = {"plan", "evaluations_per_case", "threshold_probability", "true_positives", "false_positives",
+                 "encounters", "net_benefit", "net_benefit_treat_all"};
+    for (const PlanNetBenefit& b : rows)
+        t.add_row({b.plan, b.evaluations_per_case, b.threshold_probability, b.true_positives, b.false_positives,
+                   b.encounters, b.net_benefit ? Cell(*b.net_benefit) : Cell(),
+                   b.net_benefit_treat_all ? Cell(*b.net_benefit_treat_all) : Cell()});
+    return t;
+}
+
+}  // namespace tocsin

@@ -1,0 +1,35 @@
+#pragma once
+// Comparison across replications as tables and terminal text: the figures of
+// analysis/comparison.hpp with their intervals, paired differences, the
+// trade-off frontier and the budget answer; and each plan's net benefit.
+#include <cstddef>
+#include <string>
+#include <vector>
+
+#include "analysis/comparison.hpp"
+#include "analysis/plan_net_benefit.hpp"
+#include "analysis/table.hpp"
+
+namespace tocsin {
+
+struct ComparisonTables {
+    Table comparison;    // plan, metric, mean, ci_low, ci_high, replications
+    Table differences;   // plan, versus, metric, mean_difference, ci_low, ci_high, replications
+    Table replication_figures;  // plan, replication, metric, value
+};
+// Differences are each plan minus `reference_plan` (default the first).
+ComparisonTables comparison_tables(const ReplicatedFigures& f, std::size_t reference_plan = 0);
+Table frontier_table(const ReplicatedFigures& f, std::size_t burden_metric, std::size_t benefit_metric);
+Table plan_net_benefit_table(const std::vector<PlanNetBenefit>& rows);
+
+// "1.3 (1.1 to 1.5)" with the given decimals; just the mean when there is no interval.
+std::string with_interval(const MeanInterval& m, int decimals);
+// A compact terminal view: the main figures with intervals, and paired
+// differences from the reference plan.
+std::string comparison_text(const ReplicatedFigures& f, std::size_t reference_plan = 0);
+// The plans on the frontier, lightest first.
+std::string frontier_text(const ReplicatedFigures& f, std::size_t burden_metric, std::size_t benefit_metric);
+std::string budget_text(const ReplicatedFigures& f, const BudgetAnswer& answer, std::size_t burden_metric,
+                        double limit, std::size_t benefit_metric);
+
+}  // namespace tocsin
