@@ -32,38 +32,27 @@ const std::vector<std::pair<std::string, std::string>> staff_labels = {
     {"wait_minutes_p90", "wait, 90th percentile, minutes"},
     {"never_taken_up", "never taken up"}};
 
-// The plain-word lines of `tocsin check` after the scenario's name and
-// question, one per item: a list header ("Plans (5):") becomes a prefix of its
-// items ("Plan page-70: ..."), and lines indented under an item join it.
+// The scenario's description (study/describe.hpp) after its name and
+// question, one line per statement: a list's entries stand alone, named by
+// the list's entry label ("Plan page-70: ..."), with their own statements
+// joined on as sentences.
 std::vector<std::string> assumptions_of(const Scenario& sc) {
     std::vector<std::string> lines;
-    std::istringstream in(describe_scenario(sc));
-    std::string item_prefix;
-    bool in_item = false;
-    for (std::string line; std::getline(in, line);) {
-        const std::size_t indent = line.find_first_not_of(' ');
-        if (indent == std::string::npos) continue;
-        line.erase(0, indent);
-        if (line.rfind("Scenario:", 0) == 0 || line == sc.description) continue;
-        if (indent == 0 && line.back() == ':') {
-            item_prefix = line.rfind("Plans", 0) == 0 ? "Plan " : line.rfind("Staff", 0) == 0 ? "Role " : "";
-            if (item_prefix.empty()) lines.push_back(line);
-            in_item = false;
+    for (const DescriptionItem& item : scenario_description(sc).items) {
+        if (item.items.empty()) {
+            lines.push_back(item.text);
             continue;
         }
-        if (line.rfind("- ", 0) == 0) {
-            lines.push_back(item_prefix + line.substr(2));
-            in_item = true;
-            continue;
+        for (const DescriptionItem& entry : item.items) {
+            std::string line = item.entry_label + " " + entry.text;
+            for (const DescriptionItem& statement : entry.items) {
+                std::string sentence = statement.text;
+                if (sentence.empty()) continue;
+                sentence[0] = static_cast<char>(std::toupper(static_cast<unsigned char>(sentence[0])));
+                line += (line.back() == '.' ? " " : ". ") + sentence;
+            }
+            lines.push_back(std::move(line));
         }
-        if (in_item && indent > 2) {
-            line[0] = static_cast<char>(std::toupper(static_cast<unsigned char>(line[0])));
-            lines.back() += (lines.back().back() == '.' ? " " : ". ") + line;
-            continue;
-        }
-        in_item = false;
-        item_prefix.clear();
-        lines.push_back(line);
     }
     return lines;
 }

@@ -1,4 +1,6 @@
-// The plain-words description of a scenario, for `tocsin check`.
+// The plain-words description of a scenario, as items (study/describe.hpp).
+#include "study/describe.hpp"
+
 #include <cmath>
 #include <sstream>
 
@@ -10,15 +12,165 @@ namespace tocsin {
 using scenario_load::weekday_names;
 
 namespace {
+
 std::string num(double v) {
     std::ostringstream o;
     o << v;
     return o.str();
 }
+
 std::string duration_words(Seconds s) {
     if (s % 3600 == 0) return num(static_cast<double>(s) / 3600) + " h";
     return num(static_cast<double>(s) / 60) + " min";
 }
+
+std::string clock_times(const std::vector<int>& minutes, const char* separator) {
+    std::string out;
+    for (std::size_t k = 0; k < minutes.size(); ++k) out += (k ? separator : "") + format_clock_minutes(minutes[k]);
+    return out;
+}
+
+DescriptionItem statement(std::string text) { return {.text = std::move(text), .entry_label = {}, .items = {}}; }
+
+std::string setting_line(const Scenario& sc) {
+    return "Time zone: " + sc.time_zone_name + "; seed " + std::to_string(sc.simulation.seed) + "; " +
+           std::to_string(sc.replications) + (sc.replications == 1 ? " replication" : " replications");
+}
+
+std::string shifts_line(const ShiftPattern& shifts) {
+    std::string out = "Shifts:";
+    for (std::size_t i = 0; i < shifts.names.size(); ++i)
+        out += " " + shifts.names[i] + " from " + format_clock_minutes(shifts.start_minutes[i]) +
+               (shifts.is_night[i] ? " (night)" : "") + (i + 1 < shifts.names.size() ? "," : "");
+    return out;
+}
+
+std::string replay_line(const PopulationSetup& pop) {
+    const ReplaySource& r = pop.replay;
+    std::string out = "Population: replay of " + r.encounters_path + " and " + r.scores_path;
+    if (r.latency_when_missing)
+        out += " (latency " + duration_words(r.latency_when_missing) + " when available_at is empty)";
+    if (r.bad_rows == BadRows::skip) out += "; bad rows are skipped and counted (bad_rows: skip)";
+    return out;
+}
+
+std::string bootstrap_line(const BootstrapConfig& b) {
+    const bool stationary = b.scheme == BlockScheme::stationary;
+    return std::string("Replications 1, 2, ...: ") + (stationary ? "stationary" : "moving-block") + " bootstrap of " +
+           std::to_string(b.block_days) + "-day blocks per unit, runs of " + num(b.mean_run_blocks) + " blocks" +
+           (b.mean_run_blocks > 1 && stationary ? " on average" : "");
+}
+
+std::string generated_line(const PopulationSetup& pop, const TimeZone& zone) {
+    const GeneratorConfig& g = pop.generator;
+    int beds = 0;
+    for (const UnitConfig& u : g.units) beds += u.beds;
+    std::string out = "Population: generated, " + std::to_string(g.units.size()) + " units with " + std::to_string(beds) +
+                      " beds, " + format_local(g.period_start, zone) + " to " + format_local(g.period_end, zone) +
+                      "; outcome in " + num(100 * g.outcome.probability) + " % of stays; scores every " +
+                      num(g.scores.cadence_minutes) + " min";
+    if (pop.target_auc) out += "; rise before time zero calibrated to an encounter-level AUC of " + num(*pop.target_auc);
+    return out;
+}
+
+std::string stress_line(const ShiftStress& x, const TimeZone& zone) {
+    std::vector<std::string> parts;
+    if (x.outcome_rate_multiplier != 1) parts.push_back("outcome rate x " + num(x.outcome_rate_multiplier));
+    if (x.score_scale != 1 || x.score_offset != 0)
+        parts.push_back("scores x " + num(x.score_scale) + " + " + num(x.score_offset));
+    if (x.cadence_minutes > 0) parts.push_back("at most one score per " + num(x.cadence_minutes) + " min");
+    if (x.outage_hours > 0)
+        parts.push_back("feed outage of " + num(x.outage_hours) + " h from " + format_local(x.outage_start, zone));
+    for (const auto& [unit, m] : x.census_multiplier) parts.push_back(unit + " admissions x " + num(m));
+    std::string out = "Stress test from " + format_local(x.from, zone) + ":";
+    for (std::size_t k = 0; k < parts.size(); ++k) out += (k ? "; " : " ") + parts[k];
+    return out;
+}
+
+void add_population(std::vector<DescriptionItem>& items, const Scenario& sc) {
+    const PopulationSetup& pop = sc.population;
+    if (pop.source == PopulationSource::replay) {
+        items.push_back(statement(replay_line(pop)));
+        if (pop.bootstrap) items.push_back(statement(bootstrap_line(*pop.bootstrap)));
+    } else {
+        items.push_back(statement(generated_line(pop, sc.simulation.zone)));
+    }
+    if (pop.shift) items.push_back(statement(stress_line(*pop.shift, sc.simulation.zone)));
+}
+
+// What the plan's channel does, when it is more than a page.
+std::optional<std::string> channel_line(const Plan& p, const ShiftPattern& shifts) {
+    if (p.channel == Channel::chart_interruption)
+        return "at each chart opening; " + num(p.chart.interruption_minutes) + " min per interruption; " +
+               num(p.chart.acceptance_probability) + " of interruptions lead to an evaluation";
+    if (p.channel == Channel::handoff_list) {
+        const auto& times = p.handoff.times_minutes.empty() ? shifts.start_minutes : p.handoff.times_minutes;
+        return "flagged at each handoff (" + clock_times(times, ", ") + "); " + num(p.handoff.minutes_per_flag) +
+               " min per flag; " + num(p.handoff.follow_up_probability) + " of flags lead to an evaluation";
+    }
+    if (p.channel == Channel::ranked_review) {
+        std::string out = "top " + std::to_string(p.review.top_n) +
+                          (p.review.scope == ReviewScope::unit ? " per unit" : " hospital-wide") + " at " +
+                          clock_times(p.review.times_minutes, " ") + "; " + num(p.review.minutes_per_review) +
+                          " min per review";
+        if (p.review.skip_reviewed) out += "; skips patients reviewed in the last " + duration_words(*p.review.skip_reviewed);
+        if (p.review.max_reviews_per_round)
+            out += "; at most " + std::to_string(*p.review.max_reviews_per_round) + " reviews per round";
+        return out;
+    }
+    return std::nullopt;
+}
+
+DescriptionItem plan_entry(const Plan& p, const Scenario& sc) {
+    DescriptionItem entry = statement(p.name + ": " + std::string(to_string(p.channel)) + " to " + p.role + " when " +
+                                      describe_rule(p.rule, sc.score_label));
+    if (auto line = channel_line(p, sc.simulation.shifts)) entry.items.push_back(statement(*line));
+    if (!p.description.empty()) entry.items.push_back(statement(p.description));
+    if (sc.simulation.has_staff()) {
+        const EscalationGraph& g = sc.simulation.escalation;
+        entry.items.push_back(statement("escalation: " + describe(g, escalation_path(g, p.staffing.first_role))));
+        entry.items.push_back(statement(
+            std::string("queue ") +
+            (p.staffing.discipline == QueueDiscipline::fifo ? "first come first served" : "highest score first") +
+            "; at shift end " + (p.staffing.at_shift_end == ShiftEndPolicy::hand_over ? "hand over" : "drop")));
+    }
+    return entry;
+}
+
+std::string headcounts(const ShiftPattern& shifts, const std::vector<int>& row, const char* first) {
+    std::string out;
+    for (std::size_t k = 0; k < shifts.names.size(); ++k)
+        out += (k ? ", " : first) + shifts.names[k] + " " + std::to_string(row[k]);
+    return out;
+}
+
+DescriptionItem role_entry(const Role& r, const ShiftPattern& shifts) {
+    std::string text = r.name + (r.per_unit ? " (a team on each unit)" : " (one team for the hospital)") + ": " +
+                       headcounts(shifts, r.roster.by_shift, "");
+    if (!r.roster.by_weekday.empty())
+        for (std::size_t d = 0; d < 7; ++d)
+            if (r.roster.by_weekday[d] != r.roster.by_shift)
+                text += "; " + std::string(weekday_names[d]) + headcounts(shifts, r.roster.by_weekday[d], " ");
+    return statement(text + "; " + describe(r.minutes_per_task) + " per task");
+}
+
+void add_staff(std::vector<DescriptionItem>& items, const SimulationSetup& setup) {
+    if (!setup.has_staff()) {
+        items.push_back(statement("Staff: none declared; every notice counts as evaluated at once."));
+        return;
+    }
+    DescriptionItem staff{.text = "Staff (" + std::to_string(setup.roles.size()) + " roles)", .entry_label = "Role", .items = {}};
+    for (const Role& r : setup.roles) staff.items.push_back(role_entry(r, setup.shifts));
+    items.push_back(std::move(staff));
+}
+
+std::string chart_openings_line(const ChartOpeningSource& c) {
+    std::string out = "Chart openings: " + (c.replay_path.empty() ? std::string("generated") : "replayed from " + c.replay_path) +
+                      "; roles:";
+    for (const auto& r : c.roles) out += " " + r.name + " (" + num(r.clinicians_per_unit) + " per unit)";
+    return out;
+}
+
 }  // namespace
 
 std::string describe_rule(const Rule& r, const std::string& label) {
@@ -33,104 +185,38 @@ std::string describe_rule(const Rule& r, const std::string& label) {
     return out;
 }
 
-std::string describe_scenario(const Scenario& sc) {
-    std::ostringstream o;
-    o << "Scenario: " << sc.name << "\n";
-    if (!sc.description.empty()) o << "  " << sc.description << "\n";
-    o << "Time zone: " << sc.time_zone_name << "; seed " << sc.simulation.seed << "; " << sc.replications
-      << (sc.replications == 1 ? " replication" : " replications") << "\n";
-    o << "Shifts:";
-    for (std::size_t i = 0; i < sc.simulation.shifts.names.size(); ++i)
-        o << " " << sc.simulation.shifts.names[i] << " from " << format_clock_minutes(sc.simulation.shifts.start_minutes[i])
-          << (sc.simulation.shifts.is_night[i] ? " (night)" : "") << (i + 1 < sc.simulation.shifts.names.size() ? "," : "");
-    o << "\n";
-    o << "Catch: an action starting between " << duration_words(sc.analysis.window) << " and " << duration_words(sc.analysis.min_lead)
-      << " before time zero\n";
-    if (sc.population.source == PopulationSource::replay) {
-        o << "Population: replay of " << sc.population.replay.encounters_path << " and " << sc.population.replay.scores_path;
-        if (sc.population.replay.latency_when_missing) o << " (latency " << duration_words(sc.population.replay.latency_when_missing) << " when available_at is empty)";
-        if (sc.population.replay.bad_rows == BadRows::skip) o << "; bad rows are skipped and counted (bad_rows: skip)";
-        if (sc.population.bootstrap)
-            o << "\nReplications 1, 2, ...: " << (sc.population.bootstrap->scheme == BlockScheme::stationary ? "stationary" : "moving-block")
-              << " bootstrap of " << sc.population.bootstrap->block_days << "-day blocks per unit, runs of " << num(sc.population.bootstrap->mean_run_blocks)
-              << " blocks" << (sc.population.bootstrap->mean_run_blocks > 1 && sc.population.bootstrap->scheme == BlockScheme::stationary ? " on average" : "");
-    } else {
-        const GeneratorConfig& g = sc.population.generator;
-        int beds = 0;
-        for (const UnitConfig& u : g.units) beds += u.beds;
-        o << "Population: generated, " << g.units.size() << " units with " << beds << " beds, " << format_local(g.period_start, sc.simulation.zone)
-          << " to " << format_local(g.period_end, sc.simulation.zone) << "; outcome in " << num(100 * g.outcome.probability)
-          << " % of stays; scores every " << num(g.scores.cadence_minutes) << " min";
-        if (sc.population.target_auc) o << "; rise before time zero calibrated to an encounter-level AUC of " << num(*sc.population.target_auc);
-    }
-    if (sc.population.shift) {
-        const ShiftStress& x = *sc.population.shift;
-        std::vector<std::string> parts;
-        auto part = [&](const std::string& text) { parts.push_back(text); };
-        if (x.outcome_rate_multiplier != 1) part("outcome rate x " + num(x.outcome_rate_multiplier));
-        if (x.score_scale != 1 || x.score_offset != 0) part("scores x " + num(x.score_scale) + " + " + num(x.score_offset));
-        if (x.cadence_minutes > 0) part("at most one score per " + num(x.cadence_minutes) + " min");
-        if (x.outage_hours > 0) part("feed outage of " + num(x.outage_hours) + " h from " + format_local(x.outage_start, sc.simulation.zone));
-        for (const auto& [unit, m] : x.census_multiplier) part(unit + " admissions x " + num(m));
-        o << "\nStress test from " << format_local(x.from, sc.simulation.zone) << ":";
-        for (std::size_t k = 0; k < parts.size(); ++k) o << (k ? "; " : " ") << parts[k];
-    }
-    o << "\nPlans (" << sc.simulation.plans.size() << "):\n";
-    for (const Plan& p : sc.simulation.plans) {
-        o << "  - " << p.name << ": " << to_string(p.channel) << " to " << p.role << " when "
-          << describe_rule(p.rule, sc.score_label) << "\n";
-        if (p.channel == Channel::chart_interruption)
-            o << "      at each chart opening; " << num(p.chart.interruption_minutes) << " min per interruption; "
-              << num(p.chart.acceptance_probability) << " of interruptions lead to an evaluation\n";
-        if (p.channel == Channel::handoff_list) {
-            o << "      flagged at each handoff (";
-            const auto& times = p.handoff.times_minutes.empty() ? sc.simulation.shifts.start_minutes : p.handoff.times_minutes;
-            for (std::size_t k = 0; k < times.size(); ++k) o << (k ? ", " : "") << format_clock_minutes(times[k]);
-            o << "); " << num(p.handoff.minutes_per_flag) << " min per flag; " << num(p.handoff.follow_up_probability)
-              << " of flags lead to an evaluation\n";
-        }
-        if (p.channel == Channel::ranked_review) {
-            o << "      top " << p.review.top_n << (p.review.scope == ReviewScope::unit ? " per unit" : " hospital-wide")
-              << " at";
-            for (int t : p.review.times_minutes) o << " " << format_clock_minutes(t);
-            o << "; " << num(p.review.minutes_per_review) << " min per review";
-            if (p.review.skip_reviewed) o << "; skips patients reviewed in the last " << duration_words(*p.review.skip_reviewed);
-            if (p.review.max_reviews_per_round) o << "; at most " << *p.review.max_reviews_per_round << " reviews per round";
-            o << "\n";
-        }
-        if (!p.description.empty()) o << "      " << p.description << "\n";
-        if (sc.simulation.has_staff()) {
-            o << "      escalation: " << describe(sc.simulation.escalation, escalation_path(sc.simulation.escalation, p.staffing.first_role))
-              << "\n";
-            o << "      queue " << (p.staffing.discipline == QueueDiscipline::fifo ? "first come first served" : "highest score first")
-              << "; at shift end " << (p.staffing.at_shift_end == ShiftEndPolicy::hand_over ? "hand over" : "drop") << "\n";
-        }
-    }
-    if (sc.simulation.has_staff()) {
-        o << "Staff (" << sc.simulation.roles.size() << " roles):\n";
-        for (const Role& r : sc.simulation.roles) {
-            o << "  - " << r.name << (r.per_unit ? " (a team on each unit)" : " (one team for the hospital)") << ": ";
-            for (std::size_t k = 0; k < sc.simulation.shifts.names.size(); ++k)
-                o << (k ? ", " : "") << sc.simulation.shifts.names[k] << " " << r.roster.by_shift[k];
-            if (!r.roster.by_weekday.empty())
-                for (std::size_t d = 0; d < 7; ++d)
-                    if (r.roster.by_weekday[d] != r.roster.by_shift) {
-                        o << "; " << weekday_names[d];
-                        for (std::size_t k = 0; k < sc.simulation.shifts.names.size(); ++k)
-                            o << (k ? ", " : " ") << sc.simulation.shifts.names[k] << " " << r.roster.by_weekday[d][k];
-                    }
-            o << "; " << describe(r.minutes_per_task) << " per task\n";
-        }
-    } else {
-        o << "Staff: none declared; every notice counts as evaluated at once.\n";
-    }
-    if (sc.simulation.chart_openings) {
-        o << "Chart openings: " << (sc.simulation.chart_openings->replay_path.empty() ? "generated" : "replayed from " + sc.simulation.chart_openings->replay_path)
-          << "; roles:";
-        for (const auto& r : sc.simulation.chart_openings->roles) o << " " << r.name << " (" << num(r.clinicians_per_unit) << " per unit)";
-        o << "\n";
-    }
-    return o.str();
+ScenarioDescription scenario_description(const Scenario& sc) {
+    ScenarioDescription d{.name = sc.name, .question = sc.description, .items = {}};
+    d.items.push_back(statement(setting_line(sc)));
+    d.items.push_back(statement(shifts_line(sc.simulation.shifts)));
+    d.items.push_back(statement("Catch: an action starting between " + duration_words(sc.analysis.window) + " and " +
+                                duration_words(sc.analysis.min_lead) + " before time zero"));
+    add_population(d.items, sc);
+    DescriptionItem plans{.text = "Plans (" + std::to_string(sc.simulation.plans.size()) + ")", .entry_label = "Plan", .items = {}};
+    for (const Plan& p : sc.simulation.plans) plans.items.push_back(plan_entry(p, sc));
+    d.items.push_back(std::move(plans));
+    add_staff(d.items, sc.simulation);
+    if (sc.simulation.chart_openings) d.items.push_back(statement(chart_openings_line(*sc.simulation.chart_openings)));
+    return d;
 }
+
+std::string to_text(const ScenarioDescription& d) {
+    std::string out = "Scenario: " + d.name + "\n";
+    if (!d.question.empty()) out += "  " + d.question + "\n";
+    for (const DescriptionItem& item : d.items) {
+        if (item.items.empty()) {
+            out += item.text + "\n";
+            continue;
+        }
+        out += item.text + ":\n";
+        for (const DescriptionItem& entry : item.items) {
+            out += "  - " + entry.text + "\n";
+            for (const DescriptionItem& line : entry.items) out += "      " + line.text + "\n";
+        }
+    }
+    return out;
+}
+
+std::string describe_scenario(const Scenario& sc) { return to_text(scenario_description(sc)); }
 
 }  // namespace tocsin

@@ -12,6 +12,7 @@
 #include "models/population_source.hpp"
 #include "sim/setup.hpp"
 #include "sim/simulate.hpp"
+#include "study/describe.hpp"  // describe_scenario: what `tocsin check` prints
 
 namespace tocsin {
 
@@ -46,9 +47,5 @@ void override_replications(Scenario& scenario, std::string_view option, const st
 // The shift calendar of one replication: every stay of the population and the
 // declared reporting period.
 ShiftCalendar calendar_for(const Scenario& scenario, const Population& population);
-
-// Plain-words description of what will be simulated, for `tocsin check`.
-std::string describe_scenario(const Scenario& scenario);
-std::string describe_rule(const Rule& rule, const std::string& score_label);
 
 }  // namespace tocsin

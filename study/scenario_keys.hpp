@@ -135,8 +135,9 @@ public:
     [[noreturn]] void fail(std::string_view key, const std::string& message) const;
     InputError error(const YAML::Node& at, std::string_view key, const std::string& message) const;
 
+    const KeySpec& spec(std::string_view key) const;  // the key's declaration
+
 private:
-    const KeySpec& spec(std::string_view key) const;
     YAML::Node value(std::string_view key) const;
     double check_range(std::string_view key, double v) const;
     YAML::Node node_;

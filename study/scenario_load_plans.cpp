@@ -2,6 +2,7 @@
 #include <cmath>
 #include <limits>
 #include <set>
+#include <sstream>
 
 #include "study/scenario_load.hpp"
 
@@ -10,6 +11,12 @@
 namespace tocsin::scenario_load {
 
 namespace {
+
+std::string number_text(double v) {
+    std::ostringstream o;
+    o << v;
+    return o.str();
+}
 
 Rule parse_rule(const Section& s, Channel channel) {
     Rule r;
@@ -199,6 +206,7 @@ Plan parse_plan(const Section& s, const Scenario& sc, const std::string& where) 
     parse_channel_settings(s, p, sc, where);
     return p;
 }
+
 }  // namespace
 
 ChartOpeningSource load_chart_openings(const Section& s, const std::string& directory) {
@@ -220,9 +228,11 @@ ChartOpeningSource load_chart_openings(const Section& s, const std::string& dire
             if (rates.size() != 1 && rates.size() != 24)
                 r.fail("openings_per_hour", "expected one rate (all day) or 24 rates (hour 00 first), found " +
                                                 std::to_string(rates.size()));
+            const Range& range = r.spec("openings_per_hour").range;
             for (double v : rates)
-                if (!std::isfinite(v) || v < 0 || v > 1000)
-                    r.fail("openings_per_hour", "rates must be between 0 and 1000 openings per patient per hour");
+                if (!std::isfinite(v) || v < *range.min || v > *range.max)
+                    r.fail("openings_per_hour", "rates must be between " + number_text(*range.min) + " and " +
+                                                    number_text(*range.max) + " openings per patient per hour");
             for (std::size_t h = 0; h < 24; ++h) role.openings_per_hour[h] = rates.size() == 1 ? rates[0] : rates[h];
         }
         src.roles.push_back(std::move(role));

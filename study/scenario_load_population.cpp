@@ -22,6 +22,8 @@ WeeklyRate weekly_rate(const Section& s, std::string_view key) {
             throw s.error(item, key, "expected a number of admissions per hour >= 0");
         if (!std::isfinite(d))
             throw s.error(item, key, "'" + item.Scalar() + "' is not a finite number (expected admissions per hour >= 0)");
+        if (std::string problem = number_problem(s.spec(key), d, item.Scalar()); !problem.empty())
+            throw s.error(item, key, problem);  // above the declared range
         return d;
     };
     for (const auto& item : list) {

@@ -202,7 +202,7 @@ SectionSpec chart_openings_roles_keys() {
             {
                 text_key("name", {.required = true, .help = "e.g. ward nurse; replayed rows name it in their role column."}),
                 real_key("clinicians_per_unit", {.unit = "clinicians", .fallback = 1, .range = {0.001, 1000}, .help = "Headcount of the role on one unit in one shift, for 'interruptions per clinician per shift'."}),
-                real_list_key("openings_per_hour", {.unit = "openings per patient per hour", .help = "Rate by local hour: a list of one number (all day, e.g. [1.5]) or of 24 (hour 00 first); needed when openings are generated."}),
+                real_list_key("openings_per_hour", {.unit = "openings per patient per hour", .range = {0, 1000}, .help = "Rate by local hour: a list of one number (all day, e.g. [1.5]) or of 24 (hour 00 first); needed when openings are generated."}),
             }};
 }
 

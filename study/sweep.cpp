@@ -124,65 +124,42 @@ SweepAxis parse_sweep_axis(const std::string& spec, std::size_t max_values) {
 
 namespace {
 
-Scenario build_sweep(const std::string& path, const SweepRequest& request);
+// One axis of the file's sweep.vary[]: a list of values or from, to and step.
+SweepAxis axis_from_file(const Section& v, const YAML::Node& node, const std::string& path, std::size_t max_plans) {
+    SweepAxis axis;
+    axis.path = v.text("key");
+    axis.file = path;
+    axis.line = node.Mark().line + 1;
+    axis.column = node.Mark().column + 1;
+    axis.field = v.where();
+    if (v.has("values")) {
+        axis.values = v.real_list("values");
+    } else {
+        if (!v.has("from") || !v.has("to") || !v.has("step")) v.fail("key", "give either values: [..] or from, to and step");
+        axis.values = range_values(*v.optional_real("from"), *v.optional_real("to"), *v.optional_real("step"), axis,
+                                   axis.path, max_plans);
+    }
+    if (axis.values.empty()) v.fail("values", "no values to sweep");
+    return axis;
+}
 
-}  // namespace
-
-Scenario sweep_scenario(const std::string& path, const SweepRequest& request) {
-    // The scenario's own text is checked by parse_scenario first; a yaml-cpp
-    // exception from a later step is still the file's, and must name it.
-    try {
-        return build_sweep(path, request);
-    } catch (const YAML::Exception& e) {
-        throw InputError(path, e.mark.line >= 0 ? e.mark.line + 1 : 0, e.mark.column >= 0 ? e.mark.column + 1 : 0, "",
-                         "cannot sweep this file: " + e.msg);
+// What the file's sweep section adds to the request: the plan and the axes,
+// each only when the command line gave none.
+void read_sweep_section(const YAML::Node& root, const std::string& path, const SweepRequest& request,
+                        std::string& base, std::vector<SweepAxis>& axes) {
+    if (!root["sweep"]) return;
+    Section s(root["sweep"], "sweep", path, "sweep");
+    if (base.empty()) base = s.text("plan");
+    if (!axes.empty() || !s.has("vary")) return;
+    std::size_t i = 0;
+    for (const auto& node : s.child("vary")) {
+        Section v(node, "sweep.vary[]", path, "sweep.vary[" + std::to_string(i++) + "]");
+        axes.push_back(axis_from_file(v, node, path, request.max_plans));
     }
 }
 
-namespace {
-
-Scenario build_sweep(const std::string& path, const SweepRequest& request) {
-    std::ifstream in(path);
-    if (!in) throw InputError(path, 0, 0, "", "cannot open scenario file");
-    std::stringstream text;
-    text << in.rdbuf();
-    const std::string dir = std::filesystem::path(path).parent_path().string();
-    // Validate the scenario as written first, so its own errors point at its own lines.
-    const Scenario original = parse_scenario(text.str(), path, dir);
-    YAML::Node root = YAML::Load(text.str());
-
-    std::string base = request.base_plan;
-    std::vector<SweepAxis> axes = request.axes;
-    if (root["sweep"]) {
-        Section s(root["sweep"], "sweep", path, "sweep");
-        if (base.empty()) base = s.text("plan");
-        if (axes.empty() && s.has("vary")) {
-            std::size_t i = 0;
-            for (const auto& node : s.child("vary")) {
-                Section v(node, "sweep.vary[]", path, "sweep.vary[" + std::to_string(i++) + "]");
-                SweepAxis axis;
-                axis.path = v.text("key");
-                axis.file = path;
-                axis.line = node.Mark().line + 1;
-                axis.column = node.Mark().column + 1;
-                axis.field = v.where();
-                if (v.has("values")) {
-                    axis.values = v.real_list("values");
-                } else {
-                    if (!v.has("from") || !v.has("to") || !v.has("step"))
-                        v.fail("key", "give either values: [..] or from, to and step");
-                    axis.values = range_values(*v.optional_real("from"), *v.optional_real("to"),
-                                               *v.optional_real("step"), axis, axis.path, request.max_plans);
-                }
-                if (axis.values.empty()) v.fail("values", "no values to sweep");
-                axes.push_back(axis);
-            }
-        }
-    }
-    if (base.empty()) base = original.simulation.plans.front().name;
-    if (axes.empty())
-        throw InputError("command line", 0, 0, "--vary", "nothing to sweep: give --vary PATH=VALUES or a sweep section");
-
+YAML::Node find_base_plan(const YAML::Node& root, const std::string& base, const SweepRequest& request,
+                          const std::string& path) {
     YAML::Node base_node;
     bool found = false;
     for (std::size_t k = 0; k < root["plans"].size(); ++k) {
@@ -197,27 +174,28 @@ Scenario build_sweep(const std::string& path, const SweepRequest& request) {
         throw InputError(from_file ? path : "command line", 0, 0, from_file ? "sweep.plan" : "--plan",
                          "no plan named '" + base + "'");
     }
+    return base_node;
+}
 
-    // The size as a product of the axes' counts, in floating point so that
-    // many axes cannot overflow it, before a single plan is built.
-    double grid_size = 1;
+// The number of grid points, as a product of the axes' counts in floating
+// point so that many axes cannot overflow it, checked before a plan is built.
+std::size_t grid_size(const std::vector<SweepAxis>& axes, std::size_t max_plans) {
+    double size = 1;
     std::string factors;
     for (const auto& a : axes) {
-        grid_size *= static_cast<double>(a.values.size());
+        size *= static_cast<double>(a.values.size());
         factors += (factors.empty() ? "" : " x ") + std::to_string(a.values.size());
     }
-    if (grid_size > static_cast<double>(request.max_plans))
-        throw axis_error(axes.front(), "the sweep grid has " + count_text(grid_size) + " plans (" + factors +
-                                           " values), more than the limit of " + std::to_string(request.max_plans) +
+    if (size > static_cast<double>(max_plans))
+        throw axis_error(axes.front(), "the sweep grid has " + count_text(size) + " plans (" + factors +
+                                           " values), more than the limit of " + std::to_string(max_plans) +
                                            "; use fewer values or larger steps");
-    const auto grid = static_cast<std::size_t>(grid_size);
+    return static_cast<std::size_t>(size);
+}
 
-    // Staffing axes ("roles.<role>.<key>") vary the role the swept plan pages.
-    // Each combination of their values becomes a copy of that role under its
-    // own name (with the escalation edge out of it), which that grid point's
-    // plan pages instead: every plan still has staff of its own, and the
-    // population does not depend on staffing, so all grid points share patients.
-    const std::string plan_role = base_node["role"] && base_node["role"].IsScalar() ? base_node["role"].Scalar() : "";
+// Which axes vary staffing ("roles.<role>.<key>", the role the plan pages)
+// rather than the plan ("plan.<key>").
+std::vector<bool> staffing_axes(const std::vector<SweepAxis>& axes, const YAML::Node& root, const std::string& plan_role) {
     std::vector<bool> staffing(axes.size(), false);
     for (std::size_t a = 0; a < axes.size(); ++a) {
         const auto segments = split(axes[a].path, '.');
@@ -234,65 +212,122 @@ Scenario build_sweep(const std::string& path, const SweepRequest& request) {
                                      "e.g. roles.cover nurse.roster.night)");
         }
     }
-    YAML::Node role_node;
-    YAML::Node escalation_out;
-    bool has_escalation_out = false;
-    if (std::find(staffing.begin(), staffing.end(), true) != staffing.end()) {
-        for (std::size_t k = 0; k < root["roles"].size(); ++k) {
-            YAML::Node r = root["roles"][k];
-            if (r["name"] && r["name"].Scalar() == plan_role) role_node.reset(r);
-        }
-        if (root["escalation"])
-            for (std::size_t k = 0; k < root["escalation"].size(); ++k) {
-                YAML::Node e = root["escalation"][k];
-                if (e["from"] && e["from"].Scalar() == plan_role) {
-                    escalation_out.reset(e);
-                    has_escalation_out = true;
-                }
-            }
-    }
-    std::vector<std::string> role_variants;  // names of role copies made so far
+    return staffing;
+}
 
-    YAML::Node plans(YAML::NodeType::Sequence);
-    if (request.keep_other_plans)
-        for (std::size_t k = 0; k < root["plans"].size(); ++k) plans.push_back(YAML::Clone(root["plans"][k]));
-    std::vector<std::size_t> at(axes.size(), 0);
-    for (std::size_t g = 0; g < grid; ++g) {
-        YAML::Node plan = YAML::Clone(base_node);
-        std::string name = base, staffing_label;
-        YAML::Node role = role_node ? YAML::Clone(role_node) : YAML::Node();
-        for (std::size_t a = 0; a < axes.size(); ++a) {
-            const SweepAxis& axis = axes[a];
+// Staffing axes ("roles.<role>.<key>") vary the role the swept plan pages.
+// Each combination of their values becomes a copy of that role under its own
+// name (with the escalation edge out of it), which that grid point's plan
+// pages instead: every plan still has staff of its own, and the population
+// does not depend on staffing, so all grid points share patients.
+class Grid {
+public:
+    Grid(YAML::Node root, YAML::Node base_node, std::string base, const std::vector<SweepAxis>& axes)
+        : root_(std::move(root)), base_node_(std::move(base_node)), base_(std::move(base)), axes_(axes) {
+        plan_role_ = base_node_["role"] && base_node_["role"].IsScalar() ? base_node_["role"].Scalar() : "";
+        staffing_ = staffing_axes(axes_, root_, plan_role_);
+        if (std::find(staffing_.begin(), staffing_.end(), true) != staffing_.end()) find_role();
+    }
+
+    // The plan at one grid point (one value index per axis); a new role copy
+    // is added to the scenario the first time its staffing is met.
+    YAML::Node plan_at(const std::vector<std::size_t>& at) {
+        YAML::Node plan = YAML::Clone(base_node_);
+        std::string name = base_, staffing_label;
+        YAML::Node role = role_node_ ? YAML::Clone(role_node_) : YAML::Node();
+        for (std::size_t a = 0; a < axes_.size(); ++a) {
+            const SweepAxis& axis = axes_[a];
             const double v = axis.values[at[a]];
             auto segments = split(axis.path, '.');
-            segments.erase(segments.begin(), segments.begin() + (staffing[a] ? 2 : 1));
-            YAML::Node holder = descend(staffing[a] ? role : plan, segments, axis);
+            segments.erase(segments.begin(), segments.begin() + (staffing_[a] ? 2 : 1));
+            YAML::Node holder = descend(staffing_[a] ? role : plan, segments, axis);
             holder[segments.back()] = v;
             const std::string label = segments.back() + "=" + number_text(v);
             name += (a ? ", " : " ") + label;
-            if (staffing[a]) staffing_label += (staffing_label.empty() ? "" : ", ") + label;
+            if (staffing_[a]) staffing_label += (staffing_label.empty() ? "" : ", ") + label;
         }
-        if (!staffing_label.empty()) {
-            const std::string variant = plan_role + " (" + staffing_label + ")";
-            if (std::find(role_variants.begin(), role_variants.end(), variant) == role_variants.end()) {
-                role_variants.push_back(variant);
-                role["name"] = variant;
-                root["roles"].push_back(role);
-                if (has_escalation_out) {
-                    YAML::Node edge = YAML::Clone(escalation_out);
-                    edge["from"] = variant;
-                    root["escalation"].push_back(edge);
-                }
-            }
-            plan["role"] = variant;
-        }
+        if (!staffing_label.empty()) plan["role"] = add_role_variant(role, plan_role_ + " (" + staffing_label + ")");
         plan["name"] = name;
-        plans.push_back(plan);
+        return plan;
+    }
+
+private:
+    void find_role() {
+        for (std::size_t k = 0; k < root_["roles"].size(); ++k) {
+            YAML::Node r = root_["roles"][k];
+            if (r["name"] && r["name"].Scalar() == plan_role_) role_node_.reset(r);
+        }
+        if (!root_["escalation"]) return;
+        for (std::size_t k = 0; k < root_["escalation"].size(); ++k) {
+            YAML::Node e = root_["escalation"][k];
+            if (e["from"] && e["from"].Scalar() == plan_role_) {
+                escalation_out_.reset(e);
+                has_escalation_out_ = true;
+            }
+        }
+    }
+
+    std::string add_role_variant(YAML::Node role, const std::string& variant) {
+        if (std::find(role_variants_.begin(), role_variants_.end(), variant) != role_variants_.end()) return variant;
+        role_variants_.push_back(variant);
+        role["name"] = variant;
+        root_["roles"].push_back(role);
+        if (has_escalation_out_) {
+            YAML::Node edge = YAML::Clone(escalation_out_);
+            edge["from"] = variant;
+            root_["escalation"].push_back(edge);
+        }
+        return variant;
+    }
+
+    YAML::Node root_;
+    YAML::Node base_node_;
+    std::string base_;
+    const std::vector<SweepAxis>& axes_;
+    std::string plan_role_;
+    std::vector<bool> staffing_;
+    YAML::Node role_node_;
+    YAML::Node escalation_out_;
+    bool has_escalation_out_ = false;
+    std::vector<std::string> role_variants_;  // names of role copies made so far
+};
+
+// Appends every grid point's plan, the last axis varying fastest.
+void add_grid_plans(YAML::Node& plans, Grid& grid, const std::vector<SweepAxis>& axes, std::size_t size) {
+    std::vector<std::size_t> at(axes.size(), 0);
+    for (std::size_t g = 0; g < size; ++g) {
+        plans.push_back(grid.plan_at(at));
         for (std::size_t a = axes.size(); a-- > 0;) {
             if (++at[a] < axes[a].values.size()) break;
             at[a] = 0;
         }
     }
+}
+
+Scenario build_sweep(const std::string& path, const SweepRequest& request) {
+    std::ifstream in(path);
+    if (!in) throw InputError(path, 0, 0, "", "cannot open scenario file");
+    std::stringstream text;
+    text << in.rdbuf();
+    const std::string dir = std::filesystem::path(path).parent_path().string();
+    // Validate the scenario as written first, so its own errors point at its own lines.
+    const Scenario original = parse_scenario(text.str(), path, dir);
+    YAML::Node root = YAML::Load(text.str());
+
+    std::string base = request.base_plan;
+    std::vector<SweepAxis> axes = request.axes;
+    read_sweep_section(root, path, request, base, axes);
+    if (base.empty()) base = original.simulation.plans.front().name;
+    if (axes.empty())
+        throw InputError("command line", 0, 0, "--vary", "nothing to sweep: give --vary PATH=VALUES or a sweep section");
+    const YAML::Node base_node = find_base_plan(root, base, request, path);
+    const std::size_t size = grid_size(axes, request.max_plans);
+
+    Grid grid(root, base_node, base, axes);
+    YAML::Node plans(YAML::NodeType::Sequence);
+    if (request.keep_other_plans)
+        for (std::size_t k = 0; k < root["plans"].size(); ++k) plans.push_back(YAML::Clone(root["plans"][k]));
+    add_grid_plans(plans, grid, axes, size);
     root["plans"] = plans;
     root.remove("sweep");
     YAML::Emitter out;
@@ -307,5 +342,16 @@ Scenario build_sweep(const std::string& path, const SweepRequest& request) {
 }
 
 }  // namespace
+
+Scenario sweep_scenario(const std::string& path, const SweepRequest& request) {
+    // The scenario's own text is checked by parse_scenario first; a yaml-cpp
+    // exception from a later step is still the file's, and must name it.
+    try {
+        return build_sweep(path, request);
+    } catch (const YAML::Exception& e) {
+        throw InputError(path, e.mark.line >= 0 ? e.mark.line + 1 : 0, e.mark.column >= 0 ? e.mark.column + 1 : 0, "",
+                         "cannot sweep this file: " + e.msg);
+    }
+}
 
 }  // namespace tocsin

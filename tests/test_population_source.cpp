@@ -89,6 +89,12 @@ TEST_CASE("population_source.errors_name_the_key") {
         CHECK(e.field == "population.generate.units[2].arrivals_per_hour");
         CHECK(std::string(e.what()).find("found 3 numbers") != std::string::npos);
     }
+    SUBCASE("arrivals above the declared range") {
+        const InputError e = parse_error(generated("      - {name: east, beds: 4, arrivals_per_hour: [2e6]}\n"));
+        CHECK(e.field == "population.generate.units[2].arrivals_per_hour");
+        CHECK(std::string(e.what()).find("'2e6' is out of range (expected 0 to 1000000 admissions per hour)") !=
+              std::string::npos);
+    }
     SUBCASE("bootstrap of a generated population") {
         const InputError e = parse_error(generated("", "  bootstrap: {block_days: 7}\n"));
         CHECK(std::string(e.what()).find("bootstrap resamples a replayed log") != std::string::npos);

@@ -3,7 +3,12 @@
 // key for a typo). Every declared key is documented in the README.
 #include <doctest/doctest.h>
 
+#include <algorithm>
+#include <variant>
+
 #include "models/errors.hpp"
+#include "models/generator.hpp"
+#include "study/describe.hpp"
 #include "study/scenario.hpp"
 #include "study/scenario_keys.hpp"
 #include "test_support.hpp"
@@ -217,4 +222,63 @@ TEST_CASE("scenario.replay_input_keys") {
     CHECK(std::string(with("    score_range: [10, 1]").what()).find("low below high") != std::string::npos);
     CHECK(std::string(with("    score_range: [0, .inf]").what()).find("finite") != std::string::npos);
     CHECK(std::string(with("    max_stay_days: 0").what()).find("out of range") != std::string::npos);
+}
+
+TEST_CASE("scenario.defaults_come_from_the_declarations") {
+    // The loader reads every default from the key's declaration; the models'
+    // own structs carry theirs for callers without a scenario file. They agree,
+    // and a sub-section left out reads as if it were given empty.
+    auto real_default = [](std::string_view section, std::string_view key) {
+        return std::get<double>(key_spec(section, key).fallback);
+    };
+    const StayConfig stay;
+    CHECK(real_default("population.generate.stay", "median_hours") == stay.median_hours);
+    CHECK(real_default("population.generate.stay", "log_sd") == stay.log_sd);
+    CHECK(real_default("population.generate.stay", "mean_hours") == stay.mean_hours);
+    CHECK(real_default("population.generate.stay", "sd_hours") == stay.sd_hours);
+    const OutcomeConfig outcome;
+    CHECK(real_default("population.generate.outcome", "probability") == outcome.probability);
+    CHECK(real_default("population.generate.outcome", "earliest_fraction") == outcome.earliest_fraction);
+    CHECK(real_default("population.generate.outcome", "latest_fraction") == outcome.latest_fraction);
+    CHECK(std::get<bool>(key_spec("population.generate.outcome", "ends_stay").fallback) == outcome.ends_stay);
+    const ScoreConfig scores;
+    for (auto [key, value] : {std::pair{"cadence_minutes", scores.cadence_minutes}, {"jitter_minutes", scores.jitter_minutes},
+                              {"missing_probability", scores.missing_probability},
+                              {"latency_median_minutes", scores.latency_median_minutes},
+                              {"latency_log_sd", scores.latency_log_sd}, {"baseline", scores.baseline},
+                              {"between_patient_sd", scores.between_patient_sd},
+                              {"within_patient_sd", scores.within_patient_sd}, {"drift_size", scores.drift_size},
+                              {"drift_onset_min_hours", scores.drift_onset_min_hours},
+                              {"drift_onset_max_hours", scores.drift_onset_max_hours}})
+        CHECK_MESSAGE(real_default("population.generate.scores", key) == value, key);
+    CHECK(real_default("population.generate", "warmup_days") == GeneratorConfig{}.warmup_days);
+    const ReplaySource replay;
+    CHECK(real_default("population.replay", "max_stay_days") == replay.max_stay_days);
+    CHECK(real_default("population.replay", "far_out_fence_iqr") == replay.far_out_fence_iqr);
+    CHECK(std::get<std::vector<double>>(key_spec("population.replay", "score_range").fallback) ==
+          std::vector<double>{replay.score_low, replay.score_high});
+
+    const Scenario sc = parse_scenario(scenario_text(), "s.yaml", "");
+    CHECK(sc.simulation.plans[0].rule.persistence == std::get<std::int64_t>(key_spec("plans[].rule", "persistence").fallback));
+    CHECK(sc.simulation.seed == static_cast<std::uint64_t>(std::get<std::int64_t>(key_spec("top level", "seed").fallback)));
+    CHECK(sc.score_label == std::get<std::string_view>(key_spec("top level", "score_label").fallback));
+    CHECK(sc.analysis.min_lead == 0);
+    CHECK(default_text(key_spec("plans[].rule", "snooze_minutes")) == "none");
+    CHECK(default_text(key_spec("top level", "name")) == "required");
+    CHECK(default_text(key_spec("population.replay", "score_range")) == "[0, 100]");
+}
+
+TEST_CASE("scenario.description_is_items") {
+    const Scenario sc = parse_scenario(scenario_text("{threshold: 60, persistence: 2}") + "description: why\n", "s.yaml", "");
+    const ScenarioDescription d = scenario_description(sc);
+    CHECK(d.name == "test");
+    CHECK(d.question == "why");
+    const auto plans = std::find_if(d.items.begin(), d.items.end(), [](const DescriptionItem& i) { return i.entry_label == "Plan"; });
+    REQUIRE(plans != d.items.end());
+    CHECK(plans->text == "Plans (1)");
+    REQUIRE(plans->items.size() == 1);
+    CHECK(plans->items[0].text == "p: page to responder when score >= 60 on 2 scores in a row");
+    CHECK(to_text(d) == describe_scenario(sc));
+    CHECK(describe_scenario(sc).find("Plans (1):\n  - p: page to responder when score >= 60 on 2 scores in a row\n") !=
+          std::string::npos);
 }
