@@ -37,6 +37,48 @@ ComparisonTables comparison_tables(const ReplicatedFigures& f, std::size_t ref) 
     return t;
 }
 
+namespace {
+
+Table by_plan(const std::string& name, const std::string& title, const std::vector<std::size_t>& metrics) {
+    Table t;
+    t.name = name;
+    t.title = title;
+    t.columns = {"plan"};
+    for (std::size_t m : metrics) {
+        const std::string metric(plan_metrics()[m].name);
+        t.columns.insert(t.columns.end(), {metric, metric + "_lo", metric + "_hi"});
+    }
+    return t;
+}
+
+void add_interval(std::vector<Cell>& row, const MeanInterval& mi) {
+    row.insert(row.end(), {finite_or_empty(mi.mean), finite_or_empty(mi.low), finite_or_empty(mi.high)});
+}
+
+}  // namespace
+
+Table comparison_by_plan(const ReplicatedFigures& f, const std::vector<std::size_t>& metrics) {
+    Table t = by_plan("plan_comparison", "Plans compared across replications (mean and 95% CI)", metrics);
+    for (std::size_t p = 0; p < f.plans.size(); ++p) {
+        std::vector<Cell> row{f.plans[p]};
+        for (std::size_t m : metrics) add_interval(row, mean_interval(f.of(p, m)));
+        t.add_row(std::move(row));
+    }
+    return t;
+}
+
+Table differences_by_plan(const ReplicatedFigures& f, const std::vector<std::size_t>& metrics, std::size_t ref) {
+    Table t = by_plan("plan_differences",
+                      "Paired differences from " + f.plans[ref] + " (same patients in each replication)", metrics);
+    for (std::size_t p = 0; p < f.plans.size(); ++p) {
+        if (p == ref) continue;
+        std::vector<Cell> row{f.plans[p]};
+        for (std::size_t m : metrics) add_interval(row, paired_difference(f, p, ref, m));
+        t.add_row(std::move(row));
+    }
+    return t;
+}
+
 Table frontier_table(const ReplicatedFigures& f, std::size_t burden, std::size_t benefit) {
     Table t;
     t.name = "frontier";

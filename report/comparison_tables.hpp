@@ -19,6 +19,12 @@ struct ComparisonTables {
 };
 // Differences are each plan minus `reference_plan` (default the first).
 ComparisonTables comparison_tables(const ReplicatedFigures& f, std::size_t reference_plan = 0);
+// The report's view: one row per plan, each metric as three columns (its
+// value, NAME_lo and NAME_hi), in the order given.
+Table comparison_by_plan(const ReplicatedFigures& f, const std::vector<std::size_t>& metrics);
+// The same for paired differences from `reference_plan`, whose row is left out.
+Table differences_by_plan(const ReplicatedFigures& f, const std::vector<std::size_t>& metrics,
+                          std::size_t reference_plan = 0);
 Table frontier_table(const ReplicatedFigures& f, std::size_t burden_metric, std::size_t benefit_metric);
 Table plan_net_benefit_table(const std::vector<PlanNetBenefit>& rows);
 

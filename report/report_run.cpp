@@ -91,18 +91,18 @@ void add_skipped_rows(ReportInput& in, const std::vector<Exclusion>& exclusions)
 }
 
 // The figures the comparison shows: the usual ones, then the frontier's axes.
-std::vector<std::string> compared_metrics(const Metric* burden, const Metric* benefit) {
-    std::vector<std::string> metrics;
-    for (const std::string& m : shown_metrics)
-        if (find_metric(m)) metrics.push_back(m);
+std::vector<std::size_t> compared_metrics(const Metric* burden, const Metric* benefit) {
+    std::vector<std::size_t> metrics;
+    for (const std::string& name : shown_metrics)
+        if (const Metric* m = find_metric(name)) metrics.push_back(metric_index(*m));
     for (const Metric* m : {burden, benefit})
-        if (m && std::find(metrics.begin(), metrics.end(), m->name) == metrics.end()) metrics.emplace_back(m->name);
+        if (m && std::find(metrics.begin(), metrics.end(), metric_index(*m)) == metrics.end())
+            metrics.push_back(metric_index(*m));
     return metrics;
 }
 
-void add_comparison(ReportInput& in, const ReplicatedFigures& f, const std::vector<std::string>& metrics) {
-    const ComparisonTables tables = comparison_tables(f);
-    in.comparison = wide_intervals(tables.comparison, "mean", metrics);
+void add_comparison(ReportInput& in, const ReplicatedFigures& f, const std::vector<std::size_t>& metrics) {
+    in.comparison = comparison_by_plan(f, metrics);
     in.comparison.title = "Plans compared over " + std::to_string(f.replications) +
                           (f.replications == 1 ? " replication" : " replications");
     if (f.replications <= 1) {
@@ -112,8 +112,8 @@ void add_comparison(ReportInput& in, const ReplicatedFigures& f, const std::vect
     in.interval_note = "Brackets: 95% confidence interval of the mean over the " + std::to_string(f.replications) +
                        " replications (mean \xC2\xB1 t \xC3\x97 standard deviation / \xE2\x88\x9A" "replications; "
                        "Student 1908). Replications in which a figure is undefined are left out of it.";
-    if (f.plans.size() > 1 && !tables.differences.rows.empty()) {
-        in.differences = wide_intervals(tables.differences, "mean_difference", metrics);
+    if (f.plans.size() > 1 && !metrics.empty()) {
+        in.differences = differences_by_plan(f, metrics);
         in.differences_note = "Each figure is the plan's value minus " + f.plans.front() +
                               "'s in the same replication, averaged, with its own 95% interval.";
     }

@@ -35,7 +35,7 @@ void join_logs(std::optional<std::vector<Entry>>& first, std::vector<std::vector
 }  // namespace
 
 RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_population, const RunSettings& settings) {
-    metric_named(settings.burden_metric);
+    metric_named(settings.burden_metric);  // checked before anything runs; report/ draws the frontier on it
     const Metric& benefit = metric_named(settings.benefit_metric);
     const Metric* limited = settings.budget_limit ? &metric_named(settings.budget_metric) : nullptr;
     RunOutput out;
