@@ -7,6 +7,7 @@
 
 #include "analysis/comparison.hpp"
 #include "report/comparison_tables.hpp"
+#include "report/report.hpp"
 #include "study/run.hpp"
 
 using namespace tocsin;
@@ -138,4 +139,26 @@ TEST_CASE("comparison.plan_net_benefit") {
     CHECK(std::get<double>(t.rows[0][6]) == doctest::Approx(0.10));
     CHECK(std::get<double>(t.rows[0][7]) == doctest::Approx(0.0625));
     CHECK(std::get<double>(t.rows[1][6]) == doctest::Approx(-0.05));
+}
+
+TEST_CASE("comparison.report_view_is_the_long_table_widened") {
+    // The report's plan-per-row view holds the same cells as the long tables
+    // widened by metric (wide_intervals): the figure, its low and high ends,
+    // empty where undefined (plan C has no benefit; sensitivity is never set).
+    const ReplicatedFigures f = figures({"A", "B", "C"}, {{{1, 10}, {2, 12}, {1.5, 9}},
+                                                          {{2, 11}, {4, 11}, {2, 13}},
+                                                          {{5, missing}, {5, missing}, {6, missing}}});
+    const std::size_t sensitivity = metric_index(*find_metric("sensitivity"));
+    const std::vector<std::size_t> metrics = {benefit(), burden(), sensitivity};
+    const std::vector<std::string> names = {"caught", "per_unit_night_mean", "sensitivity"};
+    const ComparisonTables t = comparison_tables(f, 1);
+    const Table wide = wide_intervals(t.comparison, "mean", names);
+    const Table view = comparison_by_plan(f, metrics);
+    CHECK(view.columns == wide.columns);
+    CHECK(view.rows == wide.rows);
+    const Table wide_differences = wide_intervals(t.differences, "mean_difference", names);
+    const Table differences = differences_by_plan(f, metrics, 1);
+    CHECK(differences.title == wide_differences.title);
+    CHECK(differences.columns == wide_differences.columns);
+    CHECK(differences.rows == wide_differences.rows);
 }
