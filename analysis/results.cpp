@@ -159,17 +159,17 @@ PopulationSummary population_summary(const Population& pop, const ReportingShift
 
 std::vector<Exclusion> exclusions(const Population& pop, const ChartOpeningLog* replayed_openings) {
     std::vector<Exclusion> out;
-    for (const auto& [reason, n] : pop.excluded.encounters_by_reason) out.push_back({Excluded::encounters, reason, "", n});
-    for (const auto& [reason, n] : pop.excluded.scores_by_reason) out.push_back({Excluded::scores, reason, "", n});
-    for (const auto& [reason, n] : pop.excluded.notes) out.push_back({Excluded::notes, reason, "", n});
+    for (const auto& [reason, n] : pop.excluded.encounters_by_reason) out.push_back({Excluded::encounters, reason, n, {}});
+    for (const auto& [reason, n] : pop.excluded.scores_by_reason) out.push_back({Excluded::scores, reason, n, {}});
+    for (const auto& [reason, n] : pop.excluded.notes) out.push_back({Excluded::notes, reason, n, {}});
     for (const auto& [reason, rows] : pop.excluded.rows_skipped)
-        out.push_back({Excluded::skipped_rows, reason, describe_lines(rows), rows.count});
+        out.push_back({Excluded::skipped_rows, reason, rows.count, rows});
     if (!replayed_openings) return out;
     const ChartOpeningLog& log = *replayed_openings;
-    for (const auto& [reason, n] : log.excluded_by_reason) out.push_back({Excluded::chart_openings, reason, "", n});
-    for (const auto& [reason, n] : log.notes) out.push_back({Excluded::chart_opening_timestamps, reason, "", n});
+    for (const auto& [reason, n] : log.excluded_by_reason) out.push_back({Excluded::chart_openings, reason, n, {}});
+    for (const auto& [reason, n] : log.notes) out.push_back({Excluded::chart_opening_timestamps, reason, n, {}});
     for (const auto& [reason, rows] : log.rows_skipped)
-        out.push_back({Excluded::skipped_rows, reason, describe_lines(rows), rows.count});
+        out.push_back({Excluded::skipped_rows, reason, rows.count, rows});
     return out;
 }
 

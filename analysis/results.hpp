@@ -62,8 +62,8 @@ enum class Excluded { encounters, scores, notes, skipped_rows, chart_openings, c
 struct Exclusion {
     Excluded what{};
     std::string reason;
-    std::string lines;  // skipped rows: which lines (describe_lines)
     std::int64_t count = 0;
+    SkippedRows rows;  // skipped rows: how many and the first lines
 };
 // `replayed_openings`: the replayed chart-opening log, for its exclusions.
 std::vector<Exclusion> exclusions(const Population& population, const ChartOpeningLog* replayed_openings = nullptr);

@@ -51,7 +51,7 @@ std::string excluded_name(Excluded what) {
 }
 
 std::string exclusion_reason(const Exclusion& e) {
-    if (e.what == Excluded::skipped_rows) return e.reason + " (" + e.lines + ")";
+    if (e.what == Excluded::skipped_rows) return e.reason + " (" + describe_lines(e.rows) + ")";
     if (e.what == Excluded::chart_opening_timestamps) return "chart openings: " + e.reason;
     return e.reason;
 }
