@@ -14,7 +14,7 @@
 //   shift minutes, summed over team-shifts).
 // - Waits are from the notice to the evaluation start, for tasks started at
 //   that role; tasks never taken up are counted apart, not as waits.
-// - A ReportPeriod limits every table to tasks created inside it and the
+// - A ReportPeriod limits every figure to tasks created inside it and the
 //   per-shift figures to complete shifts inside it (the simulation itself
 //   runs over the whole calendar, so queues carried in are real).
 #include <cstdint>
