@@ -217,58 +217,6 @@ std::string run_record_body(const RunRecord& r) {
 
 }  // namespace
 
-Table wide_intervals(const Table& long_table, const std::string& value_column, const std::vector<std::string>& metrics,
-                     const std::string& row_key) {
-    auto column = [&](const std::string& name) {
-        const auto found = std::find(long_table.columns.begin(), long_table.columns.end(), name);
-        if (found == long_table.columns.end())
-            throw std::invalid_argument("table '" + long_table.name + "' has no column '" + name + "'");
-        return static_cast<std::size_t>(found - long_table.columns.begin());
-    };
-    const std::size_t key = column(row_key), metric = column("metric"), value = column(value_column),
-                      low = column("ci_low"), high = column("ci_high");
-    auto text_of = [](const Cell& c) {
-        if (std::holds_alternative<std::string>(c)) return std::get<std::string>(c);
-        if (std::holds_alternative<std::int64_t>(c)) return std::to_string(std::get<std::int64_t>(c));
-        return std::string();
-    };
-    std::vector<std::string> keys, order = metrics;
-    std::map<std::string, std::size_t> key_row, metric_position;
-    for (const std::string& m : order) metric_position.emplace(m, metric_position.size());
-    const bool all_metrics = metrics.empty();
-    for (const auto& row : long_table.rows) {
-        const std::string k = text_of(row[key]), m = text_of(row[metric]);
-        if (key_row.emplace(k, keys.size()).second) keys.push_back(k);
-        if (all_metrics && metric_position.emplace(m, order.size()).second) order.push_back(m);
-    }
-    std::set<std::string> seen;
-    for (const auto& row : long_table.rows) seen.insert(text_of(row[metric]));
-    for (const std::string& m : metrics)
-        if (!seen.count(m)) throw std::invalid_argument("table '" + long_table.name + "' has no metric '" + m + "'");
-
-    Table wide;
-    wide.name = long_table.name;
-    wide.title = long_table.title;
-    wide.columns = {row_key};
-    for (const std::string& m : order) {
-        wide.columns.push_back(m);
-        wide.columns.push_back(m + "_lo");
-        wide.columns.push_back(m + "_hi");
-    }
-    std::vector<std::vector<Cell>> rows(keys.size(), std::vector<Cell>(wide.columns.size()));
-    for (std::size_t r = 0; r < keys.size(); ++r) rows[r][0] = keys[r];
-    for (const auto& row : long_table.rows) {
-        const auto m = metric_position.find(text_of(row[metric]));
-        if (m == metric_position.end()) continue;  // a metric not asked for
-        auto& out = rows[key_row.at(text_of(row[key]))];
-        out[1 + 3 * m->second] = row[value];
-        out[2 + 3 * m->second] = row[low];
-        out[3 + 3 * m->second] = row[high];
-    }
-    for (auto& row : rows) wide.add_row(std::move(row));
-    return wide;
-}
-
 LineChart roc_chart(std::vector<CurvePoint> points, const std::string& curve_name) {
     LineChart c;
     c.title = "How well the score separates cases from the rest (ROC curve)";

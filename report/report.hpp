@@ -96,17 +96,6 @@ struct ReportInput {
     RunRecord run;
 };
 
-// The report shows intervals in wide tables (columns `x`, `x_lo`, `x_hi`). This
-// turns a long table, one row per (`row_key`, metric) with columns `row_key`,
-// "metric", `value_column`, "ci_low" and "ci_high", into that form: one row per
-// `row_key` value in order of first appearance, and per metric (those listed in
-// `metrics`, in that order, or else all in order of first appearance) the three
-// columns `<metric>`, `<metric>_lo`, `<metric>_hi`. Cells are copied as they are;
-// a missing combination is an empty cell. std::invalid_argument names a missing
-// column or an unknown metric.
-Table wide_intervals(const Table& long_table, const std::string& value_column = "mean",
-                     const std::vector<std::string>& metrics = {}, const std::string& row_key = "plan");
-
 // Ready-made evaluation charts with the usual axes and reference lines.
 LineChart roc_chart(std::vector<CurvePoint> false_positive_rate_vs_sensitivity, const std::string& curve_name = "score");
 LineChart calibration_chart(std::vector<CurvePoint> predicted_vs_observed, const std::string& curve_name = "score");

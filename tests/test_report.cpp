@@ -468,31 +468,14 @@ TEST_CASE("report.crowded_frontier_is_numbered") {
     CHECK(named.find("On the frontier, from lightest to heaviest burden: plan-3 and plan-0.") != std::string::npos);
 }
 
-TEST_CASE("report.wide_intervals") {
-    // The long form the run writes (plan, metric, mean, ci_low, ci_high, ...)
-    // becomes one row per plan with value and interval columns per metric.
-    Table long_table;
-    long_table.name = "plan_comparison";
-    long_table.columns = {"plan", "metric", "mean", "ci_low", "ci_high", "replications"};
-    long_table.add_row({std::string("A"), std::string("caught"), 30.0, 28.0, 32.0, std::int64_t{20}});
-    long_table.add_row({std::string("A"), std::string("night_mean"), 0.4, 0.3, 0.5, std::int64_t{20}});
-    long_table.add_row({std::string("B"), std::string("night_mean"), 3.0, Cell{}, Cell{}, std::int64_t{1}});
-    long_table.add_row({std::string("B"), std::string("caught"), 47.0, 45.0, 49.0, std::int64_t{20}});
-
-    const Table all = wide_intervals(long_table);
-    CHECK(all.columns == std::vector<std::string>{"plan", "caught", "caught_lo", "caught_hi", "night_mean", "night_mean_lo", "night_mean_hi"});
-    REQUIRE(all.rows.size() == 2);
-    CHECK(std::get<std::string>(all.rows[1][0]) == "B");
-    CHECK(std::get<double>(all.rows[1][1]) == 47.0);
-    CHECK(std::get<double>(all.rows[1][4]) == 3.0);
-    CHECK(std::holds_alternative<std::monostate>(all.rows[1][5]));  // no interval from one replication
-
-    const Table some = wide_intervals(long_table, "mean", {"night_mean"});
-    CHECK(some.columns == std::vector<std::string>{"plan", "night_mean", "night_mean_lo", "night_mean_hi"});
-    CHECK(html_table(some).find("0.4 <span class=\"interval\">(0.3 to 0.5)</span>") != std::string::npos);
-
-    CHECK_THROWS_WITH_AS(wide_intervals(long_table, "mean_difference"), "table 'plan_comparison' has no column 'mean_difference'",
-                         std::invalid_argument);
-    CHECK_THROWS_WITH_AS(wide_intervals(long_table, "mean", {"pages"}), "table 'plan_comparison' has no metric 'pages'",
-                         std::invalid_argument);
+TEST_CASE("report.interval_columns") {
+    // Columns `x`, `x_lo`, `x_hi` are shown as "x (lo to hi)".
+    Table wide;
+    wide.name = "plan_comparison";
+    wide.columns = {"plan", "night_mean", "night_mean_lo", "night_mean_hi"};
+    wide.add_row({std::string("A"), 0.4, 0.3, 0.5});
+    wide.add_row({std::string("B"), 3.0, Cell{}, Cell{}});
+    const std::string html = html_table(wide);
+    CHECK(html.find("0.4 <span class=\"interval\">(0.3 to 0.5)</span>") != std::string::npos);
+    CHECK(html.find("<th scope=\"row\">B</th><td class=\"num\">3</td>") != std::string::npos);  // no interval from one replication
 }
