@@ -17,7 +17,7 @@ SectionSpec top_level_keys() {
                 text_key("time_zone", {.required = true, .help = "IANA zone of the hospital's wall clock, e.g. Europe/Berlin; naive timestamps and all local-time rules use it."}),
                 integer_key("seed", {.fallback = 1, .range = {0, 9.2e18}, .help = "Seed of every random stream; same seed, same results."}),
                 integer_key("replications", {.fallback = 1, .range = {1, 100000}, .help = "How many replications of every plan to run (more than 1 needs a resampled or generated population)."}),
-                text_key("score_label", {.fallback = "score", .help = "What the score is called in reports, e.g. 'deterioration index'."}),
+                text_key("score_label", {.fallback = "score", .help = "What the score is called in reports, e.g. 'ward risk score'."}),
                 list_key("shifts", {.required = true, .help = "The daily shifts, one item each (see shifts[])."}),
                 section_key("outcome", {.required = true, .help = "What counts as catching a case (see outcome)."}),
                 section_key("population", {.required = true, .help = "Where encounters and scores come from (see population)."}),
