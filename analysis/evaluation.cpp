@@ -10,6 +10,7 @@
 #include "analysis/prediction_level.hpp"
 #include "analysis/quantiles.hpp"
 #include "analysis/roc.hpp"
+#include "models/text.hpp"
 
 namespace tocsin {
 
@@ -241,6 +242,24 @@ std::vector<LeadTimes> lead_times_by_threshold(const Population& pop, const std:
     return out;
 }
 
+StayCalibration stay_level_calibration(const std::vector<EncounterScore>& scores, const ProbabilityMapping& m,
+                                       int groups, double confidence) {
+    std::vector<double> p;
+    std::vector<std::uint8_t> y;
+    for (const EncounterScore& s : scores) {
+        p.push_back(m.probability(s.highest_score));
+        if (!(p.back() >= 0.0 && p.back() <= 1.0))
+            throw std::invalid_argument("evaluation: the probability mapping turns score " + format_real(s.highest_score) +
+                                        " into " + format_real(p.back()) + ", outside [0, 1]");
+        y.push_back(s.is_case ? 1 : 0);
+    }
+    StayCalibration c;
+    c.observed_expected = observed_expected(p, y, confidence);
+    c.recalibration = logistic_recalibration(p, y);
+    if (!p.empty()) c.bins = binned_calibration(p, y, groups, confidence);
+    return c;
+}
+
 Evaluation evaluate(const Population& pop, const EvaluationOptions& o) {
     validate(o);
     Evaluation ev;
@@ -254,6 +273,8 @@ Evaluation evaluate(const Population& pop, const EvaluationOptions& o) {
     const RankedPredictions ranked = rank_predictions(pop);
     ev.prediction_auc = prediction_auc_from_ranked(pop, ranked, o);
     calibration_from_ranked(pop, ranked, o, ev);
+    if (o.probability && !encounter_scores.empty())
+        ev.stay_calibration = stay_level_calibration(encounter_scores, *o.probability, o.calibration_groups, o.confidence);
     ev.drift = drift_from_ranked(pop, ranked, o);
     return ev;
 }

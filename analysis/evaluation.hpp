@@ -114,13 +114,31 @@ struct CalibrationSummary {
     LogisticRecalibration recalibration;
 };
 
+// Stay (encounter) level: each stay's highest probability (before time zero
+// for cases, before discharge for the others; the mapping keeps score order,
+// so it is the probability of the highest score) against whether the stay had
+// the outcome at all. The mapping's horizon does not enter: a stay's worst
+// moment is compared with its outcome, which is what a committee asks of
+// "the patients we would have flagged". Slope and calibration-in-the-large
+// treat stays as independent, which they are.
+struct StayCalibration {
+    ObservedExpected observed_expected;  // delta-method interval
+    LogisticRecalibration recalibration;
+    std::vector<CalibrationBin> bins;
+};
+
 // One period of the drift check (prediction level; label = the mapping's
-// horizon, else the first horizon). Periods with no prediction are listed
-// with zero counts.
+// horizon, else the first horizon: with a mapping the AUC's outcome is the
+// one the probability predicts, so AUC and O/E of a row share one label,
+// which `horizon_hours` and `horizon_source` state). Periods with no
+// prediction are listed with zero counts.
+inline constexpr const char* drift_horizon_mapping = "probability mapping's horizon";
+inline constexpr const char* drift_horizon_first = "first horizon";
 struct DriftPeriod {
     std::string label;         // "2026-03", or the first day of a block of days
     std::string start;         // local time of the period's start
     double horizon_hours = 0.0;  // 0: before discharge
+    std::string horizon_source;  // drift_horizon_mapping or drift_horizon_first
     std::int64_t predictions = 0, positive_predictions = 0;
     double auc = 0.0;  // NaN when either class is empty
     std::optional<ObservedExpected> observed_expected;  // with a probability mapping
@@ -144,6 +162,7 @@ struct Evaluation {
     std::optional<CalibrationSummary> calibration;
     std::vector<CalibrationBin> calibration_bins;
     SmoothedCurve calibration_smoothed;
+    std::optional<StayCalibration> stay_calibration;
     std::vector<DriftPeriod> drift;
     std::optional<DecisionCurveResult> decision_curve;
 };
@@ -163,6 +182,10 @@ struct EncounterScore {
 std::vector<EncounterScore> encounter_level_scores(const Population& population);
 
 EvaluationCounts evaluation_counts(const Population& population);
+
+// Throws std::invalid_argument when the mapping leaves [0, 1]. Empty input: no fit, no bins.
+StayCalibration stay_level_calibration(const std::vector<EncounterScore>& scores, const ProbabilityMapping& mapping,
+                                       int groups, double confidence);
 
 EncounterAuc encounter_level_auc(const std::vector<EncounterScore>& scores, double confidence);
 

@@ -369,6 +369,7 @@ std::vector<DriftPeriod> drift_from_ranked(const Population& pop, const RankedPr
         d.label = periods.labels[q];
         d.start = format_local(periods.starts[q], o.zone);
         d.horizon_hours = horizon;
+        d.horizon_source = o.probability ? drift_horizon_mapping : drift_horizon_first;
         d.predictions = a.positives + a.negatives;
         d.positive_predictions = a.positives;
         d.auc = a.auc();

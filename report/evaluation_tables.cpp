@@ -117,7 +117,7 @@ Table lead_time_table(const std::vector<LeadTimes>& rows) {
 }
 
 Table calibration_table(const std::optional<CalibrationSummary>& calibration) {
-    Table t = make_table("evaluation_calibration", "Calibration of the predicted probability",
+    Table t = make_table("evaluation_calibration", "Calibration of the predicted probability (prediction level)",
                          {"outcome", "horizon_hours", "predictions", "observed", "expected", "oe_ratio", "oe_lower",
                           "oe_upper", "oe_bootstrap_lower", "oe_bootstrap_upper", "calibration_intercept",
                           "calibration_intercept_se", "calibration_slope", "calibration_slope_se",
@@ -136,8 +136,8 @@ Table calibration_table(const std::optional<CalibrationSummary>& calibration) {
     return t;
 }
 
-Table calibration_bins_table(const std::vector<CalibrationBin>& bins) {
-    Table t = make_table("evaluation_calibration_bins", "Calibration by equal-count groups of predicted probability",
+Table calibration_bins_table(const std::vector<CalibrationBin>& bins, std::string name, std::string title) {
+    Table t = make_table(std::move(name), std::move(title),
                          {"group", "predictions", "outcomes", "predicted_low", "predicted_high", "mean_predicted",
                           "observed", "observed_lower", "observed_upper"});
     for (std::size_t k = 0; k < bins.size(); ++k) {
@@ -146,6 +146,35 @@ Table calibration_bins_table(const std::vector<CalibrationBin>& bins) {
                    b.mean_predicted, b.observed, b.observed_interval.lower, b.observed_interval.upper});
     }
     return t;
+}
+
+Table calibration_bins_table(const std::vector<CalibrationBin>& bins) {
+    return calibration_bins_table(bins, "evaluation_calibration_bins",
+                                  "Calibration by equal-count groups of predicted probability (prediction level)");
+}
+
+Table stay_calibration_table(const std::optional<StayCalibration>& calibration) {
+    Table t = make_table("evaluation_calibration_stay",
+                         "Calibration, stay level (each stay's highest probability against its outcome)",
+                         {"level", "outcome", "stays", "observed", "expected", "oe_ratio", "oe_lower", "oe_upper",
+                          "calibration_in_the_large", "calibration_in_the_large_se", "calibration_slope",
+                          "calibration_slope_se", "calibration_intercept", "calibration_intercept_se",
+                          "probabilities_clamped", "converged"});
+    if (!calibration) return t;
+    const ObservedExpected& oe = calibration->observed_expected;
+    const LogisticRecalibration& fit = calibration->recalibration;
+    t.add_row({std::string("stay"), std::string("during the stay"), oe.predictions, oe.observed, oe.expected,
+               finite_or_empty(oe.ratio), finite_or_empty(oe.interval.lower), finite_or_empty(oe.interval.upper),
+               finite_or_empty(fit.calibration_in_the_large), finite_or_empty(fit.calibration_in_the_large_se),
+               finite_or_empty(fit.slope), finite_or_empty(fit.slope_se), finite_or_empty(fit.intercept),
+               finite_or_empty(fit.intercept_se), fit.clamped, std::string(fit.converged ? "yes" : "no")});
+    return t;
+}
+
+Table stay_calibration_bins_table(const std::optional<StayCalibration>& calibration) {
+    return calibration_bins_table(calibration ? calibration->bins : std::vector<CalibrationBin>{},
+                                  "evaluation_calibration_stay_bins",
+                                  "Calibration by equal-count groups of stays (each stay's highest probability)");
 }
 
 Table calibration_smoothed_table(const SmoothedCurve& curve) {
@@ -160,7 +189,7 @@ Table calibration_smoothed_table(const SmoothedCurve& curve) {
 Table drift_table(const std::vector<DriftPeriod>& periods) {
     Table t = make_table("evaluation_drift", "Discrimination and calibration by period",
                          {"period", "period_start", "outcome", "horizon_hours", "predictions", "positive_predictions",
-                          "auc", "observed", "expected", "oe_ratio", "oe_lower", "oe_upper"});
+                          "auc", "observed", "expected", "oe_ratio", "oe_lower", "oe_upper", "horizon_source"});
     for (const DriftPeriod& d : periods) {
         std::vector<Cell> row{d.label, d.start, horizon_text(d.horizon_hours), horizon_cell(d.horizon_hours),
                               d.predictions, d.positive_predictions, finite_or_empty(d.auc)};
@@ -170,6 +199,7 @@ Table drift_table(const std::vector<DriftPeriod>& periods) {
         } else {
             for (int c = 0; c < 5; ++c) row.emplace_back(std::monostate{});
         }
+        row.emplace_back(d.horizon_source);
         t.add_row(std::move(row));
     }
     return t;
@@ -206,6 +236,8 @@ std::vector<Table> evaluation_tables(const Evaluation& ev) {
     tables.push_back(calibration_table(ev.calibration));
     tables.push_back(calibration_bins_table(ev.calibration_bins));
     tables.push_back(calibration_smoothed_table(ev.calibration_smoothed));
+    tables.push_back(stay_calibration_table(ev.stay_calibration));
+    tables.push_back(stay_calibration_bins_table(ev.stay_calibration));
     tables.push_back(drift_table(ev.drift));
     tables.push_back(evaluation_decision_curve_table(ev.decision_curve));
     return tables;
@@ -244,10 +276,43 @@ std::string discrimination_lines(const Evaluation& ev) {
     return s;
 }
 
-std::string calibration_line(const CalibrationSummary& c) {
-    return "  Calibration: observed/expected " + with_interval(c.observed_expected.ratio, c.oe_bootstrap, 2) +
-           ", intercept " + fixed(c.recalibration.intercept, 2) + ", slope " + fixed(c.recalibration.slope, 2) +
-           " (ideal: 1, 0, 1)\n";
+// Wald interval from the fit's standard error; the fit treats rows as independent.
+std::string with_wald_interval(double v, double se, double confidence) {
+    const double z = normal_two_sided_z(confidence);
+    return with_interval(v, Interval{v - z * se, v + z * se}, 2);
+}
+
+// Committees read "calibration intercept" as calibration-in-the-large (slope
+// fixed at 1), so that is the one shown; the two-parameter intercept stays in
+// the CSV. A fit that did not converge (one class, separation) has no figures
+// worth printing.
+std::string recalibration_text(const LogisticRecalibration& fit, double confidence) {
+    if (!fit.converged) return "    calibration-in-the-large and slope: not estimable (the fit did not converge)\n";
+    return "    calibration-in-the-large " +
+           with_wald_interval(fit.calibration_in_the_large, fit.calibration_in_the_large_se, confidence) +
+           " (0 is ideal), calibration slope " + with_wald_interval(fit.slope, fit.slope_se, confidence) +
+           " (1 is ideal)\n";
+}
+
+std::string calibration_lines(const Evaluation& ev, double confidence) {
+    std::string s;
+    if (const auto& c = ev.calibration)
+        s += "  Calibration, prediction level (every score; outcome " + horizon_text(c->horizon_hours) +
+             "): observed/expected " + with_interval(c->observed_expected.ratio, c->oe_bootstrap, 2) + " (1 is ideal)\n" +
+             recalibration_text(c->recalibration, confidence);
+    if (const auto& c = ev.stay_calibration)
+        s += "  Calibration, stay level (each stay's highest probability; outcome during the stay): observed/expected " +
+             with_interval(c->observed_expected.ratio, c->observed_expected.interval, 2) + " (1 is ideal)\n" +
+             recalibration_text(c->recalibration, confidence);
+    return s;
+}
+
+std::string drift_line(const std::vector<DriftPeriod>& drift) {
+    if (drift.empty()) return "";
+    const DriftPeriod& d = drift.front();
+    return "  Drift (evaluation_drift): " + count(static_cast<std::int64_t>(drift.size())) +
+           " periods; each period's AUC" + (d.observed_expected ? " and observed/expected use" : " uses") +
+           " the outcome " + horizon_text(d.horizon_hours) + " (the " + d.horizon_source + ")\n";
 }
 
 // One line per given threshold (the grid is for files and charts).
@@ -271,7 +336,8 @@ std::string threshold_lines(const Evaluation& ev) {
 std::string evaluation_summary(const Evaluation& ev) {
     std::string s = "Model evaluation (figures rest on this population and its exclusions; not a medical device)\n";
     s += discrimination_lines(ev);
-    if (ev.calibration) s += calibration_line(*ev.calibration);
+    s += calibration_lines(ev, ev.encounter_auc.confidence);
+    s += drift_line(ev.drift);
     s += threshold_lines(ev);
     return s;
 }

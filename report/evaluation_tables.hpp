@@ -48,10 +48,21 @@ Table lead_time_table(const std::vector<LeadTimes>& rows);
 // calibration_in_the_large(_se), probabilities_clamped, converged.
 Table calibration_table(const std::optional<CalibrationSummary>& calibration);
 
-// evaluation_calibration_bins. Columns: group, predictions, outcomes,
-// predicted_low, predicted_high, mean_predicted, observed, observed_lower,
-// observed_upper (Wilson).
+// evaluation_calibration_bins (prediction level). Columns: group, predictions,
+// outcomes, predicted_low, predicted_high, mean_predicted, observed,
+// observed_lower, observed_upper (Wilson).
 Table calibration_bins_table(const std::vector<CalibrationBin>& bins);
+Table calibration_bins_table(const std::vector<CalibrationBin>& bins, std::string name, std::string title);
+
+// evaluation_calibration_stay (stay level; no row without a probability
+// mapping). Columns: level ("stay"), outcome ("during the stay"), stays,
+// observed, expected, oe_ratio, oe_lower, oe_upper (delta method),
+// calibration_in_the_large(_se), calibration_slope(_se),
+// calibration_intercept(_se) (the two-parameter fit's), probabilities_clamped,
+// converged.
+Table stay_calibration_table(const std::optional<StayCalibration>& calibration);
+// evaluation_calibration_stay_bins: the bins' columns, one row per group of stays.
+Table stay_calibration_bins_table(const std::optional<StayCalibration>& calibration);
 
 // evaluation_calibration_smoothed. Columns: predicted, observed, effective_n,
 // bandwidth_logit, method.
@@ -59,7 +70,9 @@ Table calibration_smoothed_table(const SmoothedCurve& curve);
 
 // evaluation_drift. Columns: period, period_start, outcome, horizon_hours,
 // predictions, positive_predictions, auc, observed, expected, oe_ratio,
-// oe_lower, oe_upper (the last five empty without a probability mapping).
+// oe_lower, oe_upper (these five empty without a probability mapping),
+// horizon_source (drift_horizon_mapping or drift_horizon_first: with a
+// mapping, AUC and O/E use the mapping's horizon; without, the first).
 Table drift_table(const std::vector<DriftPeriod>& periods);
 
 // Columns: threshold_source ("grid", "given" or "evaluations_per_case"),

@@ -4,6 +4,7 @@
 #include <cmath>
 #include <limits>
 
+#include "models/text.hpp"
 #include "report/cells.hpp"
 #include "report/evaluation_tables.hpp"
 
@@ -78,13 +79,52 @@ LineChart roc_of(const std::vector<ThresholdMeasures>& rows, const std::string& 
     return chart;
 }
 
-Table calibration_to_read(const CalibrationSummary& c) {
-    Table t = short_table("evaluation_calibration", "Calibration, prediction level",
-                          {"horizon_hours", "predictions", "oe_ratio", "oe_bootstrap_lower", "oe_bootstrap_upper",
-                           "calibration_intercept", "calibration_slope"});
-    t.add_row({horizon_cell(c.horizon_hours), c.observed_expected.predictions, finite_or_empty(c.observed_expected.ratio),
-               finite_or_empty(c.oe_bootstrap.lower), finite_or_empty(c.oe_bootstrap.upper),
-               finite_or_empty(c.recalibration.intercept), finite_or_empty(c.recalibration.slope)});
+// Committees read "calibration intercept" as calibration-in-the-large, so the
+// two-parameter fit's intercept is left to the CSV. Intervals are Wald, from
+// the fit's standard errors.
+void add_calibration_row(Table& t, std::string level, std::string outcome, std::int64_t rows,
+                         const ObservedExpected& oe, const Interval& oe_interval, const LogisticRecalibration& fit,
+                         double z) {
+    const double citl = fit.calibration_in_the_large, se = fit.calibration_in_the_large_se;
+    t.add_row({std::move(level), std::move(outcome), rows, finite_or_empty(oe.ratio), finite_or_empty(oe_interval.lower),
+               finite_or_empty(oe_interval.upper), finite_or_empty(citl), finite_or_empty(citl - z * se),
+               finite_or_empty(citl + z * se), finite_or_empty(fit.slope), finite_or_empty(fit.slope - z * fit.slope_se),
+               finite_or_empty(fit.slope + z * fit.slope_se)});
+}
+
+Table calibration_to_read(const Evaluation& e, double confidence) {
+    Table t = short_table("evaluation_calibration",
+                          "Calibration: prediction level (every score) and stay level (each stay's highest probability)",
+                          {"level", "outcome", "predictions_or_stays", "oe_ratio", "oe_lower", "oe_upper", "calibration_in_the_large",
+                           "calibration_in_the_large_lower", "calibration_in_the_large_upper", "calibration_slope",
+                           "calibration_slope_lower", "calibration_slope_upper"});
+    const double z = normal_two_sided_z(confidence);
+    if (const auto& c = e.calibration) {
+        const std::string outcome = c->horizon_hours == 0.0 ? std::string("before discharge")
+                                                            : "within " + format_real(c->horizon_hours) + " h";
+        add_calibration_row(t, "prediction", outcome, c->observed_expected.predictions, c->observed_expected,
+                            c->oe_bootstrap, c->recalibration, z);
+    }
+    if (const auto& c = e.stay_calibration)
+        add_calibration_row(t, "stay", "during the stay", c->observed_expected.predictions, c->observed_expected,
+                            c->observed_expected.interval, c->recalibration, z);
+    return t;
+}
+
+// Which outcome each period's AUC uses changes with a probability mapping, so
+// the table says it on every row. Observed / expected only exists with one.
+Table drift_to_read(const std::vector<DriftPeriod>& periods) {
+    const bool with_oe = !periods.empty() && periods.front().observed_expected.has_value();
+    std::vector<std::string> columns{"period", "outcome", "horizon_source", "predictions", "auc"};
+    if (with_oe) columns.emplace_back("oe_ratio");
+    Table t = short_table("evaluation_drift", "Drift by period, prediction level", std::move(columns));
+    for (const DriftPeriod& d : periods) {
+        const std::string outcome = d.horizon_hours == 0.0 ? std::string("before discharge")
+                                                           : "within " + format_real(d.horizon_hours) + " h";
+        std::vector<Cell> row{d.label, outcome, d.horizon_source, d.predictions, finite_or_empty(d.auc)};
+        if (with_oe) row.push_back(d.observed_expected ? finite_or_empty(d.observed_expected->ratio) : Cell{});
+        t.add_row(std::move(row));
+    }
     return t;
 }
 
@@ -115,7 +155,11 @@ void add_evaluation(ReportInput& in, const Evaluation& e, const std::string& sco
         {"threshold", "threshold"}, {"sensitivity", "sensitivity"}, {"specificity", "specificity"},
         {"ppv", "positive predictive value"}, {"npv", "negative predictive value"},
         {"share_flagged", "share of encounters flagged"}, {"oe_ratio", "observed / expected"},
-        {"calibration_intercept", "calibration intercept"}, {"calibration_slope", "calibration slope"}};
+        {"oe_lower", "lower"}, {"oe_upper", "upper"}, {"predictions_or_stays", "predictions or stays"},
+        {"calibration_in_the_large", "calibration-in-the-large (0 is ideal)"},
+        {"calibration_in_the_large_lower", "lower"}, {"calibration_in_the_large_upper", "upper"},
+        {"calibration_slope", "calibration slope (1 is ideal)"}, {"calibration_slope_lower", "lower"},
+        {"calibration_slope_upper", "upper"}, {"horizon_source", "outcome chosen by"}};
     for (const auto& [name, label] : labels) in.column_labels.emplace(name, label);
 
     in.evaluation_tables.push_back(encounter_discrimination(e.encounter_auc, score_label));
@@ -124,8 +168,10 @@ void add_evaluation(ReportInput& in, const Evaluation& e, const std::string& sco
         in.evaluation_tables.push_back(thresholds_to_read(e.thresholds));
         in.evaluation_charts.push_back(roc_of(e.thresholds, score_label));
     }
-    if (e.calibration) in.evaluation_tables.push_back(calibration_to_read(*e.calibration));
+    if (e.calibration || e.stay_calibration)
+        in.evaluation_tables.push_back(calibration_to_read(e, e.encounter_auc.confidence));
     if (!e.calibration_bins.empty()) in.evaluation_charts.push_back(calibration_of(e.calibration_bins, e.calibration_smoothed));
+    if (!e.drift.empty()) in.evaluation_tables.push_back(drift_to_read(e.drift));
     if (e.decision_curve && !e.decision_curve->points.empty())
         in.evaluation_charts.push_back(decision_curve_of(*e.decision_curve, score_label));
 }

@@ -314,3 +314,143 @@ TEST_CASE("evaluation.rejects_bad_options") {
     o.evaluations_per_case = {1};
     CHECK_THROWS_AS(evaluate(pop, o), std::invalid_argument);
 }
+
+namespace {
+
+// Eight stays (hours after 2026-03-01), scores out of 10, mapped by divide:10:
+//   S1..S4 highest 2 (p = 0.2): S1 a case whose later 9 comes after time zero
+//          (excluded, so its highest is still 2); S2..S4 quiet.
+//   S5..S8 highest 5 (p = 0.5): S5..S7 cases; S8 quiet, with a 1 before its 5.
+// Observed 4 of 8, expected 4 x 0.2 + 4 x 0.5 = 2.8.
+Population eight_stays() {
+    Builder b;
+    const auto h = [](double x) { return march_1 + static_cast<Instant>(x * 3600); };
+    const auto s1 = b.encounter("S1", h(0), h(30), h(10));
+    b.score(s1, h(2), 2);
+    b.score(s1, h(11), 9);
+    for (const char* id : {"S2", "S3", "S4"}) b.score(b.encounter(id, h(0), h(30)), h(3), 2);
+    for (const char* id : {"S5", "S6", "S7"}) b.score(b.encounter(id, h(0), h(30), h(20)), h(4), 5);
+    const auto s8 = b.encounter("S8", h(0), h(30));
+    b.score(s8, h(1), 1);
+    b.score(s8, h(5), 5);
+    return b.build();
+}
+
+double expit(double x) { return 1.0 / (1.0 + std::exp(-x)); }
+
+}  // namespace
+
+TEST_CASE("evaluation.stay_level_calibration_by_hand") {
+    ProbabilityMapping m;
+    m.kind = ProbabilityMapping::Kind::divide;
+    m.divisor = 10;
+    const StayCalibration c = stay_level_calibration(encounter_level_scores(eight_stays()), m, 2, 0.95);
+
+    CHECK(c.observed_expected.predictions == 8);
+    CHECK(c.observed_expected.observed == 4);
+    CHECK(c.observed_expected.expected == doctest::Approx(2.8));
+    CHECK(c.observed_expected.ratio == doctest::Approx(4.0 / 2.8));
+
+    // Two distinct probabilities make the two-parameter fit saturated: it
+    // reproduces each group's observed share (1/4 at p = 0.2, 3/4 at p = 0.5),
+    //   a + b logit(0.2) = logit(1/4) = -ln 3,  a + b logit(0.5) = a = ln 3,
+    // so b = 2 ln 3 / ln 4 and a = ln 3.
+    const LogisticRecalibration& fit = c.recalibration;
+    REQUIRE(fit.converged);
+    CHECK(fit.slope == doctest::Approx(2 * std::log(3.0) / std::log(4.0)).epsilon(1e-9));
+    CHECK(fit.intercept == doctest::Approx(std::log(3.0)).epsilon(1e-9));
+    // Calibration-in-the-large (slope fixed at 1) solves its score equation:
+    // the refitted probabilities sum to the observed count.
+    const double citl = fit.calibration_in_the_large;
+    const double refitted = 4 * expit(citl + std::log(0.2 / 0.8)) + 4 * expit(citl);
+    CHECK(refitted == doctest::Approx(4.0).epsilon(1e-9));
+    CHECK(citl > 0);  // more outcomes than predicted
+
+    // Two groups of four stays, in order of probability.
+    REQUIRE(c.bins.size() == 2);
+    CHECK(c.bins[0].predictions == 4);
+    CHECK(c.bins[0].outcomes == 1);
+    CHECK(c.bins[0].mean_predicted == doctest::Approx(0.2));
+    CHECK(c.bins[1].outcomes == 3);
+    CHECK(c.bins[1].mean_predicted == doctest::Approx(0.5));
+}
+
+TEST_CASE("evaluation.stay_calibration_in_evaluate_and_its_tables") {
+    EvaluationOptions o;
+    o.bootstrap_replicates = 0;
+    o.calibration_groups = 2;
+    ProbabilityMapping m;
+    m.kind = ProbabilityMapping::Kind::divide;
+    m.divisor = 10;
+    m.horizon_hours = 6;  // the prediction level uses it; the stay level does not
+    o.probability = m;
+    const Evaluation ev = evaluate(eight_stays(), o);
+    REQUIRE(ev.stay_calibration);
+    CHECK(ev.stay_calibration->observed_expected.observed == 4);
+    // The prediction level counts every usable score (ten less S1's 9 after
+    // time zero), the stay level stays.
+    REQUIRE(ev.calibration);
+    CHECK(ev.calibration->observed_expected.predictions == 9);
+
+    const Table stay = stay_calibration_table(ev.stay_calibration);
+    CHECK(stay.name == "evaluation_calibration_stay");
+    REQUIRE(stay.rows.size() == 1);
+    CHECK(cell_number(stay, 0, "stays") == 8);
+    CHECK(cell_number(stay, 0, "calibration_slope") ==
+          doctest::Approx(2 * std::log(3.0) / std::log(4.0)).epsilon(1e-9));
+    CHECK(cell_number(stay, 0, "calibration_in_the_large") ==
+          doctest::Approx(ev.stay_calibration->recalibration.calibration_in_the_large));
+    const Table bins = stay_calibration_bins_table(ev.stay_calibration);
+    CHECK(bins.name == "evaluation_calibration_stay_bins");
+    CHECK(bins.rows.size() == 2);
+    bool listed = false;
+    for (const Table& t : evaluation_tables(ev)) listed = listed || t.name == "evaluation_calibration_stay_bins";
+    CHECK(listed);
+
+    // The terminal names calibration-in-the-large and the slope plainly, at both
+    // levels, and never a bare "intercept".
+    const std::string summary = evaluation_summary(ev);
+    CHECK(summary.find("Calibration, prediction level (every score; outcome within 6 h)") != std::string::npos);
+    CHECK(summary.find("Calibration, stay level") != std::string::npos);
+    CHECK(summary.find("calibration-in-the-large") != std::string::npos);
+    CHECK(summary.find("calibration slope") != std::string::npos);
+    CHECK(summary.find("intercept") == std::string::npos);
+
+    // Without a mapping there is no stay calibration and its tables have no row.
+    EvaluationOptions plain = o;
+    plain.probability.reset();
+    const Evaluation without = evaluate(eight_stays(), plain);
+    CHECK_FALSE(without.stay_calibration);
+    CHECK(stay_calibration_table(without.stay_calibration).rows.empty());
+    CHECK(stay_calibration_bins_table(without.stay_calibration).rows.empty());
+}
+
+TEST_CASE("evaluation.drift_says_which_outcome_its_auc_uses") {
+    // Without a mapping the AUC's outcome is the first horizon; with one it is
+    // the mapping's (here: before discharge), and every row and the summary say so.
+    EvaluationOptions o;
+    o.bootstrap_replicates = 0;
+    o.horizons_hours = {8, 24};
+    const Evaluation first = evaluate(five_encounters(), o);
+    REQUIRE_FALSE(first.drift.empty());
+    for (const DriftPeriod& d : first.drift) {
+        CHECK(d.horizon_hours == 8);
+        CHECK(d.horizon_source == std::string(drift_horizon_first));
+    }
+    CHECK(evaluation_summary(first).find("each period's AUC uses the outcome within 8 h (the first horizon)") !=
+          std::string::npos);
+
+    ProbabilityMapping m;
+    m.kind = ProbabilityMapping::Kind::divide;
+    m.divisor = 10;
+    o.probability = m;
+    const Evaluation mapped = evaluate(five_encounters(), o);
+    const Table t = drift_table(mapped.drift);
+    REQUIRE(t.columns.back() == "horizon_source");
+    for (std::size_t r = 0; r < t.rows.size(); ++r) {
+        CHECK(std::get<std::string>(t.rows[r][2]) == "before discharge");
+        CHECK(std::get<std::string>(t.rows[r].back()) == drift_horizon_mapping);
+    }
+    CHECK(evaluation_summary(mapped).find("use the outcome before discharge (the probability mapping's horizon)") !=
+          std::string::npos);
+}

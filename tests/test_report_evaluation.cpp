@@ -19,9 +19,10 @@ TEST_CASE("report_evaluation.demo_score") {
 
     ReportInput in;
     add_evaluation(in, e, sc.score_label);
-    // Encounter AUC, prediction AUC and the threshold table; the demo score is on
-    // a 0-100 scale with no probability mapping, so no calibration table.
-    REQUIRE(in.evaluation_tables.size() == 3);
+    // Encounter AUC, prediction AUC, the threshold table and drift; the demo
+    // score is on a 0-100 scale with no probability mapping, so no calibration table.
+    REQUIRE(in.evaluation_tables.size() == 4);
+    CHECK(in.evaluation_tables[3].name == "evaluation_drift");
     CHECK(in.evaluation_tables[0].title.find("highest deterioration score") != std::string::npos);
     // Only the two given thresholds are listed, in the given order.
     const Table& by_threshold = in.evaluation_tables[2];
@@ -43,4 +44,53 @@ TEST_CASE("report_evaluation.demo_score") {
     CHECK(page.find(">AUC</th>") != std::string::npos);
     // auc with auc_lower / auc_upper folds into one cell.
     CHECK(page.find("auc_lower") == std::string::npos);
+}
+
+TEST_CASE("report_evaluation.calibration_is_named_plainly_at_both_levels") {
+    const Scenario sc = load_scenario(std::string(TOCSIN_SOURCE_DIR) + "/scenarios/fernhollow-replay.yaml");
+    EvaluationOptions options = evaluation_options_for(sc);
+    options.bootstrap_replicates = 0;
+    ProbabilityMapping m;
+    m.kind = ProbabilityMapping::Kind::divide;
+    m.divisor = 100;
+    options.probability = m;
+    const Evaluation e = evaluate(load_replay(sc.population.replay, sc.simulation.zone), options);
+    REQUIRE(e.calibration);
+    REQUIRE(e.stay_calibration);
+
+    ReportInput in;
+    add_evaluation(in, e, sc.score_label);
+    const Table* calibration = nullptr;
+    const Table* drift = nullptr;
+    for (const Table& t : in.evaluation_tables) {
+        if (t.name == "evaluation_calibration") calibration = &t;
+        if (t.name == "evaluation_drift") drift = &t;
+    }
+    REQUIRE(calibration);
+    // One row per level, the level and its outcome named on the row.
+    REQUIRE(calibration->rows.size() == 2);
+    CHECK(std::get<std::string>(calibration->rows[0][0]) == "prediction");
+    CHECK(std::get<std::string>(calibration->rows[1][0]) == "stay");
+    CHECK(std::get<std::string>(calibration->rows[1][1]) == "during the stay");
+    CHECK(std::get<std::int64_t>(calibration->rows[1][2]) == e.stay_calibration->observed_expected.predictions);
+    // The two-parameter intercept is not in the report (committees would read
+    // it as calibration-in-the-large); calibration-in-the-large and slope are.
+    for (const std::string& column : calibration->columns) CHECK(column != "calibration_intercept");
+    CHECK(in.column_labels.at("calibration_in_the_large") == "calibration-in-the-large (0 is ideal)");
+    CHECK(in.column_labels.at("calibration_slope") == "calibration slope (1 is ideal)");
+    CHECK(std::get<double>(calibration->rows[1][6]) ==
+          doctest::Approx(e.stay_calibration->recalibration.calibration_in_the_large));
+
+    // Drift: every row says which outcome its AUC uses and why.
+    REQUIRE(drift);
+    REQUIRE_FALSE(drift->rows.empty());
+    for (const auto& row : drift->rows) {
+        CHECK(std::get<std::string>(row[1]) == "before discharge");
+        CHECK(std::get<std::string>(row[2]) == drift_horizon_mapping);
+    }
+
+    const std::string page = render_report(in);
+    CHECK(page.find("calibration-in-the-large (0 is ideal)") != std::string::npos);
+    CHECK(page.find("calibration slope (1 is ideal)") != std::string::npos);
+    CHECK(page.find("calibration intercept") == std::string::npos);
 }
