@@ -94,8 +94,9 @@ void add_calibration_row(Table& t, std::string level, std::string outcome, std::
 
 Table calibration_to_read(const Evaluation& e, double confidence) {
     Table t = short_table("evaluation_calibration",
-                          "Calibration: prediction level (every score) and stay level (each stay's highest probability)",
-                          {"level", "outcome", "predictions_or_stays", "oe_ratio", "oe_lower", "oe_upper", "calibration_in_the_large",
+                          "Calibration: prediction level (every score) and stay level (each stay's highest probability); "
+                          "intervals: O/E by encounter bootstrap (prediction) or delta method (stay), the fits' by Wald",
+                          {"level", "outcome", "predictions_or_stays", "oe_ratio", "oe_ratio_lower", "oe_ratio_upper", "calibration_in_the_large",
                            "calibration_in_the_large_lower", "calibration_in_the_large_upper", "calibration_slope",
                            "calibration_slope_lower", "calibration_slope_upper"});
     const double z = normal_two_sided_z(confidence);
@@ -155,11 +156,9 @@ void add_evaluation(ReportInput& in, const Evaluation& e, const std::string& sco
         {"threshold", "threshold"}, {"sensitivity", "sensitivity"}, {"specificity", "specificity"},
         {"ppv", "positive predictive value"}, {"npv", "negative predictive value"},
         {"share_flagged", "share of encounters flagged"}, {"oe_ratio", "observed / expected"},
-        {"oe_lower", "lower"}, {"oe_upper", "upper"}, {"predictions_or_stays", "predictions or stays"},
+        {"predictions_or_stays", "predictions or stays"},
         {"calibration_in_the_large", "calibration-in-the-large (0 is ideal)"},
-        {"calibration_in_the_large_lower", "lower"}, {"calibration_in_the_large_upper", "upper"},
-        {"calibration_slope", "calibration slope (1 is ideal)"}, {"calibration_slope_lower", "lower"},
-        {"calibration_slope_upper", "upper"}, {"horizon_source", "outcome chosen by"}};
+        {"calibration_slope", "calibration slope (1 is ideal)"}, {"horizon_source", "outcome chosen by"}};
     for (const auto& [name, label] : labels) in.column_labels.emplace(name, label);
 
     in.evaluation_tables.push_back(encounter_discrimination(e.encounter_auc, score_label));

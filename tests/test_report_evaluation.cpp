@@ -93,4 +93,7 @@ TEST_CASE("report_evaluation.calibration_is_named_plainly_at_both_levels") {
     CHECK(page.find("calibration-in-the-large (0 is ideal)") != std::string::npos);
     CHECK(page.find("calibration slope (1 is ideal)") != std::string::npos);
     CHECK(page.find("calibration intercept") == std::string::npos);
+    // Each interval folds into its figure's cell rather than standing alone.
+    CHECK(page.find("calibration_in_the_large_lower") == std::string::npos);
+    CHECK(page.find("oe_ratio_lower") == std::string::npos);
 }
