@@ -25,6 +25,7 @@
 #include "report/study_answers.hpp"
 #include "study/shift_effect.hpp"
 #include "cli/evaluate_command.hpp"
+#include "cli/generate_command.hpp"
 #include "cli/option_specs.hpp"
 #include "models/population_source.hpp"
 #include "study/review_size.hpp"
@@ -321,6 +322,8 @@ int main(int argc, char** argv) {
     size->add_option("-o,--out", size_opt.out_dir, "Write the table as CSV and JSON to this directory");
     EvaluateCommand evaluate_cmd;
     auto* evaluate = add_evaluate_command(app, evaluate_cmd);
+    GenerateCommand generate_cmd;
+    auto* generate = add_generate_command(app, generate_cmd);
 
     auto* keys = app.add_subcommand("keys", "Print the reference of every scenario key (Markdown)");
 
@@ -337,6 +340,7 @@ int main(int argc, char** argv) {
         if (*fit) return command_fit(fit_cmd);
         if (*size) return command_review_size(size_opt);
         if (*evaluate) return run_evaluate_command(evaluate_cmd);
+        if (*generate) return run_generate_command(generate_cmd);
         if (*keys) {
             std::cout << keys_reference_markdown();
             return 0;
