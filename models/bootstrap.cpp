@@ -103,6 +103,13 @@ Population bootstrap_population(const Population& source, const BootstrapConfig&
     if (eligible.blocks < 1) throw std::invalid_argument("bootstrap: no whole block of the log is eligible");
     const int target_blocks = static_cast<int>((end - start + block - 1) / block);
     const bool keep_initial = eligible.warm_up_days == 0;  // else each replication takes an eligible day's census
+    // With a tail, a replication admits no one after the log's last admission,
+    // as the log does not: its whole-period counts stay comparable.
+    Instant last_admission = end;
+    if (eligible.tail_days > 0) {
+        last_admission = start;
+        for (const Encounter& e : source.encounters) last_admission = std::max(last_admission, e.admitted);
+    }
 
     // Encounters by unit and source block; stays admitted before the period are the log's initial census.
     const std::size_t n_units = source.units.size();
@@ -142,7 +149,8 @@ Population bootstrap_population(const Population& source, const BootstrapConfig&
             const int s = plan[static_cast<std::size_t>(t)];
             const Seconds shift = static_cast<Seconds>(t - s) * block;
             for (std::size_t e : admitted_in[u][static_cast<std::size_t>(s)]) {
-                if (source.encounters[e].admitted + shift >= end) continue;  // partial last block
+                const Instant admitted = source.encounters[e].admitted + shift;
+                if (admitted >= end || admitted > last_admission) continue;  // partial last block, or after the log's last
                 copier.copy(e, shift, source.encounters[e].id + "~" + std::to_string(t));
             }
         }

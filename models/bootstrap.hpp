@@ -21,7 +21,9 @@
 //   weekly pattern survives; week blocks keep it by construction.
 // - an encounter admitted in source block s is copied into target block t,
 //   shifted by (t - s) blocks, with its whole stay, outcome and scores; its id
-//   becomes "<id>~<t>".
+//   becomes "<id>~<t>". With a tail (tail_days > 0), nobody is admitted
+//   after the log's last admission: a log that follows its last patients to
+//   discharge ends with days of discharges only, and its replications do too.
 // - the initial census (stays present at the period start): with a warm-up
 //   (warm_up_days > 0) the log's own is incomplete, so each replication takes
 //   the census present at the start of the source block of its first target
@@ -71,7 +73,7 @@
 //   log's own runs low in its warm-up and tail: compare the two over the
 //   eligible days (a reporting period inside them), and expect whole-period
 //   counts (cases, notices) of a replication to exceed the log's when its
-//   edges are incomplete.
+//   first days are incomplete (the replication's initial census is full).
 #include <cstdint>
 #include <optional>
 #include <string>

@@ -258,3 +258,42 @@ TEST_CASE("bootstrap.stay_rule") {
     CHECK(d.warm_up_days == 0);
     CHECK(d.tail_found);
 }
+
+TEST_CASE("bootstrap.admits_nobody_after_the_logs_last_admission") {
+    // A log that follows its patients to discharge but stops admitting 10 days
+    // before its end: with a tail, replications stop admitting where it does
+    // (so whole-period counts stay comparable); drawing from every day as
+    // before (tail_days: 0) fills those days with admissions.
+    Population log = nine_week_log();
+    const Instant stop = log.period_end - days(10);
+    std::vector<Score> scores;
+    std::vector<std::uint32_t> owner;
+    Population cut;
+    cut.units = log.units;
+    cut.period_start = log.period_start;
+    cut.period_end = log.period_end;
+    Instant last = log.period_start;
+    for (std::size_t e = 0; e < log.encounters.size(); ++e) {
+        if (log.encounters[e].admitted >= stop) continue;
+        last = std::max(last, log.encounters[e].admitted);
+        for (const Score& s : log.scores_of(e)) {
+            scores.push_back(s);
+            owner.push_back(static_cast<std::uint32_t>(cut.encounters.size()));
+        }
+        cut.encounters.push_back(log.encounters[e]);
+    }
+    group_scores_by_encounter(cut, scores, owner);
+    const EligibleDays found = find_eligible_days(cut, {});
+    CHECK(found.tail_days >= 10);  // the census rule sees the drain
+    BootstrapConfig every_day;
+    every_day.warm_up_days = every_day.tail_days = 0;
+    for (std::uint64_t r = 1; r <= 3; ++r) {
+        Instant latest = cut.period_start, latest_before = cut.period_start;
+        for (const Encounter& e : bootstrap_population(cut, {}, found, 2, r).encounters) latest = std::max(latest, e.admitted);
+        for (const Encounter& e : bootstrap_population(cut, every_day, 2, r).encounters)
+            latest_before = std::max(latest_before, e.admitted);
+        CHECK(latest <= last);
+        CHECK(latest > last - days(1));
+        CHECK(latest_before > stop);
+    }
+}
