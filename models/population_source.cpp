@@ -22,6 +22,13 @@ PreparedPopulation prepare_population(const PopulationSetup& sc) {
                 throw InputError(sc.file, sc.shift_at.line, sc.shift_at.column, "population.shift", e.what());
             }
         }
+        if (sc.bootstrap) {
+            try {
+                p.bootstrap_days = find_eligible_days(*p.log, *sc.bootstrap);
+            } catch (const std::invalid_argument& e) {
+                throw InputError(sc.file, sc.bootstrap_at.line, sc.bootstrap_at.column, "population.bootstrap", e.what());
+            }
+        }
         return p;
     }
     p.generator = sc.generator;
@@ -40,7 +47,11 @@ PreparedPopulation prepare_population(const PopulationSetup& sc) {
 Population population_for(const PopulationSetup& sc, const PreparedPopulation& prepared, std::uint64_t replication) {
     Population pop;
     if (sc.source == PopulationSource::replay) {
-        pop = sc.bootstrap ? bootstrap_population(*prepared.log, *sc.bootstrap, sc.seed, replication) : *prepared.log;
+        if (!sc.bootstrap || replication == 0) pop = *prepared.log;
+        else if (prepared.bootstrap_days)
+            pop = bootstrap_population(*prepared.log, *sc.bootstrap, *prepared.bootstrap_days, sc.seed, replication);
+        else
+            pop = bootstrap_population(*prepared.log, *sc.bootstrap, sc.seed, replication);
     } else {
         pop = generate_population(prepared.generator, sc.seed, replication);
     }
@@ -58,6 +69,7 @@ std::string describe_prepared(const PopulationSetup& sc, const PreparedPopulatio
           << (p.calibration->calibration_period_end - p.generator.period_start) / 86400 << " days with "
           << p.calibration->cases << " cases and " << p.calibration->controls << " controls.\n";
     }
+    if (p.log && sc.bootstrap && p.bootstrap_days) o << describe_eligible_days(*p.bootstrap_days, *p.log, *sc.bootstrap, sc.zone);
     return o.str();
 }
 

@@ -37,25 +37,28 @@ struct PopulationSetup {
     // Where target_auc and shift were declared, so errors found while
     // preparing name the scenario file's line.
     std::string file;
-    KeyLocation target_auc_at, shift_at;
+    KeyLocation target_auc_at, shift_at, bootstrap_at;
 };
 
 // What is worth doing once per scenario rather than once per replication:
 // reading the log, or calibrating the generator to a target AUC.
 struct PreparedPopulation {
     std::optional<Population> log;              // replay
+    std::optional<EligibleDays> bootstrap_days;  // replay with bootstrap: the days it draws from
     GeneratorConfig generator;                  // generate, after calibration
     std::optional<AucCalibration> calibration;  // generate with target_auc
 };
 
 // Throws InputError (naming the scenario key) on bad input, when a target AUC
-// is out of reach, or when a shift names a unit the log does not have.
+// is out of reach, when a shift names a unit the log does not have, or when
+// the bootstrap has no eligible day.
 PreparedPopulation prepare_population(const PopulationSetup& setup);
 
 // Replication 0 of a replayed scenario is the log as replayed.
 Population population_for(const PopulationSetup& setup, const PreparedPopulation& prepared, std::uint64_t replication);
 
-// A line or two on where the population comes from (calibration result), for `check` and `run`.
+// A line or two on where the population comes from (calibration result, the
+// days a bootstrap draws from), for `check` and `run`.
 std::string describe_prepared(const PopulationSetup& setup, const PreparedPopulation& prepared);
 
 // Makes the population of any replication (safe to call from several threads at once).

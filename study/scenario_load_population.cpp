@@ -150,6 +150,15 @@ BootstrapConfig parse_bootstrap(const Section& s) {
     else s.fail("scheme", "unknown scheme '" + scheme + "' (expected: stationary or moving_block)");
     b.mean_run_blocks = s.real("mean_run_blocks");
     b.same_weekday = s.flag("same_weekday");
+    // A number of days, or "auto" (also when left out): found from the log.
+    auto days_or_auto = [&](std::string_view key) -> std::optional<int> {
+        const YAML::Node v = s.child(key);
+        if (v.IsScalar() && v.Scalar() == "auto") return std::nullopt;
+        if (auto n = s.optional_integer(key)) return static_cast<int>(*n);
+        return std::nullopt;
+    };
+    b.warm_up_days = days_or_auto("warm_up_days");
+    b.tail_days = days_or_auto("tail_days");
     return b;
 }
 
@@ -226,8 +235,9 @@ void load_population(const Section& top, Scenario& sc) {
         if (sc.population.source != PopulationSource::replay)
             pop.fail("bootstrap", "bootstrap resamples a replayed log; a generated population makes every "
                                   "replication afresh, so leave bootstrap out");
-        sc.population.bootstrap =
-            parse_bootstrap(Section(pop.child("bootstrap"), "population.bootstrap", file, "population.bootstrap"));
+        const YAML::Node node = pop.child("bootstrap");
+        sc.population.bootstrap = parse_bootstrap(Section(node, "population.bootstrap", file, "population.bootstrap"));
+        sc.population.bootstrap_at = {node.Mark().line + 1, node.Mark().column + 1};
     }
     if (pop.has("shift")) {
         const YAML::Node node = pop.child("shift");

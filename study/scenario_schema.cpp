@@ -135,6 +135,8 @@ SectionSpec population_bootstrap_keys() {
                 text_key("scheme", {.fallback = "stationary", .help = "stationary (random run lengths) or moving_block (fixed run lengths)."}),
                 real_key("mean_run_blocks", {.unit = "blocks", .fallback = 7, .range = {1, 1000}, .help = "Mean (stationary) or exact (moving_block) number of consecutive blocks kept together."}),
                 flag_key("same_weekday", {.fallback = true, .help = "Day blocks: a jump lands on the same weekday, keeping the weekly pattern."}),
+                integer_key("warm_up_days", {.unit = "days", .absent = "auto", .range = {0, 3650}, .help = "First days of the log not drawn from, its census still filling; with a warm-up each replication starts with an eligible day's census. auto: found from the log."}),
+                integer_key("tail_days", {.unit = "days", .absent = "auto", .range = {0, 3650}, .help = "Last days of the log not drawn from, its stays cut off by its end. auto: found from the log."}),
             }};
 }
 

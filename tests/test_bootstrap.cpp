@@ -66,9 +66,11 @@ TEST_CASE("bootstrap.copies_whole_stays_by_whole_days") {
             CHECK(a[i].value == b[i].value);
         }
         if (copy.admitted < rep.period_start) {
+            // The initial census: the stays present when an eligible day of
+            // the same weekday began, moved to the period start.
             ++initial;
-            CHECK(copy.id == original.id);  // the initial census is kept as it is
-            CHECK(shift == 0);
+            CHECK(copy.id == original.id + "~census");
+            CHECK(copy.discharged > rep.period_start);
         } else {
             CHECK(copy.admitted < rep.period_end);
         }
@@ -137,9 +139,13 @@ TEST_CASE("bootstrap.census_and_outcome_rate_stay_realistic") {
         }
         return t;
     };
+    // A generated population's census is complete from its first to its last
+    // day (generated with a warm-up, stays kept whole past the end), so every
+    // day is declared eligible; the log's initial census is then kept.
     for (BlockScheme scheme : {BlockScheme::stationary, BlockScheme::moving_block}) {
         BootstrapConfig c;
         c.scheme = scheme;
+        c.warm_up_days = c.tail_days = 0;
         std::vector<Population> replications;
         for (std::uint64_t r = 1; r <= 40; ++r) replications.push_back(bootstrap_population(log, c, 9, r));
         for (std::uint32_t unit = 0; unit < 2; ++unit) {
@@ -171,4 +177,123 @@ TEST_CASE("bootstrap.refuses_a_log_shorter_than_a_block") {
     BootstrapConfig bad;
     bad.block_days = 0;
     CHECK_THROWS_WITH_AS(validate(bad), doctest::Contains("block_days"), std::invalid_argument);
+}
+
+TEST_CASE("bootstrap.keeps_the_initial_census_without_a_warm_up") {
+    // warm_up_days: 0 says the log's census is complete at its start: its own
+    // initial census is kept as it is, and every whole day is a source.
+    const Population& log = nine_week_log();
+    BootstrapConfig c;
+    c.warm_up_days = c.tail_days = 0;
+    const EligibleDays d = find_eligible_days(log, c);
+    CHECK(d.first_block == 0);
+    CHECK(d.blocks == 63);
+    CHECK_FALSE(d.warm_up_found);
+    const Population rep = bootstrap_population(log, c, 3, 1);
+    std::int64_t kept = 0, in_log = 0;
+    for (const Encounter& e : log.encounters) in_log += e.admitted < log.period_start;
+    for (const Encounter& e : rep.encounters)
+        if (e.admitted < rep.period_start) {
+            ++kept;
+            CHECK(e.id.find('~') == std::string::npos);
+        }
+    CHECK(kept == in_log);
+}
+
+TEST_CASE("bootstrap.draws_only_eligible_days") {
+    // Declared edges: 10 days of warm-up and 12 of tail leave days 11 to 51
+    // of the 63; every copied admission comes from them.
+    const Population& log = nine_week_log();
+    BootstrapConfig c;
+    c.warm_up_days = 10;
+    c.tail_days = 12;
+    const EligibleDays d = find_eligible_days(log, c);
+    CHECK(d.first_block == 10);
+    CHECK(d.blocks == 41);
+    std::map<std::string, const Encounter*> by_id;
+    for (const Encounter& e : log.encounters) by_id[e.id] = &e;
+    const Instant from = log.period_start + days(10), until = log.period_start + days(51);
+    for (std::uint64_t r = 1; r <= 3; ++r)
+        for (const Encounter& copy : bootstrap_population(log, c, d, 4, r).encounters) {
+            const Encounter& original = *by_id.at(source_id(copy.id));
+            if (copy.id.ends_with("~census")) {
+                // present when an eligible day began
+                const Instant began = original.admitted + (log.period_start - copy.admitted);
+                CHECK(began >= from);
+                CHECK(began < until);
+                CHECK(original.admitted < began);
+                CHECK(original.discharged > began);
+            } else {
+                CHECK(original.admitted >= from);
+                CHECK(original.admitted < until);
+            }
+        }
+    // Nothing left: refused, saying what to declare.
+    c.warm_up_days = 40;
+    c.tail_days = 30;
+    CHECK_THROWS_WITH_AS(find_eligible_days(log, c), doctest::Contains("declare warm_up_days and tail_days"),
+                         std::invalid_argument);
+}
+
+TEST_CASE("bootstrap.stay_rule") {
+    // 19 stays of 2 days for each of 12 days: 50 days of patient time per
+    // 20 stays; 5% is 2.5. Beyond 9 days: 3 > 2.5; beyond 10: 2 <= 2.5. So
+    // x = 10, not the longest stay (12).
+    Population pop;
+    pop.units = {"ward"};
+    pop.period_start = midnight_utc(2026, 3, 2);
+    for (int i = 0; i < 20; ++i) {
+        Encounter e;
+        e.id = "S" + std::to_string(i);
+        e.admitted = pop.period_start + hours(i);
+        e.discharged = e.admitted + days(i == 0 ? 12 : 2);
+        pop.encounters.push_back(e);
+    }
+    pop.period_end = pop.period_start + days(40);
+    pop.score_start.assign(pop.encounters.size() + 1, 0);
+    BootstrapConfig c;
+    c.warm_up_days = 0;  // the tail is found, so the stay rule runs
+    const EligibleDays d = find_eligible_days(pop, c);
+    CHECK(d.stay_days == 10);
+    CHECK(d.warm_up_days == 0);
+    CHECK(d.tail_found);
+}
+
+TEST_CASE("bootstrap.admits_nobody_after_the_logs_last_admission") {
+    // A log that follows its patients to discharge but stops admitting 10 days
+    // before its end: with a tail, replications stop admitting where it does
+    // (so whole-period counts stay comparable); drawing from every day as
+    // before (tail_days: 0) fills those days with admissions.
+    Population log = nine_week_log();
+    const Instant stop = log.period_end - days(10);
+    std::vector<Score> scores;
+    std::vector<std::uint32_t> owner;
+    Population cut;
+    cut.units = log.units;
+    cut.period_start = log.period_start;
+    cut.period_end = log.period_end;
+    Instant last = log.period_start;
+    for (std::size_t e = 0; e < log.encounters.size(); ++e) {
+        if (log.encounters[e].admitted >= stop) continue;
+        last = std::max(last, log.encounters[e].admitted);
+        for (const Score& s : log.scores_of(e)) {
+            scores.push_back(s);
+            owner.push_back(static_cast<std::uint32_t>(cut.encounters.size()));
+        }
+        cut.encounters.push_back(log.encounters[e]);
+    }
+    group_scores_by_encounter(cut, scores, owner);
+    const EligibleDays found = find_eligible_days(cut, {});
+    CHECK(found.tail_days >= 10);  // the census rule sees the drain
+    BootstrapConfig every_day;
+    every_day.warm_up_days = every_day.tail_days = 0;
+    for (std::uint64_t r = 1; r <= 3; ++r) {
+        Instant latest = cut.period_start, latest_before = cut.period_start;
+        for (const Encounter& e : bootstrap_population(cut, {}, found, 2, r).encounters) latest = std::max(latest, e.admitted);
+        for (const Encounter& e : bootstrap_population(cut, every_day, 2, r).encounters)
+            latest_before = std::max(latest_before, e.admitted);
+        CHECK(latest <= last);
+        CHECK(latest > last - days(1));
+        CHECK(latest_before > stop);
+    }
 }

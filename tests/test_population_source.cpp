@@ -194,3 +194,40 @@ TEST_CASE("population_source.generated_run_same_bytes_whatever_the_threads") {
     CHECK(compared > 5);
     CHECK(std::filesystem::exists(dir.path("one/shift_effect.csv")));
 }
+
+TEST_CASE("population_source.bootstrap_warm_up_and_tail_keys") {
+    // population.bootstrap.warm_up_days / tail_days: a number of days, or
+    // "auto" (also when left out); a warm-up that leaves no day is refused at
+    // the key, saying what to declare.
+    const std::string dir = std::string(TOCSIN_SOURCE_DIR) + "/scenarios";
+    const std::string text = testing::read_file(dir + "/fernhollow-replay.yaml");
+    auto with = [&](const std::string& bootstrap) {
+        std::string t = text;
+        t.replace(t.find("population:\n"), 12, "population:\n  bootstrap: " + bootstrap + "\n");
+        return t;
+    };
+    const Scenario declared = parse_scenario(with("{warm_up_days: 3, tail_days: auto}"), "s.yaml", dir);
+    REQUIRE(declared.population.bootstrap);
+    CHECK(declared.population.bootstrap->warm_up_days == 3);
+    CHECK_FALSE(declared.population.bootstrap->tail_days);
+    const Scenario automatic = parse_scenario(with("{}"), "s.yaml", dir);
+    CHECK_FALSE(automatic.population.bootstrap->warm_up_days);
+    const PreparedPopulation prepared = prepare_population(automatic.population);
+    REQUIRE(prepared.bootstrap_days);
+    CHECK(prepared.bootstrap_days->warm_up_found);
+    CHECK(describe_prepared(automatic.population, prepared).find("Bootstrap draws from days ") != std::string::npos);
+    try {
+        parse_scenario(with("{warm_up_days: -1}"), "s.yaml", dir);
+        FAIL("a negative warm-up was accepted");
+    } catch (const InputError& e) {
+        CHECK(std::string(e.what()).find("warm_up_days") != std::string::npos);
+    }
+    const Scenario too_long = parse_scenario(with("{warm_up_days: 40, tail_days: 10}"), "s.yaml", dir);
+    try {
+        prepare_population(too_long.population);
+        FAIL("a bootstrap with no eligible day was accepted");
+    } catch (const InputError& e) {
+        CHECK(std::string(e.what()).find("population.bootstrap") != std::string::npos);
+        CHECK(std::string(e.what()).find("declare warm_up_days and tail_days") != std::string::npos);
+    }
+}
