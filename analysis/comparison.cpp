@@ -49,6 +49,16 @@ const std::vector<Metric>& plan_metrics() {
          [](const PlanFigures& f) { return or_nan(f.wait_p90_minutes); }},
         {"never_taken_up", "tasks never taken up", Better::lower,
          [](const PlanFigures& f) { return f.never_taken_up ? static_cast<double>(*f.never_taken_up) : nan; }},
+        {"patients_per_unit_night_mean", "patients noticed per unit per night", Better::lower,
+         [](const PlanFigures& f) { return or_nan(f.patients_per_unit_night_mean); }},
+        {"patients_per_unit_night_p90", "patients noticed per unit per night, 90th percentile", Better::lower,
+         [](const PlanFigures& f) { return or_nan(f.patients_per_unit_night_p90); }},
+        {"patients_per_unit_night_max", "patients noticed per unit per night, worst", Better::lower,
+         [](const PlanFigures& f) { return or_nan(f.patients_per_unit_night_max); }},
+        {"notice_ppv", "share of notices for patients who went on to the outcome", Better::higher,
+         [](const PlanFigures& f) { return or_nan(f.notice_ppv); }},
+        {"patient_ppv", "share of patients noticed who went on to the outcome", Better::higher,
+         [](const PlanFigures& f) { return or_nan(f.patient_ppv); }},
     };
     return metrics;
 }

@@ -73,6 +73,60 @@ void per_unit_shift_figures(PlanFigures& f, const ShiftCalendar& cal, const Repo
     }
 }
 
+// A nurse manager counts the patients a night's pages were about, not only the
+// pages: five pages for one patient are not five patients to go and see.
+void patients_per_unit_night(PlanFigures& f, const ShiftCalendar& cal, const ReportingShifts& rep, std::size_t n_units,
+                             const PlanRecord& record) {
+    const std::size_t n_shifts = rep.shifts.size();
+    std::vector<std::size_t> slot(cal.size(), SIZE_MAX);
+    for (std::size_t k = 0; k < n_shifts; ++k)
+        if (cal.is_night(rep.shifts[k])) slot[rep.shifts[k]] = k;
+    // (unit-night, encounter) pairs, sorted so that repeats sit together.
+    std::vector<std::pair<std::size_t, std::uint32_t>> seen;
+    for (const Notice& n : record.notices) {
+        if (!cal.contains(n.at)) continue;
+        const std::size_t k = slot[cal.index_of(n.at)];
+        if (k != SIZE_MAX) seen.emplace_back(n.unit * n_shifts + k, n.encounter);
+    }
+    std::sort(seen.begin(), seen.end());
+    seen.erase(std::unique(seen.begin(), seen.end()), seen.end());
+    std::vector<double> patients(n_units * n_shifts, 0.0);
+    for (const auto& [unit_night, e] : seen) patients[unit_night] += 1;
+    std::vector<double> night;
+    for (std::size_t u = 0; u < n_units; ++u)
+        for (std::size_t k = 0; k < n_shifts; ++k)
+            if (cal.is_night(rep.shifts[k])) night.push_back(patients[u * n_shifts + k]);
+    if (night.empty()) return;
+    std::sort(night.begin(), night.end());
+    f.patients_per_unit_night_mean = mean(night);
+    f.patients_per_unit_night_p90 = quantile_sorted(night, 0.9);
+    f.patients_per_unit_night_max = night.back();
+}
+
+// Only a notice before time zero can be "for a patient who went on to the
+// outcome"; scores stop at time zero, so none should come after, but one that
+// did would not count as a true positive.
+void ppv_figures(PlanFigures& f, const Population& pop, const PlanRecord& record) {
+    if (record.notices.empty()) return;
+    enum : std::uint8_t { not_noticed, noticed, noticed_before_outcome };
+    std::vector<std::uint8_t> state(pop.encounters.size(), not_noticed);
+    std::int64_t true_notices = 0;
+    for (const Notice& n : record.notices) {
+        const auto& t0 = pop.encounters[n.encounter].outcome_at;
+        const bool before_outcome = t0 && n.at < *t0;
+        true_notices += before_outcome;
+        if (before_outcome) state[n.encounter] = noticed_before_outcome;
+        else if (state[n.encounter] == not_noticed) state[n.encounter] = noticed;
+    }
+    std::int64_t patients = 0, cases = 0;
+    for (const std::uint8_t s : state) {
+        patients += s != not_noticed;
+        cases += s == noticed_before_outcome;
+    }
+    f.notice_ppv = static_cast<double>(true_notices) / static_cast<double>(record.notices.size());
+    f.patient_ppv = static_cast<double>(cases) / static_cast<double>(patients);
+}
+
 // With staff, a case is caught by the start of an evaluation, not by the
 // notice: the evaluation starts and the waits before them.
 std::vector<std::pair<std::uint32_t, Instant>> evaluation_starts(PlanFigures& f, const StaffRun& staff) {
@@ -137,6 +191,8 @@ PlanFigures plan_figures(const AnalysisSettings& settings, const Population& pop
     PlanFigures f;
     auto actions = count_notices(f, cal, rep, pop.units.size(), record);
     per_unit_shift_figures(f, cal, rep, pop.units.size());
+    patients_per_unit_night(f, cal, rep, pop.units.size(), record);
+    ppv_figures(f, pop, record);
     const auto noticed_at = first_catch(settings, pop, actions);
     f.evaluations = static_cast<std::int64_t>(actions.size());
     if (record.staff) actions = evaluation_starts(f, *record.staff);

@@ -24,6 +24,12 @@ struct PlanFigures {
     // Per unit-shift over the reporting shifts (every unit x shift, zeros included).
     double per_unit_shift_mean = 0, per_unit_shift_p90 = 0, per_unit_shift_max = 0;
     std::optional<double> per_unit_night_mean, per_unit_night_p90, per_unit_night_max;
+    // Distinct encounters with at least one notice, per unit x reporting night shift.
+    std::optional<double> patients_per_unit_night_mean, patients_per_unit_night_p90, patients_per_unit_night_max;
+    // Over the whole run, as `notices`: the share of notices sent before time zero
+    // to patients who went on to the outcome, and of the patients noticed at
+    // least once, the share who went on to it. Nothing when there was no notice.
+    std::optional<double> notice_ppv, patient_ppv;
     std::int64_t cases = 0, caught = 0, missed = 0;
     std::int64_t evaluated_non_cases = 0;  // encounters without the outcome that had an evaluation
     std::optional<double> sensitivity;

@@ -120,12 +120,14 @@ std::string frontier_text(const ReplicatedFigures& f, std::size_t burden, std::s
 std::string comparison_text(const ReplicatedFigures& f, std::size_t ref) {
     std::ostringstream o;
     const std::vector<std::pair<std::string_view, int>> shown = {
-        {"per_unit_night_mean", 2}, {"per_unit_night_p90", 1}, {"caught", 1}, {"sensitivity", 2}, {"lead_median_h", 1}};
+        {"per_unit_night_mean", 2}, {"per_unit_night_p90", 1}, {"caught", 1}, {"sensitivity", 2}, {"lead_median_h", 1},
+        {"patients_per_unit_night_mean", 2}, {"notice_ppv", 2}};
     Table view;
     view.title = f.replications > 1
                      ? "Plans compared over " + std::to_string(f.replications) + " replications: mean (95% CI)"
                      : "Plans compared (one replication: no interval)";
-    view.columns = {"plan", "night_mean", "night_p90", "caught", "sensitivity", "lead_median_h"};
+    view.columns = {"plan", "night_mean", "night_p90", "caught", "sensitivity", "lead_median_h",
+                    "night_patients", "notice_ppv"};
     for (std::size_t p = 0; p < f.plans.size(); ++p) {
         std::vector<Cell> row{f.plans[p]};
         for (const auto& [name, d] : shown) row.push_back(with_interval(mean_interval(f.of(p, metric_index(name))), d));

@@ -18,7 +18,8 @@ namespace {
 
 // The figures the comparison table shows, in this order, when the run has them.
 const std::vector<std::string> shown_metrics = {"per_unit_night_mean", "per_unit_night_p90", "caught",
-                                                "sensitivity", "lead_median_h", "notices_per_catch"};
+                                                "sensitivity", "lead_median_h", "notices_per_catch",
+                                                "patients_per_unit_night_mean", "notice_ppv"};
 
 // The staff workload columns the report shows, and their headers.
 const std::vector<std::pair<std::string, std::string>> staff_labels = {

@@ -15,7 +15,9 @@ Table plan_summary_table(const ReplicationResults& results) {
                  "cases", "caught", "missed", "sensitivity",
                  "lead_median_h", "lead_q1_h", "lead_q3_h", "notices_per_catch",
                  "evaluations", "caught_by_notice", "lead_from_notice_median_h",
-                 "wait_median_min", "wait_p90_min", "never_taken_up"};
+                 "wait_median_min", "wait_p90_min", "never_taken_up",
+                 "patients_per_unit_night_mean", "patients_per_unit_night_p90", "patients_per_unit_night_max",
+                 "notice_ppv", "patient_ppv"};
     for (const PlanResult& p : results.plans) {
         const PlanFigures& f = p.figures;
         t.add_row({p.plan, std::string(to_string(p.channel)), f.notices, f.notices_first, f.notices_repeat,
@@ -23,7 +25,9 @@ Table plan_summary_table(const ReplicationResults& results) {
                    cell_or_empty(f.per_unit_night_mean), cell_or_empty(f.per_unit_night_p90), cell_or_empty(f.per_unit_night_max), f.cases, f.caught,
                    f.missed, cell_or_empty(f.sensitivity), cell_or_empty(f.lead_median_hours), cell_or_empty(f.lead_q1_hours), cell_or_empty(f.lead_q3_hours),
                    cell_or_empty(f.notices_per_catch), f.evaluations, f.caught_by_notice, cell_or_empty(f.lead_from_notice_median_hours),
-                   cell_or_empty(f.wait_median_minutes), cell_or_empty(f.wait_p90_minutes), cell_or_empty(f.never_taken_up)});
+                   cell_or_empty(f.wait_median_minutes), cell_or_empty(f.wait_p90_minutes), cell_or_empty(f.never_taken_up),
+                   cell_or_empty(f.patients_per_unit_night_mean), cell_or_empty(f.patients_per_unit_night_p90),
+                   cell_or_empty(f.patients_per_unit_night_max), cell_or_empty(f.notice_ppv), cell_or_empty(f.patient_ppv)});
     }
     return t;
 }

@@ -16,12 +16,14 @@ Table plans_view(const ReplicationResults& r) {
     Table view;
     view.title = "Plans compared (notices per unit per shift; lead in hours before time zero)";
     view.columns = {"plan", "notices", "shift_mean", "shift_p90", "night_mean", "night_p90", "night_max",
-                    "caught", "missed", "sensitivity", "lead_median_h", "notices_per_catch"};
+                    "caught", "missed", "sensitivity", "lead_median_h", "notices_per_catch",
+                    "night_patients", "notice_ppv"};
     for (const PlanResult& p : r.plans) {
         const PlanFigures& f = p.figures;
         view.add_row({p.plan, f.notices, f.per_unit_shift_mean, f.per_unit_shift_p90, cell_or_empty(f.per_unit_night_mean),
                       cell_or_empty(f.per_unit_night_p90), cell_or_empty(f.per_unit_night_max), f.caught, f.missed, cell_or_empty(f.sensitivity),
-                      cell_or_empty(f.lead_median_hours), cell_or_empty(f.notices_per_catch)});
+                      cell_or_empty(f.lead_median_hours), cell_or_empty(f.notices_per_catch),
+                      cell_or_empty(f.patients_per_unit_night_mean), cell_or_empty(f.notice_ppv)});
     }
     return view;
 }
