@@ -2,6 +2,7 @@
 // together. Everything it does is reachable from the library and the tests.
 #include <CLI/CLI.hpp>
 
+#include <cctype>
 #include <chrono>
 #include <filesystem>
 #include <fstream>
@@ -64,7 +65,7 @@ struct RunOptions {
 struct FitCommand {
     std::string scenario;
     std::string out_path;
-    std::string scale = "points";
+    std::string scale;  // empty: the scale the scores show
     std::string stay = "lognormal";
     bool by_hour_of_day = false;
 };
@@ -267,17 +268,26 @@ int command_fit(const FitCommand& cmd) {
         throw InputError(sc.file, 0, 0, "population", "tocsin fit needs a scenario that replays a log (population: replay:)");
     FitOptions options;
     options.zone = sc.simulation.zone;
-    options.scale = cmd.scale == "probability" ? ScoreScale::probability : ScoreScale::points;
+    if (!cmd.scale.empty()) options.scale = cmd.scale == "probability" ? ScoreScale::probability : ScoreScale::points;
     options.stay_distribution = cmd.stay == "gamma" ? StayDistribution::gamma : StayDistribution::lognormal;
     options.arrivals_by_hour_of_day = cmd.by_hour_of_day;
-    const GeneratorFit fit = fit_generator(load_replay(sc.population.replay, sc.simulation.zone), options);
+    const Population log = load_replay(sc.population.replay, sc.simulation.zone);
+    // Refused here rather than by fit_generator so the message names the file and the option.
+    const ScaleChoice scale = choose_score_scale(score_scale_evidence(log), options.scale);
+    if (!scale.scale)
+        throw InputError(sc.population.replay.scores_path, 0, 0, "--scale",
+                         scale.reason + (options.scale ? "; leave --scale out to fit on the scale the scores show"
+                                                       : "; give --scale points or --scale probability"));
+    const GeneratorFit fit = fit_generator(log, options);
     const std::string fragment = scenario_fragment(fit.config, fit.notes);
     if (cmd.out_path.empty()) {
         std::cout << fragment;
     } else {
         write_output_file(cmd.out_path, fragment);
+        std::string said = scale.reason;
+        said[0] = static_cast<char>(std::toupper(static_cast<unsigned char>(said[0])));
         std::cout << "Fitted " << fit.encounters_admitted << " admissions (" << fit.cases << " cases) and " << fit.scores
-                  << " scores; wrote " << cmd.out_path << "\n";
+                  << " scores; wrote " << cmd.out_path << "\n" << said << ".\n";
     }
     return 0;
 }
@@ -309,7 +319,7 @@ int main(int argc, char** argv) {
     auto* fit = app.add_subcommand("fit", "Fit the population generator to the scenario's log; print a YAML fragment to edit");
     fit->add_option("scenario", fit_cmd.scenario, "Scenario YAML file that replays a log")->required();
     fit->add_option("-o,--out", fit_cmd.out_path, "Write the fragment to this file instead of the terminal");
-    fit->add_option("--scale", fit_cmd.scale, "Score scale of the log")->check(CLI::IsMember({"points", "probability"}));
+    fit->add_option("--scale", fit_cmd.scale, "Score scale of the log (default: the scale the scores show; refused when they cannot tell)")->check(CLI::IsMember({"points", "probability"}));
     fit->add_option("--stay", fit_cmd.stay, "Length-of-stay family")->check(CLI::IsMember({"lognormal", "gamma"}));
     fit->add_flag("--by-hour-of-day", fit_cmd.by_hour_of_day, "One arrival rate per hour of day, every day alike (steadier for short logs)");
 

@@ -207,14 +207,13 @@ void fit_cadence_and_latency(const Population& pop, GeneratorFit& fit) {
 }
 
 // Score levels on controls: one-way random effects by moments.
-void fit_score_levels(const Population& pop, const FitOptions& options, GeneratorConfig& c) {
-    c.scores.scale = options.scale;
+void fit_score_levels(const Population& pop, GeneratorConfig& c) {
     std::vector<double> encounter_means, within_over_n;
     double within_ss = 0.0, within_df = 0.0;
     for (std::size_t e = 0; e < pop.encounters.size(); ++e) {
         if (pop.encounters[e].outcome_at) continue;
         std::vector<double> x;
-        for (const Score& s : pop.scores_of(e)) x.push_back(latent_of(s.value, options.scale));
+        for (const Score& s : pop.scores_of(e)) x.push_back(latent_of(s.value, c.scores.scale));
         if (x.size() < 2) continue;
         encounter_means.push_back(mean_of(x));
         within_ss += variance_of(x) * static_cast<double>(x.size() - 1);
@@ -242,7 +241,7 @@ void fit_drift(const Population& pop, const FitOptions& options, GeneratorConfig
             const double h = static_cast<double>(*enc.outcome_at - s.scored_at) / 3600.0;
             if (h < 0 || h >= bins) continue;
             const auto k = static_cast<std::size_t>(h);
-            excess_sum[k] += latent_of(s.value, options.scale) - c.scores.baseline;
+            excess_sum[k] += latent_of(s.value, c.scores.scale) - c.scores.baseline;
             hours_sum[k] += h;
             count[k] += 1.0;
         }
@@ -275,16 +274,67 @@ void fit_drift(const Population& pop, const FitOptions& options, GeneratorConfig
     c.scores.drift_onset_max_hours = best_b;
 }
 
+std::string range_text(const ScoreRange& r) {
+    return r.lowest == r.highest ? "all " + number(r.lowest) : "from " + number(r.lowest) + " to " + number(r.highest);
+}
+
+std::string scale_name(ScoreScale scale) { return scale == ScoreScale::points ? "points" : "probability"; }
+
+// Why the scores alone show no scale.
+std::string undecided_reason(const ScaleEvidence& e) {
+    if (e.range.scores == 0) return "the log has no usable scores, so their scale cannot be told";
+    return "every one of the " + std::to_string(e.range.scores) +
+           " usable scores is 0 or 1, which fits both scales (points and probability)";
+}
+
+// What the scores show, for a note.
+std::string evidence_text(const ScaleEvidence& e) {
+    if (!e.detected) return undecided_reason(e);
+    if (*e.detected == ScoreScale::probability)
+        return "every one of the " + std::to_string(e.range.scores) + " usable scores lies within 0 to 1 (" +
+               range_text(e.range) + ")";
+    return "the usable scores run " + range_text(e.range) + ", outside 0 to 1, so they are not probabilities";
+}
+
 }  // namespace
 
+ScaleEvidence score_scale_evidence(const Population& pop) {
+    ScaleEvidence e;
+    e.range = observed_score_range(pop);
+    for (const Score& s : pop.scores) e.strictly_between += s.value > 0.0 && s.value < 1.0;
+    if (e.range.scores == 0) return e;
+    if (e.range.lowest < 0.0 || e.range.highest > 1.0) e.detected = ScoreScale::points;
+    else if (e.strictly_between > 0) e.detected = ScoreScale::probability;
+    return e;
+}
+
+ScaleChoice choose_score_scale(const ScaleEvidence& e, std::optional<ScoreScale> given) {
+    if (!given) {
+        if (!e.detected) return {std::nullopt, undecided_reason(e)};
+        return {e.detected, "scale: " + scale_name(*e.detected) + ", detected: " + evidence_text(e)};
+    }
+    if (*given == ScoreScale::probability && e.detected == ScoreScale::points)
+        return {std::nullopt, "the probability scale was asked for, but " + evidence_text(e)};
+    std::string reason = "scale: " + scale_name(*given) + ", as asked";
+    if (*given == ScoreScale::points && e.detected == ScoreScale::probability)
+        reason += ", although " + evidence_text(e) + ", as probabilities would";
+    else
+        reason += " (" + evidence_text(e) + ")";
+    return {given, reason};
+}
+
 GeneratorFit fit_generator(const Population& pop, const FitOptions& options) {
+    const ScaleChoice scale = choose_score_scale(score_scale_evidence(pop), options.scale);
+    if (!scale.scale) throw std::invalid_argument("fit_generator: " + scale.reason);
     GeneratorFit fit;
+    fit.notes.push_back(scale.reason);
+    fit.config.scores.scale = *scale.scale;
     fit.config.zone = options.zone;
     fit_period(pop, fit.config);
     fit_arrivals(pop, options, fit);
     fit_stay_and_outcome(pop, options, fit);
     fit_cadence_and_latency(pop, fit);
-    fit_score_levels(pop, options, fit.config);
+    fit_score_levels(pop, fit.config);
     fit_drift(pop, options, fit.config);
     if (fit.cases < 30) fit.notes.push_back("only " + std::to_string(fit.cases) + " cases: the pre-outcome rise is poorly determined");
     return fit;

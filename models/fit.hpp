@@ -12,6 +12,7 @@
 // - scores before the log starts and charting delays longer than the rest of
 //   the stay are missing, so latency is slightly under-estimated.
 #include <cstdint>
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -21,9 +22,34 @@
 
 namespace tocsin {
 
+// The scale a log's scores are on, as far as the scores themselves show it:
+// a value outside 0 to 1 cannot be a probability, so it means points; all
+// within 0 to 1 with at least one strictly between means probability; no
+// scores, or only 0s and 1s, fit either scale.
+struct ScaleEvidence {
+    ScoreRange range;
+    std::int64_t strictly_between = 0;   // scores in (0, 1)
+    std::optional<ScoreScale> detected;  // none: the scores cannot tell
+};
+ScaleEvidence score_scale_evidence(const Population& population);
+
+// The scale to fit on: the one asked for (`given`) when the scores do not
+// contradict it, else the one the scores show. No scale when the scores
+// cannot tell and none was given, or when probability was given for scores
+// outside 0 to 1; `reason` then says why, else which scale and why (one line
+// for the fit's notes).
+struct ScaleChoice {
+    std::optional<ScoreScale> scale;
+    std::string reason;
+};
+ScaleChoice choose_score_scale(const ScaleEvidence& evidence, std::optional<ScoreScale> given);
+
 struct FitOptions {
     TimeZone zone = TimeZone::utc();    // hour of week is read on this clock
-    ScoreScale scale = ScoreScale::points;
+    // None: the scale the scores show (choose_score_scale). Fitting on the
+    // wrong one is silent and large: 0-1 scores read as points make the
+    // fitted population page a third as often as the log.
+    std::optional<ScoreScale> scale;
     StayDistribution stay_distribution = StayDistribution::lognormal;
     bool outcome_ends_stay = true;
     double drift_window_hours = 96.0;   // how far before time zero to look for a rise
@@ -42,7 +68,9 @@ struct GeneratorFit {
 };
 
 // Throws std::invalid_argument when the population is too small to fit
-// (no admissions in the period, no controls with two or more scores, ...).
+// (no admissions in the period, no controls with two or more scores, ...) or
+// when choose_score_scale gives no scale (with its reason). The scale chosen
+// and why is the first note.
 GeneratorFit fit_generator(const Population& population, const FitOptions& options = {});
 
 // The fitted knobs as an editable YAML fragment (the `population: generate:`

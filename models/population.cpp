@@ -89,4 +89,14 @@ void default_period(Population& pop) {
     pop.period_end = hi;
 }
 
+ScoreRange observed_score_range(const Population& pop) {
+    ScoreRange range;
+    for (const Score& s : pop.scores) {
+        range.lowest = range.scores == 0 ? s.value : std::min(range.lowest, s.value);
+        range.highest = range.scores == 0 ? s.value : std::max(range.highest, s.value);
+        ++range.scores;
+    }
+    return range;
+}
+
 }  // namespace tocsin

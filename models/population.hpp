@@ -95,4 +95,12 @@ void apply_score_exclusions(Population& population);
 // Set period_start/period_end to span every stay when they are unset (both 0).
 void default_period(Population& population);
 
+// The lowest and highest usable score, what a rule's threshold and a score
+// scale are checked against.
+struct ScoreRange {
+    std::int64_t scores = 0;         // usable scores counted
+    double lowest = 0, highest = 0;  // meaningful only when scores > 0
+};
+ScoreRange observed_score_range(const Population& population);
+
 }  // namespace tocsin

@@ -11,6 +11,7 @@
 #include "report/comparison_tables.hpp"
 #include "report/html.hpp"
 #include "report/run_tables.hpp"
+#include "report/run_text.hpp"
 
 namespace tocsin {
 
@@ -190,6 +191,7 @@ ReportInput report_input_for_run(const Scenario& sc, const RunOutput& out, const
     ReportInput in;
     in.title = sc.name;
     in.question = sc.description;
+    in.key_findings = plan_warning_lines(out.warnings);  // first, where a reader starts
     in.assumptions = assumptions_of(sc);
     add_skipped_rows(in, out.first_replication.exclusions);
     for (const Metric& m : plan_metrics()) in.column_labels[std::string(m.name)] = std::string(m.label);

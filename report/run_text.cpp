@@ -93,11 +93,33 @@ std::string plan_summary_text(const ReplicationResults& r) {
     return o;
 }
 
+std::vector<std::string> plan_warning_lines(const PlanWarnings& w) {
+    std::vector<std::string> lines;
+    for (const ThresholdOutsideScores& t : w.thresholds) {
+        const std::string range = format_real(t.observed.lowest) + " to " + format_real(t.observed.highest);
+        lines.push_back("Warning: plan " + t.plan + "'s threshold, " + format_real(t.threshold) + ", is " +
+                        (t.above ? "above" : "below") + " every usable score of replication 0 (" + range + "): " +
+                        (t.above ? "no score reaches it, so it never fires" : "every score reaches it") +
+                        ". Is the threshold on the scores' scale?");
+    }
+    for (const IdenticalPlans& same : w.identical) {
+        std::string names;
+        for (std::size_t i = 0; i < same.plans.size(); ++i)
+            names += (i == 0 ? "" : i + 1 == same.plans.size() ? " and " : ", ") + same.plans[i];
+        lines.push_back("Warning: plans " + names + " gave identical figures in replication 0 (notices, catches, "
+                        "notices in every unit and shift): what sets them apart never came into play on this "
+                        "population (a threshold on another scale than the scores does this).");
+    }
+    return lines;
+}
+
 std::string run_text(const Scenario& sc, const RunOutput& out, const RunSettings& settings) {
     const std::size_t burden = metric_index(*find_metric(settings.burden_metric));
     const std::size_t benefit = metric_index(*find_metric(settings.benefit_metric));
     std::string text = run_header_text(sc.name, sc.simulation.zone, out.first_replication.population,
                                        out.first_replication.exclusions) + "\n";
+    for (const std::string& line : plan_warning_lines(out.warnings)) text += line + "\n";
+    if (!out.warnings.empty()) text += "\n";
     if (sc.replications > 1) text += comparison_text(out.figures);
     else text += plan_summary_text(out.first_replication);
     if (out.evaluation) text += "\nThe score on the same population (replication 0):\n" + evaluation_summary(*out.evaluation);

@@ -21,6 +21,7 @@ struct ReplicationsKept {
     std::vector<std::vector<PlanFigures>> figures;
     std::vector<std::vector<LoggedNotice>> notice_logs;
     std::vector<std::vector<LoggedTask>> task_logs;
+    ScoreRange first_scores;  // replication 0's, for the plans' thresholds
     std::mutex first_lock;
 };
 
@@ -53,6 +54,7 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
                        const ReportingShifts rep = reporting_shifts(sc.analysis, pop, cal);
                        for (const PlanRecord& plan : rec.plans)
                            kept.figures[r].push_back(plan_figures(sc.analysis, pop, cal, rep, plan));
+                       if (r == 0) kept.first_scores = observed_score_range(pop);  // read after every replication ends
                        if (r != 0 && !settings.notice_log && !settings.task_log) return;
                        ReplicationResults results = replication_results(sc.simulation, sc.analysis, pop, cal, rec,
                                                                         settings.notice_log, settings.task_log,
@@ -76,6 +78,7 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
     for (const Plan& p : sc.simulation.plans) names.push_back(p.name);
     out.plan_net_benefit = plan_net_benefit(names, kept.figures[0], out.first_replication.population.encounters,
                                             {2, 5, 10, 20, 50});
+    out.warnings = plan_warnings(sc.simulation.plans, kept.first_scores, kept.figures[0]);
     out.figures = collect_figures(names, kept.figures);
     if (limited)
         out.budget = best_within_budget(out.figures, metric_index(*limited), *settings.budget_limit, metric_index(benefit));

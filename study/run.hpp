@@ -9,6 +9,7 @@
 #include "analysis/comparison.hpp"
 #include "analysis/evaluation.hpp"
 #include "analysis/plan_net_benefit.hpp"
+#include "analysis/plan_warnings.hpp"
 #include "analysis/results.hpp"
 #include "study/experiment.hpp"
 #include "study/scenario.hpp"
@@ -38,6 +39,7 @@ struct RunOutput {
     std::vector<PlanNetBenefit> plan_net_benefit;  // replication 0, an evaluation as the intervention
     std::optional<BudgetAnswer> budget;   // when a budget limit was given
     std::optional<Evaluation> evaluation;  // on replication 0's population
+    PlanWarnings warnings;                 // thresholds outside replication 0's scores, identical plans
 };
 
 // Runs every plan over every replication. report/run_text.hpp and

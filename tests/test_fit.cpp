@@ -27,7 +27,96 @@ GeneratorConfig known_year() {
                // baseline 20, sds 6 and 6; drift 20 over an onset of 6-48 h (population_fixtures.hpp)
 }
 
+// A population that is only a list of usable scores: all the scale looks at.
+Population scores_only(const std::vector<double>& values) {
+    Population pop;
+    pop.units = {"ward"};
+    pop.encounters.push_back({"e1", 0, 0, 86400, std::nullopt});
+    for (std::size_t i = 0; i < values.size(); ++i)
+        pop.scores.push_back({static_cast<Instant>(i) * 3600, static_cast<Instant>(i) * 3600, values[i]});
+    pop.score_start = {0, pop.scores.size()};
+    return pop;
+}
+
+// The same two wards on the probability scale: latent levels on the logit,
+// baseline logit -3 (about 0.05), a rise of 2.5 (to about 0.38).
+GeneratorConfig probability_wards() {
+    GeneratorConfig c = two_wards(90);
+    c.scores.scale = ScoreScale::probability;
+    c.scores.baseline = -3;
+    c.scores.between_patient_sd = 0.5;
+    c.scores.within_patient_sd = 0.4;
+    c.scores.drift_size = 2.5;
+    return c;
+}
+
 }  // namespace
+
+TEST_CASE("fit.scale_from_the_scores") {
+    SUBCASE("all within 0 to 1, some strictly between: probability") {
+        const ScaleEvidence e = score_scale_evidence(scores_only({0.0, 0.12, 0.5, 1.0}));
+        CHECK(e.detected == ScoreScale::probability);
+        CHECK(e.range.lowest == 0.0);
+        CHECK(e.range.highest == 1.0);
+        CHECK(e.strictly_between == 2);
+        const ScaleChoice c = choose_score_scale(e, std::nullopt);
+        CHECK(c.scale == ScoreScale::probability);
+        CHECK(c.reason == "scale: probability, detected: every one of the 4 usable scores lies within 0 to 1 (from 0 to 1)");
+    }
+    SUBCASE("any score above 1: points") {
+        // 1.5 is one score among probabilities; still no probability.
+        const ScaleEvidence e = score_scale_evidence(scores_only({0.2, 0.4, 1.5}));
+        CHECK(e.detected == ScoreScale::points);
+        const ScaleChoice c = choose_score_scale(e, std::nullopt);
+        CHECK(c.scale == ScoreScale::points);
+        CHECK(c.reason == "scale: points, detected: the usable scores run from 0.2 to 1.5, outside 0 to 1, so they are not probabilities");
+    }
+    SUBCASE("a score below 0: points") {
+        CHECK(score_scale_evidence(scores_only({-2, 0.5})).detected == ScoreScale::points);
+    }
+    SUBCASE("only 0s and 1s, or no scores: undecided, refused unless given") {
+        for (const std::vector<double>& values : {std::vector<double>{0, 1, 1, 0}, std::vector<double>{1, 1}, std::vector<double>{}}) {
+            const ScaleEvidence e = score_scale_evidence(scores_only(values));
+            CHECK_FALSE(e.detected);
+            const ScaleChoice c = choose_score_scale(e, std::nullopt);
+            CHECK_FALSE(c.scale);
+            CHECK(c.reason.find(values.empty() ? "no usable scores" : "is 0 or 1, which fits both scales") != std::string::npos);
+            CHECK(choose_score_scale(e, ScoreScale::points).scale == ScoreScale::points);
+            CHECK(choose_score_scale(e, ScoreScale::probability).scale == ScoreScale::probability);
+        }
+    }
+    SUBCASE("probability given for scores above 1: refused") {
+        const ScaleChoice c = choose_score_scale(score_scale_evidence(scores_only({3, 45, 97})), ScoreScale::probability);
+        CHECK_FALSE(c.scale);
+        CHECK(c.reason == "the probability scale was asked for, but the usable scores run from 3 to 97, outside 0 to 1, so they are not probabilities");
+    }
+    SUBCASE("points given for 0-1 scores: allowed, and the note says what the scores look like") {
+        const ScaleChoice c = choose_score_scale(score_scale_evidence(scores_only({0.1, 0.3})), ScoreScale::points);
+        CHECK(c.scale == ScoreScale::points);
+        CHECK(c.reason.find("as asked, although every one of the 2 usable scores lies within 0 to 1") != std::string::npos);
+    }
+}
+
+TEST_CASE("fit.detects_the_probability_scale_and_fits_on_it") {
+    const Population log = generate_population(probability_wards(), 3, 0);
+    const GeneratorFit fit = fit_generator(log);
+    CHECK(fit.config.scores.scale == ScoreScale::probability);
+    REQUIRE_FALSE(fit.notes.empty());
+    CHECK(fit.notes.front().rfind("scale: probability, detected:", 0) == 0);
+    // On the logit: baseline SE about 0.5 / sqrt(1400 controls) = 0.013; read as
+    // points it would be near 0.05, the size near 0.3 instead of 2.5.
+    CHECK(std::abs(fit.config.scores.baseline + 3) <= 0.1);
+    CHECK(std::abs(fit.config.scores.drift_size - 2.5) <= 0.5);
+    // The fragment says so, as a note and as the key.
+    const std::string text = scenario_fragment(fit.config, fit.notes);
+    CHECK(text.find("# note: scale: probability, detected:") != std::string::npos);
+    CHECK(YAML::Load(text)["population"]["generate"]["scores"]["scale"].as<std::string>() == "probability");
+    // Asked for probability on points scores: refused, never fitted.
+    FitOptions wrong;
+    wrong.scale = ScoreScale::probability;
+    CHECK_THROWS_WITH_AS(fit_generator(generate_population(two_wards(30), 1, 0), wrong),
+                         doctest::Contains("the probability scale was asked for"), std::invalid_argument);
+}
 
 TEST_CASE("fit.recovers_known_parameters") {
     // Generated and fitted once; each SUBCASE re-enters this test case.
@@ -127,7 +216,9 @@ TEST_CASE("fit.refuses_a_population_too_small") {
     empty.period_start = midnight_utc(2026, 1, 5);
     empty.period_end = empty.period_start + 86400;
     empty.score_start = {0};
-    CHECK_THROWS_WITH_AS(fit_generator(empty), doctest::Contains("no encounter is admitted"), std::invalid_argument);
+    FitOptions points;  // given, so the scale is not what is refused
+    points.scale = ScoreScale::points;
+    CHECK_THROWS_WITH_AS(fit_generator(empty, points), doctest::Contains("no encounter is admitted"), std::invalid_argument);
 }
 
 TEST_CASE("fit.arrivals_by_hour_of_day") {

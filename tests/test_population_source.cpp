@@ -3,7 +3,9 @@
 #include <doctest/doctest.h>
 
 #include <filesystem>
+#include <sstream>
 #include <stdexcept>
+#include <unistd.h>
 
 #include "models/errors.hpp"
 #include "models/fit.hpp"
@@ -157,6 +159,68 @@ TEST_CASE("population_source.cli_fit") {
     CHECK(fragment.find("population:\n  generate:\n") != std::string::npos);
     CHECK(fragment.find("keep `time_zone: America/Chicago`") != std::string::npos);
     CHECK_NOTHROW(parse_scenario(head + fragment, "fitted.yaml", ""));
+}
+
+// The demo's invented log with every score mapped by `rescale`, replayed by a
+// small scenario in `dir` (s.yaml).
+template <typename Rescale>
+std::string rescaled_demo_log(const testing::ScratchDir& dir, Rescale rescale) {
+    const std::string source = testing::read_file(std::string(TOCSIN_SOURCE_DIR) + "/scenarios/demo/scores.csv");
+    std::istringstream in(source);
+    std::string line, out;
+    std::getline(in, line);
+    out = line + "\n";
+    while (std::getline(in, line)) {
+        const std::size_t comma = line.rfind(',');
+        std::ostringstream value;
+        value << rescale(std::stod(line.substr(comma + 1)));
+        out += line.substr(0, comma + 1) + value.str() + "\n";
+    }
+    dir.file("demo/scores.csv", out);
+    dir.file("demo/encounters.csv", testing::read_file(std::string(TOCSIN_SOURCE_DIR) + "/scenarios/demo/encounters.csv"));
+    return dir.file("s.yaml", head + "population:\n  replay:\n    encounters: demo/encounters.csv\n    scores: demo/scores.csv\n");
+}
+
+TEST_CASE("population_source.cli_fit_detects_the_scale") {
+    SUBCASE("a 0-1 log is fitted on the probability scale, and the output says why") {
+        testing::ScratchDir dir;
+        const std::string scenario = rescaled_demo_log(dir, [](double v) { return v / 100; });
+        const auto r = testing::run_tocsin("fit " + scenario);
+        INFO(r.output);
+        REQUIRE(r.exit_code == 0);
+        CHECK(r.output.find("# note: scale: probability, detected: every one of the ") != std::string::npos);
+        CHECK(r.output.find(" usable scores lies within 0 to 1 (from ") != std::string::npos);
+        CHECK(r.output.find("      scale: probability\n") != std::string::npos);
+        CHECK_NOTHROW(parse_scenario(head + r.output, "fitted.yaml", ""));
+        const auto written = testing::run_tocsin("fit " + scenario + " -o " + dir.path("fitted.yaml"));
+        CHECK(written.exit_code == 0);
+        CHECK(written.output.find("\nScale: probability, detected: ") != std::string::npos);
+    }
+    SUBCASE("--scale probability on a points log: refused, nothing written") {
+        const auto r = testing::run_tocsin("fit " + std::string(TOCSIN_SOURCE_DIR) +
+                                           "/scenarios/fernhollow-replay.yaml --scale probability -o " + "/tmp/never-written-" +
+                                           std::to_string(::getpid()) + ".yaml");
+        INFO(r.output);
+        CHECK(r.exit_code == 2);
+        CHECK(r.output.find("demo/scores.csv: --scale: the probability scale was asked for, but the usable scores run from ") !=
+              std::string::npos);
+        CHECK(r.output.find("leave --scale out") != std::string::npos);
+        CHECK_FALSE(std::filesystem::exists("/tmp/never-written-" + std::to_string(::getpid()) + ".yaml"));
+    }
+    SUBCASE("a log of 0s and 1s only: refused until --scale is given") {
+        testing::ScratchDir dir;
+        const std::string scenario = rescaled_demo_log(dir, [](double v) { return v >= 50 ? 1 : 0; });
+        const auto r = testing::run_tocsin("fit " + scenario + " -o " + dir.path("fitted.yaml"));
+        INFO(r.output);
+        CHECK(r.exit_code == 2);
+        CHECK(r.output.find("scores.csv: --scale: every one of the ") != std::string::npos);
+        CHECK(r.output.find("is 0 or 1, which fits both scales (points and probability); give --scale points or --scale probability") !=
+              std::string::npos);
+        CHECK_FALSE(std::filesystem::exists(dir.path("fitted.yaml")));
+        const auto given = testing::run_tocsin("fit " + scenario + " --scale points");
+        CHECK(given.exit_code == 0);
+        CHECK(given.output.find("# note: scale: points, as asked (every one of the ") != std::string::npos);
+    }
 }
 
 TEST_CASE("population_source.plans_do_not_move_patients") {

@@ -1,0 +1,42 @@
+#pragma once
+// Plans whose results say more about the scenario than about the plans: a
+// threshold outside the scores seen (no score reaches it, or every score
+// does: often a threshold on another scale, 0.2 against 0-100 points), and
+// plans that gave exactly the same figures (their differences never came into
+// play on this population). Computed on replication 0; report/ words them.
+#include <cstddef>
+#include <string>
+#include <vector>
+
+#include "analysis/results.hpp"
+#include "models/population.hpp"
+#include "sim/setup.hpp"
+
+namespace tocsin {
+
+struct ThresholdOutsideScores {
+    std::string plan;
+    double threshold = 0;
+    ScoreRange observed;  // replication 0's usable scores (observed.scores > 0)
+    bool above = false;   // above the highest score: the plan never fires; below the lowest: every score qualifies
+};
+
+// Plans with equal notices, catches and notices in every unit-shift, in
+// scenario order (two or more).
+struct IdenticalPlans {
+    std::vector<std::string> plans;
+};
+
+struct PlanWarnings {
+    std::vector<ThresholdOutsideScores> thresholds;  // scenario order
+    std::vector<IdenticalPlans> identical;            // ordered by each group's first plan
+    bool empty() const { return thresholds.empty() && identical.empty(); }
+};
+
+// `figures[p]` are plan p's figures in replication 0, `observed` that
+// replication's usable scores. A plan without a floor (a ranked review's
+// threshold of -infinity) has no threshold to check.
+PlanWarnings plan_warnings(const std::vector<Plan>& plans, const ScoreRange& observed,
+                           const std::vector<PlanFigures>& figures);
+
+}  // namespace tocsin

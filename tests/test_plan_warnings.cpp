@@ -1,0 +1,142 @@
+// Warnings about plans whose figures say more about the scenario than about
+// the plans: a threshold outside the scores seen, plans with identical figures.
+#include <doctest/doctest.h>
+
+#include <limits>
+
+#include "analysis/plan_warnings.hpp"
+#include "models/population_source.hpp"
+#include "report/report_run.hpp"
+#include "report/run_text.hpp"
+
+using namespace tocsin;
+
+namespace {
+
+Plan page(const std::string& name, double threshold, Channel channel = Channel::page) {
+    Plan p;
+    p.name = name;
+    p.channel = channel;
+    p.rule.threshold = threshold;
+    return p;
+}
+
+PlanFigures figures(std::int64_t notices, std::int64_t caught, std::vector<std::int64_t> unit_shifts) {
+    PlanFigures f;
+    f.notices = notices;
+    f.caught = caught;
+    f.unit_shift_counts = std::move(unit_shifts);
+    return f;
+}
+
+const ScoreRange points_seen{1000, 3, 97};
+
+// Two weeks of two small wards whose scores are probabilities (baseline
+// logit -3, about 0.05), scored against thresholds of every kind.
+const std::string probability_scenario =
+    "scenario_schema: 1\n"
+    "name: warnings\n"
+    "time_zone: UTC\n"
+    "seed: 5\n"
+    "shifts:\n"
+    "  - {name: day, starts: \"07:00\"}\n"
+    "  - {name: night, starts: \"19:00\", night: true}\n"
+    "outcome: {window_hours: 12}\n"
+    "population:\n"
+    "  generate:\n"
+    "    start: 2026-01-05T00:00:00Z\n"
+    "    end: 2026-01-19T00:00:00Z\n"
+    "    units:\n"
+    "      - {name: north, beds: 20, arrivals_per_hour: [0.25]}\n"
+    "      - {name: south, beds: 20, arrivals_per_hour: [0.25]}\n"
+    "    scores: {scale: probability, baseline: -3, between_patient_sd: 0.5, within_patient_sd: 0.4,"
+    " drift_size: 2.5}\n"
+    "plans:\n"
+    "  - name: points-20\n"            // the trial's mistake turned round: points thresholds on probabilities
+    "    rule: {threshold: 20, snooze_minutes: 240}\n"
+    "  - name: points-30\n"
+    "    rule: {threshold: 30, snooze_minutes: 240}\n"
+    "  - name: prob-0.3\n"
+    "    rule: {threshold: 0.3, snooze_minutes: 240}\n"
+    "  - name: below\n"
+    "    rule: {threshold: -1, snooze_minutes: 240}\n"
+    "  - name: review-all\n"           // no floor: nothing to check
+    "    channel: ranked_review\n"
+    "    review: {times: [\"08:00\"], top_n: 2, scope: unit, skip_reviewed_hours: 12, minutes_per_review: 5}\n";
+
+}  // namespace
+
+TEST_CASE("plan_warnings.threshold_outside_the_scores_seen") {
+    const std::vector<Plan> plans = {page("in-range", 50), page("at-the-top", 97), page("at-the-bottom", 3),
+                                     page("above", 0.2 * 1000), page("below", 0.2),
+                                     page("review-no-floor", -std::numeric_limits<double>::infinity(), Channel::ranked_review),
+                                     page("review-floor-200", 200, Channel::ranked_review)};
+    std::vector<PlanFigures> f;
+    for (std::size_t i = 0; i < plans.size(); ++i) f.push_back(figures(static_cast<std::int64_t>(i), 0, {}));
+    const PlanWarnings w = plan_warnings(plans, points_seen, f);
+    REQUIRE(w.thresholds.size() == 3);
+    CHECK(w.thresholds[0].plan == "above");
+    CHECK(w.thresholds[0].above);
+    CHECK(w.thresholds[0].threshold == 200);
+    CHECK(w.thresholds[0].observed.lowest == 3);
+    CHECK(w.thresholds[0].observed.highest == 97);
+    CHECK(w.thresholds[1].plan == "below");
+    CHECK_FALSE(w.thresholds[1].above);
+    CHECK(w.thresholds[2].plan == "review-floor-200");  // a review's floor is a threshold like any other
+    CHECK(w.identical.empty());
+    // Without scores there is no range to be outside of.
+    CHECK(plan_warnings(plans, ScoreRange{}, f).thresholds.empty());
+}
+
+TEST_CASE("plan_warnings.identical_plans_are_named_together") {
+    const std::vector<Plan> plans = {page("a", 50), page("b", 60), page("c", 55), page("d", 70), page("e", 80)};
+    const std::vector<PlanFigures> f = {figures(10, 2, {4, 6}), figures(7, 1, {3, 4}), figures(10, 2, {4, 6}),
+                                        figures(10, 2, {6, 4}),  // same totals, other unit-shifts: not identical
+                                        figures(7, 1, {3, 4})};
+    const PlanWarnings w = plan_warnings(plans, points_seen, f);
+    CHECK(w.thresholds.empty());
+    REQUIRE(w.identical.size() == 2);
+    CHECK(w.identical[0].plans == std::vector<std::string>{"a", "c"});
+    CHECK(w.identical[1].plans == std::vector<std::string>{"b", "e"});
+    // Catches alone set plans apart too.
+    CHECK(plan_warnings({page("a", 50), page("b", 60)}, points_seen, {figures(10, 2, {4, 6}), figures(10, 3, {4, 6})})
+              .empty());
+    const std::vector<std::string> lines = plan_warning_lines(w);
+    REQUIRE(lines.size() == 2);
+    CHECK(lines[0].rfind("Warning: plans a and c gave identical figures in replication 0", 0) == 0);
+    const PlanWarnings three = plan_warnings({page("x", 1), page("y", 2), page("z", 3)}, ScoreRange{},
+                                             {figures(0, 0, {0}), figures(0, 0, {0}), figures(0, 0, {0})});
+    CHECK(plan_warning_lines(three)[0].rfind("Warning: plans x, y and z gave identical figures", 0) == 0);
+}
+
+TEST_CASE("plan_warnings.a_run_warns_in_the_terminal_and_the_report") {
+    const Scenario sc = parse_scenario(probability_scenario, "s.yaml", "");
+    RunSettings settings;
+    settings.evaluate = false;
+    const RunOutput out = run_scenario(sc, population_factory(sc.population), settings);
+    REQUIRE(out.warnings.thresholds.size() == 3);
+    CHECK(out.warnings.thresholds[0].plan == "points-20");
+    CHECK(out.warnings.thresholds[1].plan == "points-30");
+    CHECK(out.warnings.thresholds[2].plan == "below");
+    CHECK(out.warnings.thresholds[0].observed.highest < 1);
+    // Neither points plan fires: identical, both with nothing.
+    REQUIRE(out.warnings.identical.size() == 1);
+    CHECK(out.warnings.identical[0].plans == std::vector<std::string>{"points-20", "points-30"});
+
+    const std::string text = run_text(sc, out, settings);
+    CHECK(text.find("Warning: plan points-20's threshold, 20, is above every usable score of replication 0 (") !=
+          std::string::npos);
+    CHECK(text.find("no score reaches it, so it never fires. Is the threshold on the scores' scale?\n") != std::string::npos);
+    CHECK(text.find("Warning: plan below's threshold, -1, is below every usable score") != std::string::npos);
+    CHECK(text.find("Warning: plans points-20 and points-30 gave identical figures in replication 0") != std::string::npos);
+    CHECK(text.find("prob-0.3's threshold") == std::string::npos);
+    for (const std::string& line : plan_warning_lines(out.warnings)) CHECK(line.find("review-all") == std::string::npos);
+    // Before the figures, where a reader starts.
+    CHECK(text.find("Warning: ") < text.find("Plans compared"));
+
+    const std::string page_html = render_report(report_input_for_run(sc, out, settings));
+    const std::size_t findings = page_html.find("<div class=\"findings\">");
+    REQUIRE(findings != std::string::npos);
+    CHECK(page_html.find("Warning: plans points-20 and points-30 gave identical figures", findings) != std::string::npos);
+    CHECK(page_html.find("is above every usable score of replication 0", findings) != std::string::npos);
+}
