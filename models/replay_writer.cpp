@@ -2,7 +2,6 @@
 
 #include <algorithm>
 #include <cassert>
-#include <charconv>
 #include <cmath>
 #include <stdexcept>
 #include <unordered_set>
@@ -23,15 +22,6 @@ std::string csv_text(std::string_view text) {
         out += c;
     }
     return out + "\"";
-}
-
-// Shortest text that std::from_chars (the reader's parser) turns back into
-// the same double: the form report/table.hpp's format_number uses.
-std::string exact_number(double v) {
-    char buf[32];
-    const auto [end, ec] = std::to_chars(buf, buf + sizeof buf, v);
-    assert(ec == std::errc());
-    return std::string(buf, end);
 }
 
 [[noreturn]] void refuse(const Encounter& e, const std::string& what) {
@@ -87,7 +77,7 @@ ReplayText replay_csv(const Population& pop, const TimeZone& zone) {
                            (e.outcome_at ? format_local(*e.outcome_at, zone) : std::string()) + "\n";
         for (const Score& s : pop.scores_of(i))
             text.scores += id + "," + format_local(s.scored_at, zone) + "," + format_local(s.available_at, zone) + "," +
-                           exact_number(s.value) + "\n";
+                           round_trip_text(s.value) + "\n";
     }
     return text;
 }
@@ -148,8 +138,8 @@ std::string replay_scenario_fragment(const ReplaySource& s, const ReplayFragment
     y += "  replay:\n";
     y += "    encounters: " + yaml_quoted(s.encounters_path) + "\n";
     y += "    scores: " + yaml_quoted(s.scores_path) + "\n";
-    y += "    score_range: [" + exact_number(s.score_low) + ", " + exact_number(s.score_high) + "]\n";
-    y += "    max_stay_days: " + exact_number(s.max_stay_days) + "\n";
+    y += "    score_range: [" + round_trip_text(s.score_low) + ", " + round_trip_text(s.score_high) + "]\n";
+    y += "    max_stay_days: " + round_trip_text(s.max_stay_days) + "\n";
     y += "    # Written by tocsin, not typed: no mistyped years to fence off.\n";
     y += "    far_out_fence_iqr: 0\n";
     return y;

@@ -1,5 +1,7 @@
 #include "models/text.hpp"
 
+#include <cassert>
+#include <charconv>
 #include <cmath>
 #include <cstdio>
 
@@ -74,6 +76,13 @@ std::string format_real(double v, int max_decimals) {
     }
     if (s == "-0") s = "0";
     return s;
+}
+
+std::string round_trip_text(double v) {
+    char buf[32];
+    const auto [end, ec] = std::to_chars(buf, buf + sizeof buf, v);
+    assert(ec == std::errc());
+    return std::string(buf, end);
 }
 
 }  // namespace tocsin

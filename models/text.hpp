@@ -18,6 +18,10 @@ inline constexpr std::string_view replacement_character = "\xEF\xBF\xBD";
 // byte there starts none, and moves `i` past what it read.
 void append_utf8_or_replacement(std::string& out, std::string_view text, std::size_t& i);
 
+// The shortest text that reads back (std::from_chars) to the same double,
+// sign of zero included (std::to_chars); it may use an exponent (1.2e-05).
+std::string round_trip_text(double value);
+
 // A number rounded to at most `max_decimals`, trailing zeros dropped: for
 // people (messages, the terminal, the report).
 std::string format_real(double value, int max_decimals = 6);

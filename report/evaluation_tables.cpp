@@ -12,14 +12,6 @@ namespace {
 
 constexpr double not_a_number = std::numeric_limits<double>::quiet_NaN();
 
-Table make_table(std::string name, std::string title, std::vector<std::string> columns) {
-    Table t;
-    t.name = std::move(name);
-    t.title = std::move(title);
-    t.columns = std::move(columns);
-    return t;
-}
-
 std::string horizon_text(double horizon_hours) {
     return horizon_hours == 0.0 ? std::string("before discharge") : "within " + format_real(horizon_hours) + " h";
 }

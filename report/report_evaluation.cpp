@@ -22,16 +22,8 @@ std::vector<CurvePoint> sorted_by_x(std::vector<CurvePoint> points) {
 double value_or_nan(const std::optional<Proportion>& p) { return p ? p->value : not_a_number; }
 double finite_or_nan(double v) { return std::isfinite(v) ? v : not_a_number; }
 
-Table short_table(std::string name, std::string title, std::vector<std::string> columns) {
-    Table t;
-    t.name = std::move(name);
-    t.title = std::move(title);
-    t.columns = std::move(columns);
-    return t;
-}
-
 Table encounter_discrimination(const EncounterAuc& a, const std::string& score_label) {
-    Table t = short_table("evaluation_encounter_auc",
+    Table t = make_table("evaluation_encounter_auc",
                           "Discrimination, encounter level (each encounter's highest " + score_label + " before the outcome)",
                           {"level", "encounters", "cases", "auc", "auc_lower", "auc_upper", "interval_method"});
     t.add_row({std::string("encounter"), a.encounters, a.cases, finite_or_empty(a.auc), finite_or_empty(a.interval.lower),
@@ -40,7 +32,7 @@ Table encounter_discrimination(const EncounterAuc& a, const std::string& score_l
 }
 
 Table prediction_discrimination(const std::vector<PredictionAuc>& rows, const std::string& score_label) {
-    Table t = short_table("evaluation_prediction_auc",
+    Table t = make_table("evaluation_prediction_auc",
                           "Discrimination, prediction level (every " + score_label + ", outcome within the horizon)",
                           {"horizon_hours", "predictions", "auc", "auc_lower", "auc_upper", "interval_method"});
     for (const PredictionAuc& a : rows)
@@ -51,7 +43,7 @@ Table prediction_discrimination(const std::vector<PredictionAuc>& rows, const st
 
 // Given thresholds when there are any, else the grid: a table a person can read.
 Table thresholds_to_read(const std::vector<ThresholdMeasures>& rows) {
-    Table t = short_table("evaluation_thresholds", "By threshold, encounter level (Wilson intervals)",
+    Table t = make_table("evaluation_thresholds", "By threshold, encounter level (Wilson intervals)",
                           {"threshold", "sensitivity", "sensitivity_lower", "sensitivity_upper", "specificity",
                            "specificity_lower", "specificity_upper", "ppv", "ppv_lower", "ppv_upper", "share_flagged",
                            "share_flagged_lower", "share_flagged_upper"});
@@ -93,7 +85,7 @@ void add_calibration_row(Table& t, std::string level, std::string outcome, std::
 }
 
 Table calibration_to_read(const Evaluation& e, double confidence) {
-    Table t = short_table("evaluation_calibration",
+    Table t = make_table("evaluation_calibration",
                           "Calibration: prediction level (every score) and stay level (each stay's highest probability); "
                           "intervals: O/E by encounter bootstrap (prediction) or delta method (stay), the fits' by Wald",
                           {"level", "outcome", "predictions_or_stays", "oe_ratio", "oe_ratio_lower", "oe_ratio_upper", "calibration_in_the_large",
@@ -118,7 +110,7 @@ Table drift_to_read(const std::vector<DriftPeriod>& periods) {
     const bool with_oe = !periods.empty() && periods.front().observed_expected.has_value();
     std::vector<std::string> columns{"period", "outcome", "horizon_source", "predictions", "auc"};
     if (with_oe) columns.emplace_back("oe_ratio");
-    Table t = short_table("evaluation_drift", "Drift by period, prediction level", std::move(columns));
+    Table t = make_table("evaluation_drift", "Drift by period, prediction level", std::move(columns));
     for (const DriftPeriod& d : periods) {
         const std::string outcome = d.horizon_hours == 0.0 ? std::string("before discharge")
                                                            : "within " + format_real(d.horizon_hours) + " h";

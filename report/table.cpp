@@ -24,13 +24,18 @@ std::string valid_utf8(std::string_view text) {
     return out;
 }
 
+Table make_table(std::string name, std::string title, std::vector<std::string> columns) {
+    Table t;
+    t.name = std::move(name);
+    t.title = std::move(title);
+    t.columns = std::move(columns);
+    return t;
+}
+
 std::string format_number(double v) {
     if (!std::isfinite(v)) return "";
     if (v == 0) return "0";  // -0 too: a zero difference is not negative
-    char buf[32];
-    const auto [end, ec] = std::to_chars(buf, buf + sizeof buf, v);
-    assert(ec == std::errc());
-    return std::string(buf, end);
+    return round_trip_text(v);
 }
 
 std::string csv_field(std::string_view raw) {

@@ -23,6 +23,9 @@ struct Table {
     void add_row(std::vector<Cell> row);  // asserts the width matches
 };
 
+// A table with its name, title and columns, and no rows yet.
+Table make_table(std::string name, std::string title, std::vector<std::string> columns);
+
 // Files are for programs, so their numbers are exact and their text is valid
 // UTF-8 whatever bytes a name carried (invalid sequences become U+FFFD); the
 // terminal is for people, so its numbers are rounded.

@@ -8,6 +8,26 @@
 
 namespace tocsin::testing {
 
+// Every row of a population, units by name (a replayed log numbers them by
+// name) and reals in hexadecimal, so that equal text means bit-identical.
+inline std::string population_rows(const Population& pop) {
+    std::string out;
+    char buffer[160];
+    for (std::size_t e = 0; e < pop.encounters.size(); ++e) {
+        const Encounter& enc = pop.encounters[e];
+        std::snprintf(buffer, sizeof buffer, " %lld %lld %lld\n", static_cast<long long>(enc.admitted),
+                      static_cast<long long>(enc.discharged),
+                      static_cast<long long>(enc.outcome_at ? *enc.outcome_at : -1));
+        out += enc.id + " @ " + pop.units[enc.unit] + buffer;
+        for (const Score& s : pop.scores_of(e)) {
+            std::snprintf(buffer, sizeof buffer, "  %lld %lld %a\n", static_cast<long long>(s.scored_at),
+                          static_cast<long long>(s.available_at), s.value);
+            out += buffer;
+        }
+    }
+    return out;
+}
+
 inline Instant midnight_utc(int year, int month, int day) { return days_from_civil(year, month, day) * 86400; }
 
 inline WeeklyRate flat_rate(double per_hour) {

@@ -10,6 +10,7 @@
 
 #include "models/population_source.hpp"
 #include "study/scenario.hpp"
+#include "population_fixtures.hpp"
 #include "test_support.hpp"
 
 using namespace tocsin;
@@ -19,24 +20,6 @@ namespace {
 
 const std::string source_dir = TOCSIN_SOURCE_DIR;
 
-// Every row of a population, units by name and reals in hexadecimal.
-std::string rows(const Population& pop) {
-    std::string out;
-    char buffer[160];
-    for (std::size_t e = 0; e < pop.encounters.size(); ++e) {
-        const Encounter& enc = pop.encounters[e];
-        std::snprintf(buffer, sizeof buffer, " %lld %lld %lld\n", static_cast<long long>(enc.admitted),
-                      static_cast<long long>(enc.discharged),
-                      static_cast<long long>(enc.outcome_at ? *enc.outcome_at : -1));
-        out += enc.id + " @ " + pop.units[enc.unit] + buffer;
-        for (const Score& s : pop.scores_of(e)) {
-            std::snprintf(buffer, sizeof buffer, "  %lld %lld %a\n", static_cast<long long>(s.scored_at),
-                          static_cast<long long>(s.available_at), s.value);
-            out += buffer;
-        }
-    }
-    return out;
-}
 
 // `scenario_text` without its top-level time_zone, reporting and population
 // blocks, followed by `fragment` (what replay.yaml says to do).
@@ -74,7 +57,7 @@ TEST_CASE("generate.cli_replayed_files_give_the_same_figures") {
     // A scenario beside the files: generated.yaml's shifts, outcome and plans, replay.yaml's population.
     const std::string replay = dir.file("gen/replay-scenario.yaml",
                                         with_fragment(read_file(generated), read_file(dir.path("gen/replay.yaml"))));
-    CHECK(rows(population_of(replay, 0)) == rows(population_of(generated, 0)));
+    CHECK(population_rows(population_of(replay, 0)) == population_rows(population_of(generated, 0)));
 
     const auto a = run_tocsin("run " + generated + " --threads 1 --out " + dir.path("a"));
     const auto b = run_tocsin("run " + replay + " --threads 1 --out " + dir.path("b"));
@@ -117,7 +100,7 @@ TEST_CASE("generate.cli_replication_n_and_a_resampled_log") {
         CHECK(read_file(dir.path("out/encounters.csv")).find('~') != std::string::npos);  // resampled copies
         const std::string replay = dir.file("out/replay-scenario.yaml",
                                             with_fragment(read_file(boot), read_file(dir.path("out/replay.yaml"))));
-        CHECK(rows(population_of(replay, 0)) == rows(population_of(boot, 2)));
+        CHECK(population_rows(population_of(replay, 0)) == population_rows(population_of(boot, 2)));
     }
 }
 

@@ -21,29 +21,10 @@
 #include "test_support.hpp"
 
 using namespace tocsin;
+using tocsin::testing::population_rows;
 using tocsin::testing::ScratchDir;
 
 namespace {
-
-// Every row of a population, units by name (a replayed log numbers them by
-// name) and reals in hexadecimal, so that equal text means bit-identical.
-std::string rows(const Population& pop) {
-    std::string out;
-    char buffer[160];
-    for (std::size_t e = 0; e < pop.encounters.size(); ++e) {
-        const Encounter& enc = pop.encounters[e];
-        std::snprintf(buffer, sizeof buffer, " %lld %lld %lld\n", static_cast<long long>(enc.admitted),
-                      static_cast<long long>(enc.discharged),
-                      static_cast<long long>(enc.outcome_at ? *enc.outcome_at : -1));
-        out += enc.id + " @ " + pop.units[enc.unit] + buffer;
-        for (const Score& s : pop.scores_of(e)) {
-            std::snprintf(buffer, sizeof buffer, "  %lld %lld %a\n", static_cast<long long>(s.scored_at),
-                          static_cast<long long>(s.available_at), s.value);
-            out += buffer;
-        }
-    }
-    return out;
-}
 
 // Writes `pop` as the replay files in `dir` and reads them back with the
 // settings that go with them.
@@ -81,7 +62,7 @@ TEST_CASE("replay_writer.generated_population_comes_back") {
         const Population pop = generate_population(config, 11, 0);
         REQUIRE(pop.scores.size() > 10000);
         const Population back = round_trip(pop, config.zone, dir);
-        CHECK(rows(back) == rows(pop));
+        CHECK(population_rows(back) == population_rows(pop));
         CHECK(back.units == pop.units);  // already in name order
         check_nothing_dropped(back);
     }
@@ -94,7 +75,7 @@ TEST_CASE("replay_writer.generated_population_comes_back") {
         c.scores.drift_size = 2;
         const Population pop = generate_population(c, 11, 2);
         const Population back = round_trip(pop, c.zone, dir, 0, 1);
-        CHECK(rows(back) == rows(pop));
+        CHECK(population_rows(back) == population_rows(pop));
         check_nothing_dropped(back);
     }
     SUBCASE("a stress test: raised census (copied stays), outage, offset scores") {
@@ -106,15 +87,15 @@ TEST_CASE("replay_writer.generated_population_comes_back") {
         shift.census_multiplier["ward-south"] = 1.5;
         const Population pop = apply_shift(generate_population(config, 11, 1), shift, 11, 1);
         const Population back = round_trip(pop, config.zone, dir);
-        CHECK(rows(back) == rows(pop));
+        CHECK(population_rows(back) == population_rows(pop));
         check_nothing_dropped(back);
     }
     SUBCASE("a bootstrap replication of a log (ids carry the block suffix)") {
         const Population log = generate_population(config, 11, 0);
         const Population pop = bootstrap_population(log, BootstrapConfig{}, 11, 3);
-        REQUIRE(rows(pop).find('~') != std::string::npos);
+        REQUIRE(population_rows(pop).find('~') != std::string::npos);
         const Population back = round_trip(pop, config.zone, dir);
-        CHECK(rows(back) == rows(pop));
+        CHECK(population_rows(back) == population_rows(pop));
         check_nothing_dropped(back);
     }
 }
@@ -135,7 +116,7 @@ TEST_CASE("replay_writer.awkward_text_and_numbers_come_back") {
     ScratchDir dir;
     const Population now = round_trip(pop, zone, dir);
     CHECK(now.units == std::vector<std::string>{"Wärd \"B\", east", "ward A"});
-    CHECK(rows(now) == rows(pop));
+    CHECK(population_rows(now) == population_rows(pop));
     CHECK(std::signbit(now.scores[1].value));
 
     Population old = pop;
@@ -151,7 +132,7 @@ TEST_CASE("replay_writer.awkward_text_and_numbers_come_back") {
     }
     const ReplayText text = replay_csv(old, zone);
     CHECK(text.encounters.find("\"a,1\",\"Wärd \"\"B\"\", east\",1900-01-01T00:19:32+00:19:32,") != std::string::npos);
-    CHECK(rows(round_trip(old, zone, dir)) == rows(old));
+    CHECK(population_rows(round_trip(old, zone, dir)) == population_rows(old));
 }
 
 TEST_CASE("replay_writer.settings_widen_to_what_was_written") {
@@ -167,7 +148,7 @@ TEST_CASE("replay_writer.settings_widen_to_what_was_written") {
     CHECK(s.max_stay_days == 401);
     CHECK(s.far_out_fence_iqr == 0);
     ScratchDir dir;
-    CHECK(rows(round_trip(pop, TimeZone::utc(), dir)) == rows(pop));
+    CHECK(population_rows(round_trip(pop, TimeZone::utc(), dir)) == population_rows(pop));
 
     // With the reader's defaults the same files would be refused.
     const ReplayText text = replay_csv(pop, TimeZone::utc());
@@ -252,5 +233,5 @@ TEST_CASE("replay_writer.fragment_loads_as_the_replay") {
     CHECK(sc.population.replay.score_high == settings.score_high);
     CHECK(sc.population.replay.max_stay_days == settings.max_stay_days);
     CHECK(sc.population.replay.far_out_fence_iqr == 0);
-    CHECK(rows(population_for(sc.population, prepare_population(sc.population), 0)) == rows(pop));
+    CHECK(population_rows(population_for(sc.population, prepare_population(sc.population), 0)) == population_rows(pop));
 }
