@@ -47,6 +47,10 @@ struct ReplicatedFigures {
     std::vector<std::string> plans;
     std::vector<std::vector<std::vector<double>>> values;
     std::uint64_t replications = 0;
+    // Replication 0 is the log itself, as replayed (a replayed log without a
+    // stress test): its figures are then the log's own, shown "as logged"
+    // beside the means.
+    bool first_is_log = false;
 
     std::span<const double> of(std::size_t plan, std::size_t metric) const { return values[plan][metric]; }
 };

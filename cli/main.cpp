@@ -164,6 +164,7 @@ int command_check(const std::string& path) {
     std::cout << describe_scenario(sc);
     const PreparedPopulation prepared = prepare_population(sc.population);
     std::cout << describe_prepared(sc.population, prepared);
+    if (const auto warning = reporting_period_warning(sc, prepared)) std::cout << *warning << "\n";
     const Population pop = population_for(sc.population, prepared, 0);
     std::int64_t cases = 0;
     for (const Encounter& e : pop.encounters) cases += e.outcome_at.has_value();
@@ -185,17 +186,9 @@ int command_check(const std::string& path) {
     return 0;
 }
 
-int command_run(const RunOptions& opt, bool sweep) {
-    const auto started = std::chrono::steady_clock::now();
-    std::optional<double> max_burden;
-    if (!opt.max_burden.empty()) max_burden = option_real(option_specs().max_burden, "--max-burden", opt.max_burden);
-    const unsigned threads = thread_count(opt.threads);
-    for (const auto& [option, name] : {std::pair{"--burden", &opt.burden_metric}, std::pair{"--benefit", &opt.benefit_metric},
-                                       std::pair{"--budget-metric", &opt.budget_metric}})
-        if (!find_metric(*name))
-            throw InputError("command line", 0, 0, option,
-                             "unknown metric '" + *name + "' (expected one of " + metric_names() + ")");
-    if (!opt.out_dir.empty()) check_output_directory(opt.out_dir);  // before the long part, not after
+// The scenario as loaded, or the sweep's grid of plans built from it; with
+// the replications the command line asks for.
+Scenario scenario_to_run(const RunOptions& opt, bool sweep) {
     Scenario sc;
     if (sweep) {
         SweepRequest request;
@@ -208,8 +201,25 @@ int command_run(const RunOptions& opt, bool sweep) {
         sc = load_scenario(opt.scenario);
     }
     if (!opt.replications.empty()) override_replications(sc, "--replications", opt.replications);
+    return sc;
+}
+
+int command_run(const RunOptions& opt, bool sweep) {
+    const auto started = std::chrono::steady_clock::now();
+    std::optional<double> max_burden;
+    if (!opt.max_burden.empty()) max_burden = option_real(option_specs().max_burden, "--max-burden", opt.max_burden);
+    const unsigned threads = thread_count(opt.threads);
+    for (const auto& [option, name] : {std::pair{"--burden", &opt.burden_metric}, std::pair{"--benefit", &opt.benefit_metric},
+                                       std::pair{"--budget-metric", &opt.budget_metric}})
+        if (!find_metric(*name))
+            throw InputError("command line", 0, 0, option,
+                             "unknown metric '" + *name + "' (expected one of " + metric_names() + ")");
+    if (!opt.out_dir.empty()) check_output_directory(opt.out_dir);  // before the long part, not after
+    const Scenario sc = scenario_to_run(opt, sweep);
     const PreparedPopulation prepared = prepare_population(sc.population);
     std::cout << describe_prepared(sc.population, prepared);
+    const std::optional<std::string> period_warning = reporting_period_warning(sc, prepared);
+    if (period_warning) std::cout << *period_warning << "\n";
     const PopulationFactory factory = population_factory(sc.population, prepared);
     std::optional<ChartOpeningLog> openings;
     if (sc.simulation.chart_openings && !sc.simulation.chart_openings->replay_path.empty()) {
@@ -239,6 +249,7 @@ int command_run(const RunOptions& opt, bool sweep) {
     std::string report;
     if (!opt.out_dir.empty() || !opt.report_path.empty()) {
         ReportInput input = report_input_for_run(sc, out, settings);
+        if (period_warning) input.key_findings.push_back(*period_warning);
         if (out.evaluation) add_evaluation(input, *out.evaluation, sc.score_label);
         report = render_report(input);
     }
@@ -247,9 +258,10 @@ int command_run(const RunOptions& opt, bool sweep) {
         std::cout << "Wrote the report to " << opt.report_path << "\n";
     }
     if (!opt.out_dir.empty()) {
-        std::vector<OutputFile> files = run_output_files(sc, out, settings);
+        std::vector<Table> more;
+        if (effect) more.push_back(shift_effect_table(*effect));
+        std::vector<OutputFile> files = run_output_files(sc, out, settings, std::move(more));
         files.push_back({"report.html", report});
-        if (effect) add_table_files(files, shift_effect_table(*effect));
         files.push_back({"run_record.json",
                          run_record_json(sc, settings, std::chrono::duration<double>(std::chrono::steady_clock::now() - started).count())});
         write_output_files(opt.out_dir, files);

@@ -117,6 +117,12 @@ struct EligibleDays {
 // Throws std::invalid_argument when no whole block is left.
 EligibleDays find_eligible_days(const Population& log, const BootstrapConfig& config);
 
+// The eligible days as instants on the log's clock: [from, until).
+struct EligiblePeriod {
+    Instant from = 0, until = 0;
+};
+EligiblePeriod eligible_period(const EligibleDays& days, const Population& log, const BootstrapConfig& config);
+
 // "Bootstrap draws from days 9 to 31 of the 42-day log (...)": which days, from
 // when until when on the log's clock, and why.
 std::string describe_eligible_days(const EligibleDays& days, const Population& log, const BootstrapConfig& config,

@@ -120,10 +120,15 @@ EligibleDays find_eligible_days(const Population& log, const BootstrapConfig& co
     return d;
 }
 
+EligiblePeriod eligible_period(const EligibleDays& d, const Population& log, const BootstrapConfig& config) {
+    const Seconds block = days(config.block_days);
+    const Instant from = log.period_start + d.first_block * block;
+    return {from, from + d.blocks * block};
+}
+
 std::string describe_eligible_days(const EligibleDays& d, const Population& log, const BootstrapConfig& config,
                                    const TimeZone& zone) {
-    const Seconds block = days(config.block_days);
-    const Instant from = log.period_start + d.first_block * block, until = from + d.blocks * block;
+    const auto [from, until] = eligible_period(d, log, config);
     const int first_day = d.first_block * config.block_days + 1, last_day = first_day - 1 + d.blocks * config.block_days;
     std::ostringstream o;
     o << "Bootstrap draws from days " << first_day << " to " << last_day << " of the " << d.log_days << "-day log ("

@@ -59,6 +59,17 @@ Population population_for(const PopulationSetup& sc, const PreparedPopulation& p
     return pop;
 }
 
+bool replication_zero_is_the_log(const PopulationSetup& sc) {
+    return sc.source == PopulationSource::replay && !sc.shift;
+}
+
+std::string replication_zero_basis(const PopulationSetup& sc) {
+    const bool several = sc.source == PopulationSource::generate || sc.bootstrap;
+    std::string what = sc.source == PopulationSource::generate ? "one generated population" : "the log as replayed";
+    if (sc.shift) what += " under the stress test";
+    return several ? "replication 0 (" + what + ")" : what;
+}
+
 std::string describe_prepared(const PopulationSetup& sc, const PreparedPopulation& p) {
     std::ostringstream o;
     if (p.calibration) {

@@ -57,6 +57,13 @@ PreparedPopulation prepare_population(const PopulationSetup& setup);
 // Replication 0 of a replayed scenario is the log as replayed.
 Population population_for(const PopulationSetup& setup, const PreparedPopulation& prepared, std::uint64_t replication);
 
+// Whether replication 0 is the log itself (a replay without a stress test),
+// so that its figures are the log's own.
+bool replication_zero_is_the_log(const PopulationSetup& setup);
+// What replication 0 is, for a table's basis: "the log as replayed",
+// "replication 0: one generated population", ...
+std::string replication_zero_basis(const PopulationSetup& setup);
+
 // A line or two on where the population comes from (calibration result, the
 // days a bootstrap draws from), for `check` and `run`.
 std::string describe_prepared(const PopulationSetup& setup, const PreparedPopulation& prepared);

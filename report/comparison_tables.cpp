@@ -8,12 +8,29 @@
 
 namespace tocsin {
 
+namespace {
+
+// Beside the means, the log's own figures, when replication 0 is the log and
+// there are means over resamples to set them beside (with one replication the
+// figure is the log's already).
+bool shows_as_logged(const ReplicatedFigures& f) { return f.first_is_log && f.replications > 1; }
+
+// The log's own figure (replication 0), or empty.
+Cell as_logged(const ReplicatedFigures& f, std::size_t plan, std::size_t metric) {
+    if (!shows_as_logged(f)) return {};
+    return finite_or_empty(f.of(plan, metric)[0]);
+}
+
+const char* const as_logged_label = "  as logged";
+
+}  // namespace
+
 ComparisonTables comparison_tables(const ReplicatedFigures& f, std::size_t ref) {
     ComparisonTables t;
     const auto& metrics = plan_metrics();
     t.comparison.name = "plan_comparison";
     t.comparison.title = "Plans compared across replications (mean and 95% CI)";
-    t.comparison.columns = {"plan", "metric", "mean", "ci_low", "ci_high", "replications"};
+    t.comparison.columns = {"plan", "metric", "mean", "ci_low", "ci_high", "replications", "as_logged"};
     t.differences.name = "plan_differences";
     t.differences.title = "Paired differences from " + f.plans[ref] + " (same patients in each replication)";
     t.differences.columns = {"plan", "versus", "metric", "mean_difference", "ci_low", "ci_high", "replications"};
@@ -25,7 +42,7 @@ ComparisonTables comparison_tables(const ReplicatedFigures& f, std::size_t ref) 
             const std::string name(metrics[m].name);
             const MeanInterval mi = mean_interval(f.of(p, m));
             t.comparison.add_row({f.plans[p], name, finite_or_empty(mi.mean), finite_or_empty(mi.low),
-                                  finite_or_empty(mi.high), static_cast<std::int64_t>(mi.n)});
+                                  finite_or_empty(mi.high), static_cast<std::int64_t>(mi.n), as_logged(f, p, m)});
             for (std::uint64_t r = 0; r < f.replications; ++r)
                 t.replication_figures.add_row({f.plans[p], static_cast<std::int64_t>(r), name,
                                                finite_or_empty(f.of(p, m)[r])});
@@ -63,6 +80,10 @@ Table comparison_by_plan(const ReplicatedFigures& f, const std::vector<std::size
         std::vector<Cell> row{f.plans[p]};
         for (std::size_t m : metrics) add_interval(row, mean_interval(f.of(p, m)));
         t.add_row(std::move(row));
+        if (!shows_as_logged(f)) continue;
+        std::vector<Cell> logged{std::string(as_logged_label)};
+        for (std::size_t m : metrics) logged.insert(logged.end(), {as_logged(f, p, m), Cell{}, Cell{}});
+        t.add_row(std::move(logged));
     }
     return t;
 }
@@ -132,8 +153,17 @@ std::string comparison_text(const ReplicatedFigures& f, std::size_t ref) {
         std::vector<Cell> row{f.plans[p]};
         for (const auto& [name, d] : shown) row.push_back(with_interval(mean_interval(f.of(p, metric_index(name))), d));
         view.add_row(row);
+        if (!shows_as_logged(f)) continue;
+        std::vector<Cell> logged{std::string(as_logged_label)};
+        for (const auto& [name, d] : shown) {
+            const double v = f.of(p, metric_index(name))[0];
+            logged.push_back(std::isfinite(v) ? format_real(v, d) : "-");
+        }
+        view.add_row(std::move(logged));
     }
     o << to_text(view);
+    if (shows_as_logged(f))
+        o << "(\"as logged\": the log's own figure, replication 0; the other replications resample its days)\n";
     if (f.replications > 1 && f.plans.size() > 1) {
         o << "\nPaired differences from " << f.plans[ref] << " (same patients in each replication):\n";
         const std::size_t night = metric_index("per_unit_night_mean"), caught = metric_index("caught");

@@ -122,7 +122,11 @@ std::string html_table(const Table& table, const HtmlTableOptions& options) {
             if (std::holds_alternative<std::string>(row[i])) numeric[i] = false;
 
     std::string out = "<div class=\"table-wrap\"><table>";
-    if (!table.title.empty()) out += "<caption>" + html_escape(table.title) + "</caption>";
+    if (!table.title.empty() || !table.basis.empty()) {
+        out += "<caption>" + html_escape(table.title);
+        if (!table.basis.empty()) out += "<span class=\"basis\">Basis: " + html_escape(table.basis) + "</span>";
+        out += "</caption>";
+    }
     out += "<thead><tr>";
     for (const ShownColumn& c : shown) {
         const std::string& name = table.columns[c.value];

@@ -44,6 +44,7 @@ ul.assumptions li{margin:.3em 0}
 .table-wrap{overflow-x:auto;margin:.8em 0 .4em}
 table{border-collapse:collapse;font-size:.9rem;font-variant-numeric:tabular-nums;min-width:50%}
 caption{text-align:left;font-weight:bold;padding:0 0 .4em}
+caption .basis{display:block;font-weight:normal;color:var(--muted);font-size:.9rem}
 th,td{padding:.38em .7em;border-bottom:1px solid var(--rule);vertical-align:top}
 thead th{background:#e3ecec;border-bottom:2px solid var(--teal);text-align:left}
 tbody tr:nth-child(even){background:#f4f2ec}

@@ -7,6 +7,7 @@
 #include <map>
 #include <sstream>
 
+#include "report/basis.hpp"
 #include "report/cells.hpp"
 #include "report/comparison_tables.hpp"
 #include "report/html.hpp"
@@ -114,6 +115,9 @@ void add_comparison(ReportInput& in, const ReplicatedFigures& f, const std::vect
     in.interval_note = "Brackets: 95% confidence interval of the mean over the " + std::to_string(f.replications) +
                        " replications (mean \xC2\xB1 t \xC3\x97 standard deviation / \xE2\x88\x9A" "replications; "
                        "Student 1908). Replications in which a figure is undefined are left out of it.";
+    if (f.first_is_log)
+        in.interval_note += " The rows \"as logged\" give the log's own figure: replication 0 is the log as replayed, "
+                            "and the other replications resample its days (the means include replication 0).";
     if (f.plans.size() > 1 && !metrics.empty()) {
         in.differences = differences_by_plan(f, metrics);
         in.differences_note = "Each figure is the plan's value minus " + f.plans.front() +
@@ -200,7 +204,11 @@ ReportInput report_input_for_run(const Scenario& sc, const RunOutput& out, const
     const ReplicatedFigures& f = out.figures;
     const Metric* burden = find_metric(settings.burden_metric);
     const Metric* benefit = find_metric(settings.benefit_metric);
+    const TableBases basis = table_bases(sc.population, out.first_replication.population, f.replications,
+                                         sc.simulation.zone);
     add_comparison(in, f, compared_metrics(burden, benefit));
+    in.comparison.basis = basis.replications;
+    if (in.differences) in.differences->basis = basis.replications;
     if (burden && benefit) add_frontier(in, f, *burden, *benefit);
     const Metric* budget = find_metric(settings.budget_metric);
     if (settings.budget_limit && budget && benefit && out.budget) {
@@ -211,7 +219,10 @@ ReportInput report_input_for_run(const Scenario& sc, const RunOutput& out, const
     add_burden_per_night(in, out.first_replication, f.plans);
     const bool with_staff = out.first_replication.staff.has_value();
     add_lead_times(in, f, with_staff);
-    if (with_staff) add_staff(in, out.first_replication.staff->workload);
+    if (with_staff) {
+        add_staff(in, out.first_replication.staff->workload);
+        in.staff_and_waits->basis = basis.first;
+    }
     add_run_record(in, sc, f, burden, benefit);
     return in;
 }

@@ -2,6 +2,7 @@
 
 #include <cstdio>
 
+#include "report/basis.hpp"
 #include "report/cautions.hpp"
 #include "report/comparison_tables.hpp"
 #include "report/evaluation_tables.hpp"
@@ -22,27 +23,41 @@ std::string run_record_json(const Scenario& sc, const RunSettings& settings, dou
            ",\n  \"plans\": [" + plans + "]\n}\n";
 }
 
-std::vector<OutputFile> run_output_files(const Scenario& sc, const RunOutput& out, const RunSettings& settings) {
-    std::vector<OutputFile> files;
-    const RunTables t = run_tables(out.first_replication, sc.simulation.zone);
-    add_table_files(files, t.plan_summary);
-    add_table_files(files, t.unit_shift_notices);
-    add_table_files(files, t.exclusions);
-    add_table_files(files, t.channel_burden);
-    if (!t.rounds.rows.empty()) add_table_files(files, t.rounds);
-    if (!t.chart_interruptions.rows.empty()) add_table_files(files, t.chart_interruptions);
-    const ComparisonTables comparison = comparison_tables(out.figures);
-    add_table_files(files, comparison.comparison);
-    add_table_files(files, comparison.differences);
-    add_table_files(files, comparison.replication_figures);
-    add_table_files(files, frontier_table(out.figures, metric_index(*find_metric(settings.burden_metric)),
-                                          metric_index(*find_metric(settings.benefit_metric))));
-    add_table_files(files, plan_net_benefit_table(out.plan_net_benefit));
+std::vector<OutputFile> run_output_files(const Scenario& sc, const RunOutput& out, const RunSettings& settings,
+                                         std::vector<Table> more) {
+    const TableBases basis = table_bases(sc.population, out.first_replication.population, out.figures.replications,
+                                         sc.simulation.zone);
+    std::vector<Table> tables;
+    auto add = [&](Table table, const std::string& on) {
+        table.basis = on;
+        tables.push_back(std::move(table));
+    };
+    RunTables t = run_tables(out.first_replication, sc.simulation.zone);
+    add(std::move(t.plan_summary), basis.first);
+    add(std::move(t.unit_shift_notices), basis.first_shifts);
+    add(std::move(t.exclusions), basis.input);
+    add(std::move(t.channel_burden), basis.first);
+    if (!t.rounds.rows.empty()) add(std::move(t.rounds), basis.first);
+    if (!t.chart_interruptions.rows.empty()) add(std::move(t.chart_interruptions), basis.first_shifts);
+    ComparisonTables comparison = comparison_tables(out.figures);
+    add(std::move(comparison.comparison), basis.replications);
+    add(std::move(comparison.differences), basis.replications);
+    add(std::move(comparison.replication_figures), basis.replications);
+    add(frontier_table(out.figures, metric_index(*find_metric(settings.burden_metric)),
+                       metric_index(*find_metric(settings.benefit_metric))),
+        basis.replications);
+    add(plan_net_benefit_table(out.plan_net_benefit), basis.first);
     if (out.evaluation)
-        for (const Table& table : evaluation_tables(*out.evaluation)) add_table_files(files, table);
-    if (t.notice_log) add_table_files(files, *t.notice_log);
-    for (const auto* staff : {&t.staff_workload, &t.staff_escalations, &t.task_fates, &t.task_log})
-        if (*staff) add_table_files(files, **staff);
+        for (Table& table : evaluation_tables(*out.evaluation)) add(std::move(table), basis.first_scores);
+    if (t.notice_log) add(std::move(*t.notice_log), basis.every);
+    for (auto* staff : {&t.staff_workload, &t.staff_escalations, &t.task_fates})
+        if (*staff) add(std::move(**staff), basis.first);
+    if (t.task_log) add(std::move(*t.task_log), basis.every);
+    for (Table& table : more) tables.push_back(std::move(table));
+
+    std::vector<OutputFile> files;
+    for (const Table& table : tables) add_table_files(files, table);
+    files.push_back({"tables.csv", to_csv(table_index(tables))});
     files.push_back({"CAUTIONS.txt", cautions_text() + "\n"});
     return files;
 }

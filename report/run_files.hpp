@@ -14,7 +14,9 @@ namespace tocsin {
 // differs between identical runs (threads, time).
 std::string run_record_json(const Scenario& scenario, const RunSettings& settings, double seconds);
 
-// Every output file of a run (tables as CSV and JSON, cautions).
-std::vector<OutputFile> run_output_files(const Scenario& scenario, const RunOutput& output, const RunSettings& settings);
+// Every output file of a run: its tables as CSV and JSON (with `more`, tables
+// the caller made, their basis set), tables.csv indexing them, the cautions.
+std::vector<OutputFile> run_output_files(const Scenario& scenario, const RunOutput& output, const RunSettings& settings,
+                                         std::vector<Table> more = {});
 
 }  // namespace tocsin

@@ -58,6 +58,7 @@ void add_triple(std::vector<Cell>& row, const MeanInterval& mi) {
 Table shift_effect_table(const ShiftEffect& effect) {
     Table t;
     t.name = "shift_effect";
+    t.basis = "every replication, each run with and without the stress test on the same patients";
     t.title = "Before and after the stress-test shift (mean over replications, 95% CI; change paired by replication)";
     t.columns = {"plan", "metric", "before", "before_low", "before_high", "after", "after_low", "after_high",
                  "change", "change_low", "change_high", "replications"};

@@ -17,6 +17,10 @@ using Cell = std::variant<std::monostate, std::string, std::int64_t, double>;
 struct Table {
     std::string name;                  // file stem, e.g. "plan_summary"
     std::string title;                 // heading for people
+    // What the figures rest on: which replication(s) and which period, e.g.
+    // "the log as replayed; notices and catches over the whole log". Shown
+    // under the title in the report and listed in tables.csv.
+    std::string basis;
     std::vector<std::string> columns;  // stable, documented column names
     std::vector<std::vector<Cell>> rows;
 

@@ -80,9 +80,25 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
                                             {2, 5, 10, 20, 50});
     out.warnings = plan_warnings(sc.simulation.plans, kept.first_scores, kept.figures[0]);
     out.figures = collect_figures(names, kept.figures);
+    out.figures.first_is_log = replication_zero_is_the_log(sc.population);
     if (limited)
         out.budget = best_within_budget(out.figures, metric_index(*limited), *settings.budget_limit, metric_index(benefit));
     return out;
+}
+
+std::optional<std::string> reporting_period_warning(const Scenario& sc, const PreparedPopulation& prepared) {
+    if (!prepared.log || !prepared.bootstrap_days || !sc.population.bootstrap) return std::nullopt;
+    const Population& log = *prepared.log;
+    const auto [from, until] = eligible_period(*prepared.bootstrap_days, log, *sc.population.bootstrap);
+    const Instant start = sc.analysis.period_start.value_or(log.period_start);
+    const Instant end = sc.analysis.period_end.value_or(log.period_end);
+    if (start >= from && end <= until) return std::nullopt;
+    const TimeZone& zone = sc.simulation.zone;
+    return "Warning: the reporting period (" + format_local(start, zone) + " to " + format_local(end, zone) +
+           ") reaches outside the days the bootstrap draws from (" + format_local(from, zone) + " to " +
+           format_local(until, zone) + "): the log's own figures (as logged) include days whose census was still "
+           "filling or emptying and the resampled replications do not, so they differ for that reason alone. "
+           "Set reporting.from and reporting.until inside those days to compare like with like.";
 }
 
 }  // namespace tocsin

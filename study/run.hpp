@@ -42,6 +42,12 @@ struct RunOutput {
     PlanWarnings warnings;                 // thresholds outside replication 0's scores, identical plans
 };
 
+// With a bootstrapped log, a warning when the reporting period reaches outside
+// the days the bootstrap draws from: the log's own per-shift figures ("as
+// logged") then include days whose census was still filling or emptying, and
+// the resamples do not, so the two differ for that reason alone.
+std::optional<std::string> reporting_period_warning(const Scenario& scenario, const PreparedPopulation& prepared);
+
 // Runs every plan over every replication. report/run_text.hpp and
 // report/run_tables.hpp render what it returns.
 RunOutput run_scenario(const Scenario& scenario, const PopulationFactory& make_population, const RunSettings& settings);

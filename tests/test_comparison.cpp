@@ -221,3 +221,45 @@ TEST_CASE("comparison.report_view_is_the_long_table_widened") {
     CHECK(differences.columns == wide_differences.columns);
     CHECK(differences.rows == wide_differences.rows);
 }
+
+TEST_CASE("comparison.as_logged_beside_the_means") {
+    // Replication 0 is the log (replay with a bootstrap): its figure stands
+    // beside the mean over replications, in the long table and as a row of its
+    // own under each plan in the terminal and report views. Generated
+    // populations, and a single replication, have no such column.
+    std::vector<std::pair<double, double>> a = {{0.5, 10}, {1.0, 12}, {1.5, 14}};
+    std::vector<std::pair<double, double>> b = {{2.25, 20}, {3.0, 22}, {3.75, 24}};
+    ReplicatedFigures f = figures({"A", "B"}, {a, b});
+    auto logged_of = [](const Table& t, const std::string& plan, const std::string& metric) -> Cell {
+        REQUIRE(t.columns.back() == "as_logged");
+        for (const auto& row : t.rows)
+            if (std::get<std::string>(row[0]) == plan && std::get<std::string>(row[1]) == metric) return row.back();
+        FAIL("no row");
+        return {};
+    };
+    CHECK(std::holds_alternative<std::monostate>(logged_of(comparison_tables(f).comparison, "B", "per_unit_night_mean")));
+    CHECK(comparison_text(f).find("as logged") == std::string::npos);
+
+    f.first_is_log = true;
+    const ComparisonTables t = comparison_tables(f);
+    CHECK(std::get<double>(logged_of(t.comparison, "A", "per_unit_night_mean")) == 0.5);
+    CHECK(std::get<double>(logged_of(t.comparison, "B", "per_unit_night_mean")) == 2.25);
+    CHECK(std::get<double>(logged_of(t.comparison, "B", "caught")) == 20);
+    const std::string text = comparison_text(f);
+    // The mean of B's nights is 3 (2.25, 3, 3.75); the row under it gives 2.25.
+    const auto b_row = text.find("\nB ");
+    REQUIRE(b_row != std::string::npos);
+    const auto logged_row = text.find("\n  as logged", b_row);
+    REQUIRE(logged_row != std::string::npos);
+    CHECK(text.substr(logged_row, 40).find("2.25") != std::string::npos);
+    const Table view = comparison_by_plan(f, {burden()});
+    REQUIRE(view.rows.size() == 4);  // A, as logged, B, as logged
+    CHECK(std::get<double>(view.rows[3][1]) == 2.25);
+    CHECK(std::holds_alternative<std::monostate>(view.rows[3][2]));  // no interval on one figure
+
+    // One replication: its figure is the mean; no column, no extra rows.
+    ReplicatedFigures one = figures({"A"}, {{{0.5, 10}}});
+    one.first_is_log = true;
+    CHECK(std::holds_alternative<std::monostate>(logged_of(comparison_tables(one).comparison, "A", "caught")));
+    CHECK(comparison_by_plan(one, {burden()}).rows.size() == 1);
+}

@@ -270,3 +270,57 @@ TEST_CASE("end_to_end.stress_test_sweep_and_evaluate_goldens") {
     REQUIRE(evaluation.exit_code == 0);
     check_golden_text(dir, all_tables(dir.path("evaluation")) + terminal_text(evaluation.output), "evaluate_all.txt");
 }
+
+TEST_CASE("end_to_end.resampled_log_shows_as_logged_and_every_basis") {
+    // The invented log with a day bootstrap and 20 replications: each mean has
+    // the log's own figure beside it, every table written is listed in
+    // tables.csv with what it rests on, and the report shows both.
+    const std::string resampled = source_dir + "/scenarios/fernhollow-resampled.yaml";
+    ScratchDir dir;
+    const auto run = run_tocsin("run " + resampled + " --out " + dir.path("out"));
+    INFO(run.output);
+    REQUIRE(run.exit_code == 0);
+    CHECK(run.output.find("  as logged") != std::string::npos);
+    // Its reporting period lies inside the days the bootstrap draws from.
+    CHECK(run.output.find("reaches outside the days the bootstrap draws from") == std::string::npos);
+    check_golden_text(dir, terminal_text(run.output), "resampled_terminal.txt");
+    check_golden(dir.path("out/plan_comparison.csv"), "resampled_plan_comparison.csv");
+
+    // tables.csv: one row per CSV table written, none missing, each with a basis.
+    std::vector<std::string> written;
+    for (const auto& entry : std::filesystem::directory_iterator(dir.path("out")))
+        if (entry.path().extension() == ".csv" && entry.path().stem() != "tables")
+            written.push_back(entry.path().stem().string());
+    std::sort(written.begin(), written.end());
+    std::vector<std::string> indexed;
+    std::istringstream index(read_file(dir.path("out/tables.csv")));
+    std::string line;
+    std::getline(index, line);
+    CHECK(line == "table,title,basis,rows");
+    while (std::getline(index, line)) {
+        indexed.push_back(line.substr(0, line.find(',')));
+        CHECK(line.find("replication") != std::string::npos);  // every basis names its replication(s)
+    }
+    std::sort(indexed.begin(), indexed.end());
+    CHECK(indexed == written);
+    const std::string report = read_file(dir.path("out/report.html"));
+    CHECK(report.find("<span class=\"basis\">Basis: 20 replications (replication 0 included)") != std::string::npos);
+    CHECK(report.find("as logged") != std::string::npos);
+
+    // The same scenario with its reporting period over the log's first days,
+    // whose census is still filling: a warning, in the terminal and the report.
+    std::string text = read_file(resampled);
+    const std::string from = "from: \"2026-10-26 07:00:00\"";
+    REQUIRE(text.find(from) != std::string::npos);
+    text.replace(text.find(from), from.size(), "from: \"2026-10-19 07:00:00\"");
+    // The copy names its log relative to itself: point it at the repository's.
+    for (std::size_t at = text.find(" demo/"); at != std::string::npos; at = text.find(" demo/", at))
+        text.replace(at + 1, 5, source_dir + "/scenarios/demo/");
+    const std::string early = dir.path("early.yaml");
+    std::ofstream(early, std::ios::binary) << text;
+    const auto warned = run_tocsin("run " + early + " --report " + dir.path("early.html"));
+    INFO(warned.output);
+    REQUIRE(warned.exit_code == 0);
+    CHECK(warned.output.find("reaches outside the days the bootstrap draws from") != std::string::npos);
+    CHECK(read_file(dir.path("early.html")).find("reaches outside the days the bootstrap draws from") != std::string::npos);
+}
