@@ -218,6 +218,8 @@ SectionSpec plans_keys() {
                 text_key("role", {.fallback = "responder", .help = "Who answers the notice; when roles are declared, one of them. For a chart interruption, only openings by this chart-opening role are interrupted (default: every role)."}),
                 text_key("queue", {.fallback = "fifo", .help = "Order in which waiting tasks are taken up: fifo (first come) or priority (highest score first)."}),
                 text_key("at_shift_end", {.fallback = "hand_over", .help = "An evaluation still in progress when its nurse's shift ends: hand_over (an incoming colleague continues it) or drop (abandoned and counted)."}),
+                list_key("escalation", {.absent = "the scenario's", .help = "This plan's own escalation edges, items as in escalation[]; they replace the scenario's escalation[] for this plan's tasks only. [] = this plan's tasks never escalate."}),
+                section_key("roster", {.unit = "people", .absent = "the role's", .help = "This plan's own headcount per shift for the role it pages, e.g. {day: 1, night: 1}; replaces that role's roster and roster_by_weekday for this plan's tasks only."}),
                 section_key("rule", {.help = "When the plan fires (see plans[].rule); required except for a ranked review without a floor."}),
                 section_key("chart", {.help = "Chart interruption settings (see plans[].chart); required for that channel."}),
                 section_key("handoff", {.help = "Handoff list settings (see plans[].handoff); required for that channel."}),

@@ -226,6 +226,10 @@ public:
         : root_(std::move(root)), base_node_(std::move(base_node)), base_(std::move(base)), axes_(axes) {
         plan_role_ = base_node_["role"] && base_node_["role"].IsScalar() ? base_node_["role"].Scalar() : "";
         staffing_ = staffing_axes(axes_, root_, plan_role_);
+        for (std::size_t a = 0; a < axes_.size(); ++a)
+            if (staffing_[a] && base_node_["roster"])
+                throw axis_error(axes_[a], "sweep path '" + axes_[a].path + "': plan '" + base_ +
+                                               "' has its own roster, which replaces the role's; vary plan.roster.<shift> instead");
         if (std::find(staffing_.begin(), staffing_.end(), true) != staffing_.end()) find_role();
     }
 
@@ -246,7 +250,10 @@ public:
             name += (a ? ", " : " ") + label;
             if (staffing_[a]) staffing_label += (staffing_label.empty() ? "" : ", ") + label;
         }
-        if (!staffing_label.empty()) plan["role"] = add_role_variant(role, plan_role_ + " (" + staffing_label + ")");
+        if (!staffing_label.empty()) {
+            plan["role"] = add_role_variant(role, plan_role_ + " (" + staffing_label + ")");
+            own_escalation_for(plan, plan["role"].Scalar());
+        }
         plan["name"] = name;
         return plan;
     }
@@ -263,6 +270,21 @@ private:
             if (e["from"] && e["from"].Scalar() == plan_role_) {
                 escalation_out_.reset(e);
                 has_escalation_out_ = true;
+            }
+        }
+    }
+
+    // A plan with its own escalation list keeps it for the copy of its role:
+    // the edge out of the role is repeated out of the copy.
+    void own_escalation_for(YAML::Node& plan, const std::string& variant) const {
+        if (!plan["escalation"] || !plan["escalation"].IsSequence()) return;
+        YAML::Node edges = plan["escalation"];
+        for (std::size_t k = 0, n = edges.size(); k < n; ++k) {
+            const YAML::Node e = edges[k];
+            if (e.IsMap() && e["from"] && e["from"].IsScalar() && e["from"].Scalar() == plan_role_) {
+                YAML::Node copy = YAML::Clone(e);
+                copy["from"] = variant;
+                edges.push_back(copy);
             }
         }
     }
