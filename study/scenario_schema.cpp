@@ -255,8 +255,8 @@ SectionSpec sweep_vary_keys() {
     return {"sweep.vary[]",
             "One swept parameter: a list of values, or a range from..to by step (inclusive).",
             {
-                text_key("key", {.unit = "path", .required = true, .help = "Dotted path, e.g. plan.rule.threshold."}),
-                real_list_key("values", {.help = "The values to try."}),
+                text_key("key", {.unit = "path", .required = true, .help = "Dotted path, e.g. plan.rule.threshold or plan.review.times."}),
+                list_key("values", {.help = "The values to try: numbers, or text for a text key (a list key's items joined by '+', e.g. \"08:00+20:00\")."}),
                 real_key("from", {.help = "Start of a range."}),
                 real_key("to", {.help = "End of a range (inclusive)."}),
                 real_key("step", {.range = {.min = 1e-12}, .help = "Step of a range."}),
