@@ -419,6 +419,18 @@ void add_grid_plans(YAML::Node& plans, Grid& grid, const std::vector<SweepAxis>&
     }
 }
 
+// " in plan 'NAME'" when `field` starts with plans[k] and that plan has a
+// name, else nothing.
+std::string plan_named_in(const std::string& field, const YAML::Node& plans) {
+    constexpr std::string_view prefix = "plans[";
+    if (field.rfind(prefix, 0) != 0) return "";
+    std::size_t k = 0;
+    const char* first = field.data() + prefix.size();
+    auto [ptr, ec] = std::from_chars(first, field.data() + field.size(), k);
+    if (ec != std::errc() || ptr == first || k >= plans.size() || !plans[k]["name"]) return "";
+    return " in plan '" + plans[k]["name"].Scalar() + "'";
+}
+
 Scenario build_sweep(const std::string& path, const SweepRequest& request) {
     std::ifstream in(path);
     if (!in) throw InputError(path, 0, 0, "", "cannot open scenario file");
@@ -451,8 +463,10 @@ Scenario build_sweep(const std::string& path, const SweepRequest& request) {
         return parse_scenario(out.c_str(), path + " (swept)", dir);
     } catch (const InputError& e) {
         // The generated file's lines mean nothing to the user; name the
-        // axes instead, one of which gave the value.
-        throw axis_error(axes.front(), "a swept value is not valid: " + e.field + ": " + e.detail);
+        // axes instead, one of which gave the value, and the grid point's
+        // plan, whose name holds the values.
+        throw axis_error(axes.front(), "a swept value is not valid" + plan_named_in(e.field, plans) + ": " + e.field +
+                                           ": " + e.detail);
     }
 }
 

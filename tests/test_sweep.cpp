@@ -238,6 +238,10 @@ TEST_CASE("sweep.text_values") {
         SweepRequest r;
         r.axes = {parse_sweep_axis("plan.review.scope=ward")};
         CHECK_THROWS_WITH_AS(sweep_scenario(path, r), doctest::Contains("unknown scope 'ward'"), InputError);
+        r.axes = {parse_sweep_axis("plan.review.times=08:00,8am")};
+        CHECK_THROWS_WITH_AS(sweep_scenario(path, r),
+                             doctest::Contains("a swept value is not valid in plan 'r times=8am': plans[1].review.times"),
+                             InputError);
         r.axes = {parse_sweep_axis("plan.review.times=08:00+")};
         CHECK_THROWS_WITH_AS(sweep_scenario(path, r), doctest::Contains("an empty list item"), InputError);
         r.axes = {parse_sweep_axis("plan.review=x")};
