@@ -14,14 +14,21 @@ auto identity(const PlanFigures& f) { return std::tie(f.notices, f.caught, f.uni
 
 }  // namespace
 
-PlanWarnings plan_warnings(const std::vector<Plan>& plans, const ScoreRange& observed,
+PlanWarnings plan_warnings(const std::vector<Plan>& plans, const ScoreSample& observed,
                            const std::vector<PlanFigures>& figures) {
     PlanWarnings w;
-    if (observed.scores > 0)
+    const ScoreRange range = observed.range();
+    if (range.scores > 0)
         for (const Plan& p : plans) {
             const double t = p.rule.threshold;
-            if (!std::isfinite(t) || (t >= observed.lowest && t <= observed.highest)) continue;
-            w.thresholds.push_back({p.name, t, observed, t > observed.highest});
+            if (!std::isfinite(t)) continue;
+            if (t < range.lowest || t > range.highest) {
+                w.thresholds.push_back({p.name, t, range, t > range.highest});
+                continue;
+            }
+            const double share = observed.share_at_or_above(t);
+            if (share >= most_scores_share)
+                w.low_thresholds.push_back({p.name, t, share, observed.percentile(1 - most_scores_share), range});
         }
     // Sorted by figures (stable, so scenario order within a group): equal plans
     // sit together, O(P log P) comparisons even for a sweep's many plans.

@@ -258,10 +258,14 @@ std::vector<LoggedNotice> notice_log(const SimulationSetup& setup, const Populat
 
 StaffResults staff_results(const SimulationSetup& setup, const Population& pop, const ShiftCalendar& cal,
                            const ReportingShifts& rep, const ReplicationRecord& record, bool with_task_log) {
-    const StaffModel model = staff_model(setup, static_cast<std::uint32_t>(pop.units.size()));
+    // One model per plan: a plan may declare its own escalation and roster.
+    std::vector<StaffModel> models;
+    models.reserve(setup.plans.size());
+    for (const Plan& plan : setup.plans)
+        models.push_back(staff_model(setup, plan, static_cast<std::uint32_t>(pop.units.size())));
     std::vector<PlanStaffRun> runs;
     for (std::size_t p = 0; p < setup.plans.size(); ++p)
-        runs.push_back({setup.plans[p].name, &model, setup.plans[p].staffing, &*record.plans[p].staff});
+        runs.push_back({setup.plans[p].name, &models[p], setup.plans[p].staffing, &*record.plans[p].staff});
     // Same period as the notice counts: tasks created in it, complete shifts inside it.
     const ReportPeriod period{rep.from, rep.until};
     StaffResults s;

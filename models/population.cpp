@@ -1,6 +1,7 @@
 #include "models/population.hpp"
 
 #include <algorithm>
+#include <cmath>
 #include <numeric>
 
 namespace tocsin {
@@ -97,6 +98,33 @@ ScoreRange observed_score_range(const Population& pop) {
         ++range.scores;
     }
     return range;
+}
+
+ScoreRange ScoreSample::range() const {
+    if (ascending.empty()) return {};
+    return {static_cast<std::int64_t>(ascending.size()), ascending.front(), ascending.back()};
+}
+
+double ScoreSample::share_at_or_above(double threshold) const {
+    if (ascending.empty()) return 0;
+    const auto first = std::lower_bound(ascending.begin(), ascending.end(), threshold);
+    return static_cast<double>(ascending.end() - first) / static_cast<double>(ascending.size());
+}
+
+double ScoreSample::percentile(double fraction) const {
+    if (ascending.empty()) return 0;
+    const double n = static_cast<double>(ascending.size());
+    // The k-th smallest with k = ceil(n * fraction), at least 1.
+    const auto k = static_cast<std::size_t>(std::max(1.0, std::ceil(n * fraction - 1e-9)));
+    return ascending[std::min(k, ascending.size()) - 1];
+}
+
+ScoreSample observed_scores(const Population& pop) {
+    ScoreSample sample;
+    sample.ascending.reserve(pop.scores.size());
+    for (const Score& s : pop.scores) sample.ascending.push_back(s.value);
+    std::sort(sample.ascending.begin(), sample.ascending.end());
+    return sample;
 }
 
 }  // namespace tocsin

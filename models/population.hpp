@@ -103,4 +103,17 @@ struct ScoreRange {
 };
 ScoreRange observed_score_range(const Population& population);
 
+// Every usable score in ascending order, for where a threshold falls among
+// them (a share reaching it, a percentile).
+struct ScoreSample {
+    std::vector<double> ascending;
+    ScoreRange range() const;
+    // Share of the scores >= threshold (0 when there are none).
+    double share_at_or_above(double threshold) const;
+    // The lowest score with at least `fraction` of the scores at or below it
+    // (the inverse of the empirical distribution; Hyndman & Fan 1996, type 1).
+    double percentile(double fraction) const;
+};
+ScoreSample observed_scores(const Population& population);
+
 }  // namespace tocsin

@@ -147,8 +147,8 @@ std::string comparison_text(const ReplicatedFigures& f, std::size_t ref) {
     view.title = f.replications > 1
                      ? "Plans compared over " + std::to_string(f.replications) + " replications: mean (95% CI)"
                      : "Plans compared (one replication: no interval)";
-    view.columns = {"plan", "night_mean", "night_p90", "caught", "sensitivity", "lead_median_h",
-                    "night_patients", "notice_ppv"};
+    view.columns = {"plan"};  // each metric under the name options and CSV give it
+    for (const auto& [name, d] : shown) view.columns.emplace_back(name);
     for (std::size_t p = 0; p < f.plans.size(); ++p) {
         std::vector<Cell> row{f.plans[p]};
         for (const auto& [name, d] : shown) row.push_back(with_interval(mean_interval(f.of(p, metric_index(name))), d));

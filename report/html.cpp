@@ -36,16 +36,19 @@ std::string html_escape(std::string_view text) {
 }
 
 std::string shorten(std::string_view text, std::size_t max_characters) {
-    std::size_t characters = 0, i = 0;
-    std::size_t cut = std::string_view::npos;  // byte offset after max_characters - 1 characters
-    while (i < text.size()) {
-        if (characters == max_characters - 1 && max_characters > 0) cut = i;
-        const std::size_t length = std::max<std::size_t>(1, utf8_sequence_length(text, i));
-        i += length;
-        ++characters;
-    }
+    // Byte offset where each character starts, and the end.
+    std::vector<std::size_t> starts;
+    for (std::size_t i = 0; i < text.size(); i += std::max<std::size_t>(1, utf8_sequence_length(text, i)))
+        starts.push_back(i);
+    const std::size_t characters = starts.size();
+    starts.push_back(text.size());
     if (characters <= max_characters || max_characters == 0) return std::string(text);
-    return std::string(text.substr(0, cut)) + "\xE2\x80\xA6";
+    // A plan's distinguishing part is at its end (a sweep's values), so the
+    // cut falls in the middle: two fifths of what is kept before it.
+    const std::size_t kept = max_characters - 1;
+    const std::size_t head = kept * 2 / 5, tail = kept - head;
+    return std::string(text.substr(0, starts[head])) + "\xE2\x80\xA6" +
+           std::string(text.substr(starts[characters - tail]));
 }
 
 std::string format_for_people(double v) {

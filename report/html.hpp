@@ -16,8 +16,9 @@ namespace tocsin {
 // name can neither break the markup nor the page's encoding.
 std::string html_escape(std::string_view text);
 
-// Cuts text to at most `max_characters` characters (not bytes), ending with an
-// ellipsis when something was cut. Never splits a UTF-8 sequence.
+// Cuts text to at most `max_characters` characters (not bytes), with an
+// ellipsis in the middle when something was cut, so that the end (what sets a
+// swept plan apart) stays. Never splits a UTF-8 sequence.
 std::string shorten(std::string_view text, std::size_t max_characters);
 
 // A number for people: whole numbers without decimals, otherwise two decimals,

@@ -70,8 +70,9 @@ main{max-width:none;padding:0;border-top:6px solid var(--teal)}
 nav.contents{display:none}
 .table-wrap{overflow:visible}
 table{width:100%;font-size:8pt}
-th,td{padding:.25em .35em}
+th,td{padding:.25em .35em;overflow-wrap:anywhere}
 tbody th{white-space:normal}
+.interval{white-space:normal}
 figure,table,.cautions,dl.record{break-inside:avoid}
 h2,h3{break-after:avoid}
 .cautions,thead th,tbody tr,.answer{-webkit-print-color-adjust:exact;print-color-adjust:exact}

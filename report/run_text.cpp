@@ -1,5 +1,6 @@
 #include "report/run_text.hpp"
 
+#include <cmath>
 #include <sstream>
 
 #include "report/cautions.hpp"
@@ -15,9 +16,10 @@ namespace {
 Table plans_view(const ReplicationResults& r) {
     Table view;
     view.title = "Plans compared (notices per unit per shift; lead in hours before time zero)";
-    view.columns = {"plan", "notices", "shift_mean", "shift_p90", "night_mean", "night_p90", "night_max",
-                    "caught", "missed", "sensitivity", "lead_median_h", "notices_per_catch",
-                    "night_patients", "notice_ppv"};
+    // Every column but the plan is named as the metric is in options and CSV.
+    view.columns = {"plan", "notices", "per_unit_shift_mean", "per_unit_shift_p90", "per_unit_night_mean",
+                    "per_unit_night_p90", "per_unit_night_max", "caught", "missed", "sensitivity", "lead_median_h",
+                    "notices_per_catch", "patients_per_unit_night_mean", "notice_ppv"};
     for (const PlanResult& p : r.plans) {
         const PlanFigures& f = p.figures;
         view.add_row({p.plan, f.notices, f.per_unit_shift_mean, f.per_unit_shift_p90, cell_or_empty(f.per_unit_night_mean),
@@ -101,6 +103,16 @@ std::vector<std::string> plan_warning_lines(const PlanWarnings& w) {
                         (t.above ? "above" : "below") + " every usable score of replication 0 (" + range + "): " +
                         (t.above ? "no score reaches it, so it never fires" : "every score reaches it") +
                         ". Is the threshold on the scores' scale?");
+    }
+    for (const ThresholdBelowMostScores& t : w.low_thresholds) {
+        const std::string range = format_real(t.observed.lowest) + " to " + format_real(t.observed.highest);
+        lines.push_back("Warning: plan " + t.plan + "'s threshold, " + format_real(t.threshold) +
+                        ", is at or below the " + format_real(std::round((1 - most_scores_share) * 100)) +
+                        "th percentile of the usable scores of replication 0 (" +
+                        format_real(t.low_percentile) + "; scores " + range + "): " +
+                        format_real(std::round(t.share_reaching * 1000) / 10) + "%" +
+                        " of scores reach it, so the plan fires on nearly every score. Is the threshold on the "
+                        "scores' scale?");
     }
     for (const IdenticalPlans& same : w.identical) {
         std::string names;

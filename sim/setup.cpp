@@ -4,10 +4,11 @@
 
 namespace tocsin {
 
-StaffModel staff_model(const SimulationSetup& setup, std::uint32_t unit_count) {
+StaffModel staff_model(const SimulationSetup& setup, const Plan& plan, std::uint32_t unit_count) {
     StaffModel m;
     m.roles = setup.roles;
-    m.escalation = setup.escalation;
+    m.escalation = plan.escalation ? *plan.escalation : setup.escalation;
+    if (plan.roster && plan.staffing.first_role < m.roles.size()) m.roles[plan.staffing.first_role].roster = *plan.roster;
     m.unit_count = std::max<std::uint32_t>(1, unit_count);
     return m;
 }

@@ -28,6 +28,11 @@ struct Plan {
     ChartSettings chart;      // channel chart_interruption
     HandoffSettings handoff;  // channel handoff_list
     ReviewSettings review;    // channel ranked_review
+    // The plan's own staffing, when it declares one; otherwise the scenario's.
+    // A review answered by the nurse who also takes pages need not escalate
+    // the way the pages do.
+    std::optional<EscalationGraph> escalation;  // replaces SimulationSetup::escalation for this plan's tasks
+    std::optional<Roster> roster;               // replaces the roster of the role it pages (staffing.first_role)
 };
 
 struct SimulationSetup {
@@ -42,8 +47,10 @@ struct SimulationSetup {
     bool has_staff() const { return !roles.empty(); }
 };
 
-// The staff of a simulation for a population with `unit_count` units.
-StaffModel staff_model(const SimulationSetup& setup, std::uint32_t unit_count);
+// The staff who answer `plan`'s notices for a population with `unit_count`
+// units: the scenario's roles and escalation, with the plan's own escalation
+// and roster in their place when it declares them.
+StaffModel staff_model(const SimulationSetup& setup, const Plan& plan, std::uint32_t unit_count);
 
 // The rule a plan's channel applies. A ranked review keeps a patient off the
 // lists for its skip window after a review, which is the rule engine's snooze.

@@ -100,13 +100,13 @@ StaffRun staff_for_plan(const std::vector<Notice>& notices, const StaffModel& mo
     return run;
 }
 
-// Each plan has a staff of its own: plans are alternatives, not rivals for the
-// same nurses. Plans are independent here, so they run side by side with
+// Each plan has a staff of its own (with its own escalation and roster when it
+// declares them): plans are alternatives, not rivals for the same nurses. Plans are independent here, so they run side by side with
 // identical results, busiest first, each taken by the next free thread.
 void run_staff(const SimulationSetup& setup, const Population& population, const ShiftCalendar& calendar,
                std::uint64_t replication, unsigned threads, ReplicationRecord& record) {
     const std::size_t n_plans = setup.plans.size();
-    const StaffModel model = staff_model(setup, static_cast<std::uint32_t>(population.units.size()));
+    const auto units = static_cast<std::uint32_t>(population.units.size());
     std::vector<std::size_t> order(n_plans);
     for (std::size_t p = 0; p < n_plans; ++p) order[p] = p;
     std::stable_sort(order.begin(), order.end(), [&](std::size_t a, std::size_t b) {
@@ -114,6 +114,7 @@ void run_staff(const SimulationSetup& setup, const Population& population, const
     });
     parallel_for(n_plans, threads, [&](std::size_t k) {
         const std::size_t p = order[k];
+        const StaffModel model = staff_model(setup, setup.plans[p], units);
         record.plans[p].staff = staff_for_plan(record.plans[p].notices, model, setup.plans[p].staffing, calendar,
                                                ReplicationSeed{setup.seed, replication});
     });

@@ -121,27 +121,31 @@ std::optional<std::string> channel_line(const Plan& p, const ShiftPattern& shift
     return std::nullopt;
 }
 
+std::string headcounts(const ShiftPattern& shifts, const std::vector<int>& row, const char* first) {
+    std::string out;
+    for (std::size_t k = 0; k < shifts.names.size(); ++k)
+        out += (k ? ", " : first) + shifts.names[k] + " " + std::to_string(row[k]);
+    return out;
+}
+
 DescriptionItem plan_entry(const Plan& p, const Scenario& sc) {
     DescriptionItem entry = statement(p.name + ": " + std::string(to_string(p.channel)) + " to " + p.role + " when " +
                                       describe_rule(p.rule, sc.score_label));
     if (auto line = channel_line(p, sc.simulation.shifts)) entry.items.push_back(statement(*line));
     if (!p.description.empty()) entry.items.push_back(statement(p.description));
     if (sc.simulation.has_staff()) {
-        const EscalationGraph& g = sc.simulation.escalation;
-        entry.items.push_back(statement("escalation: " + describe(g, escalation_path(g, p.staffing.first_role))));
+        const EscalationGraph& g = p.escalation ? *p.escalation : sc.simulation.escalation;
+        entry.items.push_back(statement(std::string(p.escalation ? "own escalation: " : "escalation: ") +
+                                        describe(g, escalation_path(g, p.staffing.first_role))));
+        if (p.roster)
+            entry.items.push_back(statement("own roster of " + p.role + ": " +
+                                            headcounts(sc.simulation.shifts, p.roster->by_shift, "")));
         entry.items.push_back(statement(
             std::string("queue ") +
             (p.staffing.discipline == QueueDiscipline::fifo ? "first come first served" : "highest score first") +
             "; at shift end " + (p.staffing.at_shift_end == ShiftEndPolicy::hand_over ? "hand over" : "drop")));
     }
     return entry;
-}
-
-std::string headcounts(const ShiftPattern& shifts, const std::vector<int>& row, const char* first) {
-    std::string out;
-    for (std::size_t k = 0; k < shifts.names.size(); ++k)
-        out += (k ? ", " : first) + shifts.names[k] + " " + std::to_string(row[k]);
-    return out;
 }
 
 DescriptionItem role_entry(const Role& r, const ShiftPattern& shifts) {

@@ -21,7 +21,7 @@ struct ReplicationsKept {
     std::vector<std::vector<PlanFigures>> figures;
     std::vector<std::vector<LoggedNotice>> notice_logs;
     std::vector<std::vector<LoggedTask>> task_logs;
-    ScoreRange first_scores;  // replication 0's, for the plans' thresholds
+    ScoreSample first_scores;  // replication 0's, for the plans' thresholds
     std::mutex first_lock;
 };
 
@@ -54,7 +54,7 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
                        const ReportingShifts rep = reporting_shifts(sc.analysis, pop, cal);
                        for (const PlanRecord& plan : rec.plans)
                            kept.figures[r].push_back(plan_figures(sc.analysis, pop, cal, rep, plan));
-                       if (r == 0) kept.first_scores = observed_score_range(pop);  // read after every replication ends
+                       if (r == 0) kept.first_scores = observed_scores(pop);  // read after every replication ends
                        if (r != 0 && !settings.notice_log && !settings.task_log) return;
                        ReplicationResults results = replication_results(sc.simulation, sc.analysis, pop, cal, rec,
                                                                         settings.notice_log, settings.task_log,

@@ -28,6 +28,9 @@ void load_population(const Section& top, Scenario& sc);
 // roles[] and escalation[] (study/scenario_load_staff.cpp)
 std::vector<Role> load_roles(const Section& top, const ShiftPattern& shifts);
 EscalationGraph load_escalation(const Section& top, const std::vector<Role>& roles);
+// A plan's own escalation list and roster (plans[].escalation, plans[].roster),
+// checked against the roles as its tasks find them; needs p.staffing.first_role.
+void load_plan_staffing(const Section& s, Plan& p, const SimulationSetup& setup, const std::string& where);
 // chart_openings and plans[] (study/scenario_load_plans.cpp)
 ChartOpeningSource load_chart_openings(const Section& s, const std::string& directory);
 std::vector<Plan> load_plans(const Section& top, const Scenario& sc);

@@ -197,6 +197,7 @@ Plan parse_plan(const Section& s, const Scenario& sc, const std::string& where) 
     // A chart interruption goes to whoever opens the chart unless a role is named.
     p.role = p.channel == Channel::chart_interruption && !s.has("role") ? "whoever opens the chart" : s.text("role");
     parse_staffing(s, p, sc.simulation);
+    load_plan_staffing(s, p, sc.simulation, where);
     if (s.has("rule"))
         p.rule = parse_rule(Section(s.child("rule"), "plans[].rule", s.file(), where + ".rule"), p.channel);
     else if (p.channel == Channel::ranked_review)

@@ -103,29 +103,57 @@ std::vector<Role> load_roles(const Section& top, const ShiftPattern& shifts) {
     return roles;
 }
 
-EscalationGraph load_escalation(const Section& top, const std::vector<Role>& roles) {
-    const std::string& file = top.file();
+namespace {
+
+// The edges of an escalation list (escalation[] or a plan's own), checked
+// against `roles` as the tasks will find them; a problem points at the first
+// offending edge and names every one.
+EscalationGraph escalation_from(const YAML::Node& list, const std::string& file, const std::string& where,
+                                const std::vector<Role>& roles) {
     std::vector<std::string> names;
     for (const Role& r : roles) names.push_back(r.name);
     std::vector<EscalationEdge> edges;
     std::vector<YAML::Node> nodes;
-    if (top.has("escalation")) {
-        if (roles.empty()) top.fail("escalation", "escalation needs roles; declare the roles first");
-        std::size_t i = 0;
-        for (const auto& node : top.child("escalation")) {
-            Section s(node, "escalation[]", file, "escalation[" + std::to_string(i++) + "]");
-            edges.push_back({s.text("from"), s.text("to"), s.real("after_minutes")});
-            nodes.push_back(node);
-        }
+    std::size_t i = 0;
+    for (const auto& node : list) {
+        Section s(node, "escalation[]", file, where + "[" + std::to_string(i++) + "]");
+        edges.push_back({s.text("from"), s.text("to"), s.real("after_minutes")});
+        nodes.push_back(node);
     }
     const auto problems = escalation_problems(names, edges, roles_ever_staffed(roles));
     if (!problems.empty()) {
-        // Point at the first offending edge; the message names every one.
         std::string message = problems.front().message;
         for (std::size_t k = 1; k < problems.size(); ++k) message += "; also: " + problems[k].message;
-        throw yaml_error(file, nodes[problems.front().edges.front()], "escalation", message);
+        throw yaml_error(file, nodes[problems.front().edges.front()], where, message);
     }
     return build_escalation_graph(names, edges, roles_ever_staffed(roles));
+}
+
+}  // namespace
+
+EscalationGraph load_escalation(const Section& top, const std::vector<Role>& roles) {
+    if (top.has("escalation") && roles.empty()) top.fail("escalation", "escalation needs roles; declare the roles first");
+    return escalation_from(top.child("escalation"), top.file(), "escalation", roles);
+}
+
+void load_plan_staffing(const Section& s, Plan& p, const SimulationSetup& setup, const std::string& where) {
+    for (const char* key : {"escalation", "roster"})
+        if (s.has(key) && !setup.has_staff())
+            s.fail(key, std::string("a plan's own ") + key + " needs roles; declare the roles that answer notices");
+    if (!setup.has_staff()) return;
+    std::vector<Role> roles = setup.roles;  // as this plan's tasks find them
+    if (s.has("roster")) {
+        p.roster = Roster{parse_roster_row(s.child("roster"), setup.shifts, s.file(), where + ".roster"), {}};
+        roles[p.staffing.first_role].roster = *p.roster;
+    }
+    if (s.has("escalation")) p.escalation = escalation_from(s.child("escalation"), s.file(), where + ".escalation", roles);
+    if (!p.roster && !p.escalation) return;
+    // The path this plan's tasks follow must still end where somebody is on duty.
+    const EscalationPath path = escalation_path(p.escalation ? *p.escalation : setup.escalation, p.staffing.first_role);
+    if (!roles_ever_staffed(roles)[path.roles.back()])
+        s.fail(p.roster ? "roster" : "escalation",
+               "nobody is on duty on any shift at '" + roles[path.roles.back()].name +
+                   "', where this plan's tasks end up waiting; give it a headcount or an escalation edge onwards");
 }
 
 }  // namespace tocsin::scenario_load

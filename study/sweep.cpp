@@ -5,12 +5,14 @@
 #include <cmath>
 #include <filesystem>
 #include <fstream>
+#include <optional>
 #include <sstream>
 #include <stdexcept>
 
 #include <yaml-cpp/yaml.h>
 
 #include "models/errors.hpp"
+#include "models/text.hpp"
 #include "study/scenario_keys.hpp"
 
 namespace tocsin {
@@ -30,6 +32,12 @@ double parse_number(const std::string& text, const std::string& spec) {
         throw axis_error(SweepAxis{}, "sweep axis '" + spec + "': '" + text + "' is not a number");
     if (!std::isfinite(v)) throw axis_error(SweepAxis{}, "sweep axis '" + spec + "': '" + text + "' is not a finite number");
     return v;
+}
+
+bool is_number(const std::string& text) {
+    double v = 0;
+    auto [ptr, ec] = std::from_chars(text.data(), text.data() + text.size(), v);
+    return !text.empty() && ec == std::errc() && ptr == text.data() + text.size();
 }
 
 std::vector<std::string> split(const std::string& s, char sep) {
@@ -55,17 +63,17 @@ std::string count_text(double n) {
 
 // The values from..to by step; their count is worked out first, so a range
 // of billions is refused instead of filling memory.
-std::vector<double> range_values(double from, double to, double step, const SweepAxis& axis, const std::string& spec,
-                                 std::size_t max_values) {
+std::vector<std::string> range_values(double from, double to, double step, const SweepAxis& axis,
+                                      const std::string& spec, std::size_t max_values) {
     if (!(step > 0)) throw axis_error(axis, "sweep axis '" + spec + "': the step must be positive");
     if (to < from) throw axis_error(axis, "sweep axis '" + spec + "': the range ends before it starts");
     const double count = std::floor((to - from) / step + 1e-9) + 1;
     if (!(count <= static_cast<double>(max_values)))
         throw axis_error(axis, "sweep axis '" + spec + "' has " + count_text(count) + " values, more than the limit of " +
                                    std::to_string(max_values) + " plans in a sweep; use a larger step");
-    std::vector<double> out;
+    std::vector<std::string> out;
     const long n = static_cast<long>(count) - 1;
-    for (long i = 0; i <= n; ++i) out.push_back(from + static_cast<double>(i) * step);
+    for (long i = 0; i <= n; ++i) out.push_back(round_trip_text(from + static_cast<double>(i) * step));
     return out;
 }
 
@@ -110,13 +118,17 @@ SweepAxis parse_sweep_axis(const std::string& spec, std::size_t max_values) {
                                  "or plan.rule.snooze_minutes=60,120,240");
     axis.path = spec.substr(0, eq);
     const std::string values = spec.substr(eq + 1);
-    if (values.find(':') != std::string::npos) {
-        const auto parts = split(values, ':');
-        if (parts.size() != 3) throw axis_error(axis, "sweep axis '" + spec + "': a range is from:to:step");
+    // A range is three numbers; anything else with a colon is a list of
+    // values, such as local times ("08:00,20:00").
+    const auto parts = split(values, ':');
+    if (values.find(',') == std::string::npos && parts.size() == 3 && is_number(parts[0])) {
         axis.values = range_values(parse_number(parts[0], spec), parse_number(parts[1], spec),
                                    parse_number(parts[2], spec), axis, spec, max_values);
     } else {
-        for (const auto& part : split(values, ',')) axis.values.push_back(parse_number(part, spec));
+        for (const auto& part : split(values, ',')) {
+            if (part.empty()) throw axis_error(axis, "sweep axis '" + spec + "': an empty value (two commas in a row?)");
+            axis.values.push_back(part);
+        }
     }
     if (axis.values.empty()) throw axis_error(axis, "sweep axis '" + spec + "' has no values");
     return axis;
@@ -133,7 +145,7 @@ SweepAxis axis_from_file(const Section& v, const YAML::Node& node, const std::st
     axis.column = node.Mark().column + 1;
     axis.field = v.where();
     if (v.has("values")) {
-        axis.values = v.real_list("values");
+        axis.values = v.text_list("values");
     } else {
         if (!v.has("from") || !v.has("to") || !v.has("step")) v.fail("key", "give either values: [..] or from, to and step");
         axis.values = range_values(*v.optional_real("from"), *v.optional_real("to"), *v.optional_real("step"), axis,
@@ -215,6 +227,81 @@ std::vector<bool> staffing_axes(const std::vector<SweepAxis>& axes, const YAML::
     return staffing;
 }
 
+// The declaration of the key an axis sets, when the schema has one: plan
+// keys and their sections ("plans[].review", "times"); roster headcounts are
+// keyed by shift name and have none.
+const KeySpec* declared_key(const std::vector<std::string>& segments, bool staffing) {
+    std::string section = staffing ? "roles[]" : "plans[]";
+    for (std::size_t i = 0; i + 1 < segments.size(); ++i) section += "." + segments[i];
+    for (const SectionSpec& s : scenario_sections())
+        if (s.path == section)
+            for (const KeySpec& k : s.keys)
+                if (k.name == segments.back()) return &k;
+    return nullptr;
+}
+
+std::optional<double> parse_value_number(const std::string& text) {
+    if (!is_number(text)) return std::nullopt;
+    double v = 0;
+    std::from_chars(text.data(), text.data() + text.size(), v);
+    if (!std::isfinite(v)) return std::nullopt;
+    return v;
+}
+
+// Writes one value under holder[key] as the key takes it (a number, text, a
+// flag, or a list from '+'-joined items); returns whether it was written as
+// a number. A value the key cannot take is refused naming the axis.
+bool set_value(YAML::Node& holder, const std::vector<std::string>& segments, bool staffing, const std::string& value,
+               const SweepAxis& axis) {
+    const std::string& key = segments.back();
+    const KeySpec* k = declared_key(segments, staffing);
+    const auto refuse = [&](const std::string& why) {
+        return axis_error(axis, "sweep axis '" + axis.path + "': the value '" + value + "' is refused: " + why);
+    };
+    const KeyKind kind = k ? k->kind : KeyKind::real;  // undeclared: a roster headcount
+    switch (kind) {
+    case KeyKind::real:
+    case KeyKind::integer: {
+        const auto v = parse_value_number(value);
+        if (!v) throw refuse("'" + key + "' takes a finite number");
+        holder[key] = *v;
+        return true;
+    }
+    case KeyKind::flag:
+        if (value != "true" && value != "false") throw refuse("'" + key + "' takes true or false");
+        holder[key] = value == "true";
+        return false;
+    case KeyKind::list: {
+        YAML::Node items(YAML::NodeType::Sequence);
+        for (const std::string& item : split(value, '+')) {
+            if (item.empty()) throw refuse("an empty list item ('+' joins the items of a list)");
+            items.push_back(item);
+        }
+        holder[key] = items;
+        return false;
+    }
+    case KeyKind::section: throw refuse("'" + key + "' is a section; sweep one of its keys");
+    case KeyKind::text:
+    case KeyKind::clock: holder[key] = value; return false;
+    }
+    return false;
+}
+
+// Short tags for plan names: t for the threshold and s for the snooze, the
+// key's own name otherwise; every key in full when two axes would share one.
+std::vector<std::string> axis_tags(const std::vector<SweepAxis>& axes) {
+    std::vector<std::string> tags, keys;
+    for (const SweepAxis& a : axes) {
+        const std::string key = split(a.path, '.').back();
+        keys.push_back(key);
+        tags.push_back(key == "threshold" ? "t" : key == "snooze_minutes" ? "s" : key);
+    }
+    for (std::size_t i = 0; i < tags.size(); ++i)
+        for (std::size_t j = i + 1; j < tags.size(); ++j)
+            if (tags[i] == tags[j]) return keys;
+    return tags;
+}
+
 // Staffing axes ("roles.<role>.<key>") vary the role the swept plan pages.
 // Each combination of their values becomes a copy of that role under its own
 // name (with the escalation edge out of it), which that grid point's plan
@@ -226,6 +313,11 @@ public:
         : root_(std::move(root)), base_node_(std::move(base_node)), base_(std::move(base)), axes_(axes) {
         plan_role_ = base_node_["role"] && base_node_["role"].IsScalar() ? base_node_["role"].Scalar() : "";
         staffing_ = staffing_axes(axes_, root_, plan_role_);
+        tags_ = axis_tags(axes_);
+        for (std::size_t a = 0; a < axes_.size(); ++a)
+            if (staffing_[a] && base_node_["roster"])
+                throw axis_error(axes_[a], "sweep path '" + axes_[a].path + "': plan '" + base_ +
+                                               "' has its own roster, which replaces the role's; vary plan.roster.<shift> instead");
         if (std::find(staffing_.begin(), staffing_.end(), true) != staffing_.end()) find_role();
     }
 
@@ -235,18 +327,25 @@ public:
         YAML::Node plan = YAML::Clone(base_node_);
         std::string name = base_, staffing_label;
         YAML::Node role = role_node_ ? YAML::Clone(role_node_) : YAML::Node();
+        std::string spelled;  // every key and value in full, for the description
         for (std::size_t a = 0; a < axes_.size(); ++a) {
             const SweepAxis& axis = axes_[a];
-            const double v = axis.values[at[a]];
+            const std::string& value = axis.values[at[a]];
             auto segments = split(axis.path, '.');
             segments.erase(segments.begin(), segments.begin() + (staffing_[a] ? 2 : 1));
             YAML::Node holder = descend(staffing_[a] ? role : plan, segments, axis);
-            holder[segments.back()] = v;
-            const std::string label = segments.back() + "=" + number_text(v);
-            name += (a ? ", " : " ") + label;
+            const bool number = set_value(holder, segments, staffing_[a], value, axis);
+            const std::string shown = number ? number_text(*parse_value_number(value)) : value;
+            const std::string label = segments.back() + "=" + shown;
+            name += " " + tags_[a] + (number ? "" : "=") + shown;
+            spelled += (a ? ", " : "") + label;
             if (staffing_[a]) staffing_label += (staffing_label.empty() ? "" : ", ") + label;
         }
-        if (!staffing_label.empty()) plan["role"] = add_role_variant(role, plan_role_ + " (" + staffing_label + ")");
+        plan["description"] = "Swept from " + base_ + ": " + spelled + ".";
+        if (!staffing_label.empty()) {
+            plan["role"] = add_role_variant(role, plan_role_ + " (" + staffing_label + ")");
+            own_escalation_for(plan, plan["role"].Scalar());
+        }
         plan["name"] = name;
         return plan;
     }
@@ -263,6 +362,21 @@ private:
             if (e["from"] && e["from"].Scalar() == plan_role_) {
                 escalation_out_.reset(e);
                 has_escalation_out_ = true;
+            }
+        }
+    }
+
+    // A plan with its own escalation list keeps it for the copy of its role:
+    // the edge out of the role is repeated out of the copy.
+    void own_escalation_for(YAML::Node& plan, const std::string& variant) const {
+        if (!plan["escalation"] || !plan["escalation"].IsSequence()) return;
+        YAML::Node edges = plan["escalation"];
+        for (std::size_t k = 0, n = edges.size(); k < n; ++k) {
+            const YAML::Node e = edges[k];
+            if (e.IsMap() && e["from"] && e["from"].IsScalar() && e["from"].Scalar() == plan_role_) {
+                YAML::Node copy = YAML::Clone(e);
+                copy["from"] = variant;
+                edges.push_back(copy);
             }
         }
     }
@@ -286,6 +400,7 @@ private:
     const std::vector<SweepAxis>& axes_;
     std::string plan_role_;
     std::vector<bool> staffing_;
+    std::vector<std::string> tags_;  // one per axis, for plan names
     YAML::Node role_node_;
     YAML::Node escalation_out_;
     bool has_escalation_out_ = false;
@@ -302,6 +417,18 @@ void add_grid_plans(YAML::Node& plans, Grid& grid, const std::vector<SweepAxis>&
             at[a] = 0;
         }
     }
+}
+
+// " in plan 'NAME'" when `field` starts with plans[k] and that plan has a
+// name, else nothing.
+std::string plan_named_in(const std::string& field, const YAML::Node& plans) {
+    constexpr std::string_view prefix = "plans[";
+    if (field.rfind(prefix, 0) != 0) return "";
+    std::size_t k = 0;
+    const char* first = field.data() + prefix.size();
+    auto [ptr, ec] = std::from_chars(first, field.data() + field.size(), k);
+    if (ec != std::errc() || ptr == first || k >= plans.size() || !plans[k]["name"]) return "";
+    return " in plan '" + plans[k]["name"].Scalar() + "'";
 }
 
 Scenario build_sweep(const std::string& path, const SweepRequest& request) {
@@ -336,8 +463,10 @@ Scenario build_sweep(const std::string& path, const SweepRequest& request) {
         return parse_scenario(out.c_str(), path + " (swept)", dir);
     } catch (const InputError& e) {
         // The generated file's lines mean nothing to the user; name the
-        // axes instead, one of which gave the value.
-        throw axis_error(axes.front(), "a swept value is not valid: " + e.field + ": " + e.detail);
+        // axes instead, one of which gave the value, and the grid point's
+        // plan, whose name holds the values.
+        throw axis_error(axes.front(), "a swept value is not valid" + plan_named_in(e.field, plans) + ": " + e.field +
+                                           ": " + e.detail);
     }
 }
 

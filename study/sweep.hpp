@@ -1,14 +1,22 @@
 #pragma once
-// Sweeps: vary numeric plan or staffing parameters over lists or ranges
-// without editing the scenario. Several axes make a grid. The grid is built on
-// the scenario's YAML, so every generated plan goes through the same strict
+// Sweeps: vary plan or staffing parameters over lists or ranges without
+// editing the scenario. Several axes make a grid. The grid is built on the
+// scenario's YAML, so every generated plan goes through the same strict
 // loader as a hand-written one.
 //
 // An axis is "PATH=VALUES". PATH is dotted and starts with "plan." (a key of
 // the swept plan, e.g. "plan.rule.threshold") or "roles.<role>." (staffing of
 // the role the swept plan pages, e.g. "roles.cover nurse.roster.night"); a
 // list item on the way is picked by its position or by its `name`. VALUES is
-// "a,b,c" or "from:to:step" (inclusive).
+// "a,b,c" or "from:to:step" (numbers, inclusive). A value is a number or, for
+// a text key, text (e.g. plan.review.scope=unit,hospital); for a list key the
+// items are joined by '+' (plan.review.times=08:00,08:00+20:00). The key
+// schema (study/scenario_schema.cpp) says which a key takes.
+//
+// A generated plan is named "<base> <tag><value> ...", short enough to read in
+// a chart: the tag is a short form of the varied key (t = threshold, s =
+// snooze_minutes, otherwise the key's own name) and a text value follows an
+// '='; its description spells every key and value out.
 #include <string>
 #include <vector>
 
@@ -23,7 +31,9 @@ inline constexpr std::size_t sweep_plan_limit = 5000;
 
 struct SweepAxis {
     std::string path;
-    std::vector<double> values;
+    // As they will be written into the scenario: a number in its shortest
+    // exact text, or text (list items joined by '+').
+    std::vector<std::string> values;
     // Where the axis was given, for errors: "--vary" on the command line or
     // an item of the scenario's sweep.vary.
     std::string file = "command line";
@@ -43,9 +53,9 @@ struct SweepRequest {
     std::size_t max_plans = sweep_plan_limit;
 };
 
-// The scenario with its plans replaced by the grid (each named
-// "<base> key=value, key=value"). Every problem is an InputError naming the
-// axis (option or scenario line) it comes from.
+// The scenario with its plans replaced by the grid (named as above). Every
+// problem is an InputError naming the axis (option or scenario line) it
+// comes from.
 Scenario sweep_scenario(const std::string& scenario_path, const SweepRequest& request);
 
 }  // namespace tocsin

@@ -29,7 +29,14 @@ PlanFigures figures(std::int64_t notices, std::int64_t caught, std::vector<std::
     return f;
 }
 
-const ScoreRange points_seen{1000, 3, 97};
+// The usable scores: every whole number from `lowest` to `highest`, once.
+ScoreSample whole_numbers(int lowest, int highest) {
+    ScoreSample s;
+    for (int v = lowest; v <= highest; ++v) s.ascending.push_back(v);
+    return s;
+}
+
+const ScoreSample points_seen = whole_numbers(3, 97);
 
 // Two weeks of two small wards whose scores are probabilities (baseline
 // logit -3, about 0.05), scored against thresholds of every kind.
@@ -84,8 +91,47 @@ TEST_CASE("plan_warnings.threshold_outside_the_scores_seen") {
     CHECK_FALSE(w.thresholds[1].above);
     CHECK(w.thresholds[2].plan == "review-floor-200");  // a review's floor is a threshold like any other
     CHECK(w.identical.empty());
+    // 3 is the lowest score, inside the range, but every score reaches it.
+    REQUIRE(w.low_thresholds.size() == 1);
+    CHECK(w.low_thresholds[0].plan == "at-the-bottom");
     // Without scores there is no range to be outside of.
-    CHECK(plan_warnings(plans, ScoreRange{}, f).thresholds.empty());
+    CHECK(plan_warnings(plans, ScoreSample{}, f).thresholds.empty());
+    CHECK(plan_warnings(plans, ScoreSample{}, f).low_thresholds.empty());
+}
+
+TEST_CASE("plan_warnings.threshold_inside_the_scores_but_below_nearly_all_of_them") {
+    // Scores 0, 1, ..., 99 (100 of them), as a 0-100 score that includes 0:
+    // the range check passes any threshold from 0 to 99. Worked by hand:
+    // the 5th percentile (type 1: the 5th smallest) is 4; a threshold t in
+    // (k-1, k] is reached by the 100 - k scores k..99.
+    const ScoreSample scores = whole_numbers(0, 99);
+    CHECK(scores.percentile(0.05) == 4);
+    CHECK(scores.share_at_or_above(0.2) == doctest::Approx(0.99));
+    const std::vector<Plan> plans = {page("trial-0.2", 0.2), page("trial-0.4", 0.4), page("at-p5", 4),
+                                     page("five", 5), page("five-and-a-half", 5.5), page("sensible-60", 60)};
+    std::vector<PlanFigures> f;
+    for (std::size_t i = 0; i < plans.size(); ++i) f.push_back(figures(static_cast<std::int64_t>(i), 0, {}));
+    const PlanWarnings w = plan_warnings(plans, scores, f);
+    CHECK(w.thresholds.empty());
+    REQUIRE(w.low_thresholds.size() == 4);
+    CHECK(w.low_thresholds[0].plan == "trial-0.2");
+    CHECK(w.low_thresholds[0].share_reaching == doctest::Approx(0.99));  // 1..99
+    CHECK(w.low_thresholds[0].low_percentile == 4);
+    CHECK(w.low_thresholds[0].observed.lowest == 0);
+    CHECK(w.low_thresholds[0].observed.highest == 99);
+    CHECK(w.low_thresholds[1].plan == "trial-0.4");
+    CHECK(w.low_thresholds[2].plan == "at-p5");
+    CHECK(w.low_thresholds[2].share_reaching == doctest::Approx(0.96));  // 4..99
+    CHECK(w.low_thresholds[3].plan == "five");
+    CHECK(w.low_thresholds[3].share_reaching == doctest::Approx(0.95));  // 5..99: exactly the limit
+    // 5.5 is reached by 6..99, 94 of 100: no warning, nor for 60.
+    const std::vector<std::string> lines = plan_warning_lines(w);
+    REQUIRE(lines.size() == 4);
+    CHECK(lines[0] == "Warning: plan trial-0.2's threshold, 0.2, is at or below the 5th percentile of the usable "
+                      "scores of replication 0 (4; scores 0 to 99): 99% of scores reach it, so the plan fires on "
+                      "nearly every score. Is the threshold on the scores' scale?");
+    // A sensible threshold alone: no warning at all.
+    CHECK(plan_warnings({page("sensible-60", 60)}, scores, {figures(3, 1, {})}).empty());
 }
 
 TEST_CASE("plan_warnings.identical_plans_are_named_together") {
@@ -104,7 +150,7 @@ TEST_CASE("plan_warnings.identical_plans_are_named_together") {
     const std::vector<std::string> lines = plan_warning_lines(w);
     REQUIRE(lines.size() == 2);
     CHECK(lines[0].rfind("Warning: plans a and c gave identical figures in replication 0", 0) == 0);
-    const PlanWarnings three = plan_warnings({page("x", 1), page("y", 2), page("z", 3)}, ScoreRange{},
+    const PlanWarnings three = plan_warnings({page("x", 1), page("y", 2), page("z", 3)}, ScoreSample{},
                                              {figures(0, 0, {0}), figures(0, 0, {0}), figures(0, 0, {0})});
     CHECK(plan_warning_lines(three)[0].rfind("Warning: plans x, y and z gave identical figures", 0) == 0);
 }

@@ -10,6 +10,7 @@
 #include <cstdlib>
 #include <filesystem>
 #include <map>
+#include <regex>
 #include <sstream>
 #include <vector>
 
@@ -35,14 +36,15 @@ struct Rendering {
 };
 
 // One headless run with a fresh profile, no network services, a fixed window.
-Rendering render_in_chromium(const ScratchDir& dir, const std::string& name, const std::string& html) {
+Rendering render_in_chromium(const ScratchDir& dir, const std::string& name, const std::string& html,
+                             const std::string& window = "1200,2000") {
     const std::string page = dir.file(name + ".html", html);
     const std::string png = dir.path(name + ".png");
     const std::string command = std::string("timeout 120 ") + chromium +
                                 " --headless --no-sandbox --disable-gpu --disable-quic --no-first-run"
                                 " --disable-background-networking --disable-component-update --disable-sync"
                                 " --hide-scrollbars --user-data-dir=" + dir.path(name + "-profile") +
-                                " --screenshot=" + png + " --window-size=1200,2000"
+                                " --screenshot=" + png + " --window-size=" + window +
                                 " --enable-logging=stderr --v=0 file://" + page;
     const CommandResult r = run_command(command);
     Rendering out;
@@ -241,4 +243,51 @@ TEST_CASE("report_browser.controls_show_the_checks_can_fail") {
 #else
     MESSAGE("zlib not found at build time: blank-page pixel control skipped");
 #endif
+}
+
+namespace {
+
+// An A4 page less the report's 14 mm margins is 182 mm wide, 688 CSS pixels
+// (96 per inch). The page's print rules are applied on screen in a window that
+// wide, and a script logs the right edge of the widest table.
+double widest_table_in_print(const ScratchDir& dir, const std::string& name, std::string html) {
+    const auto print = html.find("@media print{");
+    REQUIRE(print != std::string::npos);
+    html.replace(print, 13, "@media all{");
+    const auto body_end = html.rfind("</body>");
+    REQUIRE(body_end != std::string::npos);
+    html.insert(body_end, "<script>var w=0;document.querySelectorAll('table').forEach(function(t){"
+                          "w=Math.max(w,t.getBoundingClientRect().right)});console.log('widest_table_right='+w)</script>");
+    const Rendering r = render_in_chromium(dir, name, html, "688,3000");
+    INFO(r.log);
+    REQUIRE(r.ran);
+    const auto at = r.log.find("widest_table_right=");
+    REQUIRE(at != std::string::npos);
+    return std::stod(r.log.substr(at + 19));
+}
+
+}  // namespace
+
+TEST_CASE("report_browser.wide_tables_fit_a_printed_page") {
+    if (!chromium_available()) return;
+    ScratchDir dir;
+    // The sweep's report (ten plans, tables of up to 14 columns), with its plans
+    // under long names, as sweeps named them before: "page-70 threshold=50, snooze_minutes=60".
+    const std::string sweep =
+        std::regex_replace(read_file(std::string(TOCSIN_SOURCE_DIR) + "/tests/golden/sweep_report.html"),
+                           std::regex("page-70 t([0-9]+) s([0-9]+)"), "page-70 threshold=$1, snooze_minutes=$2");
+    REQUIRE(sweep.find("page-70 threshold=50, snooze_minutes=60") != std::string::npos);
+    CHECK(widest_table_in_print(dir, "sweep", sweep) <= 688.5);
+    // Control: without the print rules that let cells and intervals wrap, the
+    // same tables run off the page.
+    std::string stiff = sweep;
+    const std::pair<std::string, std::string> rules[] = {
+        {"th,td{padding:.25em .35em;overflow-wrap:anywhere}", "th,td{padding:.25em .35em}"},
+        {"\n.interval{white-space:normal}", ""}};
+    for (const auto& [rule, without] : rules) {
+        const auto at = stiff.find(rule);
+        REQUIRE(at != std::string::npos);
+        stiff.replace(at, rule.size(), without);
+    }
+    CHECK(widest_table_in_print(dir, "stiff", stiff) > 688.5);
 }

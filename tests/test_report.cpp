@@ -115,9 +115,13 @@ TEST_CASE("report.html_escape") {
 
 TEST_CASE("report.shorten_counts_characters") {
     CHECK(shorten("page-70", 10) == "page-70");
-    CHECK(shorten("abcdefghij", 5) == "abcd\xE2\x80\xA6");
-    // Five two-byte characters "ééééé" cut to three characters: two and an ellipsis.
-    CHECK(shorten("\xC3\xA9\xC3\xA9\xC3\xA9\xC3\xA9\xC3\xA9", 3) == "\xC3\xA9\xC3\xA9\xE2\x80\xA6");
+    // Five characters: 4 kept, 1 (2/5 of 4, rounded down) before the ellipsis and 3 after it.
+    CHECK(shorten("abcdefghij", 5) == "a\xE2\x80\xA6hij");
+    // Five two-byte characters "ééééé" cut to three characters: 0 + ellipsis + 2.
+    CHECK(shorten("\xC3\xA9\xC3\xA9\xC3\xA9\xC3\xA9\xC3\xA9", 3) == "\xE2\x80\xA6\xC3\xA9\xC3\xA9");
+    // 45 characters to 30: the first 11 and the last 18, which keep the value that sets the plan apart.
+    CHECK(shorten("page-55-rise threshold=50, snooze_minutes=120", 30) ==
+          "page-55-ris\xE2\x80\xA6snooze_minutes=120");
     CHECK(shorten("\xC3\xA9\xC3\xA9\xC3\xA9", 3) == "\xC3\xA9\xC3\xA9\xC3\xA9");
 }
 
@@ -209,9 +213,10 @@ TEST_CASE("report.escapes_every_user_string") {
     // Whole: title (2), question, assumption, finding, column label, run record
     // (3), tables (comparison, differences, staff), frontier list, tooltips...
     CHECK(count(page, escaped) >= 15);
-    // Cut in chart labels (32 characters) before escaping, so no half entity:
-    // "page-55-rise<script>alert(1)</s" + ellipsis.
-    CHECK(page.find(">page-55-rise&lt;script&gt;alert(1)&lt;/s\xE2\x80\xA6</text>") != std::string::npos);
+    // Cut in chart labels (32 characters: the first 12, an ellipsis, the last
+    // 19) before escaping, so no half entity: "page-55-rise" + ellipsis +
+    // "lert(1)</script>\"&'".
+    CHECK(page.find(">page-55-rise\xE2\x80\xA6lert(1)&lt;/script&gt;&quot;&amp;&#39;</text>") != std::string::npos);
     check_ampersands(page);
 }
 

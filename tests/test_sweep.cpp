@@ -7,15 +7,21 @@
 
 using namespace tocsin;
 using tocsin::testing::ScratchDir;
+using tocsin::testing::read_file;
 
 TEST_CASE("sweep.axis_forms") {
-    CHECK(parse_sweep_axis("plan.rule.threshold=50:80:10").values == std::vector<double>{50, 60, 70, 80});
+    using Values = std::vector<std::string>;
+    CHECK(parse_sweep_axis("plan.rule.threshold=50:80:10").values == Values{"50", "60", "70", "80"});
     // A fractional step still includes the end (no floating-point drift).
     CHECK(parse_sweep_axis("plan.rule.rise=0.1:0.3:0.1").values.size() == 3);
-    CHECK(parse_sweep_axis("plan.rule.snooze_minutes=60,120,240").values == std::vector<double>{60, 120, 240});
+    CHECK(parse_sweep_axis("plan.rule.snooze_minutes=60,120,240").values == Values{"60", "120", "240"});
+    // Text values: a colon inside a list is not a range.
+    CHECK(parse_sweep_axis("plan.review.times=08:00,08:00+20:00").values == Values{"08:00", "08:00+20:00"});
+    CHECK(parse_sweep_axis("plan.review.scope=unit,hospital").values == Values{"unit", "hospital"});
+    CHECK_THROWS_WITH_AS(parse_sweep_axis("plan.review.scope=unit,,hospital"), doctest::Contains("empty value"),
+                         std::runtime_error);
     CHECK_THROWS_WITH_AS(parse_sweep_axis("threshold"), doctest::Contains("PATH=VALUES"), std::runtime_error);
     CHECK_THROWS_WITH_AS(parse_sweep_axis("plan.rule.threshold=80:50:5"), doctest::Contains("ends before"), std::runtime_error);
-    CHECK_THROWS_WITH_AS(parse_sweep_axis("plan.rule.threshold=50,x"), doctest::Contains("not a number"), std::runtime_error);
     CHECK_THROWS_WITH_AS(parse_sweep_axis("plan.rule.threshold=1:5:0"), doctest::Contains("positive"), std::runtime_error);
 }
 
@@ -31,8 +37,11 @@ TEST_CASE("sweep.grid") {
     req.axes = {parse_sweep_axis("plan.rule.threshold=50,60"), parse_sweep_axis("plan.rule.snooze_minutes=60:180:60")};
     const Scenario sc = sweep_scenario(path, req);
     REQUIRE(sc.simulation.plans.size() == 6);
-    CHECK(sc.simulation.plans[0].name == "b threshold=50, snooze_minutes=60");
-    CHECK(sc.simulation.plans[5].name == "b threshold=60, snooze_minutes=180");
+    // Short names: t for the threshold, s for the snooze; the description
+    // spells them out.
+    CHECK(sc.simulation.plans[0].name == "b t50 s60");
+    CHECK(sc.simulation.plans[5].name == "b t60 s180");
+    CHECK(sc.simulation.plans[5].description == "Swept from b: threshold=60, snooze_minutes=180.");
     CHECK(sc.simulation.plans[5].rule.threshold == 60);
     CHECK(sc.simulation.plans[5].rule.snooze == minutes(180));
 
@@ -45,6 +54,17 @@ TEST_CASE("sweep.grid") {
         r.axes = {parse_sweep_axis("plan.rule.persistence=1,2,3")};
         const Scenario s = sweep_scenario(path, r);
         CHECK(s.simulation.plans[2].rule.persistence == 3);
+        CHECK(s.simulation.plans[2].name == "a persistence3");
+    }
+    SUBCASE("a value that is not a number, for a number key, is refused naming the axis") {
+        SweepRequest r;
+        r.axes = {parse_sweep_axis("plan.rule.threshold=50,x")};
+        CHECK_THROWS_WITH_AS(sweep_scenario(path, r),
+                             doctest::Contains("sweep axis 'plan.rule.threshold': the value 'x' is refused: "
+                                               "'threshold' takes a finite number"),
+                             InputError);
+        r.axes = {parse_sweep_axis("plan.rule.threshold=1,inf")};
+        CHECK_THROWS_WITH_AS(sweep_scenario(path, r), doctest::Contains("the value 'inf' is refused"), InputError);
     }
     SUBCASE("an invalid swept value is reported with its key") {
         SweepRequest r;
@@ -60,7 +80,7 @@ TEST_CASE("sweep.grid") {
         const std::string with = dir.file("w.yaml", base + "sweep:\n  plan: a\n  vary:\n    - {key: plan.rule.threshold, from: 40, to: 60, step: 10}\n");
         const Scenario s = sweep_scenario(with, SweepRequest{});
         REQUIRE(s.simulation.plans.size() == 3);
-        CHECK(s.simulation.plans[1].name == "a threshold=50");
+        CHECK(s.simulation.plans[1].name == "a t50");
     }
     SUBCASE("grids beyond the limit are refused") {
         SweepRequest r;
@@ -81,8 +101,6 @@ TEST_CASE("sweep.size_is_checked_before_anything_is_built") {
         CHECK(std::string(e.what()).find("10000001 values") != std::string::npos);
         CHECK(std::string(e.what()).find("limit of 5000") != std::string::npos);
     }
-    CHECK_THROWS_WITH_AS(parse_sweep_axis("plan.rule.threshold=1,inf"), doctest::Contains("not a finite number"),
-                         InputError);
 
     ScratchDir dir;
     const std::string base =
@@ -151,7 +169,7 @@ TEST_CASE("sweep.staffing_axis") {
     req.axes = {parse_sweep_axis("roles.cover nurse.roster.night=1,2,3"), parse_sweep_axis("plan.rule.threshold=50,60")};
     const Scenario sc = sweep_scenario(path, req);
     REQUIRE(sc.simulation.plans.size() == 6);
-    CHECK(sc.simulation.plans[0].name == "p night=1, threshold=50");
+    CHECK(sc.simulation.plans[0].name == "p night1 t50");
     CHECK(sc.simulation.plans[0].role == "cover nurse (night=1)");
     CHECK(sc.simulation.plans[5].role == "cover nurse (night=3)");
     REQUIRE(sc.simulation.roles.size() == 5);  // the two declared, one copy per night value
@@ -166,5 +184,69 @@ TEST_CASE("sweep.staffing_axis") {
         r.axes = {parse_sweep_axis("roles.physician.roster.night=1,2")};
         CHECK_THROWS_WITH_AS(sweep_scenario(path, r), doctest::Contains("varies the role the swept plan pages"),
                              std::runtime_error);
+    }
+    SUBCASE("a plan with its own roster is swept through plan.roster, not the role") {
+        const std::string own = dir.file("own.yaml", read_file(path).replace(
+            read_file(path).find("rule: {threshold: 60}"), 0, "roster: {day: 1, night: 1}, "));
+        SweepRequest r;
+        r.axes = {parse_sweep_axis("roles.cover nurse.roster.night=1,2")};
+        CHECK_THROWS_WITH_AS(sweep_scenario(own, r), doctest::Contains("vary plan.roster.<shift> instead"), InputError);
+        r.axes = {parse_sweep_axis("plan.roster.night=2,3")};
+        const Scenario s = sweep_scenario(own, r);
+        REQUIRE(s.simulation.plans.size() == 2);
+        CHECK(s.simulation.plans[1].roster->by_shift == std::vector<int>{1, 3});
+        CHECK(s.simulation.plans[1].name == "p night3");
+    }
+    SUBCASE("a plan's own escalation follows it to the copies of its role") {
+        const std::string own = dir.file("own.yaml", read_file(path).replace(
+            read_file(path).find("rule: {threshold: 60}"), 0,
+            "escalation: [{from: cover nurse, to: physician, after_minutes: 5}], "));
+        SweepRequest r;
+        r.axes = {parse_sweep_axis("roles.cover nurse.roster.night=1,2")};
+        const Scenario s = sweep_scenario(own, r);
+        REQUIRE(s.simulation.plans[1].escalation.has_value());
+        CHECK(s.simulation.plans[1].role == "cover nurse (night=2)");
+        CHECK(s.simulation.plans[1].escalation->next(s.simulation.plans[1].staffing.first_role)->timeout_seconds == 5 * 60);
+    }
+}
+
+TEST_CASE("sweep.text_values") {
+    // Review times and scope are text: a list value is its items joined by '+'.
+    ScratchDir dir;
+    const std::string path = dir.file(
+        "s.yaml",
+        "scenario_schema: 1\nname: t\ntime_zone: UTC\nshifts: [{name: day, starts: \"07:00\"}]\n"
+        "outcome: {window_hours: 12}\npopulation: {replay: {encounters: e.csv, scores: s.csv}}\n"
+        "plans:\n  - name: r\n    channel: ranked_review\n"
+        "    review: {times: [\"08:00\"], top_n: 4, minutes_per_review: 10}\n");
+    SweepRequest req;
+    req.axes = {parse_sweep_axis("plan.review.times=08:00,08:00+20:00"), parse_sweep_axis("plan.review.scope=unit,hospital")};
+    const Scenario sc = sweep_scenario(path, req);
+    REQUIRE(sc.simulation.plans.size() == 4);
+    CHECK(sc.simulation.plans[0].review.times_minutes == std::vector<int>{8 * 60});
+    CHECK(sc.simulation.plans[3].review.times_minutes == std::vector<int>{8 * 60, 20 * 60});
+    CHECK(sc.simulation.plans[3].review.scope == ReviewScope::hospital);
+    CHECK(sc.simulation.plans[3].name == "r times=08:00+20:00 scope=hospital");
+    SUBCASE("from the scenario's sweep section") {
+        const std::string with = dir.file("w.yaml", read_file(path) + "sweep:\n  vary:\n"
+                                                                      "    - {key: plan.review.times, values: [\"08:00+20:00\", \"12:00\"]}\n");
+        const Scenario s = sweep_scenario(with, SweepRequest{});
+        REQUIRE(s.simulation.plans.size() == 2);
+        CHECK(s.simulation.plans[0].review.times_minutes == std::vector<int>{8 * 60, 20 * 60});
+    }
+    SUBCASE("a value the key refuses names the axis and the key") {
+        SweepRequest r;
+        r.axes = {parse_sweep_axis("plan.review.scope=ward")};
+        CHECK_THROWS_WITH_AS(sweep_scenario(path, r), doctest::Contains("unknown scope 'ward'"), InputError);
+        r.axes = {parse_sweep_axis("plan.review.times=08:00,8am")};
+        CHECK_THROWS_WITH_AS(sweep_scenario(path, r),
+                             doctest::Contains("a swept value is not valid in plan 'r times=8am': plans[1].review.times"),
+                             InputError);
+        r.axes = {parse_sweep_axis("plan.review.times=08:00+")};
+        CHECK_THROWS_WITH_AS(sweep_scenario(path, r), doctest::Contains("an empty list item"), InputError);
+        r.axes = {parse_sweep_axis("plan.review=x")};
+        CHECK_THROWS_WITH_AS(sweep_scenario(path, r), doctest::Contains("'review' is a section"), InputError);
+        r.axes = {parse_sweep_axis("plan.review.top_n=four")};
+        CHECK_THROWS_WITH_AS(sweep_scenario(path, r), doctest::Contains("'top_n' takes a finite number"), InputError);
     }
 }
