@@ -29,6 +29,8 @@ PlanWarnings plan_warnings(const std::vector<Plan>& plans, const ScoreSample& ob
             const double share = observed.share_at_or_above(t);
             if (share >= most_scores_share)
                 w.low_thresholds.push_back({p.name, t, share, observed.percentile(1 - most_scores_share), range});
+            else if (t > 0 && t < 1 && range.highest > 1)
+                w.probability_thresholds.push_back({p.name, t, share, range});
         }
     // Sorted by figures (stable, so scenario order within a group): equal plans
     // sit together, O(P log P) comparisons even for a sweep's many plans.

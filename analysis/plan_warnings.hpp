@@ -36,6 +36,17 @@ struct ThresholdBelowMostScores {
     ScoreRange observed;
 };
 
+// A threshold between 0 and 1, inside the scores seen, on scores that run
+// beyond 1 (so not probabilities), reached by fewer than most_scores_share of
+// them: the same mistake when the scores hold many zeros, which the
+// percentile check cannot see.
+struct ThresholdLikeAProbability {
+    std::string plan;
+    double threshold = 0;
+    double share_reaching = 0;  // share of replication 0's usable scores >= threshold
+    ScoreRange observed;
+};
+
 // Plans with equal notices, catches and notices in every unit-shift, in
 // scenario order (two or more).
 struct IdenticalPlans {
@@ -45,8 +56,11 @@ struct IdenticalPlans {
 struct PlanWarnings {
     std::vector<ThresholdOutsideScores> thresholds;  // scenario order
     std::vector<ThresholdBelowMostScores> low_thresholds;  // scenario order
+    std::vector<ThresholdLikeAProbability> probability_thresholds;  // scenario order
     std::vector<IdenticalPlans> identical;            // ordered by each group's first plan
-    bool empty() const { return thresholds.empty() && low_thresholds.empty() && identical.empty(); }
+    bool empty() const {
+        return thresholds.empty() && low_thresholds.empty() && probability_thresholds.empty() && identical.empty();
+    }
 };
 
 // `figures[p]` are plan p's figures in replication 0, `observed` that

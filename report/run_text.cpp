@@ -114,6 +114,12 @@ std::vector<std::string> plan_warning_lines(const PlanWarnings& w) {
                         " of scores reach it, so the plan fires on nearly every score. Is the threshold on the "
                         "scores' scale?");
     }
+    for (const ThresholdLikeAProbability& t : w.probability_thresholds)
+        lines.push_back("Warning: plan " + t.plan + "'s threshold, " + format_real(t.threshold) +
+                        ", looks like a probability, but the usable scores of replication 0 run from " +
+                        format_real(t.observed.lowest) + " to " + format_real(t.observed.highest) +
+                        ", beyond 1: " + format_real(std::round(t.share_reaching * 1000) / 10) +
+                        "% of scores reach it. Is the threshold on the scores' scale?");
     for (const IdenticalPlans& same : w.identical) {
         std::string names;
         for (std::size_t i = 0; i < same.plans.size(); ++i)

@@ -134,6 +134,31 @@ TEST_CASE("plan_warnings.threshold_inside_the_scores_but_below_nearly_all_of_the
     CHECK(plan_warnings({page("sensible-60", 60)}, scores, {figures(3, 1, {})}).empty());
 }
 
+TEST_CASE("plan_warnings.a_probability_threshold_on_scores_with_many_zeros") {
+    // 0-100 scores, 30 in 100 of them 0 (then 1..70): the 5th percentile is
+    // 0, so 0.3 is reached by 70% of scores and the percentile check is
+    // silent; the threshold's scale gives it away.
+    ScoreSample scores;
+    scores.ascending.assign(30, 0.0);
+    for (int v = 1; v <= 70; ++v) scores.ascending.push_back(v);
+    scores.ascending.back() = 100;  // the top of the scale seen
+    const std::vector<Plan> plans = {page("trial-0.3", 0.3), page("sensible-40", 40), page("one", 1)};
+    const std::vector<PlanFigures> f = {figures(1, 0, {}), figures(2, 0, {}), figures(3, 0, {})};
+    const PlanWarnings w = plan_warnings(plans, scores, f);
+    CHECK(w.thresholds.empty());
+    CHECK(w.low_thresholds.empty());
+    REQUIRE(w.probability_thresholds.size() == 1);  // 1 is a whole point, not a probability
+    CHECK(w.probability_thresholds[0].plan == "trial-0.3");
+    CHECK(w.probability_thresholds[0].share_reaching == doctest::Approx(0.70));  // 1..69 and 100
+    CHECK(plan_warning_lines(w)[0] ==
+          "Warning: plan trial-0.3's threshold, 0.3, looks like a probability, but the usable scores of replication 0 "
+          "run from 0 to 100, beyond 1: 70% of scores reach it. Is the threshold on the scores' scale?");
+    // On probabilities (0 to 0.9) the same threshold is sensible: no warning.
+    ScoreSample probabilities;
+    for (int v = 0; v <= 90; ++v) probabilities.ascending.push_back(v / 100.0);
+    CHECK(plan_warnings({page("prob-0.3", 0.3)}, probabilities, {figures(1, 0, {})}).empty());
+}
+
 TEST_CASE("plan_warnings.identical_plans_are_named_together") {
     const std::vector<Plan> plans = {page("a", 50), page("b", 60), page("c", 55), page("d", 70), page("e", 80)};
     const std::vector<PlanFigures> f = {figures(10, 2, {4, 6}), figures(7, 1, {3, 4}), figures(10, 2, {4, 6}),
