@@ -138,6 +138,13 @@ std::string frontier_text(const ReplicatedFigures& f, std::size_t burden, std::s
     return o.str();
 }
 
+std::string with_margin(const MeanInterval& m, int decimals) {
+    if (!std::isfinite(m.mean)) return "-";
+    if (!std::isfinite(m.low)) return format_real(m.mean, decimals);
+    // The t interval is symmetric about the mean, so its half-width says it all.
+    return format_real(m.mean, decimals) + " \xC2\xB1" + format_real(m.high - m.mean, decimals);
+}
+
 std::string comparison_text(const ReplicatedFigures& f, std::size_t ref) {
     std::ostringstream o;
     const std::vector<std::pair<std::string_view, int>> shown = {
@@ -145,13 +152,14 @@ std::string comparison_text(const ReplicatedFigures& f, std::size_t ref) {
         {"patients_per_unit_night_mean", 2}, {"notice_ppv", 2}};
     Table view;
     view.title = f.replications > 1
-                     ? "Plans compared over " + std::to_string(f.replications) + " replications: mean (95% CI)"
+                     ? "Plans compared over " + std::to_string(f.replications) +
+                           " replications: mean \xC2\xB1 half-width of its 95% CI"
                      : "Plans compared (one replication: no interval)";
     view.columns = {"plan"};  // each metric under the name options and CSV give it
     for (const auto& [name, d] : shown) view.columns.emplace_back(name);
     for (std::size_t p = 0; p < f.plans.size(); ++p) {
         std::vector<Cell> row{f.plans[p]};
-        for (const auto& [name, d] : shown) row.push_back(with_interval(mean_interval(f.of(p, metric_index(name))), d));
+        for (const auto& [name, d] : shown) row.push_back(with_margin(mean_interval(f.of(p, metric_index(name))), d));
         view.add_row(row);
         if (!shows_as_logged(f)) continue;
         std::vector<Cell> logged{std::string(as_logged_label)};

@@ -30,6 +30,9 @@ Table plan_net_benefit_table(const std::vector<PlanNetBenefit>& rows);
 
 // "1.3 (1.1 to 1.5)" with the given decimals; just the mean when there is no interval.
 std::string with_interval(const MeanInterval& m, int decimals);
+// "1.3 ±0.2": the mean and the half-width of its (symmetric) interval, for
+// tables a terminal must hold.
+std::string with_margin(const MeanInterval& m, int decimals);
 // A compact terminal view: the main figures with intervals, and paired
 // differences from the reference plan.
 std::string comparison_text(const ReplicatedFigures& f, std::size_t reference_plan = 0);

@@ -13,19 +13,31 @@ namespace tocsin {
 
 namespace {
 
-Table plans_view(const ReplicationResults& r) {
+// What each plan costs the people who receive its notices, then what it
+// gains: two tables rather than one too wide for a terminal.
+Table plans_burden_view(const ReplicationResults& r) {
     Table view;
-    view.title = "Plans compared (notices per unit per shift; lead in hours before time zero)";
+    view.title = "Plans compared: burden (notices per unit per shift and per night)";
     // Every column but the plan is named as the metric is in options and CSV.
     view.columns = {"plan", "notices", "per_unit_shift_mean", "per_unit_shift_p90", "per_unit_night_mean",
-                    "per_unit_night_p90", "per_unit_night_max", "caught", "missed", "sensitivity", "lead_median_h",
-                    "notices_per_catch", "patients_per_unit_night_mean", "notice_ppv"};
+                    "per_unit_night_p90", "per_unit_night_max", "patients_per_unit_night_mean"};
     for (const PlanResult& p : r.plans) {
         const PlanFigures& f = p.figures;
         view.add_row({p.plan, f.notices, f.per_unit_shift_mean, f.per_unit_shift_p90, cell_or_empty(f.per_unit_night_mean),
-                      cell_or_empty(f.per_unit_night_p90), cell_or_empty(f.per_unit_night_max), f.caught, f.missed, cell_or_empty(f.sensitivity),
-                      cell_or_empty(f.lead_median_hours), cell_or_empty(f.notices_per_catch),
-                      cell_or_empty(f.patients_per_unit_night_mean), cell_or_empty(f.notice_ppv)});
+                      cell_or_empty(f.per_unit_night_p90), cell_or_empty(f.per_unit_night_max),
+                      cell_or_empty(f.patients_per_unit_night_mean)});
+    }
+    return view;
+}
+
+Table plans_benefit_view(const ReplicationResults& r) {
+    Table view;
+    view.title = "Plans compared: benefit (lead in hours before time zero)";
+    view.columns = {"plan", "caught", "missed", "sensitivity", "lead_median_h", "notices_per_catch", "notice_ppv"};
+    for (const PlanResult& p : r.plans) {
+        const PlanFigures& f = p.figures;
+        view.add_row({p.plan, f.caught, f.missed, cell_or_empty(f.sensitivity), cell_or_empty(f.lead_median_hours),
+                      cell_or_empty(f.notices_per_catch), cell_or_empty(f.notice_ppv)});
     }
     return view;
 }
@@ -85,7 +97,7 @@ std::string run_header_text(const std::string& title, const TimeZone& zone, cons
 
 std::string plan_summary_text(const ReplicationResults& r) {
     // A narrower view for the terminal; the CSV/JSON hold every column.
-    std::string o = to_text(plans_view(r)) + "\n";
+    std::string o = to_text(plans_burden_view(r)) + "\n" + to_text(plans_benefit_view(r)) + "\n";
     if (r.staff) {
         o += to_text(staff_view(r)) + "\n";
         o += to_text(roles_view(r.staff->workload)) + "\n";

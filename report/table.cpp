@@ -136,10 +136,35 @@ std::string to_json(const Table& t) {
     return out + (t.rows.empty() ? "]\n" : "\n]\n");
 }
 
+namespace {
+
+// A column name over as many lines as it takes to be no wider than `width`,
+// broken after an underscore ("per_unit_" over "night_mean"); a part longer
+// than `width` widens the column instead.
+std::vector<std::string> header_lines(const std::string& name, std::size_t width) {
+    std::vector<std::string> parts;
+    for (std::size_t from = 0; from < name.size();) {
+        const std::size_t cut = name.find('_', from);
+        const std::size_t to = cut == std::string::npos ? name.size() : cut + 1;
+        parts.push_back(name.substr(from, to - from));
+        from = to;
+    }
+    std::vector<std::string> lines;
+    for (const std::string& part : parts) {
+        if (!lines.empty() && lines.back().size() + part.size() <= width) lines.back() += part;
+        else lines.push_back(part);
+    }
+    if (lines.empty()) lines.emplace_back();
+    return lines;
+}
+
+}  // namespace
+
 std::string to_text(const Table& t, int digits) {
-    std::vector<std::size_t> width(t.columns.size());
+    // Columns are as wide as their widest cell; a longer name wraps over
+    // several header lines, so that a wide name does not make a wide table.
+    std::vector<std::size_t> width(t.columns.size(), 1);
     std::vector<std::vector<std::string>> cells;
-    for (std::size_t i = 0; i < t.columns.size(); ++i) width[i] = t.columns[i].size();
     for (const auto& row : t.rows) {
         std::vector<std::string> r;
         for (std::size_t i = 0; i < row.size(); ++i) {
@@ -147,6 +172,14 @@ std::string to_text(const Table& t, int digits) {
             width[i] = std::max(width[i], r.back().size());
         }
         cells.push_back(std::move(r));
+    }
+    std::vector<std::vector<std::string>> headers;
+    std::size_t header_height = 1;
+    for (std::size_t i = 0; i < t.columns.size(); ++i) {
+        // Ten characters keep most parts of a name together ("shift_mean").
+        headers.push_back(header_lines(t.columns[i], std::max<std::size_t>(width[i], 10)));
+        for (const std::string& line : headers.back()) width[i] = std::max(width[i], line.size());
+        header_height = std::max(header_height, headers.back().size());
     }
     auto pad = [](const std::string& s, std::size_t w, bool left) {
         std::string fill(w > s.size() ? w - s.size() : 0, ' ');
@@ -159,8 +192,16 @@ std::string to_text(const Table& t, int digits) {
             if (std::holds_alternative<std::string>(row[i])) text_column[i] = true;
     std::string out;
     if (!t.title.empty()) out += valid_utf8(t.title) + "\n";
-    for (std::size_t i = 0; i < t.columns.size(); ++i) out += (i ? "  " : "") + pad(t.columns[i], width[i], text_column[i]);
-    out += "\n";
+    // Header lines sit at the bottom of the header, next to the rows.
+    for (std::size_t line = 0; line < header_height; ++line) {
+        std::string text;
+        for (std::size_t i = 0; i < t.columns.size(); ++i) {
+            const std::size_t blank = header_height - headers[i].size();
+            text += (i ? "  " : "") + pad(line < blank ? "" : headers[i][line - blank], width[i], text_column[i]);
+        }
+        while (!text.empty() && text.back() == ' ') text.pop_back();
+        out += text + "\n";
+    }
     for (std::size_t r = 0; r < cells.size(); ++r) {
         for (std::size_t i = 0; i < cells[r].size(); ++i) {
             out += (i ? "  " : "") + pad(cells[r][i], width[i], text_column[i]);

@@ -178,7 +178,7 @@ TEST_CASE("end_to_end.generated_demo_with_replications") {
     const auto one = run_tocsin("run " + generated_demo + " --threads 1 --out " + dir.path("one"));
     INFO(one.output);
     REQUIRE(one.exit_code == 0);
-    CHECK(one.output.find("Plans compared over 20 replications: mean (95% CI)") != std::string::npos);
+    CHECK(one.output.find("Plans compared over 20 replications: mean \xC2\xB1 half-width of its 95% CI") != std::string::npos);
     CHECK(one.output.find("Paired differences from page-70") != std::string::npos);
     CHECK(one.output.find("not a medical device") != std::string::npos);
     check_golden(dir.path("one/plan_comparison.csv"), "demo_plan_comparison.csv");

@@ -3,6 +3,8 @@
 // bytes a name carried.
 #include <doctest/doctest.h>
 
+#include "report/comparison_tables.hpp"
+
 #include <algorithm>
 #include <cmath>
 #include <cstdlib>
@@ -100,6 +102,35 @@ TEST_CASE("output.non_finite_numbers") {
 TEST_CASE("output.terminal_text_stays_rounded") {
     CHECK(to_text(one_real(0.000012), 2).find("0\n") != std::string::npos);
     CHECK(to_text(one_real(1.0 / 3.0), 3).find("0.333\n") != std::string::npos);
+}
+
+TEST_CASE("output.terminal_headers_wrap_at_underscores") {
+    // A name wider than its column's cells goes over several lines, broken
+    // after an underscore, bottom-aligned; the rows keep the column's width.
+    Table t = make_table("t", "", {"plan", "patients_per_unit_night_mean", "x"});
+    t.add_row({std::string("A"), 0.25, std::int64_t{3}});
+    const std::string text = to_text(t, 2);
+    CHECK(text ==
+          "       patients_\n"
+          "       per_unit_\n"
+          "plan  night_mean  x\n"
+          "A           0.25  3\n");
+    // A name as narrow as ten characters stays on one line.
+    Table narrow = make_table("n", "", {"shift_mean"});
+    narrow.add_row({1.5});
+    CHECK(to_text(narrow, 2) == "shift_mean\n       1.5\n");
+}
+
+TEST_CASE("output.mean_and_margin") {
+    // The t interval is symmetric: "mean ±half-width".
+    MeanInterval m;
+    m.mean = 2.0;
+    m.low = 1.75;
+    m.high = 2.25;
+    m.n = 5;
+    CHECK(with_margin(m, 2) == "2 \xC2\xB1" "0.25");
+    m.low = m.high = std::nan("");
+    CHECK(with_margin(m, 2) == "2");  // one replication: no interval
 }
 
 TEST_CASE("output.text_is_valid_utf8") {
