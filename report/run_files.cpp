@@ -6,6 +6,7 @@
 #include "report/comparison_tables.hpp"
 #include "report/evaluation_tables.hpp"
 #include "report/run_tables.hpp"
+#include "report/unit_tables.hpp"
 
 namespace tocsin {
 
@@ -26,6 +27,7 @@ std::vector<OutputFile> run_output_files(const Scenario& sc, const RunOutput& ou
     std::vector<OutputFile> files;
     const RunTables t = run_tables(out.first_replication, sc.simulation.zone);
     add_table_files(files, t.plan_summary);
+    add_table_files(files, t.plan_unit_summary);
     add_table_files(files, t.unit_shift_notices);
     add_table_files(files, t.exclusions);
     add_table_files(files, t.channel_burden);
@@ -35,6 +37,7 @@ std::vector<OutputFile> run_output_files(const Scenario& sc, const RunOutput& ou
     add_table_files(files, comparison.comparison);
     add_table_files(files, comparison.differences);
     add_table_files(files, comparison.replication_figures);
+    add_table_files(files, plan_unit_comparison_table(out.unit_figures));
     add_table_files(files, frontier_table(out.figures, metric_index(*find_metric(settings.burden_metric)),
                                           metric_index(*find_metric(settings.benefit_metric))));
     add_table_files(files, plan_net_benefit_table(out.plan_net_benefit));

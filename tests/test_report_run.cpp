@@ -26,7 +26,7 @@ std::string demo_report(unsigned threads, std::optional<double> budget) {
 
 TEST_CASE("report_run.demo") {
     const std::string page = demo_report(1, 4.0);
-    for (const char* id : {"question", "assumptions", "comparison", "frontier", "burden", "lead-times", "staff", "run"}) {
+    for (const char* id : {"question", "assumptions", "comparison", "per-ward", "frontier", "burden", "lead-times", "staff", "run"}) {
         CAPTURE(id);
         CHECK(page.find("<section id=\"" + std::string(id) + "\"") != std::string::npos);
     }
@@ -38,6 +38,13 @@ TEST_CASE("report_run.demo") {
     // No model-evaluation measures in a run yet.
     CHECK(page.find("<section id=\"evaluation\"") == std::string::npos);
     CHECK(page.find("Fernhollow District Hospital") != std::string::npos);
+    // The wards by name: with their beds among the assumptions, and heading the per-ward section, where
+    // the worst ward decides the budget question.
+    CHECK(page.find("3 units (4 North medicine, 26 beds; 5 South surgery, 22 beds; 6 East older adults, 20 beds)") !=
+          std::string::npos);
+    CHECK(page.find("The wards: 4 North medicine, 5 South surgery and 6 East older adults.") != std::string::npos);
+    CHECK(page.find("decided by the worst ward") != std::string::npos);
+    CHECK(page.find(">Ward</th>") != std::string::npos);
     CHECK(page.find("Time zone: America/Chicago") != std::string::npos);
     // Items of the scenario's lists carry their kind; indented details join their item.
     CHECK(page.find("<li>Plan page-70: page to rapid response nurse when deterioration score &gt;= 70; snooze 4 h. "
@@ -49,7 +56,7 @@ TEST_CASE("report_run.demo") {
     // 30 November): 168 unit-nights per plan in the burden chart's n column.
     CHECK(page.find(" \xC2\xB7 168</text>") != std::string::npos);
     // The budget question is answered in words and drawn on the per-night chart
-    // (the budget limits per_unit_night_p90; the frontier's axis is the mean).
+    // (the budget limits worst_unit_night_p90, unit-nights too; the frontier's axis is the pooled mean).
     CHECK(page.find("Best within the budget: page-55-twice") != std::string::npos);
     CHECK(page.find("marks the budget of 4.") != std::string::npos);
     CHECK(page.find("Paired differences from page-70") != std::string::npos);
