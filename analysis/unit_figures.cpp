@@ -23,12 +23,31 @@ Spread spread_of(const std::vector<double>& sorted) {
     return {mean(sorted), quantile_sorted(sorted, 0.9), sorted.back()};
 }
 
-// Notices, nights and patients per night of each unit.
-void add_notice_figures(std::vector<UnitFigures>& rows, const ShiftCalendar& cal, const ReportingShifts& rep,
-                        const PlanRecord& record, const PlanFigures& figures) {
-    for (const Notice& n : record.notices) ++rows[n.unit].notices;
+// One unit's notices in every reporting shift, sorted.
+std::vector<double> unit_shift_values(const std::vector<std::int64_t>& per_unit_shift, std::size_t unit,
+                                      std::size_t n_shifts) {
+    std::vector<double> values(per_unit_shift.begin() + static_cast<std::ptrdiff_t>(unit * n_shifts),
+                               per_unit_shift.begin() + static_cast<std::ptrdiff_t>((unit + 1) * n_shifts));
+    std::sort(values.begin(), values.end());
+    return values;
+}
+
+// Notices, shifts, nights, patients per night and the notices' PPV of each
+// unit (the PPV counted as plan_figures counts it).
+void add_notice_figures(std::vector<UnitFigures>& rows, const Population& pop, const ShiftCalendar& cal,
+                        const ReportingShifts& rep, const PlanRecord& record, const PlanFigures& figures) {
+    std::vector<std::int64_t> true_notices(rows.size(), 0);
+    for (const Notice& n : record.notices) {
+        ++rows[n.unit].notices;
+        const auto& t0 = pop.encounters[n.encounter].outcome_at;
+        true_notices[n.unit] += t0 && n.at < *t0;
+    }
     const std::vector<std::int64_t> patients = patients_per_unit_shift(cal, rep, rows.size(), record);
     for (std::size_t u = 0; u < rows.size(); ++u) {
+        if (rows[u].notices)
+            rows[u].notice_ppv = static_cast<double>(true_notices[u]) / static_cast<double>(rows[u].notices);
+        const Spread shifts = spread_of(unit_shift_values(figures.unit_shift_counts, u, rep.shifts.size()));
+        rows[u].shift_mean = shifts.mean, rows[u].shift_p90 = shifts.p90, rows[u].shift_max = shifts.max;
         const Spread notices = spread_of(unit_night_values(figures.unit_shift_counts, u, cal, rep));
         rows[u].night_mean = notices.mean, rows[u].night_p90 = notices.p90, rows[u].night_max = notices.max;
         const Spread people = spread_of(unit_night_values(patients, u, cal, rep));
@@ -81,7 +100,7 @@ std::vector<UnitFigures> unit_figures(const SimulationSetup& setup, const Analys
         const Plan& plan = setup.plans[p];
         std::vector<UnitFigures> rows(pop.units.size());
         for (std::size_t u = 0; u < rows.size(); ++u) rows[u].plan = plan.name, rows[u].unit = pop.units[u];
-        add_notice_figures(rows, cal, rep, record.plans[p], figures[p]);
+        add_notice_figures(rows, pop, cal, rep, record.plans[p], figures[p]);
         add_catch_figures(rows, settings, pop, record.plans[p]);
         if (model && record.plans[p].staff)
             add_team_minutes(rows, {plan.name, &*model, plan.staffing, &*record.plans[p].staff}, cal, rep);
@@ -98,12 +117,18 @@ const std::vector<UnitMetric>& unit_metrics() {
          [](const UnitFigures& f) { return or_nan(f.night_p90); }},
         {"per_unit_night_max", "notices per night on the unit, worst",
          [](const UnitFigures& f) { return or_nan(f.night_max); }},
+        {"per_unit_shift_mean", "notices per shift on the unit", [](const UnitFigures& f) { return or_nan(f.shift_mean); }},
+        {"per_unit_shift_p90", "notices per shift on the unit, 90th percentile",
+         [](const UnitFigures& f) { return or_nan(f.shift_p90); }},
+        {"per_unit_shift_max", "notices per shift on the unit, worst", [](const UnitFigures& f) { return or_nan(f.shift_max); }},
         {"patients_per_unit_night_mean", "patients noticed per night on the unit",
          [](const UnitFigures& f) { return or_nan(f.patients_per_night_mean); }},
         {"patients_per_unit_night_p90", "patients noticed per night on the unit, 90th percentile",
          [](const UnitFigures& f) { return or_nan(f.patients_per_night_p90); }},
         {"patients_per_unit_night_max", "patients noticed per night on the unit, worst",
          [](const UnitFigures& f) { return or_nan(f.patients_per_night_max); }},
+        {"notice_ppv", "share of the unit's notices for patients who went on to the outcome",
+         [](const UnitFigures& f) { return or_nan(f.notice_ppv); }},
         {"cases", "patients with the outcome", [](const UnitFigures& f) { return static_cast<double>(f.cases); }},
         {"caught", "cases caught", [](const UnitFigures& f) { return static_cast<double>(f.caught); }},
         {"sensitivity", "share of cases caught", [](const UnitFigures& f) { return or_nan(f.sensitivity); }},

@@ -25,9 +25,13 @@ namespace tocsin {
 struct UnitFigures {
     std::string plan, unit;
     std::int64_t notices = 0;  // whole run, as PlanFigures::notices
-    // Notices and distinct patients noticed per night shift on this unit (reporting period, zeros included).
+    // Notices per shift and per night shift, and distinct patients noticed per
+    // night shift, on this unit (reporting period, zeros included).
+    std::optional<double> shift_mean, shift_p90, shift_max;
     std::optional<double> night_mean, night_p90, night_max;
     std::optional<double> patients_per_night_mean, patients_per_night_p90, patients_per_night_max;
+    // Share of the unit's notices sent before time zero to patients who went on to the outcome.
+    std::optional<double> notice_ppv;
     std::int64_t cases = 0, caught = 0;
     std::optional<double> sensitivity, lead_median_hours;
     // Minutes worked per shift by the plan's unit teams on this unit (roles

@@ -94,12 +94,13 @@ void add_skipped_rows(ReportInput& in, const std::vector<Exclusion>& exclusions)
                                      (e.count == 1 ? " row, " : " rows, ") + exclusion_reason(e) + ".");
 }
 
-// The figures the comparison shows: the usual ones, then the frontier's axes.
-std::vector<std::size_t> compared_metrics(const Metric* burden, const Metric* benefit) {
+// The figures the comparison shows: the usual ones, then the frontier's axes
+// and the figure the budget limits (the worst ward's, by default).
+std::vector<std::size_t> compared_metrics(const Metric* burden, const Metric* benefit, const Metric* budget) {
     std::vector<std::size_t> metrics;
     for (const std::string& name : shown_metrics)
         if (const Metric* m = find_metric(name)) metrics.push_back(metric_index(*m));
-    for (const Metric* m : {burden, benefit})
+    for (const Metric* m : {burden, benefit, budget})
         if (m && std::find(metrics.begin(), metrics.end(), metric_index(*m)) == metrics.end())
             metrics.push_back(metric_index(*m));
     return metrics;
@@ -225,9 +226,9 @@ ReportInput report_input_for_run(const Scenario& sc, const RunOutput& out, const
     const ReplicatedFigures& f = out.figures;
     const Metric* burden = find_metric(settings.burden_metric);
     const Metric* benefit = find_metric(settings.benefit_metric);
-    add_comparison(in, f, compared_metrics(burden, benefit));
-    if (burden && benefit) add_frontier(in, f, *burden, *benefit);
     const Metric* budget = find_metric(settings.budget_metric);
+    add_comparison(in, f, compared_metrics(burden, benefit, settings.budget_limit ? budget : nullptr));
+    if (burden && benefit) add_frontier(in, f, *burden, *benefit);
     if (settings.budget_limit && budget && benefit && out.budget) {
         in.budget_answer = budget_sentence(out, *budget, *benefit, *settings.budget_limit);
         if (budget == burden) in.burden_limit = settings.budget_limit;

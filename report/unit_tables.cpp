@@ -9,14 +9,17 @@ namespace tocsin {
 
 Table plan_unit_summary_table(const std::vector<UnitFigures>& units, std::uint64_t replication) {
     Table t = make_table("plan_unit_summary", "Plans on each ward (replication " + std::to_string(replication) + ")",
-                         {"plan", "unit", "notices", "per_unit_night_mean", "per_unit_night_p90", "per_unit_night_max",
+                         {"plan", "unit", "notices", "per_unit_shift_mean", "per_unit_shift_p90", "per_unit_shift_max",
+                          "per_unit_night_mean", "per_unit_night_p90", "per_unit_night_max",
                           "patients_per_unit_night_mean", "patients_per_unit_night_p90", "patients_per_unit_night_max",
-                          "cases", "caught", "sensitivity", "lead_median_h", "unit_team_minutes_per_shift_mean",
+                          "notice_ppv", "cases", "caught", "sensitivity", "lead_median_h", "unit_team_minutes_per_shift_mean",
                           "unit_team_minutes_per_shift_p90"});
     for (const UnitFigures& u : units)
-        t.add_row({u.plan, u.unit, u.notices, cell_or_empty(u.night_mean), cell_or_empty(u.night_p90),
+        t.add_row({u.plan, u.unit, u.notices, cell_or_empty(u.shift_mean), cell_or_empty(u.shift_p90),
+                   cell_or_empty(u.shift_max), cell_or_empty(u.night_mean), cell_or_empty(u.night_p90),
                    cell_or_empty(u.night_max), cell_or_empty(u.patients_per_night_mean),
-                   cell_or_empty(u.patients_per_night_p90), cell_or_empty(u.patients_per_night_max), u.cases, u.caught,
+                   cell_or_empty(u.patients_per_night_p90), cell_or_empty(u.patients_per_night_max),
+                   cell_or_empty(u.notice_ppv), u.cases, u.caught,
                    cell_or_empty(u.sensitivity), cell_or_empty(u.lead_median_hours),
                    cell_or_empty(u.team_minutes_per_shift_mean), cell_or_empty(u.team_minutes_per_shift_p90)});
     return t;
@@ -51,7 +54,7 @@ namespace {
 // when some plan has a unit team.
 std::vector<std::size_t> ward_metrics(const ReplicatedUnitFigures& f) {
     std::vector<std::size_t> shown;
-    for (const char* name : {"per_unit_night_mean", "per_unit_night_p90", "per_unit_night_max", "caught", "cases",
+    for (const char* name : {"per_unit_night_mean", "per_unit_night_p90", "per_unit_night_max", "caught",
                              "sensitivity", "lead_median_h"})
         shown.push_back(unit_metric_index(name));
     if (has_unit_teams(f)) shown.push_back(unit_metric_index("unit_team_minutes_per_shift_mean"));

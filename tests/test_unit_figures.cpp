@@ -5,6 +5,7 @@
 // the replicated per-unit intervals.
 #include <doctest/doctest.h>
 
+#include <algorithm>
 #include <cmath>
 #include <string>
 #include <vector>
@@ -128,6 +129,17 @@ TEST_CASE("unit_figures.hand_worked_two_wards") {
     CHECK(*busy_b.night_mean == doctest::Approx(1.3));
     CHECK(*busy_b.night_p90 == doctest::Approx(5.0));
     CHECK(*busy_b.night_max == doctest::Approx(5.0));
+    // All 20 shifts on B (ten days, ten nights), sorted: 0 x 16, 1 (the day
+    // page), 3, 5, 5: mean 14/20; 90th percentile at 0.9 x 19 = 17.1:
+    // 3 + 0.1 x (5 - 3) = 3.2; worst 5.
+    CHECK(*busy_b.shift_mean == doctest::Approx(0.7));
+    CHECK(*busy_b.shift_p90 == doctest::Approx(3.2));
+    CHECK(*busy_b.shift_max == doctest::Approx(5.0));
+    // Notices before time zero to patients who went on to the outcome: one
+    // of B's 14 (b-case at 00:30), one of A's 11 (a-case on 4 March).
+    CHECK(*busy_b.notice_ppv == doctest::Approx(1.0 / 14.0));
+    CHECK(*busy_a.notice_ppv == doctest::Approx(1.0 / 11.0));
+    CHECK(*f[0].notice_ppv == doctest::Approx(2.0 / 25.0));
     // Patients per night on B: 2 (b-other and b-case), 1, 1, then seven nights of 0.
     CHECK(*busy_b.patients_per_night_mean == doctest::Approx(0.4));
     CHECK(*busy_b.patients_per_night_max == doctest::Approx(2.0));
@@ -185,7 +197,8 @@ TEST_CASE("unit_figures.hand_worked_two_wards") {
         const Table t = plan_unit_summary_table(rows, 0);
         CHECK(t.name == "plan_unit_summary");
         CHECK(t.rows.size() == 4);
-        CHECK(t.columns[3] == "per_unit_night_mean");
+        CHECK(t.columns[2] == "notices");
+        CHECK(std::find(t.columns.begin(), t.columns.end(), "per_unit_night_p90") != t.columns.end());
         CHECK(std::get<std::int64_t>(t.rows[1][2]) == 14);  // busy-ward on B
     }
 }
