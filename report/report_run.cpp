@@ -85,6 +85,16 @@ std::string budget_sentence(const RunOutput& out, const Metric& budget, const Me
     return s;
 }
 
+// A replayed log's wards are known only once it is read; a generated
+// population's are named, with their beds, in its description.
+void add_logged_wards(ReportInput& in, const Scenario& sc, const PopulationSummary& pop) {
+    if (sc.population.source != PopulationSource::replay || pop.unit_names.empty()) return;
+    std::string line = pop.unit_names.size() == 1 ? "Ward in the log: " : "Wards in the log: ";
+    for (std::size_t i = 0; i < pop.unit_names.size(); ++i)
+        line += (i == 0 ? "" : i + 1 == pop.unit_names.size() ? " and " : ", ") + pop.unit_names[i];
+    in.assumptions.push_back(line + ".");
+}
+
 // Rows a dirty log lost under bad_rows: skip change every figure, so the
 // report says so where it states what the figures rest on.
 void add_skipped_rows(ReportInput& in, const std::vector<Exclusion>& exclusions) {
@@ -219,6 +229,7 @@ ReportInput report_input_for_run(const Scenario& sc, const RunOutput& out, const
     in.question = sc.description;
     in.key_findings = plan_warning_lines(out.warnings);  // first, where a reader starts
     in.assumptions = assumptions_of(sc);
+    add_logged_wards(in, sc, out.first_replication.population);
     add_skipped_rows(in, out.first_replication.exclusions);
     for (const Metric& m : plan_metrics()) in.column_labels[std::string(m.name)] = std::string(m.label);
     in.column_labels["plan"] = "Plan";

@@ -68,3 +68,17 @@ TEST_CASE("report_run.demo") {
 TEST_CASE("report_run.same_bytes_whatever_the_threads") {
     CHECK(demo_report(1, std::nullopt) == demo_report(2, std::nullopt));
 }
+
+TEST_CASE("report_run.replay_names_its_wards") {
+    // A replayed log's wards are known only once it is read: the assumptions
+    // name them, and the per-ward section shows each plan on each.
+    Scenario sc = load_scenario(std::string(TOCSIN_SOURCE_DIR) + "/scenarios/fernhollow-replay.yaml");
+    RunSettings settings;
+    settings.evaluate = false;
+    const RunOutput out = run_scenario(sc, population_factory(sc.population), settings);
+    const std::string page = render_report(report_input_for_run(sc, out, settings));
+    CHECK(page.find("<li>Wards in the log: 4 North medicine, 5 South surgery and 6 East older adults.</li>") !=
+          std::string::npos);
+    CHECK(page.find("<section id=\"per-ward\"") != std::string::npos);
+    CHECK(page.find("<th scope=\"row\">6 East older adults</th>") != std::string::npos);
+}
