@@ -8,6 +8,8 @@
 #include <vector>
 
 #include "analysis/channel_burden.hpp"
+#include "analysis/plan_figures.hpp"
+#include "analysis/unit_figures.hpp"
 #include "analysis/reporting.hpp"
 #include "analysis/workload.hpp"
 #include "models/chart_openings.hpp"
@@ -18,45 +20,11 @@
 
 namespace tocsin {
 
-struct PlanFigures {
-    std::int64_t notices = 0;
-    std::int64_t notices_first = 0, notices_repeat = 0, notices_rise = 0;
-    // Per unit-shift over the reporting shifts (every unit x shift, zeros included).
-    double per_unit_shift_mean = 0, per_unit_shift_p90 = 0, per_unit_shift_max = 0;
-    std::optional<double> per_unit_night_mean, per_unit_night_p90, per_unit_night_max;
-    // Distinct encounters with at least one notice, per unit x reporting night shift.
-    std::optional<double> patients_per_unit_night_mean, patients_per_unit_night_p90, patients_per_unit_night_max;
-    // Over the whole run, as `notices`: the share of notices sent before time zero
-    // to patients who went on to the outcome, and of the patients noticed at
-    // least once, the share who went on to it. Nothing when there was no notice.
-    std::optional<double> notice_ppv, patient_ppv;
-    std::int64_t cases = 0, caught = 0, missed = 0;
-    std::int64_t evaluated_non_cases = 0;  // encounters without the outcome that had an evaluation
-    std::optional<double> sensitivity;
-    std::optional<double> lead_median_hours, lead_q1_hours, lead_q3_hours;
-    std::optional<double> notices_per_catch;
-    // With staff, catches and lead count from evaluation starts;
-    // these say what the notices alone would have caught, had evaluation been instant.
-    std::int64_t evaluations = 0;  // tasks started (= notices without staff)
-    std::int64_t caught_by_notice = 0;
-    std::optional<double> lead_from_notice_median_hours;
-    std::optional<double> wait_median_minutes, wait_p90_minutes;  // notice to evaluation start
-    std::optional<std::int64_t> never_taken_up;
-    std::vector<std::int64_t> unit_shift_counts;  // unit-major: [unit * shifts + k]
-};
-
-// First instant, per encounter, of a catching action; nothing when not caught.
-// `action_at` lists (encounter, instant) pairs in any order.
-std::vector<std::optional<Instant>> first_catch(const AnalysisSettings& settings, const Population& population,
-                                                const std::vector<std::pair<std::uint32_t, Instant>>& actions);
-
-PlanFigures plan_figures(const AnalysisSettings& settings, const Population& population, const ShiftCalendar& calendar,
-                         const ReportingShifts& reporting, const PlanRecord& record);
-
 // The population a run used, in summary (the population itself is not kept:
 // a replayed year holds tens of millions of scores).
 struct PopulationSummary {
     std::size_t encounters = 0, units = 0, scores = 0;
+    std::vector<std::string> unit_names;  // in the population's order
     std::int64_t cases = 0;  // encounters with the outcome
     std::size_t reporting_shifts = 0;
     Instant from = 0, until = 0;  // the reporting period
@@ -118,6 +86,7 @@ struct ReplicationResults {
     std::uint64_t replication = 0;
     PopulationSummary population;
     std::vector<PlanResult> plans;
+    std::vector<UnitFigures> units;  // every plan on every unit (analysis/unit_figures.hpp)
     std::vector<UnitShiftNotices> unit_shift_notices;
     std::vector<Exclusion> exclusions;
     std::optional<std::vector<LoggedNotice>> notice_log;  // opt-in: holds encounter ids

@@ -117,6 +117,30 @@ std::vector<RoleWorkload> staff_workload(std::span<const PlanStaffRun> runs, con
     return out;
 }
 
+std::vector<std::vector<double>> unit_team_minutes(const PlanStaffRun& pr, const ShiftCalendar& calendar,
+                                                   const ReportPeriod& period) {
+    const StaffModel& model = *pr.model;
+    const auto& shifts = calendar.shifts();
+    std::size_t n_shifts = 0;
+    while (n_shifts < shifts.size() && shifts[n_shifts].start < pr.run->until) ++n_shifts;
+    std::vector<std::vector<double>> minutes;
+    const EscalationPath path = escalation_path(model.escalation, pr.settings.first_role);
+    for (std::uint32_t role_index : path.roles) {
+        if (!model.roles[role_index].per_unit) continue;
+        const RoleTasks tasks = role_tasks(pr, path, role_index, calendar, n_shifts, period);
+        if (minutes.empty()) minutes.assign(model.unit_count, {});
+        for (std::size_t unit = 0; unit < model.unit_count; ++unit) {
+            std::size_t k = 0;  // position among the complete shifts, as add_roster_figures counts them
+            for (std::size_t s = 0; s < n_shifts; ++s) {
+                if (shifts[s].start < period.from || shifts[s].end > period.until) continue;
+                if (minutes[unit].size() <= k) minutes[unit].push_back(0.0);
+                minutes[unit][k++] += tasks.busy[unit * n_shifts + s] / 60.0;
+            }
+        }
+    }
+    return minutes;
+}
+
 std::vector<EscalationCount> escalations(std::span<const PlanStaffRun> runs, const ReportPeriod& period) {
     std::vector<EscalationCount> out;
     for (const PlanStaffRun& pr : runs) {

@@ -58,6 +58,14 @@ struct RoleWorkload {
 std::vector<RoleWorkload> staff_workload(std::span<const PlanStaffRun> runs, const ShiftCalendar& calendar,
                                          const ReportPeriod& period = {});
 
+// Minutes worked by a plan's unit teams (the roles on its escalation path with
+// one team per unit), summed over those roles, for each unit and each complete
+// shift of the period: result[unit][k], one value per such shift, zeros
+// included. Empty when no role on the path works per unit. Minutes count in
+// the shift they were worked in, as staff_minutes_per_shift_* do.
+std::vector<std::vector<double>> unit_team_minutes(const PlanStaffRun& run, const ShiftCalendar& calendar,
+                                                   const ReportPeriod& period = {});
+
 // Tasks that followed one escalation edge of a plan's path.
 struct EscalationCount {
     std::string plan, from_role, to_role;

@@ -52,7 +52,7 @@ struct RunOptions {
     // cli/option_specs.hpp) before anything runs. Empty = not given.
     std::string replications;
     std::string max_burden;
-    std::string budget_metric = "per_unit_night_p90";
+    std::string budget_metric = "worst_unit_night_p90";
     std::string burden_metric = "per_unit_night_mean";
     std::string benefit_metric = "caught";
     std::string report_path;
@@ -79,7 +79,7 @@ void add_run_options(CLI::App* cmd, RunOptions& o) {
     cmd->add_option("-j,--threads", o.threads, "Worker threads (default: all cores); results do not depend on it");
     cmd->add_option("-r,--replications", o.replications, "Replications (default: the scenario's `replications`)");
     cmd->add_option("--max-burden", o.max_burden, "Budget question: best plan whose mean --budget-metric is at most this");
-    cmd->add_option("--budget-metric", o.budget_metric, "Burden the budget limits (default per_unit_night_p90)");
+    cmd->add_option("--budget-metric", o.budget_metric, "Burden the budget limits (default worst_unit_night_p90: the worst ward decides)");
     cmd->add_option("--burden", o.burden_metric, "Burden axis of the frontier (default per_unit_night_mean)");
     cmd->add_option("--benefit", o.benefit_metric, "Benefit axis of the frontier and budget (default caught)");
 }

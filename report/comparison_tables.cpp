@@ -191,6 +191,9 @@ std::string budget_text(const ReplicatedFigures& f, const BudgetAnswer& a, std::
     const Metric& bm = plan_metrics()[burden];
     const Metric& gm = plan_metrics()[benefit];
     o << "Budget: " << bm.label << " at most " << format_real(limit, 3) << " (mean over replications).\n";
+    if (bm.name.rfind("worst_unit", 0) == 0)
+        o << "Per ward: the worst ward decides (--budget-metric " << (bm.name == "worst_unit_night_p90" ? "per_unit_night_p90" : "per_unit_night_mean")
+          << " pools the wards).\n";
     for (std::size_t p = 0; p < f.plans.size(); ++p) {
         const bool in = std::find(a.within.begin(), a.within.end(), p) != a.within.end();
         o << "  " << (in ? "within " : "over   ") << f.plans[p] << ": " << with_interval(mean_interval(f.of(p, burden)), 2)

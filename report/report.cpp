@@ -353,6 +353,10 @@ std::vector<Section> report_sections(const ReportInput& in) {
     HtmlTableOptions table_options;
     table_options.column_labels = in.column_labels;
     if (given(in.comparison) || given(in.differences)) sections.push_back(comparison_section(in, table_options));
+    if (given(in.per_ward))
+        sections.push_back({"per-ward", "Per ward",
+                            paragraph(in.per_ward_intro) + html_table(*in.per_ward, table_options) +
+                                paragraph(in.per_ward_note, "note")});
     if (!in.frontier.empty()) sections.push_back(frontier_section(in));
     if (!in.burden_per_night.empty()) sections.push_back(burden_section(in));
     if (!in.lead_times_hours.empty() || !in.lead_times_from_evaluation_hours.empty())

@@ -77,6 +77,10 @@ struct ReportInput {
     std::string budget_answer;             // plain-word answer to the budget question, if asked
     std::vector<ReportFrontierPoint> frontier;
 
+    // Each plan on each ward, interval columns as in `comparison`.
+    std::optional<Table> per_ward;
+    std::string per_ward_intro, per_ward_note;
+
     std::vector<PlanSeries> burden_per_night;
     std::string burden_per_night_label = "notices per unit per night";
     std::string burden_note;               // what one value is, e.g. "one unit-night of one replication"

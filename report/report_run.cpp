@@ -13,6 +13,7 @@
 #include "report/html.hpp"
 #include "report/run_tables.hpp"
 #include "report/run_text.hpp"
+#include "report/unit_tables.hpp"
 
 namespace tocsin {
 
@@ -67,6 +68,7 @@ std::string budget_sentence(const RunOutput& out, const Metric& budget, const Me
     const ReplicatedFigures& f = out.figures;
     std::string s = "Budget: " + std::string(budget.label) + " at most " + format_for_people(limit) +
                     " (mean over replications). ";
+    if (budget.name.rfind("worst_unit", 0) == 0) s += "The worst ward decides. ";
     if (!a.best) return s + "No plan keeps within it.";
     const MeanInterval gain = mean_interval(f.of(*a.best, metric_index(benefit)));
     s += "Best within the budget: " + f.plans[*a.best] + ", with " + format_for_people(gain.mean) + " " +
@@ -84,6 +86,16 @@ std::string budget_sentence(const RunOutput& out, const Metric& budget, const Me
     return s;
 }
 
+// A replayed log's wards are known only once it is read; a generated
+// population's are named, with their beds, in its description.
+void add_logged_wards(ReportInput& in, const Scenario& sc, const PopulationSummary& pop) {
+    if (sc.population.source != PopulationSource::replay || pop.unit_names.empty()) return;
+    std::string line = pop.unit_names.size() == 1 ? "Ward in the log: " : "Wards in the log: ";
+    for (std::size_t i = 0; i < pop.unit_names.size(); ++i)
+        line += (i == 0 ? "" : i + 1 == pop.unit_names.size() ? " and " : ", ") + pop.unit_names[i];
+    in.assumptions.push_back(line + ".");
+}
+
 // Rows a dirty log lost under bad_rows: skip change every figure, so the
 // report says so where it states what the figures rest on.
 void add_skipped_rows(ReportInput& in, const std::vector<Exclusion>& exclusions) {
@@ -93,12 +105,13 @@ void add_skipped_rows(ReportInput& in, const std::vector<Exclusion>& exclusions)
                                      (e.count == 1 ? " row, " : " rows, ") + exclusion_reason(e) + ".");
 }
 
-// The figures the comparison shows: the usual ones, then the frontier's axes.
-std::vector<std::size_t> compared_metrics(const Metric* burden, const Metric* benefit) {
+// The figures the comparison shows: the usual ones, then the frontier's axes
+// and the figure the budget limits (the worst ward's, by default).
+std::vector<std::size_t> compared_metrics(const Metric* burden, const Metric* benefit, const Metric* budget) {
     std::vector<std::size_t> metrics;
     for (const std::string& name : shown_metrics)
         if (const Metric* m = find_metric(name)) metrics.push_back(metric_index(*m));
-    for (const Metric* m : {burden, benefit})
+    for (const Metric* m : {burden, benefit, budget})
         if (m && std::find(metrics.begin(), metrics.end(), metric_index(*m)) == metrics.end())
             metrics.push_back(metric_index(*m));
     return metrics;
@@ -159,6 +172,29 @@ void add_lead_times(ReportInput& in, const ReplicatedFigures& f, bool with_staff
     in.lead_time_note = "One value is the median lead time of the caught cases in one replication.";
 }
 
+// Each plan on each ward, when there is more than one: a pooled percentile can
+// sit below one busy ward's own.
+void add_per_ward(ReportInput& in, const ReplicatedUnitFigures& f, const Metric* budget) {
+    if (f.units.size() < 2) return;
+    in.per_ward = per_ward_table(f);
+    in.per_ward->title = "Each plan on each ward";
+    std::string wards;
+    for (std::size_t i = 0; i < f.units.size(); ++i)
+        wards += (i == 0 ? "" : i + 1 == f.units.size() ? " and " : ", ") + f.units[i];
+    in.per_ward_intro = "The wards: " + wards + ". Each row is one plan on one ward: notices per night on that "
+                        "ward, and that ward's own patients with the outcome, how many were caught and how early. "
+                        "A figure pooled over wards can hide a busy ward among quiet ones.";
+    if (budget && budget->name.rfind("worst_unit", 0) == 0)
+        in.per_ward_intro += " The budget question is decided by the worst ward: a plan is within the budget only when "
+                             "every ward is.";
+    in.per_ward_note = f.replications > 1 ? "Brackets: 95% confidence interval of the mean over the " +
+                                                std::to_string(f.replications) + " replications, as above."
+                                          : "One replication: no interval.";
+    in.column_labels["unit"] = "Ward";
+    for (const UnitMetric& m : unit_metrics())
+        if (!in.column_labels.count(std::string(m.name))) in.column_labels[std::string(m.name)] = std::string(m.label);
+}
+
 void add_staff(ReportInput& in, const std::vector<RoleWorkload>& workload) {
     Table t;
     t.name = "staff_workload";
@@ -197,6 +233,7 @@ ReportInput report_input_for_run(const Scenario& sc, const RunOutput& out, const
     in.question = sc.description;
     in.key_findings = plan_warning_lines(out.warnings);  // first, where a reader starts
     in.assumptions = assumptions_of(sc);
+    add_logged_wards(in, sc, out.first_replication.population);
     add_skipped_rows(in, out.first_replication.exclusions);
     for (const Metric& m : plan_metrics()) in.column_labels[std::string(m.name)] = std::string(m.label);
     in.column_labels["plan"] = "Plan";
@@ -206,16 +243,18 @@ ReportInput report_input_for_run(const Scenario& sc, const RunOutput& out, const
     const Metric* benefit = find_metric(settings.benefit_metric);
     const TableBases basis = table_bases(sc.population, out.first_replication.population, f.replications,
                                          sc.simulation.zone);
-    add_comparison(in, f, compared_metrics(burden, benefit));
+    const Metric* budget = find_metric(settings.budget_metric);
+    add_comparison(in, f, compared_metrics(burden, benefit, settings.budget_limit ? budget : nullptr));
     in.comparison.basis = basis.replications;
     if (in.differences) in.differences->basis = basis.replications;
     if (burden && benefit) add_frontier(in, f, *burden, *benefit);
-    const Metric* budget = find_metric(settings.budget_metric);
     if (settings.budget_limit && budget && benefit && out.budget) {
         in.budget_answer = budget_sentence(out, *budget, *benefit, *settings.budget_limit);
         if (budget == burden) in.burden_limit = settings.budget_limit;
-        if (budget->name.rfind("per_unit_night", 0) == 0) in.per_night_limit = settings.budget_limit;
+        if (budget->name.rfind("per_unit_night", 0) == 0 || budget->name.rfind("worst_unit_night", 0) == 0)
+            in.per_night_limit = settings.budget_limit;
     }
+    add_per_ward(in, out.unit_figures, settings.budget_limit ? budget : nullptr);
     add_burden_per_night(in, out.first_replication, f.plans);
     const bool with_staff = out.first_replication.staff.has_value();
     add_lead_times(in, f, with_staff);

@@ -7,6 +7,7 @@
 #include "report/comparison_tables.hpp"
 #include "report/evaluation_tables.hpp"
 #include "report/run_tables.hpp"
+#include "report/unit_tables.hpp"
 
 namespace tocsin {
 
@@ -34,6 +35,7 @@ std::vector<OutputFile> run_output_files(const Scenario& sc, const RunOutput& ou
     };
     RunTables t = run_tables(out.first_replication, sc.simulation.zone);
     add(std::move(t.plan_summary), basis.first);
+    add(std::move(t.plan_unit_summary), basis.first);
     add(std::move(t.unit_shift_notices), basis.first_shifts);
     add(std::move(t.exclusions), basis.input);
     add(std::move(t.channel_burden), basis.first);
@@ -43,6 +45,7 @@ std::vector<OutputFile> run_output_files(const Scenario& sc, const RunOutput& ou
     add(std::move(comparison.comparison), basis.replications);
     add(std::move(comparison.differences), basis.replications);
     add(std::move(comparison.replication_figures), basis.replications);
+    add(plan_unit_comparison_table(out.unit_figures), basis.replications);
     add(frontier_table(out.figures, metric_index(*find_metric(settings.burden_metric)),
                        metric_index(*find_metric(settings.benefit_metric))),
         basis.replications);

@@ -1,6 +1,7 @@
 #include "report/run_tables.hpp"
 
 #include "report/cells.hpp"
+#include "report/unit_tables.hpp"
 #include "sim/notice.hpp"
 
 namespace tocsin {
@@ -12,7 +13,7 @@ Table plan_summary_table(const ReplicationResults& results) {
     t.columns = {"plan", "channel", "notices", "first", "repeat", "rise",
                  "per_unit_shift_mean", "per_unit_shift_p90", "per_unit_shift_max",
                  "per_unit_night_mean", "per_unit_night_p90", "per_unit_night_max",
-                 "cases", "caught", "missed", "sensitivity",
+                 "worst_unit_night_mean", "worst_unit_night_p90", "cases", "caught", "missed", "sensitivity",
                  "lead_median_h", "lead_q1_h", "lead_q3_h", "notices_per_catch",
                  "evaluations", "caught_by_notice", "lead_from_notice_median_h",
                  "wait_median_min", "wait_p90_min", "never_taken_up",
@@ -22,7 +23,8 @@ Table plan_summary_table(const ReplicationResults& results) {
         const PlanFigures& f = p.figures;
         t.add_row({p.plan, std::string(to_string(p.channel)), f.notices, f.notices_first, f.notices_repeat,
                    f.notices_rise, f.per_unit_shift_mean, f.per_unit_shift_p90, f.per_unit_shift_max,
-                   cell_or_empty(f.per_unit_night_mean), cell_or_empty(f.per_unit_night_p90), cell_or_empty(f.per_unit_night_max), f.cases, f.caught,
+                   cell_or_empty(f.per_unit_night_mean), cell_or_empty(f.per_unit_night_p90), cell_or_empty(f.per_unit_night_max),
+                   cell_or_empty(f.worst_unit_night_mean), cell_or_empty(f.worst_unit_night_p90), f.cases, f.caught,
                    f.missed, cell_or_empty(f.sensitivity), cell_or_empty(f.lead_median_hours), cell_or_empty(f.lead_q1_hours), cell_or_empty(f.lead_q3_hours),
                    cell_or_empty(f.notices_per_catch), f.evaluations, f.caught_by_notice, cell_or_empty(f.lead_from_notice_median_hours),
                    cell_or_empty(f.wait_median_minutes), cell_or_empty(f.wait_p90_minutes), cell_or_empty(f.never_taken_up),
@@ -174,6 +176,7 @@ Table chart_interruptions_table(const std::vector<ChartInterruptionCount>& count
 RunTables run_tables(const ReplicationResults& r, const TimeZone& zone) {
     RunTables t;
     t.plan_summary = plan_summary_table(r);
+    t.plan_unit_summary = plan_unit_summary_table(r.units, r.replication);
     t.unit_shift_notices = unit_shift_notices_table(r, zone);
     t.exclusions = exclusions_table(r.exclusions);
     t.channel_burden = channel_burden_table(r.channels.burden);

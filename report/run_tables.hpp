@@ -12,6 +12,7 @@ namespace tocsin {
 
 struct RunTables {
     Table plan_summary;
+    Table plan_unit_summary;   // every plan on every unit (report/unit_tables.hpp)
     Table unit_shift_notices;  // the data behind the per-shift distributions
     Table exclusions;
     std::optional<Table> notice_log;  // opt-in: holds encounter ids

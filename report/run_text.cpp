@@ -8,6 +8,7 @@
 #include "report/comparison_tables.hpp"
 #include "report/evaluation_tables.hpp"
 #include "report/run_tables.hpp"
+#include "report/unit_tables.hpp"
 
 namespace tocsin {
 
@@ -86,8 +87,9 @@ std::string run_header_text(const std::string& title, const TimeZone& zone, cons
                             const std::vector<Exclusion>& exclusions) {
     std::ostringstream o;
     o << title << "\n";
-    o << "Population: " << pop.encounters << " encounters on " << pop.units << " units, " << pop.cases
-      << " with the outcome, " << pop.scores << " usable scores.\n";
+    o << "Population: " << pop.encounters << " encounters on " << pop.units << (pop.units == 1 ? " unit" : " units");
+    for (std::size_t u = 0; u < pop.unit_names.size(); ++u) o << (u ? ", " : " (") << pop.unit_names[u];
+    o << (pop.unit_names.empty() ? "" : ")") << ", " << pop.cases << " with the outcome, " << pop.scores << " usable scores.\n";
     o << "Per-shift figures cover " << pop.reporting_shifts << " complete shifts from " << format_local(pop.from, zone)
       << " to " << format_local(pop.until, zone) << ".\n";
     if (exclusions.empty()) o << "Nothing was excluded.\n";
@@ -152,6 +154,7 @@ std::string run_text(const Scenario& sc, const RunOutput& out, const RunSettings
     if (!out.warnings.empty()) text += "\n";
     if (sc.replications > 1) text += comparison_text(out.figures);
     else text += plan_summary_text(out.first_replication);
+    if (const std::string wards = per_ward_text(out.unit_figures); !wards.empty()) text += "\n" + wards;
     if (out.evaluation) text += "\nThe score on the same population (replication 0):\n" + evaluation_summary(*out.evaluation);
     if (sc.simulation.plans.size() > 2) text += "\n" + frontier_text(out.figures, burden, benefit);
     if (out.budget)

@@ -63,10 +63,12 @@ std::string bootstrap_line(const BootstrapConfig& b) {
 
 std::string generated_line(const PopulationSetup& pop, const TimeZone& zone) {
     const GeneratorConfig& g = pop.generator;
-    int beds = 0;
-    for (const UnitConfig& u : g.units) beds += u.beds;
-    std::string out = "Population: generated, " + std::to_string(g.units.size()) + " units with " + std::to_string(beds) +
-                      " beds, " + format_local(g.period_start, zone) + " to " + format_local(g.period_end, zone) +
+    // Each ward by name with its beds: a committee reads its own wards, not a total.
+    std::string wards;
+    for (std::size_t i = 0; i < g.units.size(); ++i)
+        wards += (i ? "; " : "") + g.units[i].name + ", " + std::to_string(g.units[i].beds) + " beds";
+    std::string out = "Population: generated, " + std::to_string(g.units.size()) +
+                      (g.units.size() == 1 ? " unit (" : " units (") + wards + "), " + format_local(g.period_start, zone) + " to " + format_local(g.period_end, zone) +
                       "; outcome in " + num(100 * g.outcome.probability) + " % of stays; scores every " +
                       num(g.scores.cadence_minutes) + " min";
     if (pop.target_auc) out += "; rise before time zero calibrated to an encounter-level AUC of " + num(*pop.target_auc);

@@ -19,6 +19,7 @@ const Metric& metric_named(const std::string& name) {
 // What each replication leaves behind: its plans' figures, and the logs when asked.
 struct ReplicationsKept {
     std::vector<std::vector<PlanFigures>> figures;
+    std::vector<std::vector<UnitFigures>> unit_figures;
     std::vector<std::vector<LoggedNotice>> notice_logs;
     std::vector<std::vector<LoggedTask>> task_logs;
     ScoreSample first_scores;  // replication 0's, for the plans' thresholds
@@ -42,6 +43,7 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
     RunOutput out;
     ReplicationsKept kept;
     kept.figures.resize(sc.replications);
+    kept.unit_figures.resize(sc.replications);
     kept.notice_logs.resize(sc.replications);
     kept.task_logs.resize(sc.replications);
     ExperimentOptions options;
@@ -54,6 +56,7 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
                        const ReportingShifts rep = reporting_shifts(sc.analysis, pop, cal);
                        for (const PlanRecord& plan : rec.plans)
                            kept.figures[r].push_back(plan_figures(sc.analysis, pop, cal, rep, plan));
+                       kept.unit_figures[r] = unit_figures(sc.simulation, sc.analysis, pop, cal, rep, rec, kept.figures[r]);
                        if (r == 0) kept.first_scores = observed_scores(pop);  // read after every replication ends
                        if (r != 0 && !settings.notice_log && !settings.task_log) return;
                        ReplicationResults results = replication_results(sc.simulation, sc.analysis, pop, cal, rec,
@@ -81,6 +84,7 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
     out.warnings = plan_warnings(sc.simulation.plans, kept.first_scores, kept.figures[0]);
     out.figures = collect_figures(names, kept.figures);
     out.figures.first_is_log = replication_zero_is_the_log(sc.population);
+    out.unit_figures = collect_unit_figures(names, kept.unit_figures);
     if (limited)
         out.budget = best_within_budget(out.figures, metric_index(*limited), *settings.budget_limit, metric_index(benefit));
     return out;

@@ -24,9 +24,11 @@ struct RunSettings {
     ProgressReport progress;          // may be empty
     std::string burden_metric = "per_unit_night_mean";
     std::string benefit_metric = "caught";
-    // The budget question: the best plan whose mean `budget_metric` is within the limit.
+    // The budget question: the best plan whose mean `budget_metric` is within
+    // the limit. By default per ward: the worst ward's own 90th percentile of
+    // notices per night decides ("no ward over 4 on 9 nights in 10").
     std::optional<double> budget_limit;
-    std::string budget_metric = "per_unit_night_p90";
+    std::string budget_metric = "worst_unit_night_p90";
     bool evaluate = true;  // model-evaluation measures on replication 0's population
 };
 
@@ -36,6 +38,7 @@ struct RunOutput {
     // year holds tens of millions of scores.
     ReplicationResults first_replication;
     ReplicatedFigures figures;            // every plan's figures in every replication
+    ReplicatedUnitFigures unit_figures;   // every plan's figures on every unit in every replication
     std::vector<PlanNetBenefit> plan_net_benefit;  // replication 0, an evaluation as the intervention
     std::optional<BudgetAnswer> budget;   // when a budget limit was given
     std::optional<Evaluation> evaluation;  // on replication 0's population

@@ -16,6 +16,7 @@
 #include "study/run.hpp"
 #include "report/comparison_tables.hpp"
 #include "report/run_tables.hpp"
+#include "report/unit_tables.hpp"
 #include "models/population_source.hpp"
 #include "study/sweep.hpp"
 #include "test_support.hpp"
@@ -68,7 +69,8 @@ RowsByPlan rows_by_plan(const RunWithZone& run) {
     const RunTables t = run_tables(out.first_replication, run.zone);
     const ComparisonTables comparison = comparison_tables(out.figures);
     const Table net_benefit = plan_net_benefit_table(out.plan_net_benefit);
-    std::vector<const Table*> tables = {&t.plan_summary, &t.unit_shift_notices, &t.channel_burden, &t.rounds,
+    const Table unit_comparison = plan_unit_comparison_table(out.unit_figures);
+    std::vector<const Table*> tables = {&t.plan_summary, &t.plan_unit_summary, &unit_comparison, &t.unit_shift_notices, &t.channel_burden, &t.rounds,
                                         &t.chart_interruptions, &comparison.comparison,
                                         &comparison.replication_figures, &net_benefit};
     for (const auto* opt : {&t.notice_log, &t.staff_workload, &t.staff_escalations, &t.task_fates, &t.task_log})

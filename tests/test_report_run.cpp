@@ -26,7 +26,7 @@ std::string demo_report(unsigned threads, std::optional<double> budget) {
 
 TEST_CASE("report_run.demo") {
     const std::string page = demo_report(1, 4.0);
-    for (const char* id : {"question", "assumptions", "comparison", "frontier", "burden", "lead-times", "staff", "run"}) {
+    for (const char* id : {"question", "assumptions", "comparison", "per-ward", "frontier", "burden", "lead-times", "staff", "run"}) {
         CAPTURE(id);
         CHECK(page.find("<section id=\"" + std::string(id) + "\"") != std::string::npos);
     }
@@ -38,6 +38,13 @@ TEST_CASE("report_run.demo") {
     // No model-evaluation measures in a run yet.
     CHECK(page.find("<section id=\"evaluation\"") == std::string::npos);
     CHECK(page.find("Fernhollow District Hospital") != std::string::npos);
+    // The wards by name: with their beds among the assumptions, and heading the per-ward section, where
+    // the worst ward decides the budget question.
+    CHECK(page.find("3 units (4 North medicine, 26 beds; 5 South surgery, 22 beds; 6 East older adults, 20 beds)") !=
+          std::string::npos);
+    CHECK(page.find("The wards: 4 North medicine, 5 South surgery and 6 East older adults.") != std::string::npos);
+    CHECK(page.find("decided by the worst ward") != std::string::npos);
+    CHECK(page.find(">Ward</th>") != std::string::npos);
     CHECK(page.find("Time zone: America/Chicago") != std::string::npos);
     // Items of the scenario's lists carry their kind; indented details join their item.
     CHECK(page.find("<li>Plan page-70: page to rapid response nurse when deterioration score &gt;= 70; snooze 4 h. "
@@ -49,7 +56,7 @@ TEST_CASE("report_run.demo") {
     // 30 November): 168 unit-nights per plan in the burden chart's n column.
     CHECK(page.find(" \xC2\xB7 168</text>") != std::string::npos);
     // The budget question is answered in words and drawn on the per-night chart
-    // (the budget limits per_unit_night_p90; the frontier's axis is the mean).
+    // (the budget limits worst_unit_night_p90, unit-nights too; the frontier's axis is the pooled mean).
     CHECK(page.find("Best within the budget: page-55-twice") != std::string::npos);
     CHECK(page.find("marks the budget of 4.") != std::string::npos);
     CHECK(page.find("Paired differences from page-70") != std::string::npos);
@@ -60,4 +67,18 @@ TEST_CASE("report_run.demo") {
 
 TEST_CASE("report_run.same_bytes_whatever_the_threads") {
     CHECK(demo_report(1, std::nullopt) == demo_report(2, std::nullopt));
+}
+
+TEST_CASE("report_run.replay_names_its_wards") {
+    // A replayed log's wards are known only once it is read: the assumptions
+    // name them, and the per-ward section shows each plan on each.
+    Scenario sc = load_scenario(std::string(TOCSIN_SOURCE_DIR) + "/scenarios/fernhollow-replay.yaml");
+    RunSettings settings;
+    settings.evaluate = false;
+    const RunOutput out = run_scenario(sc, population_factory(sc.population), settings);
+    const std::string page = render_report(report_input_for_run(sc, out, settings));
+    CHECK(page.find("<li>Wards in the log: 4 North medicine, 5 South surgery and 6 East older adults.</li>") !=
+          std::string::npos);
+    CHECK(page.find("<section id=\"per-ward\"") != std::string::npos);
+    CHECK(page.find("<th scope=\"row\">6 East older adults</th>") != std::string::npos);
 }
