@@ -201,6 +201,40 @@ PlanFigures plan_figures(const AnalysisSettings& settings, const Population& pop
     return f;
 }
 
+void add_plan_burdens(PlanFigures& f, const SimulationSetup& setup, const Population& pop, const ShiftCalendar& cal,
+                      const ReportingShifts& rep, const Plan& plan, const PlanRecord& record) {
+    const ChannelBurden own = channel_burden(setup, pop, cal, rep, plan, record);
+    if (!own.values.empty()) {
+        std::vector<double> v = own.values;
+        std::sort(v.begin(), v.end());
+        f.channel_burden_mean = mean(v);
+        f.channel_burden_p90 = quantile_sorted(v, 0.9);
+    }
+    const double unit_shifts = static_cast<double>(pop.units.size() * rep.shifts.size());
+    if (unit_shifts == 0) return;
+    auto in_period = [&](Instant at) { return at >= rep.from && at < rep.until; };
+    double delivered = 0, evaluations = 0;
+    for (const Notice& n : record.notices)
+        if (in_period(n.at)) {
+            delivered += 1;
+            evaluations += n.asks_evaluation;
+        }
+    double minutes = delivered * delivery_minutes(plan);
+    if (record.staff) {
+        evaluations = 0;
+        for (const TaskRecord& t : record.staff->tasks)
+            if (in_period(t.created) && t.started()) {
+                evaluations += 1;
+                minutes += static_cast<double>(t.service_seconds) / 60.0;
+            }
+    }
+    f.evaluations_per_unit_shift = evaluations / unit_shifts;
+    // Without roles an evaluation has no minutes, so the figure would count a
+    // page as free: it is given only when the staff are simulated. A ranked
+    // review has no role tasks; its reviews' minutes are its delivery.
+    if (setup.has_staff()) f.staff_minutes_per_unit_shift = minutes / unit_shifts;
+}
+
 PopulationSummary population_summary(const Population& pop, const ReportingShifts& rep) {
     PopulationSummary s;
     s.encounters = pop.encounters.size();
@@ -260,8 +294,9 @@ StaffResults staff_results(const SimulationSetup& setup, const Population& pop, 
                            const ReportingShifts& rep, const ReplicationRecord& record, bool with_task_log) {
     const StaffModel model = staff_model(setup, static_cast<std::uint32_t>(pop.units.size()));
     std::vector<PlanStaffRun> runs;
-    for (std::size_t p = 0; p < setup.plans.size(); ++p)
-        runs.push_back({setup.plans[p].name, &model, setup.plans[p].staffing, &*record.plans[p].staff});
+    for (std::size_t p = 0; p < setup.plans.size(); ++p)  // a ranked review has no role tasks (sim/simulate.cpp)
+        if (record.plans[p].staff)
+            runs.push_back({setup.plans[p].name, &model, setup.plans[p].staffing, &*record.plans[p].staff});
     // Same period as the notice counts: tasks created in it, complete shifts inside it.
     const ReportPeriod period{rep.from, rep.until};
     StaffResults s;
@@ -288,6 +323,7 @@ ReplicationResults replication_results(const SimulationSetup& setup, const Analy
     r.population = population_summary(pop, rep);
     for (std::size_t p = 0; p < setup.plans.size(); ++p) {
         PlanResult plan{setup.plans[p].name, setup.plans[p].channel, plan_figures(settings, pop, cal, rep, record.plans[p])};
+        add_plan_burdens(plan.figures, setup, pop, cal, rep, setup.plans[p], record.plans[p]);
         add_unit_shift_notices(r.unit_shift_notices, plan.plan, plan.figures, pop, cal, rep);
         r.plans.push_back(std::move(plan));
     }

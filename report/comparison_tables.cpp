@@ -79,15 +79,63 @@ Table differences_by_plan(const ReplicatedFigures& f, const std::vector<std::siz
     return t;
 }
 
+namespace {
+// "page plans", or "all plans" when every plan is ranked together.
+std::string group_name(const ComparisonGroup& g) {
+    return g.channel ? std::string(to_string(*g.channel)) + " plans" : std::string("all plans");
+}
+}  // namespace
+
+std::string comparison_basis_text(const ReplicatedFigures& f, std::size_t burden) {
+    const auto groups = comparison_groups(f, burden);
+    const Metric& m = plan_metrics()[burden];
+    if (groups.size() > 1 || groups.front().channel)
+        return "Compared within each channel: " + std::string(m.name) + " (" + std::string(m.label) +
+               ") counts notices, and a notice is a page, a chart interruption, a handoff flag or a review, so plans "
+               "of different channels are not ranked on it. For one ranking across channels choose a "
+               "channel-neutral burden (staff_minutes_per_unit_shift or evaluations_per_unit_shift).";
+    std::vector<Channel> seen;
+    for (Channel c : f.channels)
+        if (std::find(seen.begin(), seen.end(), c) == seen.end()) seen.push_back(c);
+    if (seen.size() > 1)
+        return "Compared across channels on " + std::string(m.name) + " (" + std::string(m.label) +
+               "), a burden that means the same for every channel.";
+    return {};
+}
+
 Table frontier_table(const ReplicatedFigures& f, std::size_t burden, std::size_t benefit) {
     Table t;
     t.name = "frontier";
     t.title = "Trade-off frontier";
-    t.columns = {"plan", "burden_metric", "burden", "benefit_metric", "benefit", "on_frontier"};
+    t.columns = {"plan", "compared_within", "burden_metric", "burden", "benefit_metric", "benefit", "on_frontier"};
+    const auto groups = comparison_groups(f, burden);
     for (const FrontierPoint& p : frontier(f, burden, benefit))
-        t.add_row({f.plans[p.plan], std::string(plan_metrics()[burden].name), finite_or_empty(p.burden),
-                   std::string(plan_metrics()[benefit].name), finite_or_empty(p.benefit),
+        t.add_row({f.plans[p.plan], group_name(groups[p.group]), std::string(plan_metrics()[burden].name),
+                   finite_or_empty(p.burden), std::string(plan_metrics()[benefit].name), finite_or_empty(p.benefit),
                    std::int64_t{p.on_frontier ? 1 : 0}});
+    return t;
+}
+
+Table channel_units_table(const ReplicatedFigures& f, const std::vector<ChannelBurdenSummary>& first) {
+    std::vector<std::size_t> metrics;
+    for (const char* name : {"channel_burden_mean", "channel_burden_p90", "staff_minutes_per_unit_shift",
+                             "evaluations_per_unit_shift"})
+        metrics.push_back(metric_index(*find_metric(name)));
+    Table t;
+    t.name = "channel_units";
+    t.title = "Each channel's burden in its own unit, and the channel-neutral burdens (mean over " +
+              std::to_string(f.replications) + (f.replications == 1 ? " replication)" : " replications, 95% CI)");
+    t.columns = {"plan", "channel", "burden_unit"};
+    for (std::size_t m : metrics) {
+        const std::string metric(plan_metrics()[m].name);
+        t.columns.insert(t.columns.end(), {metric, metric + "_lo", metric + "_hi"});
+    }
+    for (std::size_t p = 0; p < f.plans.size(); ++p) {
+        std::vector<Cell> row{f.plans[p], p < f.channels.size() ? std::string(to_string(f.channels[p])) : std::string(),
+                              p < first.size() ? first[p].burden : std::string()};
+        for (std::size_t m : metrics) add_interval(row, mean_interval(f.of(p, m)));
+        t.add_row(std::move(row));
+    }
     return t;
 }
 
@@ -103,17 +151,22 @@ std::size_t metric_index(std::string_view name) { return metric_index(*find_metr
 }  // namespace
 
 std::string frontier_text(const ReplicatedFigures& f, std::size_t burden, std::size_t benefit) {
-    auto points = frontier(f, burden, benefit);
-    std::vector<FrontierPoint> on;
-    for (const auto& p : points)
-        if (p.on_frontier) on.push_back(p);
-    std::sort(on.begin(), on.end(), [](const FrontierPoint& a, const FrontierPoint& b) { return a.burden < b.burden; });
+    const auto points = frontier(f, burden, benefit);
+    const auto groups = comparison_groups(f, burden);
     std::ostringstream o;
-    o << "Trade-off frontier (" << on.size() << " of " << points.size() << " plans are not beaten on both "
-      << plan_metrics()[burden].name << " and " << plan_metrics()[benefit].name << "):\n";
-    for (const auto& p : on)
-        o << "  " << f.plans[p.plan] << ": " << format_real(p.burden, 2) << " " << plan_metrics()[burden].name << ", "
-          << format_real(p.benefit, 2) << " " << plan_metrics()[benefit].name << "\n";
+    if (const std::string basis = comparison_basis_text(f, burden); !basis.empty()) o << basis << "\n";
+    for (std::size_t g = 0; g < groups.size(); ++g) {
+        std::vector<FrontierPoint> on;
+        for (const auto& p : points)
+            if (p.group == g && p.on_frontier) on.push_back(p);
+        std::sort(on.begin(), on.end(), [](const FrontierPoint& a, const FrontierPoint& b) { return a.burden < b.burden; });
+        o << "Trade-off frontier" << (groups[g].channel ? " of the " + group_name(groups[g]) : std::string()) << " ("
+          << on.size() << " of " << groups[g].plans.size() << " plans are not beaten on both "
+          << plan_metrics()[burden].name << " and " << plan_metrics()[benefit].name << "):\n";
+        for (const auto& p : on)
+            o << "  " << f.plans[p.plan] << ": " << format_real(p.burden, 2) << " " << plan_metrics()[burden].name
+              << ", " << format_real(p.benefit, 2) << " " << plan_metrics()[benefit].name << "\n";
+    }
     return o.str();
 }
 
@@ -147,24 +200,34 @@ std::string comparison_text(const ReplicatedFigures& f, std::size_t ref) {
     return o.str();
 }
 
-std::string budget_text(const ReplicatedFigures& f, const BudgetAnswer& a, std::size_t burden, double limit,
-                        std::size_t benefit) {
+std::string budget_text(const ReplicatedFigures& f, const std::vector<BudgetAnswer>& answers, std::size_t burden,
+                        double limit, std::size_t benefit) {
     std::ostringstream o;
     const Metric& bm = plan_metrics()[burden];
     const Metric& gm = plan_metrics()[benefit];
     o << "Budget: " << bm.label << " at most " << format_real(limit, 3) << " (mean over replications).\n";
-    for (std::size_t p = 0; p < f.plans.size(); ++p) {
-        const bool in = std::find(a.within.begin(), a.within.end(), p) != a.within.end();
-        o << "  " << (in ? "within " : "over   ") << f.plans[p] << ": " << with_interval(mean_interval(f.of(p, burden)), 2)
-          << " " << bm.name << ", within the limit in " << format_real(100 * a.share_within[p], 0)
-          << "% of replications; " << with_interval(mean_interval(f.of(p, benefit)), 1) << " " << gm.name << "\n";
-    }
-    if (!a.best) {
-        o << "No plan keeps " << bm.label << " within " << format_real(limit, 3) << ".\n";
-    } else {
-        o << "Best within the budget: " << f.plans[*a.best] << " (most " << gm.label << "); it had the most "
-          << gm.name << " among the plans within the budget in " << format_real(100 * a.share_best, 0) << "% of "
-          << f.replications << " replications.\n";
+    if (answers.size() > 1 || (!answers.empty() && answers.front().channel))
+        o << comparison_basis_text(f, burden) << "\n";
+    for (const BudgetAnswer& a : answers) {
+        const std::string among = a.channel ? " among the " + std::string(to_string(*a.channel)) + " plans" : "";
+        std::vector<std::size_t> plans = a.plans;
+        if (plans.empty())
+            for (std::size_t p = 0; p < f.plans.size(); ++p) plans.push_back(p);
+        if (a.channel) o << std::string(to_string(*a.channel)) << " plans:\n";
+        for (std::size_t p : plans) {
+            const bool in = std::find(a.within.begin(), a.within.end(), p) != a.within.end();
+            o << "  " << (in ? "within " : "over   ") << f.plans[p] << ": "
+              << with_interval(mean_interval(f.of(p, burden)), 2) << " " << bm.name << ", within the limit in "
+              << format_real(100 * a.share_within[p], 0) << "% of replications; "
+              << with_interval(mean_interval(f.of(p, benefit)), 1) << " " << gm.name << "\n";
+        }
+        if (!a.best) {
+            o << "No plan" << among << " keeps " << bm.label << " within " << format_real(limit, 3) << ".\n";
+        } else {
+            o << "Best within the budget" << among << ": " << f.plans[*a.best] << " (most " << gm.label
+              << "); it had the most " << gm.name << " among the plans within the budget in "
+              << format_real(100 * a.share_best, 0) << "% of " << f.replications << " replications.\n";
+        }
     }
     return o.str();
 }

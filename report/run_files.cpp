@@ -37,6 +37,7 @@ std::vector<OutputFile> run_output_files(const Scenario& sc, const RunOutput& ou
     add_table_files(files, comparison.replication_figures);
     add_table_files(files, frontier_table(out.figures, metric_index(*find_metric(settings.burden_metric)),
                                           metric_index(*find_metric(settings.benefit_metric))));
+    add_table_files(files, channel_units_table(out.figures, out.first_replication.channels.burden));
     add_table_files(files, plan_net_benefit_table(out.plan_net_benefit));
     if (out.evaluation)
         for (const Table& table : evaluation_tables(*out.evaluation)) add_table_files(files, table);

@@ -124,8 +124,8 @@ std::string run_text(const Scenario& sc, const RunOutput& out, const RunSettings
     else text += plan_summary_text(out.first_replication);
     if (out.evaluation) text += "\nThe score on the same population (replication 0):\n" + evaluation_summary(*out.evaluation);
     if (sc.simulation.plans.size() > 2) text += "\n" + frontier_text(out.figures, burden, benefit);
-    if (out.budget)
-        text += "\n" + budget_text(out.figures, *out.budget, metric_index(*find_metric(settings.budget_metric)),
+    if (!out.budget.empty())
+        text += "\n" + budget_text(out.figures, out.budget, metric_index(*find_metric(settings.budget_metric)),
                                    *settings.budget_limit, benefit);
     text += "\n" + cautions_text() + "\n";
     return text;

@@ -52,8 +52,11 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
     run_experiment(sc, make_population, options,
                    [&](std::uint64_t r, const Population& pop, const ShiftCalendar& cal, const ReplicationRecord& rec) {
                        const ReportingShifts rep = reporting_shifts(sc.analysis, pop, cal);
-                       for (const PlanRecord& plan : rec.plans)
-                           kept.figures[r].push_back(plan_figures(sc.analysis, pop, cal, rep, plan));
+                       for (std::size_t p = 0; p < rec.plans.size(); ++p) {
+                           kept.figures[r].push_back(plan_figures(sc.analysis, pop, cal, rep, rec.plans[p]));
+                           add_plan_burdens(kept.figures[r].back(), sc.simulation, pop, cal, rep,
+                                            sc.simulation.plans[p], rec.plans[p]);
+                       }
                        if (r == 0) kept.first_scores = observed_score_range(pop);  // read after every replication ends
                        if (r != 0 && !settings.notice_log && !settings.task_log) return;
                        ReplicationResults results = replication_results(sc.simulation, sc.analysis, pop, cal, rec,
@@ -79,9 +82,11 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
     out.plan_net_benefit = plan_net_benefit(names, kept.figures[0], out.first_replication.population.encounters,
                                             {2, 5, 10, 20, 50});
     out.warnings = plan_warnings(sc.simulation.plans, kept.first_scores, kept.figures[0]);
-    out.figures = collect_figures(names, kept.figures);
+    std::vector<Channel> channels;
+    for (const Plan& p : sc.simulation.plans) channels.push_back(p.channel);
+    out.figures = collect_figures(names, kept.figures, channels);
     if (limited)
-        out.budget = best_within_budget(out.figures, metric_index(*limited), *settings.budget_limit, metric_index(benefit));
+        out.budget = budget_by_group(out.figures, metric_index(*limited), *settings.budget_limit, metric_index(benefit));
     return out;
 }
 

@@ -50,7 +50,18 @@ TEST_CASE("report_run.demo") {
     CHECK(page.find(" \xC2\xB7 168</text>") != std::string::npos);
     // The budget question is answered in words and drawn on the per-night chart
     // (the budget limits per_unit_night_p90; the frontier's axis is the mean).
-    CHECK(page.find("Best within the budget: page-55-twice") != std::string::npos);
+    // The demo's plans use four channels and the budget counts notices, so it is
+    // answered within each channel, and the report says why.
+    CHECK(page.find("Best within the budget among the page plans: page-55-twice") != std::string::npos);
+    CHECK(page.find("Compared within each channel: per_unit_night_mean") != std::string::npos);
+    // One frontier chart per channel (page, chart_interruption, handoff_list, ranked_review).
+    CHECK(page.find("id=\"fig-frontier\"") != std::string::npos);
+    CHECK(page.find("id=\"fig-frontier-4\"") != std::string::npos);
+    CHECK(page.find("id=\"fig-frontier-5\"") == std::string::npos);
+    // The channel-unit table, with each channel's own unit.
+    CHECK(page.find("<section id=\"channels\"") != std::string::npos);
+    CHECK(page.find("patients reviewed per unit per review round") != std::string::npos);
+    CHECK(page.find("interruptions per clinician per shift") != std::string::npos);
     CHECK(page.find("marks the budget of 4.") != std::string::npos);
     CHECK(page.find("Paired differences from page-70") != std::string::npos);
     CHECK(page.find("Replications</dt><dd>3</dd>") != std::string::npos);
