@@ -79,8 +79,11 @@ void add_run_options(CLI::App* cmd, RunOptions& o) {
     cmd->add_option("-j,--threads", o.threads, "Worker threads (default: all cores); results do not depend on it");
     cmd->add_option("-r,--replications", o.replications, "Replications (default: the scenario's `replications`)");
     cmd->add_option("--max-burden", o.max_burden, "Budget question: best plan whose mean --budget-metric is at most this");
-    cmd->add_option("--budget-metric", o.budget_metric, "Burden the budget limits (default per_unit_night_p90)");
-    cmd->add_option("--burden", o.burden_metric, "Burden axis of the frontier (default per_unit_night_mean)");
+    cmd->add_option("--budget-metric", o.budget_metric,
+                    "Burden the budget limits (default per_unit_night_p90); one answer per channel when it counts notices");
+    cmd->add_option("--burden", o.burden_metric,
+                    "Burden axis of the frontier (default per_unit_night_mean); one frontier per channel when it counts "
+                    "notices, one for all plans on staff_minutes_per_unit_shift or evaluations_per_unit_shift");
     cmd->add_option("--benefit", o.benefit_metric, "Benefit axis of the frontier and budget (default caught)");
 }
 

@@ -163,6 +163,23 @@ TEST_CASE("end_to_end.review_size") {
     INFO(three.output);
     REQUIRE(three.exit_code == 0);
     CHECK(three.output.find("mean over 3 replications (95% CI)") != std::string::npos);
+    {
+        // The row for N = 2: 3 replications, and an interval on the catch rate.
+        std::istringstream rows(read_file(dir.path("three/review_size.csv")));
+        std::string header, row, cell;
+        std::getline(rows, header);
+        std::getline(rows, row);
+        std::vector<std::string> cells;
+        std::istringstream split(row);
+        while (std::getline(split, cell, ',')) cells.push_back(cell);
+        REQUIRE(cells.size() > 10);
+        CHECK(cells[0] == "2");
+        CHECK(cells[1] == "3");
+        CHECK_FALSE(cells[9].empty());   // catch_rate_low
+        CHECK_FALSE(cells[10].empty());  // catch_rate_high
+        CHECK(std::stod(cells[9]) <= std::stod(cells[8]));
+        CHECK(std::stod(cells[8]) <= std::stod(cells[10]));
+    }
     const auto threaded = run_tocsin("review-size " + generated_demo + " --plan review-top4 --sizes 2-4 -r 3 -j 2 --out " +
                                      dir.path("threaded"));
     CHECK(read_file(dir.path("three/review_size.csv")) == read_file(dir.path("threaded/review_size.csv")));

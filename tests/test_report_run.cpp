@@ -5,6 +5,7 @@
 
 #include "report/report_run.hpp"
 #include "models/population_source.hpp"
+#include "study/review_size.hpp"
 
 using namespace tocsin;
 
@@ -71,4 +72,28 @@ TEST_CASE("report_run.demo") {
 
 TEST_CASE("report_run.same_bytes_whatever_the_threads") {
     CHECK(demo_report(1, std::nullopt) == demo_report(2, std::nullopt));
+}
+
+TEST_CASE("report_run.review_size_agrees_with_run") {
+    // One capacity model: `run` and `review-size` cost and count a review alike,
+    // so sizing the demo's review plan at its own list length (4 per ward)
+    // gives, replication by replication, the run's catches and reviews.
+    Scenario sc = load_scenario(demo);
+    sc.replications = 3;
+    RunSettings settings;
+    settings.threads = 1;
+    settings.evaluate = false;
+    const PopulationFactory factory = population_factory(sc.population);
+    const RunOutput out = run_scenario(sc, factory, settings);
+    std::size_t p = 0;
+    while (sc.simulation.plans[p].name != "review-top4") ++p;
+    REQUIRE(sc.simulation.plans[p].review.top_n == 4);
+    const ReviewSizing s = size_review_list(sc, factory, p, 4, 4, 0.8, 1);
+    REQUIRE(s.summary.size() == 1);
+    const MeanInterval caught = mean_interval(out.figures.of(p, metric_index(*find_metric("caught"))));
+    const MeanInterval notices = mean_interval(out.figures.of(p, metric_index(*find_metric("notices"))));
+    CHECK(s.summary[0].caught.mean == caught.mean);
+    CHECK(s.summary[0].caught.low == caught.low);
+    CHECK(s.summary[0].reviews.mean == notices.mean);
+    CHECK(s.summary[0].catch_rate.n == 3);
 }
