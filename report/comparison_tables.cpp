@@ -8,6 +8,15 @@
 
 namespace tocsin {
 
+namespace {
+// A difference in a figure whose unit differs by channel means nothing
+// between plans of different channels (a review is not a page).
+bool comparable(const ReplicatedFigures& f, std::size_t p, std::size_t ref, std::size_t metric) {
+    return plan_metrics()[metric].unit == ChannelUnit::neutral || f.channels.size() <= std::max(p, ref) ||
+           f.channels[p] == f.channels[ref];
+}
+}  // namespace
+
 ComparisonTables comparison_tables(const ReplicatedFigures& f, std::size_t ref) {
     ComparisonTables t;
     const auto& metrics = plan_metrics();
@@ -15,7 +24,9 @@ ComparisonTables comparison_tables(const ReplicatedFigures& f, std::size_t ref) 
     t.comparison.title = "Plans compared across replications (mean and 95% CI)";
     t.comparison.columns = {"plan", "metric", "mean", "ci_low", "ci_high", "replications"};
     t.differences.name = "plan_differences";
-    t.differences.title = "Paired differences from " + f.plans[ref] + " (same patients in each replication)";
+    t.differences.title = "Paired differences from " + f.plans[ref] +
+                          " (same patients in each replication; empty where the plans' channels count notices in "
+                          "different units)";
     t.differences.columns = {"plan", "versus", "metric", "mean_difference", "ci_low", "ci_high", "replications"};
     t.replication_figures.name = "replication_figures";
     t.replication_figures.title = "Every figure of every replication";
@@ -30,6 +41,10 @@ ComparisonTables comparison_tables(const ReplicatedFigures& f, std::size_t ref) 
                 t.replication_figures.add_row({f.plans[p], static_cast<std::int64_t>(r), name,
                                                finite_or_empty(f.of(p, m)[r])});
             if (p == ref) continue;
+            if (!comparable(f, p, ref, m)) {
+                t.differences.add_row({f.plans[p], f.plans[ref], name, Cell(), Cell(), Cell(), std::int64_t{0}});
+                continue;
+            }
             const MeanInterval d = paired_difference(f, p, ref, m);
             t.differences.add_row({f.plans[p], f.plans[ref], name, finite_or_empty(d.mean), finite_or_empty(d.low),
                                    finite_or_empty(d.high), static_cast<std::int64_t>(d.n)});
@@ -69,11 +84,14 @@ Table comparison_by_plan(const ReplicatedFigures& f, const std::vector<std::size
 
 Table differences_by_plan(const ReplicatedFigures& f, const std::vector<std::size_t>& metrics, std::size_t ref) {
     Table t = by_plan("plan_differences",
-                      "Paired differences from " + f.plans[ref] + " (same patients in each replication)", metrics);
+                      "Paired differences from " + f.plans[ref] + " (same patients in each replication; empty where "
+                      "the plans' channels count notices in different units)", metrics);
     for (std::size_t p = 0; p < f.plans.size(); ++p) {
         if (p == ref) continue;
         std::vector<Cell> row{f.plans[p]};
-        for (std::size_t m : metrics) add_interval(row, paired_difference(f, p, ref, m));
+        for (std::size_t m : metrics)
+            if (comparable(f, p, ref, m)) add_interval(row, paired_difference(f, p, ref, m));
+            else row.insert(row.end(), {Cell(), Cell(), Cell()});
         t.add_row(std::move(row));
     }
     return t;
@@ -192,9 +210,15 @@ std::string comparison_text(const ReplicatedFigures& f, std::size_t ref) {
         const std::size_t night = metric_index("per_unit_night_mean"), caught = metric_index("caught");
         for (std::size_t p = 0; p < f.plans.size(); ++p) {
             if (p == ref) continue;
-            const MeanInterval a = paired_difference(f, p, ref, night), c = paired_difference(f, p, ref, caught);
-            o << "  " << f.plans[p] << ": " << with_interval(a, 2) << " notices per unit per night, "
-              << with_interval(c, 1) << " cases caught\n";
+            const MeanInterval c = paired_difference(f, p, ref, caught);
+            o << "  " << f.plans[p] << ": ";
+            if (comparable(f, p, ref, night))
+                o << with_interval(paired_difference(f, p, ref, night), 2) << " notices per unit per night, ";
+            o << with_interval(c, 1) << " cases caught";
+            if (!comparable(f, p, ref, night))
+                o << " (a " << to_string(f.channels[p]) << " plan: its notices are not comparable with "
+                  << to_string(f.channels[ref]) << " notices)";
+            o << "\n";
         }
     }
     return o.str();

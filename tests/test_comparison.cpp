@@ -177,6 +177,21 @@ TEST_CASE("comparison.within_channel") {
         CHECK(comparison_basis_text(f, evals).find("Compared across channels on evaluations_per_unit_shift") == 0);
         CHECK(budget_by_group(f, evals, 1.5, benefit()).size() == 1);
     }
+    SUBCASE("paired differences in notices are left out across channels") {
+        // Two replications: P1 (2, 10), (2, 12); R2 (0, 11), (0, 13). R2 minus P1:
+        // caught +1 in both; its notices per night are not pages, so no difference.
+        ReplicatedFigures g = figures({"P1", "R2"}, {{{2, 10}, {2, 12}}, {{0, 11}, {0, 13}}});
+        g.channels = {Channel::page, Channel::ranked_review};
+        const std::string text = comparison_text(g);
+        CHECK(text.find("R2: 1 (1 to 1) cases caught (a ranked_review plan: its notices are not comparable with page "
+                        "notices)") != std::string::npos);
+        const Table d = differences_by_plan(g, {burden(), benefit()});
+        REQUIRE(d.rows.size() == 1);
+        CHECK(std::holds_alternative<std::monostate>(d.rows[0][1]));  // per_unit_night_mean: empty
+        CHECK(std::get<double>(d.rows[0][4]) == doctest::Approx(1));   // caught
+        for (const auto& row : comparison_tables(g).differences.rows)
+            if (std::get<std::string>(row[2]) == "per_unit_night_mean") CHECK(std::holds_alternative<std::monostate>(row[3]));
+    }
     SUBCASE("plans of one channel need no grouping") {
         f.channels = {Channel::page, Channel::page, Channel::page, Channel::page};
         REQUIRE(comparison_groups(f, burden()).size() == 1);
