@@ -168,6 +168,23 @@ namespace {
 std::size_t metric_index(std::string_view name) { return metric_index(*find_metric(name)); }
 }  // namespace
 
+std::string channel_units_text(const ReplicatedFigures& f, const std::vector<ChannelBurdenSummary>& first) {
+    Table view;
+    view.title = "Each channel in its own unit, and per unit per shift for every channel: mean (95% CI) over " +
+                 std::to_string(f.replications) + " replications";
+    view.columns = {"plan", "burden_unit", "mean", "p90", "staff_min_per_unit_shift", "evaluations_per_unit_shift"};
+    const std::size_t mean = metric_index(*find_metric("channel_burden_mean")),
+                      p90 = metric_index(*find_metric("channel_burden_p90")),
+                      minutes = metric_index(*find_metric("staff_minutes_per_unit_shift")),
+                      evaluations = metric_index(*find_metric("evaluations_per_unit_shift"));
+    for (std::size_t p = 0; p < f.plans.size(); ++p)
+        view.add_row({f.plans[p], p < first.size() ? first[p].burden : std::string(),
+                      with_interval(mean_interval(f.of(p, mean)), 2), with_interval(mean_interval(f.of(p, p90)), 1),
+                      with_interval(mean_interval(f.of(p, minutes)), 1),
+                      with_interval(mean_interval(f.of(p, evaluations)), 2)});
+    return to_text(view);
+}
+
 std::string frontier_text(const ReplicatedFigures& f, std::size_t burden, std::size_t benefit) {
     const auto points = frontier(f, burden, benefit);
     const auto groups = comparison_groups(f, burden);

@@ -41,6 +41,8 @@ std::string with_interval(const MeanInterval& m, int decimals);
 // A compact terminal view: the main figures with intervals, and paired
 // differences from the reference plan.
 std::string comparison_text(const ReplicatedFigures& f, std::size_t reference_plan = 0);
+// The terminal view of channel_units_table: "mean (low to high)".
+std::string channel_units_text(const ReplicatedFigures& f, const std::vector<ChannelBurdenSummary>& first_replication);
 // The plans on the frontier, lightest first.
 std::string frontier_text(const ReplicatedFigures& f, std::size_t burden_metric, std::size_t benefit_metric);
 // One block per answer (per channel when the budget is answered within each channel).
