@@ -16,20 +16,20 @@ double or_nan(const std::optional<double>& v) { return v ? *v : nan; }
 const std::vector<Metric>& plan_metrics() {
     static const std::vector<Metric> metrics = {
         {"per_unit_night_mean", "notices per unit per night", Better::lower,
-         [](const PlanFigures& f) { return or_nan(f.per_unit_night_mean); }},
+         [](const PlanFigures& f) { return or_nan(f.per_unit_night_mean); }, ChannelUnit::own},
         {"per_unit_night_p90", "notices per unit per night, 90th percentile", Better::lower,
-         [](const PlanFigures& f) { return or_nan(f.per_unit_night_p90); }},
+         [](const PlanFigures& f) { return or_nan(f.per_unit_night_p90); }, ChannelUnit::own},
         {"per_unit_night_max", "notices per unit per night, worst", Better::lower,
-         [](const PlanFigures& f) { return or_nan(f.per_unit_night_max); }},
+         [](const PlanFigures& f) { return or_nan(f.per_unit_night_max); }, ChannelUnit::own},
         {"worst_unit_night_mean", "notices per night on the busiest unit (each unit's own mean)", Better::lower,
-         [](const PlanFigures& f) { return or_nan(f.worst_unit_night_mean); }},
+         [](const PlanFigures& f) { return or_nan(f.worst_unit_night_mean); }, ChannelUnit::own},
         {"worst_unit_night_p90", "notices per night on the worst unit, 90th percentile (each unit's own)", Better::lower,
-         [](const PlanFigures& f) { return or_nan(f.worst_unit_night_p90); }},
+         [](const PlanFigures& f) { return or_nan(f.worst_unit_night_p90); }, ChannelUnit::own},
         {"per_unit_shift_mean", "notices per unit per shift", Better::lower,
-         [](const PlanFigures& f) { return f.per_unit_shift_mean; }},
+         [](const PlanFigures& f) { return f.per_unit_shift_mean; }, ChannelUnit::own},
         {"per_unit_shift_p90", "notices per unit per shift, 90th percentile", Better::lower,
-         [](const PlanFigures& f) { return f.per_unit_shift_p90; }},
-        {"notices", "notices in all", Better::lower, [](const PlanFigures& f) { return static_cast<double>(f.notices); }},
+         [](const PlanFigures& f) { return f.per_unit_shift_p90; }, ChannelUnit::own},
+        {"notices", "notices in all", Better::lower, [](const PlanFigures& f) { return static_cast<double>(f.notices); }, ChannelUnit::own},
         {"cases", "patients with the outcome", Better::neither,
          [](const PlanFigures& f) { return static_cast<double>(f.cases); }},
         {"caught", "cases caught", Better::higher, [](const PlanFigures& f) { return static_cast<double>(f.caught); }},
@@ -38,7 +38,7 @@ const std::vector<Metric>& plan_metrics() {
         {"lead_median_h", "median lead time, hours", Better::higher,
          [](const PlanFigures& f) { return or_nan(f.lead_median_hours); }},
         {"notices_per_catch", "notices per case caught", Better::lower,
-         [](const PlanFigures& f) { return or_nan(f.notices_per_catch); }},
+         [](const PlanFigures& f) { return or_nan(f.notices_per_catch); }, ChannelUnit::own},
         {"evaluations", "bedside evaluations started", Better::neither,
          [](const PlanFigures& f) { return static_cast<double>(f.evaluations); }},
         {"evaluated_non_cases", "patients without the outcome who were evaluated", Better::lower,
@@ -54,15 +54,23 @@ const std::vector<Metric>& plan_metrics() {
         {"never_taken_up", "tasks never taken up", Better::lower,
          [](const PlanFigures& f) { return f.never_taken_up ? static_cast<double>(*f.never_taken_up) : nan; }},
         {"patients_per_unit_night_mean", "patients noticed per unit per night", Better::lower,
-         [](const PlanFigures& f) { return or_nan(f.patients_per_unit_night_mean); }},
+         [](const PlanFigures& f) { return or_nan(f.patients_per_unit_night_mean); }, ChannelUnit::own},
         {"patients_per_unit_night_p90", "patients noticed per unit per night, 90th percentile", Better::lower,
-         [](const PlanFigures& f) { return or_nan(f.patients_per_unit_night_p90); }},
+         [](const PlanFigures& f) { return or_nan(f.patients_per_unit_night_p90); }, ChannelUnit::own},
         {"patients_per_unit_night_max", "patients noticed per unit per night, worst", Better::lower,
-         [](const PlanFigures& f) { return or_nan(f.patients_per_unit_night_max); }},
+         [](const PlanFigures& f) { return or_nan(f.patients_per_unit_night_max); }, ChannelUnit::own},
         {"notice_ppv", "share of notices for patients who went on to the outcome", Better::higher,
          [](const PlanFigures& f) { return or_nan(f.notice_ppv); }},
         {"patient_ppv", "share of patients noticed who went on to the outcome", Better::higher,
          [](const PlanFigures& f) { return or_nan(f.patient_ppv); }},
+        {"staff_minutes_per_unit_shift", "staff minutes per unit per shift (delivery and evaluations)", Better::lower,
+         [](const PlanFigures& f) { return or_nan(f.staff_minutes_per_unit_shift); }},
+        {"evaluations_per_unit_shift", "evaluations started per unit per shift", Better::lower,
+         [](const PlanFigures& f) { return or_nan(f.evaluations_per_unit_shift); }},
+        {"channel_burden_mean", "burden in the channel's own unit, mean", Better::lower,
+         [](const PlanFigures& f) { return or_nan(f.channel_burden_mean); }, ChannelUnit::own},
+        {"channel_burden_p90", "burden in the channel's own unit, 90th percentile", Better::lower,
+         [](const PlanFigures& f) { return or_nan(f.channel_burden_p90); }, ChannelUnit::own},
     };
     return metrics;
 }
@@ -103,9 +111,11 @@ MeanInterval mean_interval(std::span<const double> values, double level) {
 }
 
 ReplicatedFigures collect_figures(const std::vector<std::string>& plan_names,
-                                  const std::vector<std::vector<PlanFigures>>& by_replication) {
+                                  const std::vector<std::vector<PlanFigures>>& by_replication,
+                                  const std::vector<Channel>& channels) {
     ReplicatedFigures f;
     f.plans = plan_names;
+    f.channels = channels;
     f.replications = by_replication.size();
     const auto& metrics = plan_metrics();
     f.values.assign(plan_names.size(), std::vector<std::vector<double>>(metrics.size()));
@@ -115,17 +125,36 @@ ReplicatedFigures collect_figures(const std::vector<std::string>& plan_names,
     return f;
 }
 
+std::vector<ComparisonGroup> comparison_groups(const ReplicatedFigures& f, std::size_t burden) {
+    std::vector<ComparisonGroup> groups;
+    const bool own_unit = plan_metrics()[burden].unit == ChannelUnit::own;
+    for (std::size_t p = 0; p < f.plans.size(); ++p) {
+        const std::optional<Channel> channel =
+            p < f.channels.size() ? std::optional<Channel>(f.channels[p]) : std::nullopt;
+        auto g = std::find_if(groups.begin(), groups.end(), [&](const ComparisonGroup& x) { return x.channel == channel; });
+        if (g == groups.end()) g = groups.insert(groups.end(), ComparisonGroup{channel, {}});
+        g->plans.push_back(p);
+    }
+    if (own_unit && groups.size() > 1) return groups;
+    ComparisonGroup all;
+    for (std::size_t p = 0; p < f.plans.size(); ++p) all.plans.push_back(p);
+    return {all};
+}
+
 std::vector<FrontierPoint> frontier(const ReplicatedFigures& f, std::size_t burden, std::size_t benefit) {
     std::vector<FrontierPoint> points;
     for (std::size_t p = 0; p < f.plans.size(); ++p)
         points.push_back({p, mean_interval(f.of(p, burden)).mean, mean_interval(f.of(p, benefit)).mean, true});
+    const auto groups = comparison_groups(f, burden);
+    for (std::size_t g = 0; g < groups.size(); ++g)
+        for (std::size_t p : groups[g].plans) points[p].group = g;
     for (auto& a : points) {
         if (!std::isfinite(a.burden) || !std::isfinite(a.benefit)) {
             a.on_frontier = false;
             continue;
         }
         for (const auto& b : points) {
-            if (&a == &b || !std::isfinite(b.burden) || !std::isfinite(b.benefit)) continue;
+            if (&a == &b || a.group != b.group || !std::isfinite(b.burden) || !std::isfinite(b.benefit)) continue;
             if (b.burden <= a.burden && b.benefit >= a.benefit && (b.burden < a.burden || b.benefit > a.benefit)) {
                 a.on_frontier = false;
                 break;
@@ -135,12 +164,17 @@ std::vector<FrontierPoint> frontier(const ReplicatedFigures& f, std::size_t burd
     return points;
 }
 
-BudgetAnswer best_within_budget(const ReplicatedFigures& f, std::size_t burden, double limit, std::size_t benefit) {
+BudgetAnswer best_within_budget(const ReplicatedFigures& f, std::size_t burden, double limit, std::size_t benefit,
+                                const std::vector<std::size_t>& plans) {
     BudgetAnswer a;
+    a.plans = plans;
     const std::size_t n = f.plans.size();
+    std::vector<std::size_t> considered = plans;
+    if (considered.empty())
+        for (std::size_t p = 0; p < n; ++p) considered.push_back(p);
     a.share_within.assign(n, 0.0);
     double best_benefit = -std::numeric_limits<double>::infinity(), best_burden = 0;
-    for (std::size_t p = 0; p < n; ++p) {
+    for (std::size_t p : considered) {
         const auto values = f.of(p, burden);
         std::size_t ok = 0, defined = 0;
         for (double v : values)
@@ -169,6 +203,16 @@ BudgetAnswer best_within_budget(const ReplicatedFigures& f, std::size_t burden, 
         a.share_best = f.replications ? static_cast<double>(wins) / static_cast<double>(f.replications) : 0.0;
     }
     return a;
+}
+
+std::vector<BudgetAnswer> budget_by_group(const ReplicatedFigures& f, std::size_t burden, double limit,
+                                          std::size_t benefit) {
+    std::vector<BudgetAnswer> answers;
+    for (const ComparisonGroup& g : comparison_groups(f, burden)) {
+        answers.push_back(best_within_budget(f, burden, limit, benefit, g.channel ? g.plans : std::vector<std::size_t>{}));
+        answers.back().channel = g.channel;
+    }
+    return answers;
 }
 
 MeanInterval paired_difference(const ReplicatedFigures& f, std::size_t plan, std::size_t versus, std::size_t metric) {

@@ -23,11 +23,20 @@ namespace tocsin {
 
 enum class Better { lower, higher, neither };
 
+// Whether a figure means the same thing whatever the plan's channel. A notice
+// is a page, a chart interruption, a handoff flag or a review, so counts of
+// notices (per unit per night, per shift, per catch, patients noticed per
+// night, the channel's own burden) are in a unit that differs by channel
+// (a review at 08:00 shows 0 per night); staff minutes, evaluations, catches
+// and lead times are not.
+enum class ChannelUnit { neutral, own };
+
 struct Metric {
     std::string_view name;   // stable column value, e.g. "per_unit_night_mean"
     std::string_view label;  // for people, e.g. "notices per unit per night"
     Better better;
     double (*value)(const PlanFigures&);  // NaN when undefined
+    ChannelUnit unit = ChannelUnit::neutral;
 };
 
 // Every per-plan metric reported across replications, in table order.
@@ -45,6 +54,7 @@ MeanInterval mean_interval(std::span<const double> values, double level = 0.95);
 // values[plan][metric][replication]
 struct ReplicatedFigures {
     std::vector<std::string> plans;
+    std::vector<Channel> channels;  // per plan; empty: all on one channel
     std::vector<std::vector<std::vector<double>>> values;
     std::uint64_t replications = 0;
     // Replication 0 is the log itself, as replayed (a replayed log without a
@@ -56,25 +66,45 @@ struct ReplicatedFigures {
 };
 
 ReplicatedFigures collect_figures(const std::vector<std::string>& plan_names,
-                                  const std::vector<std::vector<PlanFigures>>& by_replication);
+                                  const std::vector<std::vector<PlanFigures>>& by_replication,
+                                  const std::vector<Channel>& channels = {});
+
+// Which plans may be ranked against each other on a burden. Plans of
+// different channels are never ranked on a burden whose unit differs by
+// channel: then each channel is compared on its own (one group per channel,
+// in the order the channels first appear). Otherwise (a channel-neutral
+// burden, or one channel) all plans form one group.
+struct ComparisonGroup {
+    std::optional<Channel> channel;  // set when comparing within a channel
+    std::vector<std::size_t> plans;  // plan indices, in plan order
+};
+std::vector<ComparisonGroup> comparison_groups(const ReplicatedFigures& f, std::size_t burden_metric);
 
 struct FrontierPoint {
     std::size_t plan;
     double burden, benefit;
     bool on_frontier;
+    std::size_t group = 0;  // index into comparison_groups(f, burden_metric)
 };
-// A plan is on the frontier when no other plan has burden <= and benefit >=
-// with at least one strictly better (means over replications).
+// A plan is on the frontier when no other plan of its comparison group has
+// burden <= and benefit >= with at least one strictly better (means over
+// replications): one frontier per channel when the burden's unit differs by channel.
 std::vector<FrontierPoint> frontier(const ReplicatedFigures& f, std::size_t burden_metric, std::size_t benefit_metric);
 
 struct BudgetAnswer {
+    std::optional<Channel> channel;       // set when the budget is answered within one channel
+    std::vector<std::size_t> plans;       // the plans considered (empty: every plan)
     std::optional<std::size_t> best;      // plan index
     std::vector<std::size_t> within;      // plans whose mean burden is within the limit
     std::vector<double> share_within;     // per plan: share of replications within the limit
     double share_best = 0;                // share of replications in which `best` had the most benefit among `within`
 };
+// Among `plans` (empty: every plan).
 BudgetAnswer best_within_budget(const ReplicatedFigures& f, std::size_t burden_metric, double limit,
-                                std::size_t benefit_metric);
+                                std::size_t benefit_metric, const std::vector<std::size_t>& plans = {});
+// One answer per comparison group (comparison_groups).
+std::vector<BudgetAnswer> budget_by_group(const ReplicatedFigures& f, std::size_t burden_metric, double limit,
+                                          std::size_t benefit_metric);
 
 // A paired difference: each replication's figure of `plan` minus that of `versus`.
 MeanInterval paired_difference(const ReplicatedFigures& f, std::size_t plan, std::size_t versus, std::size_t metric);

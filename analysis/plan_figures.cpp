@@ -3,7 +3,9 @@
 #include <algorithm>
 #include <cstdint>
 
+#include "analysis/channel_burden.hpp"
 #include "analysis/quantiles.hpp"
+#include "sim/channels.hpp"
 
 namespace tocsin {
 
@@ -229,6 +231,40 @@ PlanFigures plan_figures(const AnalysisSettings& settings, const Population& pop
     const auto caught_at = record.staff ? first_catch(settings, pop, actions) : noticed_at;
     catch_figures(f, pop, actions, caught_at, noticed_at);
     return f;
+}
+
+void add_plan_burdens(PlanFigures& f, const SimulationSetup& setup, const Population& pop, const ShiftCalendar& cal,
+                      const ReportingShifts& rep, const Plan& plan, const PlanRecord& record) {
+    const ChannelBurden own = channel_burden(setup, pop, cal, rep, plan, record);
+    if (!own.values.empty()) {
+        std::vector<double> v = own.values;
+        std::sort(v.begin(), v.end());
+        f.channel_burden_mean = mean(v);
+        f.channel_burden_p90 = quantile_sorted(v, 0.9);
+    }
+    const double unit_shifts = static_cast<double>(pop.units.size() * rep.shifts.size());
+    if (unit_shifts == 0) return;
+    auto in_period = [&](Instant at) { return at >= rep.from && at < rep.until; };
+    double delivered = 0, evaluations = 0;
+    for (const Notice& n : record.notices)
+        if (in_period(n.at)) {
+            delivered += 1;
+            evaluations += n.asks_evaluation;
+        }
+    double minutes = delivered * delivery_minutes(plan);
+    if (record.staff) {
+        evaluations = 0;
+        for (const TaskRecord& t : record.staff->tasks)
+            if (in_period(t.created) && t.started()) {
+                evaluations += 1;
+                minutes += static_cast<double>(t.service_seconds) / 60.0;
+            }
+    }
+    f.evaluations_per_unit_shift = evaluations / unit_shifts;
+    // Without roles an evaluation has no minutes, so the figure would count a
+    // page as free: it is given only when the staff are simulated. A ranked
+    // review has no role tasks; its reviews' minutes are its delivery.
+    if (setup.has_staff()) f.staff_minutes_per_unit_shift = minutes / unit_shifts;
 }
 
 }  // namespace tocsin

@@ -10,6 +10,7 @@
 #include "analysis/reporting.hpp"
 #include "analysis/settings.hpp"
 #include "models/population.hpp"
+#include "sim/setup.hpp"
 #include "sim/shifts.hpp"
 #include "sim/simulate.hpp"
 
@@ -43,6 +44,13 @@ struct PlanFigures {
     std::optional<double> lead_from_notice_median_hours;
     std::optional<double> wait_median_minutes, wait_p90_minutes;  // notice to evaluation start
     std::optional<std::int64_t> never_taken_up;
+    // Burdens that need the plan itself (add_plan_burdens). The channel's own
+    // unit (analysis/channel_burden.hpp: pages per unit per shift, interruptions
+    // per clinician per shift, flags per handoff, reviews per round), and two
+    // that mean the same for every channel, per unit per reporting shift: staff
+    // minutes (delivery plus evaluation tasks; only with roles) and evaluations started.
+    std::optional<double> channel_burden_mean, channel_burden_p90;
+    std::optional<double> staff_minutes_per_unit_shift, evaluations_per_unit_shift;
     std::vector<std::int64_t> unit_shift_counts;  // unit-major: [unit * shifts + k]
 };
 
@@ -53,6 +61,12 @@ std::vector<std::optional<Instant>> first_catch(const AnalysisSettings& settings
 
 PlanFigures plan_figures(const AnalysisSettings& settings, const Population& population, const ShiftCalendar& calendar,
                          const ReportingShifts& reporting, const PlanRecord& record);
+
+// Fills the figures that need the plan: the channel's burden in its own unit
+// and the channel-neutral burdens, over the reporting period.
+void add_plan_burdens(PlanFigures& figures, const SimulationSetup& setup, const Population& population,
+                      const ShiftCalendar& calendar, const ReportingShifts& reporting, const Plan& plan,
+                      const PlanRecord& record);
 
 // The notices that ask for an evaluation, as (encounter, instant).
 std::vector<std::pair<std::uint32_t, Instant>> evaluation_requests(const PlanRecord& record);

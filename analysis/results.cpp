@@ -72,8 +72,9 @@ StaffResults staff_results(const SimulationSetup& setup, const Population& pop, 
     for (const Plan& plan : setup.plans)
         models.push_back(staff_model(setup, plan, static_cast<std::uint32_t>(pop.units.size())));
     std::vector<PlanStaffRun> runs;
-    for (std::size_t p = 0; p < setup.plans.size(); ++p)
-        runs.push_back({setup.plans[p].name, &models[p], setup.plans[p].staffing, &*record.plans[p].staff});
+    for (std::size_t p = 0; p < setup.plans.size(); ++p)  // a ranked review has no role tasks (sim/simulate.cpp)
+        if (record.plans[p].staff)
+            runs.push_back({setup.plans[p].name, &models[p], setup.plans[p].staffing, &*record.plans[p].staff});
     // Same period as the notice counts: tasks created in it, complete shifts inside it.
     const ReportPeriod period{rep.from, rep.until};
     StaffResults s;
@@ -100,6 +101,7 @@ ReplicationResults replication_results(const SimulationSetup& setup, const Analy
     r.population = population_summary(pop, rep);
     for (std::size_t p = 0; p < setup.plans.size(); ++p) {
         PlanResult plan{setup.plans[p].name, setup.plans[p].channel, plan_figures(settings, pop, cal, rep, record.plans[p])};
+        add_plan_burdens(plan.figures, setup, pop, cal, rep, setup.plans[p], record.plans[p]);
         add_unit_shift_notices(r.unit_shift_notices, plan.plan, plan.figures, pop, cal, rep);
         r.plans.push_back(std::move(plan));
     }

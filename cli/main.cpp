@@ -79,8 +79,12 @@ void add_run_options(CLI::App* cmd, RunOptions& o) {
     cmd->add_option("-j,--threads", o.threads, "Worker threads (default: all cores); results do not depend on it");
     cmd->add_option("-r,--replications", o.replications, "Replications (default: the scenario's `replications`)");
     cmd->add_option("--max-burden", o.max_burden, "Budget question: best plan whose mean --budget-metric is at most this");
-    cmd->add_option("--budget-metric", o.budget_metric, "Burden the budget limits (default worst_unit_night_p90: the worst ward decides)");
-    cmd->add_option("--burden", o.burden_metric, "Burden axis of the frontier (default per_unit_night_mean)");
+    cmd->add_option("--budget-metric", o.budget_metric,
+                    "Burden the budget limits (default worst_unit_night_p90: the worst ward decides); one answer per "
+                    "channel when it counts notices");
+    cmd->add_option("--burden", o.burden_metric,
+                    "Burden axis of the frontier (default per_unit_night_mean); one frontier per channel when it counts "
+                    "notices, one for all plans on staff_minutes_per_unit_shift or evaluations_per_unit_shift");
     cmd->add_option("--benefit", o.benefit_metric, "Benefit axis of the frontier and budget (default caught)");
 }
 
@@ -119,6 +123,8 @@ struct SizeOptions {
     std::string sizes = "1-30";
     std::string target = "0.8";
     std::string out_dir;
+    std::string replications;   // empty: the scenario's `replications`
+    std::string threads = "0";  // 0 = all cores
 };
 
 int command_review_size(const SizeOptions& opt) {
@@ -136,7 +142,9 @@ int command_review_size(const SizeOptions& opt) {
                          std::to_string(to - from + 1) + " list sizes, more than the limit of " +
                              std::to_string(sweep_plan_limit) + " (one simulation each)");
     const double target = option_real(option_specs().target_catch_rate, "--target-catch-rate", opt.target);
-    const Scenario sc = load_scenario(opt.scenario);
+    const unsigned threads = thread_count(opt.threads);
+    Scenario sc = load_scenario(opt.scenario);
+    if (!opt.replications.empty()) override_replications(sc, "--replications", opt.replications);
     std::size_t p = 0;
     while (p < sc.simulation.plans.size() && sc.simulation.plans[p].name != opt.plan) ++p;
     if (p == sc.simulation.plans.size()) throw std::invalid_argument("no plan named '" + opt.plan + "' in " + opt.scenario);
@@ -144,11 +152,11 @@ int command_review_size(const SizeOptions& opt) {
     if (sc.simulation.plans[p].channel != Channel::ranked_review)
         throw std::invalid_argument("plan '" + opt.plan + "' is a " + std::string(to_string(sc.simulation.plans[p].channel)) +
                                     " plan; list sizing needs a ranked_review plan");
-    const Population pop = population_for(sc.population, prepare_population(sc.population), 0);
-    const ShiftCalendar cal = calendar_for(sc, pop);
-    const ReviewSizing sizing = size_review_list(sc, pop, cal, p, from, to, target);
+    const PreparedPopulation prepared = prepare_population(sc.population);
+    std::cout << describe_prepared(sc.population, prepared);
+    const ReviewSizing sizing = size_review_list(sc, population_factory(sc.population, prepared), p, from, to, target, threads);
     const Table table = review_size_table(sizing);
-    std::cout << to_text(table, 3) << "\n" << review_size_answer(sizing) << "\n\n" << cautions_text() << "\n";
+    std::cout << review_size_text(sizing) << "\n" << review_size_answer(sizing) << "\n\n" << cautions_text() << "\n";
     if (!opt.out_dir.empty()) {
         std::vector<OutputFile> files;
         add_table_files(files, table);
@@ -342,6 +350,8 @@ int main(int argc, char** argv) {
     size->add_option("--sizes", size_opt.sizes, "List lengths to try, N or FROM-TO (default 1-30)");
     size->add_option("--target-catch-rate", size_opt.target, "Catch rate to reach (default 0.8)");
     size->add_option("-o,--out", size_opt.out_dir, "Write the table as CSV and JSON to this directory");
+    size->add_option("-r,--replications", size_opt.replications, "Replications (default: the scenario's `replications`)");
+    size->add_option("-j,--threads", size_opt.threads, "Worker threads (default: all cores); results do not depend on it");
     EvaluateCommand evaluate_cmd;
     auto* evaluate = add_evaluate_command(app, evaluate_cmd);
     GenerateCommand generate_cmd;

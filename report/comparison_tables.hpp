@@ -25,7 +25,15 @@ Table comparison_by_plan(const ReplicatedFigures& f, const std::vector<std::size
 // The same for paired differences from `reference_plan`, whose row is left out.
 Table differences_by_plan(const ReplicatedFigures& f, const std::vector<std::size_t>& metrics,
                           std::size_t reference_plan = 0);
+// Which plans are ranked together on the burden, and why (comparison_groups);
+// empty when every plan is on one channel.
+std::string comparison_basis_text(const ReplicatedFigures& f, std::size_t burden_metric);
+// One row per plan; `compared_within` names its comparison group.
 Table frontier_table(const ReplicatedFigures& f, std::size_t burden_metric, std::size_t benefit_metric);
+// "channel_units": each plan's burden in its channel's own unit (named from
+// replication 0's channel_burden) and the channel-neutral burdens, mean and
+// interval over replications.
+Table channel_units_table(const ReplicatedFigures& f, const std::vector<ChannelBurdenSummary>& first_replication);
 Table plan_net_benefit_table(const std::vector<PlanNetBenefit>& rows);
 
 // "1.3 (1.1 to 1.5)" with the given decimals; just the mean when there is no interval.
@@ -36,9 +44,12 @@ std::string with_margin(const MeanInterval& m, int decimals);
 // A compact terminal view: the main figures with intervals, and paired
 // differences from the reference plan.
 std::string comparison_text(const ReplicatedFigures& f, std::size_t reference_plan = 0);
+// The terminal view of channel_units_table: "mean (low to high)".
+std::string channel_units_text(const ReplicatedFigures& f, const std::vector<ChannelBurdenSummary>& first_replication);
 // The plans on the frontier, lightest first.
 std::string frontier_text(const ReplicatedFigures& f, std::size_t burden_metric, std::size_t benefit_metric);
-std::string budget_text(const ReplicatedFigures& f, const BudgetAnswer& answer, std::size_t burden_metric,
+// One block per answer (per channel when the budget is answered within each channel).
+std::string budget_text(const ReplicatedFigures& f, const std::vector<BudgetAnswer>& answers, std::size_t burden_metric,
                         double limit, std::size_t benefit_metric);
 
 }  // namespace tocsin

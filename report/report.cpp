@@ -137,10 +137,12 @@ std::string join_names(const std::vector<std::string>& names) {
     return out;
 }
 
-Section frontier_section(const ReportInput& in) {
+// One frontier chart with its lists: the plans of one comparison group.
+std::string frontier_figure(const ReportInput& in, const std::vector<const ReportFrontierPoint*>& points,
+                            const std::string& id, const std::string& group) {
     ScatterChart chart;
-    chart.id = "fig-frontier";
-    chart.title = "Burden against benefit, one point per plan";
+    chart.id = id;
+    chart.title = "Burden against benefit, one point per plan" + (group.empty() ? "" : ": " + group);
     chart.description = "Horizontal: " + in.burden_label + ". Vertical: " + in.benefit_label + ".";
     chart.x_label = in.burden_label;
     chart.y_label = in.benefit_label;
@@ -148,16 +150,10 @@ Section frontier_section(const ReportInput& in) {
         chart.x_limit = in.burden_limit;
         chart.x_limit_label = "budget " + format_for_people(*in.burden_limit);
     }
-    for (const ReportFrontierPoint& p : in.frontier)
-        chart.points.push_back({p.plan, p.burden, p.burden_lo, p.burden_hi, p.benefit, p.benefit_lo, p.benefit_hi, p.on_frontier});
+    for (const ReportFrontierPoint* p : points)
+        chart.points.push_back({p->plan, p->burden, p->burden_lo, p->burden_hi, p->benefit, p->benefit_lo, p->benefit_hi, p->on_frontier});
     const bool crowded = chart.points.size() > chart.max_labels;
     const bool numbered = frontier_numbered(chart);
-
-    std::string body = paragraph(
-        "A plan is on the frontier when no other plan gives at least as much benefit for no more burden. "
-        "Choosing between frontier plans is a judgement about how much burden one more case is worth; a plan "
-        "off the frontier is beaten on both counts by some other plan.");
-    if (!in.budget_answer.empty()) body += paragraph(in.budget_answer, "answer");
     std::string caption = "Bars show the interval of each figure.";
     if (crowded)
         caption = "With " + std::to_string(chart.points.size()) +
@@ -166,12 +162,12 @@ Section frontier_section(const ReportInput& in) {
                   "; the other plans are small circles, named when the pointer rests on them.";
     if (in.burden_limit)
         caption += " The dashed line marks the budget of " + format_for_people(*in.burden_limit) + " " + in.burden_label + ".";
-    body += "<figure>" + figure_title(chart.title) + scatter_svg(chart) + "<figcaption>" + html_escape(caption) + "</figcaption></figure>\n";
+    std::string body = "<figure>" + figure_title(chart.title) + scatter_svg(chart) + "<figcaption>" + html_escape(caption) + "</figcaption></figure>\n";
 
     std::vector<std::string> frontier, beaten;
-    for (std::size_t i : frontier_order(chart.points)) frontier.push_back(in.frontier[i].plan);
-    for (const ReportFrontierPoint& p : in.frontier)
-        if (!p.on_frontier) beaten.push_back(p.plan);
+    for (std::size_t i : frontier_order(chart.points)) frontier.push_back(points[i]->plan);
+    for (const ReportFrontierPoint* p : points)
+        if (!p->on_frontier) beaten.push_back(p->plan);
     if (numbered) {
         body += paragraph("On the frontier, from lightest to heaviest burden (numbers as on the chart):");
         body += "<ol class=\"frontier-list\">";
@@ -184,6 +180,25 @@ Section frontier_section(const ReportInput& in) {
         body += paragraph(std::to_string(beaten.size()) + " other plans are beaten on both counts.", "note");
     else if (!beaten.empty())
         body += paragraph("Beaten on both counts: " + join_names(beaten) + ".", "note");
+    return body;
+}
+
+Section frontier_section(const ReportInput& in) {
+    std::string body = paragraph(
+        "A plan is on the frontier when no other plan gives at least as much benefit for no more burden. "
+        "Choosing between frontier plans is a judgement about how much burden one more case is worth; a plan "
+        "off the frontier is beaten on both counts by some other plan.");
+    if (!in.comparison_basis.empty()) body += paragraph(in.comparison_basis, "note");
+    if (!in.budget_answer.empty()) body += paragraph(in.budget_answer, "answer");
+    std::vector<std::string> groups;
+    for (const ReportFrontierPoint& p : in.frontier)
+        if (std::find(groups.begin(), groups.end(), p.group) == groups.end()) groups.push_back(p.group);
+    for (std::size_t g = 0; g < groups.size(); ++g) {
+        std::vector<const ReportFrontierPoint*> points;
+        for (const ReportFrontierPoint& p : in.frontier)
+            if (p.group == groups[g]) points.push_back(&p);
+        body += frontier_figure(in, points, g == 0 ? "fig-frontier" : "fig-frontier-" + std::to_string(g + 1), groups[g]);
+    }
     return {"frontier", "Burden against benefit", body};
 }
 
@@ -358,6 +373,9 @@ std::vector<Section> report_sections(const ReportInput& in) {
                             paragraph(in.per_ward_intro) + html_table(*in.per_ward, table_options) +
                                 paragraph(in.per_ward_note, "note")});
     if (!in.frontier.empty()) sections.push_back(frontier_section(in));
+    if (given(in.channel_units))
+        sections.push_back({"channels", "Each channel in its own unit",
+                            html_table(*in.channel_units, table_options) + paragraph(in.channel_units_note, "note")});
     if (!in.burden_per_night.empty()) sections.push_back(burden_section(in));
     if (!in.lead_times_hours.empty() || !in.lead_times_from_evaluation_hours.empty())
         sections.push_back(lead_time_section(in));

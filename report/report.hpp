@@ -38,6 +38,7 @@ struct ReportFrontierPoint {
     double burden = 0, burden_lo = none, burden_hi = none;
     double benefit = 0, benefit_lo = none, benefit_hi = none;
     bool on_frontier = false;
+    std::string group;  // the plans it is compared with, e.g. "page plans"; empty: all plans
 };
 
 // How the numbers were made, printed at the end of the report. Leave `threads`
@@ -75,7 +76,10 @@ struct ReportInput {
     std::string benefit_label = "cases caught with at least the minimum lead";
     std::optional<double> burden_limit;    // the committee's budget in burden_label units, drawn on the frontier
     std::string budget_answer;             // plain-word answer to the budget question, if asked
-    std::vector<ReportFrontierPoint> frontier;
+    std::vector<ReportFrontierPoint> frontier;  // one chart per group, in the order groups first appear
+    std::string comparison_basis;          // which plans are ranked together on the burden, and why
+    std::optional<Table> channel_units;    // each plan's burden in its channel's own unit, with intervals
+    std::string channel_units_note;
 
     // Each plan on each ward, interval columns as in `comparison`.
     std::optional<Table> per_ward;

@@ -64,24 +64,29 @@ std::vector<std::string> assumptions_of(const Scenario& sc) {
 std::string percent(double share) { return format_real(100 * share, 0) + "%"; }
 
 std::string budget_sentence(const RunOutput& out, const Metric& budget, const Metric& benefit, double limit) {
-    const BudgetAnswer& a = *out.budget;
     const ReplicatedFigures& f = out.figures;
     std::string s = "Budget: " + std::string(budget.label) + " at most " + format_for_people(limit) +
-                    " (mean over replications). ";
-    if (budget.name.rfind("worst_unit", 0) == 0) s += "The worst ward decides. ";
-    if (!a.best) return s + "No plan keeps within it.";
-    const MeanInterval gain = mean_interval(f.of(*a.best, metric_index(benefit)));
-    s += "Best within the budget: " + f.plans[*a.best] + ", with " + format_for_people(gain.mean) + " " +
-         std::string(benefit.label);
-    if (std::isfinite(gain.low)) s += " (" + format_for_people(gain.low) + " to " + format_for_people(gain.high) + ")";
-    s += ". It had the most " + std::string(benefit.label) + " among the plans within the budget in " +
-         percent(a.share_best) + " of " + std::to_string(f.replications) + " replications.";
-    std::vector<std::string> within;
-    for (std::size_t p : a.within) within.push_back(f.plans[p]);
-    if (within.size() > 1) {
-        s += " Plans within the budget: ";
-        for (std::size_t i = 0; i < within.size(); ++i) s += (i ? ", " : "") + within[i];
-        s += ".";
+                    " (mean over replications).";
+    if (budget.name.rfind("worst_unit", 0) == 0) s += " The worst ward decides.";
+    for (const BudgetAnswer& a : out.budget) {
+        const std::string among = a.channel ? " among the " + std::string(to_string(*a.channel)) + " plans" : "";
+        if (!a.best) {
+            s += " No plan" + among + " keeps within it.";
+            continue;
+        }
+        const MeanInterval gain = mean_interval(f.of(*a.best, metric_index(benefit)));
+        s += " Best within the budget" + among + ": " + f.plans[*a.best] + ", with " + format_for_people(gain.mean) +
+             " " + std::string(benefit.label);
+        if (std::isfinite(gain.low)) s += " (" + format_for_people(gain.low) + " to " + format_for_people(gain.high) + ")";
+        s += ". It had the most " + std::string(benefit.label) + " among the plans within the budget in " +
+             percent(a.share_best) + " of " + std::to_string(f.replications) + " replications.";
+        std::vector<std::string> within;
+        for (std::size_t p : a.within) within.push_back(f.plans[p]);
+        if (within.size() > 1) {
+            s += " Plans within the budget: ";
+            for (std::size_t i = 0; i < within.size(); ++i) s += (i ? ", " : "") + within[i];
+            s += ".";
+        }
     }
     return s;
 }
@@ -141,10 +146,14 @@ void add_comparison(ReportInput& in, const ReplicatedFigures& f, const std::vect
 void add_frontier(ReportInput& in, const ReplicatedFigures& f, const Metric& burden, const Metric& benefit) {
     in.burden_label = std::string(burden.label);
     in.benefit_label = std::string(benefit.label);
+    in.comparison_basis = comparison_basis_text(f, metric_index(burden));
+    const auto groups = comparison_groups(f, metric_index(burden));
     for (const FrontierPoint& p : frontier(f, metric_index(burden), metric_index(benefit))) {
         const MeanInterval b = mean_interval(f.of(p.plan, metric_index(burden)));
         const MeanInterval g = mean_interval(f.of(p.plan, metric_index(benefit)));
-        in.frontier.push_back({f.plans[p.plan], b.mean, b.low, b.high, g.mean, g.low, g.high, p.on_frontier});
+        const auto& group = groups[p.group];
+        in.frontier.push_back({f.plans[p.plan], b.mean, b.low, b.high, g.mean, g.low, g.high, p.on_frontier,
+                               group.channel ? std::string(to_string(*group.channel)) + " plans" : std::string()});
     }
 }
 
@@ -248,7 +257,7 @@ ReportInput report_input_for_run(const Scenario& sc, const RunOutput& out, const
     in.comparison.basis = basis.replications;
     if (in.differences) in.differences->basis = basis.replications;
     if (burden && benefit) add_frontier(in, f, *burden, *benefit);
-    if (settings.budget_limit && budget && benefit && out.budget) {
+    if (settings.budget_limit && budget && benefit && !out.budget.empty()) {
         in.budget_answer = budget_sentence(out, *budget, *benefit, *settings.budget_limit);
         if (budget == burden) in.burden_limit = settings.budget_limit;
         if (budget->name.rfind("per_unit_night", 0) == 0 || budget->name.rfind("worst_unit_night", 0) == 0)
@@ -256,6 +265,12 @@ ReportInput report_input_for_run(const Scenario& sc, const RunOutput& out, const
     }
     add_per_ward(in, out.unit_figures, settings.budget_limit ? budget : nullptr);
     add_burden_per_night(in, out.first_replication, f.plans);
+    in.channel_units = channel_units_table(f, out.first_replication.channels.burden);
+    in.channel_units_note = "Each channel counts its burden in the unit a nurse manager would count it in; plans of "
+                            "different channels are compared on staff minutes or evaluations per unit per shift, "
+                            "which mean the same for every channel (staff minutes need roles). " +
+                            std::string(f.replications > 1 ? "Brackets: 95% confidence interval over the replications."
+                                                           : "One replication: no interval.");
     const bool with_staff = out.first_replication.staff.has_value();
     add_lead_times(in, f, with_staff);
     if (with_staff) {

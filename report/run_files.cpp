@@ -49,6 +49,7 @@ std::vector<OutputFile> run_output_files(const Scenario& sc, const RunOutput& ou
     add(frontier_table(out.figures, metric_index(*find_metric(settings.burden_metric)),
                        metric_index(*find_metric(settings.benefit_metric))),
         basis.replications);
+    add(channel_units_table(out.figures, out.first_replication.channels.burden), basis.replications);
     add(plan_net_benefit_table(out.plan_net_benefit), basis.first);
     if (out.evaluation)
         for (Table& table : evaluation_tables(*out.evaluation)) add(std::move(table), basis.first_scores);

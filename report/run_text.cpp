@@ -152,13 +152,16 @@ std::string run_text(const Scenario& sc, const RunOutput& out, const RunSettings
                                        out.first_replication.exclusions) + "\n";
     for (const std::string& line : plan_warning_lines(out.warnings)) text += line + "\n";
     if (!out.warnings.empty()) text += "\n";
-    if (sc.replications > 1) text += comparison_text(out.figures);
+    if (sc.replications > 1) {
+        text += comparison_text(out.figures);
+        text += "\n" + channel_units_text(out.figures, out.first_replication.channels.burden);
+    }
     else text += plan_summary_text(out.first_replication);
     if (const std::string wards = per_ward_text(out.unit_figures); !wards.empty()) text += "\n" + wards;
     if (out.evaluation) text += "\nThe score on the same population (replication 0):\n" + evaluation_summary(*out.evaluation);
     if (sc.simulation.plans.size() > 2) text += "\n" + frontier_text(out.figures, burden, benefit);
-    if (out.budget)
-        text += "\n" + budget_text(out.figures, *out.budget, metric_index(*find_metric(settings.budget_metric)),
+    if (!out.budget.empty())
+        text += "\n" + budget_text(out.figures, out.budget, metric_index(*find_metric(settings.budget_metric)),
                                    *settings.budget_limit, benefit);
     text += "\n" + cautions_text() + "\n";
     return text;

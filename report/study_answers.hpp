@@ -11,7 +11,10 @@
 
 namespace tocsin {
 
+// "review_size": per list length, each figure's mean and 95% interval over replications.
 Table review_size_table(const ReviewSizing& sizing);
+// The terminal table: "mean (low to high)" per figure.
+std::string review_size_text(const ReviewSizing& sizing);
 // The answer in one sentence.
 std::string review_size_answer(const ReviewSizing& sizing);
 

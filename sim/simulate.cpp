@@ -114,6 +114,11 @@ void run_staff(const SimulationSetup& setup, const Population& population, const
     });
     parallel_for(n_plans, threads, [&](std::size_t k) {
         const std::size_t p = order[k];
+        // One capacity model for reviews: the review team declared on the
+        // review does them at minutes_per_review, within its capacity per
+        // round; they are not also queued as tasks of the roles, which would
+        // cost each review twice (README, "The other channels").
+        if (setup.plans[p].channel == Channel::ranked_review) return;
         const StaffModel model = staff_model(setup, setup.plans[p], units);
         record.plans[p].staff = staff_for_plan(record.plans[p].notices, model, setup.plans[p].staffing, calendar,
                                                ReplicationSeed{setup.seed, replication});

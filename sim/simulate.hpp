@@ -18,7 +18,8 @@ struct PlanRecord {
     std::vector<Notice> notices;  // in time order (ties: encounter, then score order)
     // The tasks those notices gave the staff, one per notice that asks for an
     // evaluation, in notice order (TaskRecord::notice indexes `notices`);
-    // present when the scenario declares roles.
+    // present when the scenario declares roles, except for a ranked review
+    // (its review team does the reviews, within the review's own capacity).
     std::optional<StaffRun> staff;
     // Evaluation instants the rule was asked at: usable scores (page), chart
     // openings by the plan's roles, unit handoffs, review rounds per scope.

@@ -135,7 +135,11 @@ DescriptionItem plan_entry(const Plan& p, const Scenario& sc) {
                                       describe_rule(p.rule, sc.score_label));
     if (auto line = channel_line(p, sc.simulation.shifts)) entry.items.push_back(statement(*line));
     if (!p.description.empty()) entry.items.push_back(statement(p.description));
-    if (sc.simulation.has_staff()) {
+    if (sc.simulation.has_staff() && p.channel == Channel::ranked_review) {
+        // One capacity model: the review team does the reviews (sim/simulate.cpp).
+        entry.items.push_back(statement("reviews are done by the review team within the review's own capacity; "
+                                        "the roles' queues, task minutes and escalation do not apply"));
+    } else if (sc.simulation.has_staff()) {
         const EscalationGraph& g = p.escalation ? *p.escalation : sc.simulation.escalation;
         entry.items.push_back(statement(std::string(p.escalation ? "own escalation: " : "escalation: ") +
                                         describe(g, escalation_path(g, p.staffing.first_role))));

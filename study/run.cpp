@@ -54,8 +54,11 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
     run_experiment(sc, make_population, options,
                    [&](std::uint64_t r, const Population& pop, const ShiftCalendar& cal, const ReplicationRecord& rec) {
                        const ReportingShifts rep = reporting_shifts(sc.analysis, pop, cal);
-                       for (const PlanRecord& plan : rec.plans)
-                           kept.figures[r].push_back(plan_figures(sc.analysis, pop, cal, rep, plan));
+                       for (std::size_t p = 0; p < rec.plans.size(); ++p) {
+                           kept.figures[r].push_back(plan_figures(sc.analysis, pop, cal, rep, rec.plans[p]));
+                           add_plan_burdens(kept.figures[r].back(), sc.simulation, pop, cal, rep,
+                                            sc.simulation.plans[p], rec.plans[p]);
+                       }
                        kept.unit_figures[r] = unit_figures(sc.simulation, sc.analysis, pop, cal, rep, rec, kept.figures[r]);
                        if (r == 0) kept.first_scores = observed_scores(pop);  // read after every replication ends
                        if (r != 0 && !settings.notice_log && !settings.task_log) return;
@@ -82,11 +85,13 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
     out.plan_net_benefit = plan_net_benefit(names, kept.figures[0], out.first_replication.population.encounters,
                                             {2, 5, 10, 20, 50});
     out.warnings = plan_warnings(sc.simulation.plans, kept.first_scores, kept.figures[0]);
-    out.figures = collect_figures(names, kept.figures);
+    std::vector<Channel> channels;
+    for (const Plan& p : sc.simulation.plans) channels.push_back(p.channel);
+    out.figures = collect_figures(names, kept.figures, channels);
     out.figures.first_is_log = replication_zero_is_the_log(sc.population);
     out.unit_figures = collect_unit_figures(names, kept.unit_figures);
     if (limited)
-        out.budget = best_within_budget(out.figures, metric_index(*limited), *settings.budget_limit, metric_index(benefit));
+        out.budget = budget_by_group(out.figures, metric_index(*limited), *settings.budget_limit, metric_index(benefit));
     return out;
 }
 

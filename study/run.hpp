@@ -40,7 +40,9 @@ struct RunOutput {
     ReplicatedFigures figures;            // every plan's figures in every replication
     ReplicatedUnitFigures unit_figures;   // every plan's figures on every unit in every replication
     std::vector<PlanNetBenefit> plan_net_benefit;  // replication 0, an evaluation as the intervention
-    std::optional<BudgetAnswer> budget;   // when a budget limit was given
+    // When a budget limit was given: one answer, or one per channel when the
+    // budget metric's unit differs by channel and the plans use several (comparison_groups).
+    std::vector<BudgetAnswer> budget;
     std::optional<Evaluation> evaluation;  // on replication 0's population
     PlanWarnings warnings;                 // thresholds outside replication 0's scores, identical plans
 };

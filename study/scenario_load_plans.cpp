@@ -153,6 +153,13 @@ void parse_review(const Section& s, Plan& p, const std::string& where) {
     if (auto h = r.optional_real("skip_reviewed_hours")) p.review.skip_reviewed = static_cast<Seconds>(std::llround(*h * 3600));
     p.review.minutes_per_review = r.real("minutes_per_review");
     p.review.max_reviews_per_round = review_capacity(r, p.review.minutes_per_review);
+    // One capacity model: the review team declared here does the reviews; the
+    // roles' queues, escalation, rosters and task minutes do not apply to them.
+    for (const char* key : {"queue", "at_shift_end", "escalation", "roster"})
+        if (s.has(key))
+            s.fail(key, "a ranked review is done by its review team at review.minutes_per_review each, within "
+                        "review.max_reviews_per_round (or team_size and team_minutes_per_round); the roles' queues, "
+                        "escalation and rosters do not apply, so leave " + std::string(key) + " out");
 }
 
 void parse_channel_settings(const Section& s, Plan& p, const Scenario& sc, const std::string& where) {

@@ -326,7 +326,7 @@ SectionSpec plans_review_keys() {
                 integer_key("top_n", {.unit = "patients", .required = true, .range = {1, 100000}, .help = "How many patients the list holds (per unit or hospital-wide)."}),
                 text_key("scope", {.fallback = "unit", .help = "unit: one list per unit; hospital: one list for the whole hospital."}),
                 real_key("skip_reviewed_hours", {.unit = "hours", .absent = "none", .range = {0, 24 * 60}, .help = "Skip patients reviewed within this many hours (a rise still brings them back)."}),
-                real_key("minutes_per_review", {.unit = "minutes", .required = true, .range = {0, 600}, .help = "Team time per patient reviewed."}),
+                real_key("minutes_per_review", {.unit = "minutes", .required = true, .range = {0, 600}, .help = "Team time per patient reviewed: the one cost of a review (the roles' task minutes do not apply to reviews)."}),
                 integer_key("max_reviews_per_round", {.unit = "reviews", .absent = "none", .range = {0, 100000}, .help = "The team's capacity per round; listed patients beyond it are not reviewed."}),
                 integer_key("team_size", {.unit = "clinicians", .absent = "none", .range = {1, 1000}, .help = "Capacity from staffing: team_size x team_minutes_per_round / minutes_per_review reviews (rounded down)."}),
                 real_key("team_minutes_per_round", {.unit = "minutes", .absent = "none", .range = {0, 24 * 60}, .help = "Minutes each team member has for one round (with team_size)."}),

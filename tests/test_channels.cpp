@@ -395,6 +395,123 @@ TEST_CASE("channels.review_size") {
     }
 }
 
+TEST_CASE("channels.review_size_over_replications") {
+    // The six patients of channels.review_size (latest scores at 07:00: 90, 80,
+    // 70, 60, 50, 40; one hospital-wide review at 08:00, 15 min each), in two
+    // replications that differ in who goes on to the outcome at 20:00:
+    //   replication 0: the 80 and the 50 (ranks 2 and 5);
+    //   replication 1: the 90 and the 60 (ranks 1 and 4).
+    // Caught for N = 1..6:  rep 0: 0 1 1 1 2 2;  rep 1: 1 1 1 2 2 2.
+    // Catch rate means: 0.25, 0.5, 0.5, 0.75, 1, 1. Smallest N for a mean of
+    // 0.8: 5; for 0.7: 4. At N = 4 the target 0.8 is reached in rep 1 only (50%).
+    // Every catch is the 08:00 review, 12 h before the outcome: median lead 12 h,
+    // and N = 1 of rep 0 has no catch, so its lead is left out (1 replication, no interval).
+    // Reviews per round N (one round); yield at N = 4: 1 of 4 and 2 of 4 cases
+    // per review, 25 and 50 per 100 reviews, mean 37.5.
+    // Interval, as documented (analysis/comparison.hpp): mean +- t(0.975, R-1) s / sqrt(R).
+    // With R = 2, t(0.975, 1) = 12.7062 (Student's t table, e.g. Fisher & Yates,
+    // Statistical Tables, Table III). N = 1 catch rate: values 0, 0.5, s = 0.353553,
+    // half width 12.7062 x 0.353553 / sqrt(2) = 3.17655.
+    auto ward = [](double case_a, double case_b) {
+        Ward w;
+        const double values[] = {90, 80, 70, 60, 50, 40};
+        for (int i = 0; i < 6; ++i) {
+            const bool outcome = values[i] == case_a || values[i] == case_b;
+            const auto e = w.patient("S" + std::to_string(i), 0, at(3, 0), at(3, 23),
+                                     outcome ? std::optional<Instant>(at(3, 20)) : std::nullopt);
+            w.score(e, at(3, 7), values[i]);
+        }
+        w.done();
+        Plan& p = w.plan(Channel::ranked_review, -INFINITY);
+        p.review.times_minutes = {8 * 60};
+        p.review.scope = ReviewScope::hospital;
+        p.review.minutes_per_review = 15;
+        return w;
+    };
+    Ward first = ward(80, 50), second = ward(90, 60);
+    first.sc.replications = 2;
+    const PopulationFactory two = [&](std::uint64_t r) { return r == 0 ? first.pop : second.pop; };
+    const ReviewSizing s = size_review_list(first.sc, two, 0, 1, 6, 0.8, 1);
+    REQUIRE(s.summary.size() == 6);
+    CHECK(s.replications == 2);
+    std::vector<double> rates;
+    for (const auto& row : s.summary) rates.push_back(row.catch_rate.mean);
+    CHECK(rates == std::vector<double>{0.25, 0.5, 0.5, 0.75, 1, 1});
+    CHECK(s.smallest_n == 5);
+    CHECK(s.summary[3].reaches_target_share == 0.5);
+    CHECK(s.summary[4].reaches_target_share == 1.0);
+    CHECK(s.summary[0].catch_rate.low == doctest::Approx(0.25 - 3.17655).epsilon(1e-5));
+    CHECK(s.summary[0].catch_rate.high == doctest::Approx(0.25 + 3.17655).epsilon(1e-5));
+    CHECK(s.summary[0].lead_median_hours.n == 1);
+    CHECK(s.summary[0].lead_median_hours.mean == 12);
+    CHECK(std::isnan(s.summary[0].lead_median_hours.low));
+    CHECK(s.summary[3].lead_median_hours.mean == 12);
+    CHECK(s.summary[3].lead_median_hours.low == 12);  // no spread
+    CHECK(s.summary[3].caught_per_100_reviews.mean == 37.5);
+    CHECK(s.summary[3].reviews_per_round.mean == 4);
+    CHECK(s.summary[3].minutes_per_round.mean == 60);
+    // Replication 0's own rows are kept as they were.
+    CHECK(s.rows[3].caught == 1);
+    CHECK(s.rows[3].caught_per_100_reviews == 25.0);
+    first.sc.replications = 2;
+    CHECK(size_review_list(first.sc, two, 0, 1, 6, 0.7, 1).smallest_n == 4);
+    // The same figures whatever the thread count.
+    const ReviewSizing threaded = size_review_list(first.sc, two, 0, 1, 6, 0.8, 2);
+    CHECK(to_csv(review_size_table(threaded)) == to_csv(review_size_table(s)));
+    CHECK(review_size_answer(s).find("N = 5: 2 (2 to 2) of 2 cases caught") != std::string::npos);
+    CHECK(review_size_text(s).find("0.25 (-2.927 to 3.427)") != std::string::npos);
+}
+
+TEST_CASE("channels.review_costed_once_with_roles") {
+    // The six patients of channels.review_size, on one unit; one role (a
+    // hospital team of one on each shift, 10 minutes a task). A page at 75
+    // fires at 07:00 for the 90 and the 80: two tasks of the role, 20 minutes.
+    // A review of the top 2 at 08:00 reviews the same two at 15 minutes each
+    // (30 minutes): the review team does them, so they are not also queued at
+    // the role (which would cost them 10 minutes more each and let them wait).
+    // Channel-neutral burdens per unit per reporting shift (R shifts, one unit):
+    // page 20/R minutes, 2/R evaluations; review 30/R minutes, 2/R evaluations.
+    Ward w;
+    const double values[] = {90, 80, 70, 60, 50, 40};
+    for (int i = 0; i < 6; ++i) w.score(w.patient("S" + std::to_string(i), 0, at(3, 0), at(3, 23)), at(3, 7), values[i]);
+    w.done();
+    Role nurse;
+    nurse.name = "nurse";
+    nurse.roster.by_shift = {1, 1};
+    nurse.minutes_per_task = FixedMinutes{10.0};
+    w.sc.simulation.roles = {nurse};
+    w.sc.simulation.escalation = EscalationGraph({"nurse"});
+    w.plan(Channel::page, 75);
+    Plan& review = w.plan(Channel::ranked_review, -INFINITY);
+    review.review.times_minutes = {8 * 60};
+    review.review.top_n = 2;
+    review.review.minutes_per_review = 15;
+    const ShiftCalendar cal = w.calendar();
+    const ReplicationRecord rec = simulate_replication(w.sc.simulation, w.pop, cal, 0, 1);
+    REQUIRE(rec.plans[0].staff);
+    CHECK(rec.plans[0].staff->tasks.size() == 2);
+    CHECK_FALSE(rec.plans[1].staff.has_value());
+    CHECK(story(w.pop, rec.plans[1].notices) == Expected{"03 08:00 S0 first", "03 08:00 S1 first"});
+    const ReportingShifts rep = reporting_shifts(w.sc.analysis, w.pop, cal);
+    const double shifts = static_cast<double>(rep.shifts.size());
+    REQUIRE(shifts > 0);
+    for (std::size_t p = 0; p < 2; ++p) {
+        PlanFigures f = plan_figures(w.sc.analysis, w.pop, cal, rep, rec.plans[p]);
+        add_plan_burdens(f, w.sc.simulation, w.pop, cal, rep, w.sc.simulation.plans[p], rec.plans[p]);
+        CHECK(f.evaluations == 2);
+        CHECK(f.evaluations_per_unit_shift == doctest::Approx(2 / shifts));
+        CHECK(f.staff_minutes_per_unit_shift == doctest::Approx((p == 0 ? 20 : 30) / shifts));
+    }
+    // The review's own unit: 2 patients reviewed per round (one round).
+    PlanFigures f = plan_figures(w.sc.analysis, w.pop, cal, rep, rec.plans[1]);
+    add_plan_burdens(f, w.sc.simulation, w.pop, cal, rep, w.sc.simulation.plans[1], rec.plans[1]);
+    CHECK(f.channel_burden_mean == 2.0);
+    // The run's staff tables leave the review plan out rather than showing empty work.
+    const ReplicationResults r = replication_results(w.sc.simulation, w.sc.analysis, w.pop, cal, rec, false);
+    REQUIRE(r.staff);
+    for (const RoleWorkload& row : r.staff->workload) CHECK(row.plan == "plan0");
+}
+
 TEST_CASE("channels.round_times_across_daylight_saving") {
     // America/Chicago. On 8 March 2026 clocks go forward at 02:00 CST (08:00Z)
     // to 03:00 CDT: a 02:30 review moves forward to 03:30 CDT = 08:30Z. On 1

@@ -120,7 +120,83 @@ TEST_CASE("comparison.budget") {
     CHECK(a.share_best == doctest::Approx(0.75));
     const BudgetAnswer none = best_within_budget(f, burden(), 0.5, benefit());
     CHECK_FALSE(none.best);
-    CHECK(budget_text(f, none, burden(), 0.5, benefit()).find("No plan keeps") != std::string::npos);
+    CHECK(budget_text(f, {none}, burden(), 0.5, benefit()).find("No plan keeps") != std::string::npos);
+}
+
+TEST_CASE("comparison.within_channel") {
+    // Four plans, one replication, (notices per unit per night, caught):
+    //   P1 page (2, 10), P2 page (4, 12), R1 ranked_review (0, 8), R2 ranked_review (0, 11).
+    // A review at 08:00 counts 0 per night, so ranked across channels R2 (0, 11)
+    // would beat P1 (2, 10), and only R2 and P2 would be on the one frontier.
+    // Within each channel: pages P1 (2, 10) and P2 (4, 12) are both on the page
+    // frontier; among reviews R2 beats R1 (same burden, more caught).
+    ReplicatedFigures f = figures({"P1", "P2", "R1", "R2"}, {{{2, 10}}, {{4, 12}}, {{0, 8}}, {{0, 11}}});
+    f.channels = {Channel::page, Channel::page, Channel::ranked_review, Channel::ranked_review};
+    const auto groups = comparison_groups(f, burden());
+    REQUIRE(groups.size() == 2);
+    CHECK(groups[0].channel == Channel::page);
+    CHECK(groups[0].plans == std::vector<std::size_t>{0, 1});
+    CHECK(groups[1].channel == Channel::ranked_review);
+    CHECK(groups[1].plans == std::vector<std::size_t>{2, 3});
+    std::vector<bool> on;
+    for (const auto& p : frontier(f, burden(), benefit())) on.push_back(p.on_frontier);
+    CHECK(on == std::vector<bool>{true, true, false, true});
+    const std::string text = frontier_text(f, burden(), benefit());
+    CHECK(text.find("Compared within each channel") != std::string::npos);
+    CHECK(text.find("frontier of the page plans (2 of 2 plans") != std::string::npos);
+    CHECK(text.find("frontier of the ranked_review plans (1 of 2 plans") != std::string::npos);
+    const Table t = frontier_table(f, burden(), benefit());
+    CHECK(std::get<std::string>(t.rows[0][1]) == "page plans");
+    CHECK(std::get<std::string>(t.rows[3][1]) == "ranked_review plans");
+
+    SUBCASE("the budget is answered within each channel") {
+        // Limit 3 per night: among pages only P1 (10 caught) is within; among
+        // reviews both are, and R2 (11) is best. Across channels R2 would have
+        // been "the" answer and P1 would never be named.
+        const auto answers = budget_by_group(f, burden(), 3.0, benefit());
+        REQUIRE(answers.size() == 2);
+        CHECK(answers[0].channel == Channel::page);
+        CHECK(answers[0].best == std::optional<std::size_t>{0});
+        CHECK(answers[1].best == std::optional<std::size_t>{3});
+        const std::string b = budget_text(f, answers, burden(), 3.0, benefit());
+        CHECK(b.find("Best within the budget among the page plans: P1") != std::string::npos);
+        CHECK(b.find("Best within the budget among the ranked_review plans: R2") != std::string::npos);
+    }
+    SUBCASE("a channel-neutral burden ranks every plan together, and says so") {
+        // Evaluations per unit per shift, (burden, caught): P1 (1, 10), P2 (2, 12),
+        // R1 (1.5, 8), R2 (1, 11). One frontier: R2 beats P1 (same burden, more
+        // caught) and R1; P2 has the most caught.
+        const std::size_t evals = metric_index(*find_metric("evaluations_per_unit_shift"));
+        const double per_shift[] = {1, 2, 1.5, 1};
+        for (std::size_t p = 0; p < 4; ++p) f.values[p][evals] = {per_shift[p]};
+        REQUIRE(comparison_groups(f, evals).size() == 1);
+        CHECK_FALSE(comparison_groups(f, evals)[0].channel.has_value());
+        on.clear();
+        for (const auto& p : frontier(f, evals, benefit())) on.push_back(p.on_frontier);
+        CHECK(on == std::vector<bool>{false, true, false, true});
+        CHECK(comparison_basis_text(f, evals).find("Compared across channels on evaluations_per_unit_shift") == 0);
+        CHECK(budget_by_group(f, evals, 1.5, benefit()).size() == 1);
+    }
+    SUBCASE("paired differences in notices are left out across channels") {
+        // Two replications: P1 (2, 10), (2, 12); R2 (0, 11), (0, 13). R2 minus P1:
+        // caught +1 in both; its notices per night are not pages, so no difference.
+        ReplicatedFigures g = figures({"P1", "R2"}, {{{2, 10}, {2, 12}}, {{0, 11}, {0, 13}}});
+        g.channels = {Channel::page, Channel::ranked_review};
+        const std::string text = comparison_text(g);
+        CHECK(text.find("R2: 1 (1 to 1) cases caught (a ranked_review plan: its notices are not comparable with page "
+                        "notices)") != std::string::npos);
+        const Table d = differences_by_plan(g, {burden(), benefit()});
+        REQUIRE(d.rows.size() == 1);
+        CHECK(std::holds_alternative<std::monostate>(d.rows[0][1]));  // per_unit_night_mean: empty
+        CHECK(std::get<double>(d.rows[0][4]) == doctest::Approx(1));   // caught
+        for (const auto& row : comparison_tables(g).differences.rows)
+            if (std::get<std::string>(row[2]) == "per_unit_night_mean") CHECK(std::holds_alternative<std::monostate>(row[3]));
+    }
+    SUBCASE("plans of one channel need no grouping") {
+        f.channels = {Channel::page, Channel::page, Channel::page, Channel::page};
+        REQUIRE(comparison_groups(f, burden()).size() == 1);
+        CHECK(comparison_basis_text(f, burden()).empty());
+    }
 }
 
 TEST_CASE("comparison.plan_net_benefit") {

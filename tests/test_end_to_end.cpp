@@ -150,11 +150,41 @@ TEST_CASE("end_to_end.review_size") {
     INFO(r.output);
     REQUIRE(r.exit_code == 0);
     const std::string csv = read_file(dir.path("size/review_size.csv"));
-    CHECK(csv.rfind("top_n,cases,caught,catch_rate,on_list,on_list_share,reviews,reviews_per_round,minutes_per_round,reaches_target\n", 0) == 0);
+    CHECK(csv.rfind("top_n,replications,cases,cases_low,cases_high,caught,caught_low,caught_high,catch_rate,", 0) == 0);
+    CHECK(csv.find(",lead_median_h,lead_median_h_low,lead_median_h_high,caught_per_100_reviews,") != std::string::npos);
     CHECK(std::count(csv.begin(), csv.end(), '\n') == 7);
     CHECK((r.output.find("The shortest list reaching a catch rate of 0.6 is N = ") != std::string::npos ||
            r.output.find("No list length from 1 to 6") != std::string::npos));
     check_golden_text(dir, read_file(dir.path("size/review_size.csv")) + terminal_text(r.output), "replay_review_size.txt");
+    // Over replications (the generated demo, 3 of them): an interval on every
+    // figure, and the same table whatever the thread count.
+    const auto three = run_tocsin("review-size " + generated_demo + " --plan review-top4 --sizes 2-4 -r 3 -j 1 --out " +
+                                  dir.path("three"));
+    INFO(three.output);
+    REQUIRE(three.exit_code == 0);
+    CHECK(three.output.find("mean over 3 replications (95% CI)") != std::string::npos);
+    {
+        // The row for N = 2: 3 replications, and an interval on the catch rate.
+        std::istringstream rows(read_file(dir.path("three/review_size.csv")));
+        std::string header, row, cell;
+        std::getline(rows, header);
+        std::getline(rows, row);
+        std::vector<std::string> cells;
+        std::istringstream split(row);
+        while (std::getline(split, cell, ',')) cells.push_back(cell);
+        REQUIRE(cells.size() > 10);
+        CHECK(cells[0] == "2");
+        CHECK(cells[1] == "3");
+        CHECK_FALSE(cells[9].empty());   // catch_rate_low
+        CHECK_FALSE(cells[10].empty());  // catch_rate_high
+        CHECK(std::stod(cells[9]) <= std::stod(cells[8]));
+        CHECK(std::stod(cells[8]) <= std::stod(cells[10]));
+    }
+    const auto threaded = run_tocsin("review-size " + generated_demo + " --plan review-top4 --sizes 2-4 -r 3 -j 2 --out " +
+                                     dir.path("threaded"));
+    CHECK(read_file(dir.path("three/review_size.csv")) == read_file(dir.path("threaded/review_size.csv")));
+    const auto replay_many = run_tocsin("review-size " + demo + " --plan review-top4 -r 2");
+    CHECK(replay_many.exit_code == 2);
     const auto page = run_tocsin("review-size " + demo + " --plan page-70");
     CHECK(page.exit_code == 2);
     CHECK(page.output.find("list sizing needs a ranked_review plan") != std::string::npos);

@@ -29,9 +29,8 @@ SimulationSetup shared_nurse() {
                                               roles_ever_staffed(setup.roles));
     Plan page;
     page.name = "page";
-    Plan review = page;
-    review.name = "review";
-    review.channel = Channel::ranked_review;
+    Plan review = page;  // a second page plan, to the same nurse, without the edge
+    review.name = "quiet page";
     review.escalation = EscalationGraph({"rapid response nurse", "physician"});  // no edges
     setup.plans = {page, review};
     return setup;
@@ -47,7 +46,7 @@ StaffRun run_plan(const SimulationSetup& setup, const Plan& plan) {
 
 }  // namespace
 
-TEST_CASE("plan_staffing.review_without_escalation_and_page_with_it_share_a_role") {
+TEST_CASE("plan_staffing.two_page_plans_share_a_role_one_without_escalation") {
     const SimulationSetup setup = shared_nurse();
     // Page plan: the nurse takes the 10:00 notice until 10:30. The 10:05 one
     // waits; at 10:25 (20 min) it moves to the physician, free, who takes it up
@@ -61,7 +60,7 @@ TEST_CASE("plan_staffing.review_without_escalation_and_page_with_it_share_a_role
     CHECK(page.tasks[1].started_at == march(2, 10, 25));
     CHECK(page.tasks[1].ended_at == march(2, 10, 35));
     CHECK(page.tasks[1].fate == TaskFate::escalated_then_finished);
-    // Review plan, same nurse, no edge: the 10:05 task waits for the nurse,
+    // The second page plan, same nurse, no edge: the 10:05 task waits for the nurse,
     // who is free at 10:30 and finishes it at 11:00.
     const StaffRun review = run_plan(setup, setup.plans[1]);
     REQUIRE(review.tasks.size() == 2);
@@ -133,19 +132,20 @@ InputError load_error(const std::string& text) { return tocsin::testing::scenari
 }  // namespace
 
 TEST_CASE("plan_staffing.scenario_keys") {
-    const Scenario sc = parse_scenario(scenario_with("", "    escalation: []\n    roster: {night: 0, day: 2}\n"), "s.yaml", "");
+    const Scenario sc = parse_scenario(scenario_with("    escalation: []\n    roster: {night: 0, day: 2}\n", ""), "s.yaml", "");
     const Plan& page = sc.simulation.plans[0];
     const Plan& review = sc.simulation.plans[1];
-    CHECK_FALSE(page.escalation.has_value());
-    CHECK_FALSE(page.roster.has_value());
-    REQUIRE(review.escalation.has_value());
-    CHECK_FALSE(review.escalation->next(0).has_value());
-    REQUIRE(review.roster.has_value());
-    CHECK(review.roster->by_shift == std::vector<int>{2, 0});  // by shift name, in shift order
+    REQUIRE(page.escalation.has_value());
+    CHECK_FALSE(page.escalation->next(0).has_value());
+    REQUIRE(page.roster.has_value());
+    CHECK(page.roster->by_shift == std::vector<int>{2, 0});  // by shift name, in shift order
+    CHECK_FALSE(review.escalation.has_value());
+    CHECK_FALSE(review.roster.has_value());
     const std::string text = describe_scenario(sc);
-    CHECK(text.find("escalation: rapid response nurse -(20 min)-> physician; worst case 20 min") != std::string::npos);
     CHECK(text.find("own escalation: rapid response nurse (no escalation") != std::string::npos);
     CHECK(text.find("own roster of rapid response nurse: day 2, night 0") != std::string::npos);
+    // A review is done by its review team, not the roles: no escalation to describe.
+    CHECK(text.find("reviews are done by the review team") != std::string::npos);
     // A plan's own path, different from the scenario's.
     const Scenario other = parse_scenario(
         scenario_with("    escalation:\n      - {from: rapid response nurse, to: physician, after_minutes: 5}\n", ""),
@@ -167,9 +167,9 @@ TEST_CASE("plan_staffing.errors_name_file_line_and_key") {
         CHECK(std::string(e.what()).find("doctor") != std::string::npos);
     }
     SUBCASE("an edge without its timeout") {
-        const InputError e = load_error(scenario_with("", "    escalation: [{from: rapid response nurse, to: physician}]\n"));
-        CHECK(e.line == 18);
-        CHECK(e.field.find("plans[1].escalation[0]") != std::string::npos);
+        const InputError e = load_error(scenario_with("    escalation: [{from: rapid response nurse, to: physician}]\n", ""));
+        CHECK(e.line == 14);
+        CHECK(e.field.find("plans[0].escalation[0]") != std::string::npos);
         CHECK(std::string(e.what()).find("after_minutes") != std::string::npos);
     }
     SUBCASE("escalation given as a section, not a list") {
@@ -178,9 +178,9 @@ TEST_CASE("plan_staffing.errors_name_file_line_and_key") {
         CHECK(std::string(e.what()).find("expected a list") != std::string::npos);
     }
     SUBCASE("a roster naming an undeclared shift") {
-        const InputError e = load_error(scenario_with("", "    roster: {day: 1, evening: 1}\n"));
-        CHECK(e.line == 18);
-        CHECK(e.field == "plans[1].roster.evening");
+        const InputError e = load_error(scenario_with("    roster: {day: 1, evening: 1}\n", ""));
+        CHECK(e.line == 14);
+        CHECK(e.field == "plans[0].roster.evening");
         CHECK(std::string(e.what()).find("unknown shift 'evening' (declared shifts: day, night)") != std::string::npos);
     }
     SUBCASE("a roster leaving nobody where the plan's tasks end up") {
@@ -190,6 +190,16 @@ TEST_CASE("plan_staffing.errors_name_file_line_and_key") {
         CHECK(e.line == 15);
         CHECK(e.field == "plans[0].roster");
         CHECK(std::string(e.what()).find("nobody is on duty on any shift at 'rapid response nurse'") != std::string::npos);
+    }
+    SUBCASE("a review's own escalation or roster") {
+        // Reviews are done by the review team, not queued to the roles.
+        for (const std::string key : {"escalation: []", "roster: {day: 1, night: 1}"}) {
+            CAPTURE(key);
+            const InputError e = load_error(scenario_with("", "    " + key + "\n"));
+            CHECK(e.line == 18);
+            CHECK(e.field == "plans[1]." + key.substr(0, key.find(':')));
+            CHECK(std::string(e.what()).find("review team") != std::string::npos);
+        }
     }
     SUBCASE("own staffing without roles") {
         const InputError e = load_error(scenario_with("    roster: {day: 1, night: 1}\n", "", false));

@@ -5,6 +5,7 @@
 
 #include "report/report_run.hpp"
 #include "models/population_source.hpp"
+#include "study/review_size.hpp"
 
 using namespace tocsin;
 
@@ -57,7 +58,18 @@ TEST_CASE("report_run.demo") {
     CHECK(page.find(" \xC2\xB7 168</text>") != std::string::npos);
     // The budget question is answered in words and drawn on the per-night chart
     // (the budget limits worst_unit_night_p90, unit-nights too; the frontier's axis is the pooled mean).
-    CHECK(page.find("Best within the budget: page-55-twice") != std::string::npos);
+    // The demo's plans use four channels and the budget counts notices, so it is
+    // answered within each channel, and the report says why.
+    CHECK(page.find("Best within the budget among the page plans: page-55-twice") != std::string::npos);
+    CHECK(page.find("Compared within each channel: per_unit_night_mean") != std::string::npos);
+    // One frontier chart per channel (page, chart_interruption, handoff_list, ranked_review).
+    CHECK(page.find("id=\"fig-frontier\"") != std::string::npos);
+    CHECK(page.find("id=\"fig-frontier-4\"") != std::string::npos);
+    CHECK(page.find("id=\"fig-frontier-5\"") == std::string::npos);
+    // The channel-unit table, with each channel's own unit.
+    CHECK(page.find("<section id=\"channels\"") != std::string::npos);
+    CHECK(page.find("patients reviewed per unit per review round") != std::string::npos);
+    CHECK(page.find("interruptions per clinician per shift") != std::string::npos);
     CHECK(page.find("marks the budget of 4.") != std::string::npos);
     CHECK(page.find("Paired differences from page-70") != std::string::npos);
     CHECK(page.find("Replications</dt><dd>3</dd>") != std::string::npos);
@@ -81,4 +93,28 @@ TEST_CASE("report_run.replay_names_its_wards") {
           std::string::npos);
     CHECK(page.find("<section id=\"per-ward\"") != std::string::npos);
     CHECK(page.find("<th scope=\"row\">6 East older adults</th>") != std::string::npos);
+}
+
+TEST_CASE("report_run.review_size_agrees_with_run") {
+    // One capacity model: `run` and `review-size` cost and count a review alike,
+    // so sizing the demo's review plan at its own list length (4 per ward)
+    // gives, replication by replication, the run's catches and reviews.
+    Scenario sc = load_scenario(demo);
+    sc.replications = 3;
+    RunSettings settings;
+    settings.threads = 1;
+    settings.evaluate = false;
+    const PopulationFactory factory = population_factory(sc.population);
+    const RunOutput out = run_scenario(sc, factory, settings);
+    std::size_t p = 0;
+    while (sc.simulation.plans[p].name != "review-top4") ++p;
+    REQUIRE(sc.simulation.plans[p].review.top_n == 4);
+    const ReviewSizing s = size_review_list(sc, factory, p, 4, 4, 0.8, 1);
+    REQUIRE(s.summary.size() == 1);
+    const MeanInterval caught = mean_interval(out.figures.of(p, metric_index(*find_metric("caught"))));
+    const MeanInterval notices = mean_interval(out.figures.of(p, metric_index(*find_metric("notices"))));
+    CHECK(s.summary[0].caught.mean == caught.mean);
+    CHECK(s.summary[0].caught.low == caught.low);
+    CHECK(s.summary[0].reviews.mean == notices.mean);
+    CHECK(s.summary[0].catch_rate.n == 3);
 }

@@ -127,3 +127,20 @@ TEST_CASE("scenario.staff_errors") {
         CHECK(std::string(load_error(text).what()).find("needs roles") != std::string::npos);
     }
 }
+
+TEST_CASE("scenario.review_capacity_declared_once") {
+    // One capacity model for a ranked review: its review team (review.*) does
+    // the reviews at minutes_per_review each within its capacity per round; the
+    // roles' queues do not apply, so a queue or shift-end policy on the plan is
+    // refused at its own line rather than silently ignored.
+    const std::string review = "    channel: ranked_review\n"                                              // 14
+                               "    review: {times: [\"08:00\"], top_n: 5, minutes_per_review: 10}\n";  // 15
+    for (const std::string key : {"queue: priority", "at_shift_end: drop"}) {
+        const InputError e = load_error(scenario_with(two_roles, review + "    " + key + "\n"));  // 16
+        CHECK(e.line == 16);
+        CHECK(std::string(e.what()).find("the roles' queues, escalation and rosters do not apply") != std::string::npos);
+    }
+    // Without those keys the same plan loads, its role one of the declared roles.
+    const Scenario sc = parse_scenario(scenario_with(two_roles, review), "s.yaml", "");
+    CHECK(sc.simulation.plans[0].review.minutes_per_review == 10);
+}
