@@ -188,18 +188,20 @@ std::size_t metric_index(std::string_view name) { return metric_index(*find_metr
 
 std::string channel_units_text(const ReplicatedFigures& f, const std::vector<ChannelBurdenSummary>& first) {
     Table view;
-    view.title = "Each channel in its own unit, and per unit per shift for every channel: mean (95% CI) over " +
-                 std::to_string(f.replications) + " replications";
-    view.columns = {"plan", "burden_unit", "mean", "p90", "staff_min_per_unit_shift", "evaluations_per_unit_shift"};
+    view.title = "Each channel in its own unit, and per unit per shift for every channel: mean \xC2\xB1 half-width "
+                 "of its 95% CI over " + std::to_string(f.replications) + " replications";
+    // Named as in channel_units and the options.
+    view.columns = {"plan", "burden_unit", "channel_burden_mean", "channel_burden_p90", "staff_minutes_per_unit_shift",
+                    "evaluations_per_unit_shift"};
     const std::size_t mean = metric_index(*find_metric("channel_burden_mean")),
                       p90 = metric_index(*find_metric("channel_burden_p90")),
                       minutes = metric_index(*find_metric("staff_minutes_per_unit_shift")),
                       evaluations = metric_index(*find_metric("evaluations_per_unit_shift"));
     for (std::size_t p = 0; p < f.plans.size(); ++p)
         view.add_row({f.plans[p], p < first.size() ? first[p].burden : std::string(),
-                      with_interval(mean_interval(f.of(p, mean)), 2), with_interval(mean_interval(f.of(p, p90)), 1),
-                      with_interval(mean_interval(f.of(p, minutes)), 1),
-                      with_interval(mean_interval(f.of(p, evaluations)), 2)});
+                      with_margin(mean_interval(f.of(p, mean)), 2), with_margin(mean_interval(f.of(p, p90)), 1),
+                      with_margin(mean_interval(f.of(p, minutes)), 1),
+                      with_margin(mean_interval(f.of(p, evaluations)), 2)});
     return to_text(view);
 }
 

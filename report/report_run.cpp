@@ -264,8 +264,10 @@ ReportInput report_input_for_run(const Scenario& sc, const RunOutput& out, const
             in.per_night_limit = settings.budget_limit;
     }
     add_per_ward(in, out.unit_figures, settings.budget_limit ? budget : nullptr);
+    if (in.per_ward) in.per_ward->basis = basis.replications;
     add_burden_per_night(in, out.first_replication, f.plans);
     in.channel_units = channel_units_table(f, out.first_replication.channels.burden);
+    if (in.channel_units) in.channel_units->basis = basis.replications;
     in.channel_units_note = "Each channel counts its burden in the unit a nurse manager would count it in; plans of "
                             "different channels are compared on staff minutes or evaluations per unit per shift, "
                             "which mean the same for every channel (staff minutes need roles). " +

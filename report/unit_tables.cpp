@@ -95,14 +95,13 @@ std::string per_ward_text(const ReplicatedUnitFigures& f) {
                           ? "Per ward, means over " + std::to_string(f.replications) +
                                 " replications (intervals in plan_unit_comparison and the report)"
                           : "Per ward (notices per night on the ward; its own patients' catches; lead in hours)";
-    out += teams ? ";\nteam_min: staff minutes per shift of the ward's own teams.\n" : ":\n";
+    out += teams ? ";\nunit_team_minutes: staff minutes per shift of the ward's own teams.\n" : ":\n";
+    // Columns named as in plan_unit_summary and the options.
     std::vector<std::string_view> shown = {"per_unit_night_mean", "per_unit_night_p90", "per_unit_night_max",
                                            "caught",              "cases",              "lead_median_h"};
-    std::vector<std::string> columns = {"plan", "night_mean", "night_p90", "night_max", "caught", "cases", "lead_h"};
-    if (teams) {
-        shown.emplace_back("unit_team_minutes_per_shift_mean");
-        columns.push_back("team_min");
-    }
+    if (teams) shown.emplace_back("unit_team_minutes_per_shift_mean");
+    std::vector<std::string> columns = {"plan"};
+    for (std::string_view name : shown) columns.emplace_back(name);
     for (std::size_t u = 0; u < f.units.size(); ++u) {
         Table view;
         view.title = "Ward: " + f.units[u];
