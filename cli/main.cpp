@@ -32,6 +32,8 @@
 #include "study/review_size.hpp"
 #include "models/errors.hpp"
 #include "models/fit.hpp"
+#include "report/fit_check_text.hpp"
+#include "study/fit_check.hpp"
 #include "models/replay.hpp"
 #include "study/scenario.hpp"
 #include "study/scenario_keys.hpp"
@@ -68,6 +70,8 @@ struct FitCommand {
     std::string scale;  // empty: the scale the scores show
     std::string stay = "lognormal";
     bool by_hour_of_day = false;
+    bool check = false;
+    std::uint64_t check_replications = 40;
 };
 
 void add_run_options(CLI::App* cmd, RunOptions& o) {
@@ -280,14 +284,21 @@ int command_fit(const FitCommand& cmd) {
                                                        : "; give --scale points or --scale probability"));
     const GeneratorFit fit = fit_generator(log, options);
     const std::string fragment = scenario_fragment(fit.config, fit.notes);
+    std::string check_text;  // computed before anything is written: an error leaves no partial output
+    if (cmd.check)
+        check_text = fit_check_text(check_fit(sc, log, fit.config, cmd.check_replications,
+                                              std::max(1u, std::thread::hardware_concurrency())));
     if (cmd.out_path.empty()) {
         std::cout << fragment;
+        // As comments, so that the terminal output stays a fragment one can paste.
+        std::istringstream lines(check_text);
+        for (std::string line; std::getline(lines, line);) std::cout << "# " << line << "\n";
     } else {
         write_output_file(cmd.out_path, fragment);
         std::string said = scale.reason;
         said[0] = static_cast<char>(std::toupper(static_cast<unsigned char>(said[0])));
         std::cout << "Fitted " << fit.encounters_admitted << " admissions (" << fit.cases << " cases) and " << fit.scores
-                  << " scores; wrote " << cmd.out_path << "\n" << said << ".\n";
+                  << " scores; wrote " << cmd.out_path << "\n" << said << ".\n" << check_text;
     }
     return 0;
 }
@@ -321,6 +332,8 @@ int main(int argc, char** argv) {
     fit->add_option("-o,--out", fit_cmd.out_path, "Write the fragment to this file instead of the terminal");
     fit->add_option("--scale", fit_cmd.scale, "Score scale of the log (default: the scale the scores show; refused when they cannot tell)")->check(CLI::IsMember({"points", "probability"}));
     fit->add_option("--stay", fit_cmd.stay, "Length-of-stay family")->check(CLI::IsMember({"lognormal", "gamma"}));
+    fit->add_flag("--check", fit_cmd.check, "Generate replications from the fitted knobs and set the log's own figures beside their range");
+    fit->add_option("--check-replications", fit_cmd.check_replications, "Replications for --check (default 40)")->check(CLI::Range(2, 10000));
     fit->add_flag("--by-hour-of-day", fit_cmd.by_hour_of_day, "One arrival rate per hour of day, every day alike (steadier for short logs)");
 
     SizeOptions size_opt;

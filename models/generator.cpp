@@ -60,6 +60,11 @@ void generate_scores(const GeneratorConfig& config, const Encounter& encounter, 
 
     const Instant usable_until = Population::usable_until(encounter);
     const bool is_case = encounter.outcome_at.has_value();
+    double rise = sc.drift_size;
+    if (is_case && sc.drift_size_sd > 0.0) {
+        RandomEngine own = make_stream(seed, replication, StreamPurpose::rise_size, entity);
+        rise += sc.drift_size_sd * standard_normal(own);
+    }
     const double time_zero = is_case ? static_cast<double>(*encounter.outcome_at) : 0.0;
     const double onset_seconds = std::max(onset_hours * 3600.0, 1.0);
     const double cadence_seconds = sc.cadence_minutes * 60.0;
@@ -80,7 +85,7 @@ void generate_scores(const GeneratorConfig& config, const Encounter& encounter, 
             double latent = sc.baseline + patient_offset + sc.within_patient_sd * z_noise;
             if (is_case) {
                 const double progress = (t - (time_zero - onset_seconds)) / onset_seconds;
-                latent += sc.drift_size * std::clamp(progress, 0.0, 1.0);
+                latent += rise * std::clamp(progress, 0.0, 1.0);
             }
             const Seconds latency = sc.latency_median_minutes > 0.0
                                         ? static_cast<Seconds>(std::exp(latency_mu + sc.latency_log_sd * z_latency))
@@ -143,6 +148,7 @@ void validate(const GeneratorConfig& c) {
     require(finite_nonnegative(s.between_patient_sd), "scores.between_patient_sd", "must be >= 0");
     require(finite_nonnegative(s.within_patient_sd), "scores.within_patient_sd", "must be >= 0");
     require(std::isfinite(s.drift_size), "scores.drift_size", "must be finite");
+    require(finite_nonnegative(s.drift_size_sd), "scores.drift_size_sd", "must be >= 0");
     require(s.drift_onset_min_hours >= 0 && s.drift_onset_min_hours <= s.drift_onset_max_hours &&
                 std::isfinite(s.drift_onset_max_hours),
             "scores.drift_onset_min_hours/max_hours", "need 0 <= min <= max");

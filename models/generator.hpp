@@ -70,6 +70,11 @@ struct ScoreConfig {
     // Cases only: a linear rise from 0 to drift_size, starting a uniform number of
     // hours in [onset_min, onset_max] before time zero and complete at time zero.
     double drift_size = 20.0;
+    // Each case's own rise is drift_size + drift_size_sd x a standard normal
+    // (stream rise_size): patients differ in how far they climb, and a log
+    // whose rises vary is harder to catch than one where every case climbs
+    // alike. Drawn from its own stream, so 0 leaves every other draw as it was.
+    double drift_size_sd = 0.0;
     double drift_onset_min_hours = 6.0;
     double drift_onset_max_hours = 48.0;
 };

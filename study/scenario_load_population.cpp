@@ -107,6 +107,7 @@ ScoreConfig parse_scores(const Section& s) {
     k.between_patient_sd = s.real("between_patient_sd");
     k.within_patient_sd = s.real("within_patient_sd");
     k.drift_size = s.real("drift_size");
+    k.drift_size_sd = s.real("drift_size_sd");
     k.drift_onset_min_hours = s.real("drift_onset_min_hours");
     k.drift_onset_max_hours = s.real("drift_onset_max_hours");
     if (k.drift_onset_max_hours < k.drift_onset_min_hours)
