@@ -275,6 +275,8 @@ int command_fit(const FitCommand& cmd) {
     if (!cmd.scale.empty()) options.scale = cmd.scale == "probability" ? ScoreScale::probability : ScoreScale::points;
     options.stay_distribution = cmd.stay == "gamma" ? StayDistribution::gamma : StayDistribution::lognormal;
     options.arrivals_by_hour_of_day = cmd.by_hour_of_day;
+    options.complete_from = sc.analysis.period_start;  // the reporting period: the log's complete part
+    options.complete_until = sc.analysis.period_end;
     const Population log = load_replay(sc.population.replay, sc.simulation.zone);
     // Refused here rather than by fit_generator so the message names the file and the option.
     const ScaleChoice scale = choose_score_scale(score_scale_evidence(log), options.scale);

@@ -86,9 +86,13 @@ void fit_period(const Population& pop, GeneratorConfig& c) {
 // Arrivals: admissions per local hour of week / hours of that kind in the period.
 void fit_arrivals(const Population& pop, const FitOptions& options, GeneratorFit& fit) {
     GeneratorConfig& c = fit.config;
+    fit.admissions_from = std::max(c.period_start, options.complete_from.value_or(c.period_start));
+    fit.admissions_until = std::min(c.period_end, options.complete_until.value_or(c.period_end));
+    if (fit.admissions_until <= fit.admissions_from)
+        throw std::invalid_argument("fit_generator: the period whose admissions are counted is empty");
     std::vector<std::array<double, hours_per_week>> admissions(pop.units.size());
     for (const Encounter& e : pop.encounters) {
-        if (e.admitted < c.period_start || e.admitted >= c.period_end) continue;
+        if (e.admitted < fit.admissions_from || e.admitted >= fit.admissions_until) continue;
         admissions[e.unit][static_cast<std::size_t>(hour_of_week(e.admitted, c.zone))] += 1.0;
         ++fit.encounters_admitted;
         if (e.outcome_at) ++fit.cases;
@@ -96,7 +100,7 @@ void fit_arrivals(const Population& pop, const FitOptions& options, GeneratorFit
     if (fit.encounters_admitted == 0)
         throw std::invalid_argument("fit_generator: no encounter is admitted inside the population's period");
     std::array<double, hours_per_week> exposure{};
-    for (Instant t = c.period_start; t < c.period_end; t += 3600)
+    for (Instant t = fit.admissions_from; t < fit.admissions_until; t += 3600)
         exposure[static_cast<std::size_t>(hour_of_week(t, c.zone))] += 1.0;
     for (std::uint32_t u = 0; u < pop.units.size(); ++u) {
         UnitConfig unit;
@@ -118,6 +122,9 @@ void fit_arrivals(const Population& pop, const FitOptions& options, GeneratorFit
         c.units.push_back(unit);
     }
     fit.notes.push_back("arrival rates count admissions only; arrivals turned away when a unit was full are not in a log");
+    if (fit.admissions_from != c.period_start || fit.admissions_until != c.period_end)
+        fit.notes.push_back("arrival rates count admissions from " + format_utc(fit.admissions_from) + " to " +
+                            format_utc(fit.admissions_until) + " only, the part of the log that records every admission");
     fit.notes.push_back("beds = highest census seen in the log (a lower bound)");
 }
 
@@ -337,12 +344,14 @@ void fit_rise_spread(const Population& pop, GeneratorFit& fit) {
 // patients, with fewer cases and fewer notices. Raise each unit's rates
 // until a year generated from the fitted knobs (seed fixed, scores
 // skipped) admits, per hour, what the log admitted.
-void fit_arrivals_before_turning_away(const Population& pop, GeneratorConfig& c, std::vector<std::string>& notes) {
+void fit_arrivals_before_turning_away(const Population& pop, GeneratorFit& fit) {
     constexpr std::uint64_t seed = 20261205;
+    GeneratorConfig& c = fit.config;
+    std::vector<std::string>& notes = fit.notes;
     std::vector<double> log_admissions(c.units.size(), 0.0);
     for (const Encounter& e : pop.encounters)
-        if (e.admitted >= c.period_start && e.admitted < c.period_end) log_admissions[e.unit] += 1.0;
-    const double log_hours = static_cast<double>(c.period_end - c.period_start) / 3600.0;
+        if (e.admitted >= fit.admissions_from && e.admitted < fit.admissions_until) log_admissions[e.unit] += 1.0;
+    const double log_hours = static_cast<double>(fit.admissions_until - fit.admissions_from) / 3600.0;
     GeneratorConfig year = c;
     year.period_end = c.period_start + std::max<Seconds>(c.period_end - c.period_start, 52 * 7 * 86400);
     year.scores.cadence_minutes = 60 * 24 * 7;  // one score a week: only admissions are counted
@@ -436,7 +445,7 @@ GeneratorFit fit_generator(const Population& pop, const FitOptions& options) {
     fit_cadence_and_latency(pop, fit);
     fit_score_levels(pop, fit.config);
     fit_drift(pop, options, fit.config);
-    fit_arrivals_before_turning_away(pop, fit.config, fit.notes);
+    fit_arrivals_before_turning_away(pop, fit);
     fit_rise_spread(pop, fit);
     if (fit.cases < 30) fit.notes.push_back("only " + std::to_string(fit.cases) + " cases: the pre-outcome rise is poorly determined");
     return fit;

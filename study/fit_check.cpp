@@ -34,12 +34,14 @@ std::vector<FitCheckRow> row_labels(const Scenario& sc, const std::vector<std::s
 }
 
 // One replication's figures, in row order. Admissions, census and cases count
-// over the population's period; census is the time-weighted mean.
+// over the reporting period (else the population's); census is the
+// time-weighted mean.
 std::vector<double> figures_of(const Scenario& sc, const Population& pop, const ShiftCalendar& cal,
                                const ReplicationRecord& rec) {
     std::vector<double> admissions(pop.units.size()), bed_hours(pop.units.size());
     double cases = 0;
-    const Instant from = pop.period_start, until = pop.period_end;
+    const Instant from = sc.analysis.period_start.value_or(pop.period_start);
+    const Instant until = sc.analysis.period_end.value_or(pop.period_end);
     for (const Encounter& e : pop.encounters) {
         if (e.admitted >= from && e.admitted < until) admissions[e.unit] += 1;
         const Instant a = std::max(e.admitted, from), b = std::min(e.discharged, until);
