@@ -14,6 +14,7 @@
 #include "report/fit_check_text.hpp"
 #include "study/fit_check.hpp"
 #include "study/scenario.hpp"
+#include "test_support.hpp"
 
 using namespace tocsin;
 using namespace tocsin::testing;
@@ -211,4 +212,30 @@ TEST_CASE("fit_check.recovers_knobs_and_figures_of_a_generated_log") {
     CHECK(row(check, "outcome cases").inside);
     CHECK(row(check, "encounter-level AUC").inside);
     for (const std::string plan : {"page-35", "page-45", "page-55"}) CHECK(row(check, "sensitivity", plan).inside);
+}
+
+TEST_CASE("fit_check.command") {
+    // `tocsin fit --check` on the invented Fernhollow log: the fragment stays
+    // YAML (the check follows as comments) and the verdict ends it.
+    const std::string scenario = std::string(TOCSIN_SOURCE_DIR) + "/scenarios/fernhollow-replay.yaml";
+    const CommandResult r = run_tocsin("fit " + scenario + " --check --check-replications 8");
+    REQUIRE(r.exit_code == 0);
+    CHECK(r.output.find("population:\n  generate:") != std::string::npos);
+    CHECK(r.output.find("\n# Fit check: the log beside 8 replications") != std::string::npos);
+    CHECK(r.output.find("\n# encounter-level AUC") != std::string::npos);
+    CHECK(r.output.find("\n# Verdict: the fitted population") != std::string::npos);
+    CHECK(run_tocsin("fit " + scenario + " --check --check-replications 1").exit_code != 0);  // a range needs 2
+}
+
+TEST_CASE("fit_check.same_whatever_the_thread_count") {
+    const Population log = independent_log(0.0, false, 2, 40);
+    const GeneratorConfig fitted = fit_generator(log).config;
+    const FitCheck one = check_fit(paging_scenario(), log, fitted, 6, 1);
+    const FitCheck two = check_fit(paging_scenario(), log, fitted, 6, 2);
+    REQUIRE(one.rows.size() == two.rows.size());
+    for (std::size_t i = 0; i < one.rows.size(); ++i) {
+        CHECK(one.rows[i].fitted_low == two.rows[i].fitted_low);
+        CHECK(one.rows[i].fitted_high == two.rows[i].fitted_high);
+    }
+    CHECK(fit_check_text(one) == fit_check_text(two));
 }
