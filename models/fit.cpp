@@ -216,25 +216,65 @@ void fit_cadence_and_latency(const Population& pop, GeneratorFit& fit) {
     }
 }
 
-// Score levels on controls: one-way random effects by moments.
+// 1 + 2 sum_{k=1}^{n-1} (1 - k/n) rho^k: how much correlated noise inflates
+// the variance of a mean of n scores (n times the variance of the mean, over
+// the variance of one score).
+double mean_inflation(double n, double rho) {
+    double sum = 1.0, power = 1.0;
+    for (double k = 1; k < n && power > 1e-12; ++k) {
+        power *= rho;
+        sum += 2.0 * (1.0 - k / n) * power;
+    }
+    return sum;
+}
+
+// Score levels on controls: one-way random effects by moments, with noise
+// that may carry over from score to score (AR(1)). The carry-over comes from
+// the lag-one autocorrelation of the residuals about each stay's mean, over
+// consecutive scheduled scores, corrected for the mean's removal
+// (E[r1] = rho - (1 + 3 rho) / n; Kendall 1954); the variances then use
+// E[sum (x - mean)^2] = sd^2 (n - f) and Var(mean) = sd^2 f / n, f = mean_inflation.
 void fit_score_levels(const Population& pop, GeneratorConfig& c) {
-    std::vector<double> encounter_means, within_over_n;
-    double within_ss = 0.0, within_df = 0.0;
+    std::vector<double> encounter_means, sizes;
+    double within_ss = 0.0, lag_products = 0.0, lag_pairs = 0.0, scores = 0.0;
+    const double cadence_seconds = c.scores.cadence_minutes * 60.0;
     for (std::size_t e = 0; e < pop.encounters.size(); ++e) {
         if (pop.encounters[e].outcome_at) continue;
-        std::vector<double> x;
-        for (const Score& s : pop.scores_of(e)) x.push_back(latent_of(s.value, c.scores.scale));
+        std::vector<std::pair<Instant, double>> x;
+        for (const Score& s : pop.scores_of(e)) x.push_back({s.scored_at, latent_of(s.value, c.scores.scale)});
         if (x.size() < 2) continue;
-        encounter_means.push_back(mean_of(x));
-        within_ss += variance_of(x) * static_cast<double>(x.size() - 1);
-        within_df += static_cast<double>(x.size() - 1);
-        within_over_n.push_back(1.0 / static_cast<double>(x.size()));
+        std::sort(x.begin(), x.end());
+        double m = 0.0;
+        for (const auto& [at, v] : x) m += v / static_cast<double>(x.size());
+        encounter_means.push_back(m);
+        sizes.push_back(static_cast<double>(x.size()));
+        for (std::size_t i = 0; i < x.size(); ++i) {
+            within_ss += (x[i].second - m) * (x[i].second - m);
+            if (i > 0 && static_cast<double>(x[i].first - x[i - 1].first) < 1.5 * cadence_seconds) {
+                lag_products += (x[i].second - m) * (x[i - 1].second - m);
+                lag_pairs += 1.0;
+            }
+        }
+        scores += static_cast<double>(x.size());
     }
     if (encounter_means.size() < 2) throw std::invalid_argument("fit_generator: fewer than two controls with two or more scores");
-    const double within_var = within_ss / within_df;
+    double per_score = 0.0;  // carry-over from one scheduled score to the next
+    if (lag_pairs > 0 && within_ss > 0) {
+        const double r1 = (lag_products / lag_pairs) / (within_ss / scores);
+        const double inverse_n = static_cast<double>(encounter_means.size()) / scores;  // 1 / n, weighted by n
+        per_score = std::clamp((r1 + inverse_n) / (1.0 - 3.0 * inverse_n), 0.0, 0.99);
+    }
+    double effective = 0.0, inflation_over_n = 0.0;
+    for (double n : sizes) {
+        const double f = mean_inflation(n, per_score);
+        effective += n - f;
+        inflation_over_n += f / n / static_cast<double>(sizes.size());
+    }
+    const double within_var = within_ss / std::max(effective, 1.0);
     c.scores.baseline = mean_of(encounter_means);
     c.scores.within_patient_sd = std::sqrt(within_var);
-    c.scores.between_patient_sd = std::sqrt(std::max(0.0, variance_of(encounter_means) - within_var * mean_of(within_over_n)));
+    c.scores.between_patient_sd = std::sqrt(std::max(0.0, variance_of(encounter_means) - within_var * inflation_over_n));
+    c.scores.noise_carryover = per_score > 0 ? std::min(0.99, std::pow(per_score, 60.0 / c.scores.cadence_minutes)) : 0.0;
 }
 
 // Pre-outcome rise: mean excess over the baseline by hour before time zero,
@@ -497,6 +537,7 @@ std::string scenario_fragment(const GeneratorConfig& c, const std::vector<std::s
     y << "      baseline: " << number(s.baseline) << "\n";
     y << "      between_patient_sd: " << number(s.between_patient_sd) << "\n";
     y << "      within_patient_sd: " << number(s.within_patient_sd) << "\n";
+    y << "      noise_carryover: " << number(s.noise_carryover) << "\n";
     y << "      drift_size: " << number(s.drift_size) << "\n";
     y << "      drift_size_sd: " << number(s.drift_size_sd) << "\n";
     y << "      drift_onset_min_hours: " << number(s.drift_onset_min_hours) << "\n";

@@ -73,16 +73,21 @@ void generate_scores(const GeneratorConfig& config, const Encounter& encounter, 
 
     std::int64_t missing = 0, after_outcome = 0, after_discharge = 0;
     double t = static_cast<double>(encounter.admitted) + first_phase * cadence_seconds;
+    double noise = 0.0, previous_t = t;  // the noise carries over on the schedule, missing scores included
     while (t < static_cast<double>(usable_until)) {
         const double u_jitter = uniform01(engine);
         const double u_missing = uniform01(engine);
         const double z_noise = standard_normal(engine);
         const double z_latency = standard_normal(engine);
         const Instant scored_at = static_cast<Instant>(t);
+        // 0^gap = 0: with no carry-over the noise is z_noise itself, bit for bit.
+        const double carried = t > previous_t ? std::pow(sc.noise_carryover, (t - previous_t) / 3600.0) : 0.0;
+        noise = carried * noise + std::sqrt(1.0 - carried * carried) * z_noise;
+        previous_t = t;
         if (u_missing < sc.missing_probability) {
             ++missing;
         } else {
-            double latent = sc.baseline + patient_offset + sc.within_patient_sd * z_noise;
+            double latent = sc.baseline + patient_offset + sc.within_patient_sd * noise;
             if (is_case) {
                 const double progress = (t - (time_zero - onset_seconds)) / onset_seconds;
                 latent += rise * std::clamp(progress, 0.0, 1.0);
@@ -147,6 +152,7 @@ void validate(const GeneratorConfig& c) {
     require(std::isfinite(s.baseline), "scores.baseline", "must be finite");
     require(finite_nonnegative(s.between_patient_sd), "scores.between_patient_sd", "must be >= 0");
     require(finite_nonnegative(s.within_patient_sd), "scores.within_patient_sd", "must be >= 0");
+    require(s.noise_carryover >= 0 && s.noise_carryover < 1, "scores.noise_carryover", "must be in [0, 1)");
     require(std::isfinite(s.drift_size), "scores.drift_size", "must be finite");
     require(finite_nonnegative(s.drift_size_sd), "scores.drift_size_sd", "must be >= 0");
     require(s.drift_onset_min_hours >= 0 && s.drift_onset_min_hours <= s.drift_onset_max_hours &&

@@ -67,6 +67,12 @@ struct ScoreConfig {
     double baseline = 20.0;
     double between_patient_sd = 6.0;
     double within_patient_sd = 6.0;
+    // Correlation of the score-to-score noise one hour apart: the noise is an
+    // AR(1) process on the scores' schedule, correlation carryover^(gap in
+    // hours) from one scheduled score to the next, sd within_patient_sd
+    // throughout. 0: drawn afresh at each score. Noise that carries over
+    // crosses a threshold less often, so a plan pages less.
+    double noise_carryover = 0.0;
     // Cases only: a linear rise from 0 to drift_size, starting a uniform number of
     // hours in [onset_min, onset_max] before time zero and complete at time zero.
     double drift_size = 20.0;

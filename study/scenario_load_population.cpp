@@ -106,6 +106,7 @@ ScoreConfig parse_scores(const Section& s) {
     k.baseline = s.real("baseline");
     k.between_patient_sd = s.real("between_patient_sd");
     k.within_patient_sd = s.real("within_patient_sd");
+    k.noise_carryover = s.real("noise_carryover");
     k.drift_size = s.real("drift_size");
     k.drift_size_sd = s.real("drift_size_sd");
     k.drift_onset_min_hours = s.real("drift_onset_min_hours");

@@ -120,6 +120,7 @@ SectionSpec population_generate_scores_keys() {
                 real_key("baseline", {.unit = "latent", .fallback = 20, .range = {-1e6, 1e6}, .help = "Average level for everyone."}),
                 real_key("between_patient_sd", {.unit = "latent", .fallback = 6, .range = {0, 1e6}, .help = "Spread of patients' own levels."}),
                 real_key("within_patient_sd", {.unit = "latent", .fallback = 6, .range = {0, 1e6}, .help = "Score-to-score noise."}),
+                real_key("noise_carryover", {.fallback = 0, .range = {0, 0.99}, .help = "Correlation of the score-to-score noise one hour apart (0 = drawn afresh at each score)."}),
                 real_key("drift_size", {.unit = "latent", .fallback = 20, .range = {-1e6, 1e6}, .help = "Cases: rise reached at time zero (ignored when target_auc is given)."}),
                 real_key("drift_size_sd", {.unit = "latent", .fallback = 0, .range = {0, 1e6}, .help = "Cases: spread of each patient's own rise around drift_size (normal; 0 = every case rises alike)."}),
                 real_key("drift_onset_min_hours", {.unit = "hours", .fallback = 6, .range = {0, 24 * 60}, .help = "Cases: the rise starts a uniform number of hours before time zero, from ..."}),

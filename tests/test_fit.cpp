@@ -269,3 +269,20 @@ TEST_CASE("fit.counts_admissions_where_the_log_records_them") {
     CHECK(counted_where_complete.admissions_until == cut);
     CHECK(counted_where_complete.notes.size() == counted_over_all.notes.size() + 1);
 }
+
+TEST_CASE("fit.noise_that_carries_over") {
+    // The two wards with noise carried over from hour to hour (0.6): the
+    // carry-over and both spreads come back. About 2,800 control stays of some
+    // 80 scores: the lag-one correlation's SE is about sqrt((1 - 0.36) /
+    // 200,000) = 0.002, but over seeds 5-8 the estimate sat 0.012 to 0.015
+    // above the truth (the correction for each stay's mean is approximate):
+    // tolerance 0.03. The sds as in "score levels on controls" above (seeds
+    // 5-8: within 5.94 to 5.98, between 5.84 to 5.94), the noise's variance
+    // now resting on fewer independent scores.
+    GeneratorConfig truth = two_wards(240);
+    truth.scores.noise_carryover = 0.6;
+    const GeneratorFit fit = fit_generator(generate_population(truth, 5, 0));
+    CHECK(std::abs(fit.config.scores.noise_carryover - 0.6) <= 0.03);
+    CHECK(std::abs(fit.config.scores.within_patient_sd - 6) <= 0.3);
+    CHECK(std::abs(fit.config.scores.between_patient_sd - 6) <= 0.4);
+}
