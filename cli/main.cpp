@@ -264,6 +264,16 @@ int command_run(const RunOptions& opt, bool sweep) {
     return 0;
 }
 
+// Text inside a YAML double-quoted scalar: backslashes and quotes escaped.
+std::string yaml_quoted(const std::string& text) {
+    std::string out;
+    for (char ch : text) {
+        if (ch == '\\' || ch == '"') out += '\\';
+        out += ch;
+    }
+    return out;
+}
+
 // Estimate the generator's knobs from the scenario's replayed log and print
 // (or write) them as an editable `population: generate:` fragment.
 int command_fit(const FitCommand& cmd) {
@@ -286,17 +296,25 @@ int command_fit(const FitCommand& cmd) {
                                                        : "; give --scale points or --scale probability"));
     const GeneratorFit fit = fit_generator(log, options);
     const std::string fragment = scenario_fragment(fit.config, fit.notes);
+    std::string fragment_with_record = fragment;
     std::string check_text;  // computed before anything is written: an error leaves no partial output
-    if (cmd.check)
-        check_text = fit_check_text(check_fit(sc, log, fit.config, cmd.check_replications,
-                                              std::max(1u, std::thread::hardware_concurrency())));
+    if (cmd.check) {
+        const FitCheck check =
+            check_fit(sc, log, fit.config, cmd.check_replications, std::max(1u, std::thread::hardware_concurrency()));
+        check_text = fit_check_text(check);
+        // The scenario made from the fragment carries what the check found, so that `run` can say it.
+        const std::string record = fit_check_record(check);
+        const std::string at = "  generate:\n";
+        if (!record.empty() && fragment.find(at) != std::string::npos)
+            fragment_with_record.insert(fragment.find(at) + at.size(), "    fit_check: \"" + yaml_quoted(record) + "\"\n");
+    }
     if (cmd.out_path.empty()) {
-        std::cout << fragment;
+        std::cout << fragment_with_record;
         // As comments, so that the terminal output stays a fragment one can paste.
         std::istringstream lines(check_text);
         for (std::string line; std::getline(lines, line);) std::cout << "# " << line << "\n";
     } else {
-        write_output_file(cmd.out_path, fragment);
+        write_output_file(cmd.out_path, fragment_with_record);
         std::string said = scale.reason;
         said[0] = static_cast<char>(std::toupper(static_cast<unsigned char>(said[0])));
         std::cout << "Fitted " << fit.encounters_admitted << " admissions (" << fit.cases << " cases) and " << fit.scores

@@ -30,6 +30,14 @@ std::string padded(const std::string& s, std::size_t width) {
 
 }  // namespace
 
+std::string fit_check_record(const FitCheck& check) {
+    std::string out;
+    if (!check.benefit_outside.empty()) out = "benefit figures differ (" + joined(check.benefit_outside) + ")";
+    if (!check.burden_outside.empty())
+        out += (out.empty() ? "" : "; ") + std::string("burden figures differ (") + joined(check.burden_outside) + ")";
+    return out;
+}
+
 std::string fit_check_verdict(const FitCheck& check) {
     const std::size_t rows = check.rows.size();
     if (check.outside == 0)

@@ -10,6 +10,11 @@ namespace tocsin {
 
 std::string fit_check_text(const FitCheck& check);
 
+// What a fitted scenario carries (population.generate.fit_check) when benefit
+// or burden figures differ: "benefit figures differ (...); burden figures
+// differ (...)"; empty when neither does.
+std::string fit_check_record(const FitCheck& check);
+
 // The one-line verdict that ends the text (also for callers that print only it).
 std::string fit_check_verdict(const FitCheck& check);
 

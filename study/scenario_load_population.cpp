@@ -123,6 +123,7 @@ void parse_generator(const Section& g, Scenario& sc) {
     c.period_end = timestamp(g, "end", sc.simulation.zone);
     if (c.period_end <= c.period_start) g.fail("end", "the generated period ends before it starts");
     c.warmup_days = g.real("warmup_days");
+    sc.population.fit_check = g.text("fit_check");
     c.units = parse_units(g);
     const std::string& file = g.file();
     c.stay = parse_stay(Section(section_or_empty(g, "stay"), "population.generate.stay", file, "population.generate.stay"));

@@ -71,6 +71,7 @@ SectionSpec population_generate_keys() {
                 section_key("stay", {.help = "Length of stay (see population.generate.stay)."}),
                 section_key("outcome", {.help = "How often and when time zero happens (see population.generate.outcome)."}),
                 section_key("scores", {.help = "Score scale, cadence, delays and trajectories (see population.generate.scores)."}),
+                text_key("fit_check", {.absent = "none", .help = "Written by `tocsin fit --check` when the fitted population does not reproduce its log's benefit or burden figures, saying which; `tocsin run` repeats it as a warning."}),
             }};
 }
 

@@ -250,6 +250,12 @@ TEST_CASE("fit_check.command") {
     CHECK(r.output.find("\n# Fit check: the log beside 8 replications") != std::string::npos);
     CHECK(r.output.find("\n# encounter-level AUC") != std::string::npos);
     CHECK(r.output.find("\n# Verdict: the fitted population") != std::string::npos);
+    // fit_check_record, as the fragment carries it when benefit or burden rows lie outside.
+    FitCheck found;
+    found.benefit_outside = {"page-45: sensitivity"};
+    found.burden_outside = {"page-45: notices per unit per night, mean"};
+    CHECK(fit_check_record(found) == "benefit figures differ (page-45: sensitivity); burden figures differ (page-45: notices per unit per night, mean)");
+    CHECK(fit_check_record(FitCheck{}).empty());
     CHECK(run_tocsin("fit " + scenario + " --check --check-replications 1").exit_code != 0);  // a range needs 2
 }
 
@@ -264,4 +270,26 @@ TEST_CASE("fit_check.same_whatever_the_thread_count") {
         CHECK(one.rows[i].fitted_high == two.rows[i].fitted_high);
     }
     CHECK(fit_check_text(one) == fit_check_text(two));
+}
+
+TEST_CASE("fit_check.run_repeats_the_record") {
+    // A scenario made from `fit --check`'s fragment carries what the check
+    // found (population.generate.fit_check); `run` says it before the figures,
+    // and says nothing of the kind without it. The fit writes it; here it is
+    // written by hand, so that the test does not rest on what a check finds.
+    const ScratchDir dir;
+    const std::string head = "scenario_schema: 1\nname: fitted\ntime_zone: UTC\nseed: 3\n"
+                             "shifts:\n  - {name: day, starts: \"08:00\"}\n  - {name: night, starts: \"20:00\", night: true}\n"
+                             "outcome: {window_hours: 24}\n"
+                             "plans:\n  - {name: page-45, rule: {threshold: 45, snooze_minutes: 240}}\n"
+                             "population:\n  generate:\n    start: \"2026-01-05 00:00:00\"\n    end: \"2026-01-19 00:00:00\"\n"
+                             "    units: [{name: ward, beds: 20, arrivals_per_hour: [0.2]}]\n";
+    const std::string record = "    fit_check: \"benefit figures differ (page-45: sensitivity)\"\n";
+    const CommandResult with = run_tocsin("run " + dir.file("with.yaml", head + record) + " --replications 1");
+    REQUIRE(with.exit_code == 0);
+    CHECK(with.output.find("Warning: this population was fitted to a log whose figures it does not reproduce "
+                           "(tocsin fit --check): benefit figures differ (page-45: sensitivity).") != std::string::npos);
+    const CommandResult without = run_tocsin("run " + dir.file("without.yaml", head) + " --replications 1");
+    REQUIRE(without.exit_code == 0);
+    CHECK(without.output.find("fit --check") == std::string::npos);
 }
