@@ -7,7 +7,8 @@
 // Common random numbers: arrivals of unit u come from stream
 // (seed, replication, arrivals, u); the stay and the score trajectory of the
 // n-th arrival on unit u come from streams (stay, entity) and (trajectory,
-// entity) with entity = encounter_entity(u, n). Every stream draws the same
+// entity) with entity = encounter_entity(u, n); a case's own rise, when
+// drift_size_sd is not 0, from (rise_size, entity). Every stream draws the same
 // number of values whatever the knob values, so changing one unit's rate, the
 // drift size or the missing-score probability leaves every other draw where
 // it was.
