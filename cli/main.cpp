@@ -32,6 +32,8 @@
 #include "study/review_size.hpp"
 #include "models/errors.hpp"
 #include "models/fit.hpp"
+#include "report/fit_check_text.hpp"
+#include "study/fit_check.hpp"
 #include "models/replay.hpp"
 #include "study/scenario.hpp"
 #include "study/scenario_keys.hpp"
@@ -68,6 +70,8 @@ struct FitCommand {
     std::string scale;  // empty: the scale the scores show
     std::string stay = "lognormal";
     bool by_hour_of_day = false;
+    bool check = false;
+    std::uint64_t check_replications = 40;
 };
 
 void add_run_options(CLI::App* cmd, RunOptions& o) {
@@ -280,6 +284,16 @@ int command_run(const RunOptions& opt, bool sweep) {
     return 0;
 }
 
+// Text inside a YAML double-quoted scalar: backslashes and quotes escaped.
+std::string yaml_quoted(const std::string& text) {
+    std::string out;
+    for (char ch : text) {
+        if (ch == '\\' || ch == '"') out += '\\';
+        out += ch;
+    }
+    return out;
+}
+
 // Estimate the generator's knobs from the scenario's replayed log and print
 // (or write) them as an editable `population: generate:` fragment.
 int command_fit(const FitCommand& cmd) {
@@ -291,6 +305,8 @@ int command_fit(const FitCommand& cmd) {
     if (!cmd.scale.empty()) options.scale = cmd.scale == "probability" ? ScoreScale::probability : ScoreScale::points;
     options.stay_distribution = cmd.stay == "gamma" ? StayDistribution::gamma : StayDistribution::lognormal;
     options.arrivals_by_hour_of_day = cmd.by_hour_of_day;
+    options.complete_from = sc.analysis.period_start;  // the reporting period: the log's complete part
+    options.complete_until = sc.analysis.period_end;
     const Population log = load_replay(sc.population.replay, sc.simulation.zone);
     // Refused here rather than by fit_generator so the message names the file and the option.
     const ScaleChoice scale = choose_score_scale(score_scale_evidence(log), options.scale);
@@ -300,14 +316,29 @@ int command_fit(const FitCommand& cmd) {
                                                        : "; give --scale points or --scale probability"));
     const GeneratorFit fit = fit_generator(log, options);
     const std::string fragment = scenario_fragment(fit.config, fit.notes);
+    std::string fragment_with_record = fragment;
+    std::string check_text;  // computed before anything is written: an error leaves no partial output
+    if (cmd.check) {
+        const FitCheck check =
+            check_fit(sc, log, fit.config, cmd.check_replications, std::max(1u, std::thread::hardware_concurrency()));
+        check_text = fit_check_text(check);
+        // The scenario made from the fragment carries what the check found, so that `run` can say it.
+        const std::string record = fit_check_record(check);
+        const std::string at = "  generate:\n";
+        if (!record.empty() && fragment.find(at) != std::string::npos)
+            fragment_with_record.insert(fragment.find(at) + at.size(), "    fit_check: \"" + yaml_quoted(record) + "\"\n");
+    }
     if (cmd.out_path.empty()) {
-        std::cout << fragment;
+        std::cout << fragment_with_record;
+        // As comments, so that the terminal output stays a fragment one can paste.
+        std::istringstream lines(check_text);
+        for (std::string line; std::getline(lines, line);) std::cout << "# " << line << "\n";
     } else {
-        write_output_file(cmd.out_path, fragment);
+        write_output_file(cmd.out_path, fragment_with_record);
         std::string said = scale.reason;
         said[0] = static_cast<char>(std::toupper(static_cast<unsigned char>(said[0])));
         std::cout << "Fitted " << fit.encounters_admitted << " admissions (" << fit.cases << " cases) and " << fit.scores
-                  << " scores; wrote " << cmd.out_path << "\n" << said << ".\n";
+                  << " scores; wrote " << cmd.out_path << "\n" << said << ".\n" << check_text;
     }
     return 0;
 }
@@ -341,6 +372,8 @@ int main(int argc, char** argv) {
     fit->add_option("-o,--out", fit_cmd.out_path, "Write the fragment to this file instead of the terminal");
     fit->add_option("--scale", fit_cmd.scale, "Score scale of the log (default: the scale the scores show; refused when they cannot tell)")->check(CLI::IsMember({"points", "probability"}));
     fit->add_option("--stay", fit_cmd.stay, "Length-of-stay family")->check(CLI::IsMember({"lognormal", "gamma"}));
+    fit->add_flag("--check", fit_cmd.check, "Generate replications from the fitted knobs and set the log's own figures beside their range");
+    fit->add_option("--check-replications", fit_cmd.check_replications, "Replications for --check (default 40)")->check(CLI::Range(2, 10000));
     fit->add_flag("--by-hour-of-day", fit_cmd.by_hour_of_day, "One arrival rate per hour of day, every day alike (steadier for short logs)");
 
     SizeOptions size_opt;

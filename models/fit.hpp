@@ -57,12 +57,20 @@ struct FitOptions {
     // Steadier for a log of a few weeks (6 weeks give 6 admissions-hours per
     // hour of week, 42 per hour of day).
     bool arrivals_by_hour_of_day = false;
+    // The part of the log that records every admission (the scenario's
+    // reporting period, when declared). A log's first and last days hold the
+    // stays running on from before it and out after it, without their
+    // admissions; counted over the whole log, the rates come out too low (a
+    // four-week log with twelve days of discharges after it: a quarter low).
+    // None: the population's period.
+    std::optional<Instant> complete_from, complete_until;
 };
 
 struct GeneratorFit {
     GeneratorConfig config;
     std::vector<std::string> notes;     // caveats for the user, one line each
-    std::int64_t encounters_admitted = 0;  // admitted inside the period
+    std::int64_t encounters_admitted = 0;  // admitted inside [admissions_from, admissions_until)
+    Instant admissions_from = 0, admissions_until = 0;  // where the rates count admissions
     std::int64_t cases = 0;
     std::int64_t scores = 0;
 };

@@ -60,6 +60,11 @@ void generate_scores(const GeneratorConfig& config, const Encounter& encounter, 
 
     const Instant usable_until = Population::usable_until(encounter);
     const bool is_case = encounter.outcome_at.has_value();
+    double rise = sc.drift_size;
+    if (is_case && sc.drift_size_sd > 0.0) {
+        RandomEngine own = make_stream(seed, replication, StreamPurpose::rise_size, entity);
+        rise += sc.drift_size_sd * standard_normal(own);
+    }
     const double time_zero = is_case ? static_cast<double>(*encounter.outcome_at) : 0.0;
     const double onset_seconds = std::max(onset_hours * 3600.0, 1.0);
     const double cadence_seconds = sc.cadence_minutes * 60.0;
@@ -68,19 +73,24 @@ void generate_scores(const GeneratorConfig& config, const Encounter& encounter, 
 
     std::int64_t missing = 0, after_outcome = 0, after_discharge = 0;
     double t = static_cast<double>(encounter.admitted) + first_phase * cadence_seconds;
+    double noise = 0.0, previous_t = t;  // the noise carries over on the schedule, missing scores included
     while (t < static_cast<double>(usable_until)) {
         const double u_jitter = uniform01(engine);
         const double u_missing = uniform01(engine);
         const double z_noise = standard_normal(engine);
         const double z_latency = standard_normal(engine);
         const Instant scored_at = static_cast<Instant>(t);
+        // 0^gap = 0: with no carry-over the noise is z_noise itself, bit for bit.
+        const double carried = t > previous_t ? std::pow(sc.noise_carryover, (t - previous_t) / 3600.0) : 0.0;
+        noise = carried * noise + std::sqrt(1.0 - carried * carried) * z_noise;
+        previous_t = t;
         if (u_missing < sc.missing_probability) {
             ++missing;
         } else {
-            double latent = sc.baseline + patient_offset + sc.within_patient_sd * z_noise;
+            double latent = sc.baseline + patient_offset + sc.within_patient_sd * noise;
             if (is_case) {
                 const double progress = (t - (time_zero - onset_seconds)) / onset_seconds;
-                latent += sc.drift_size * std::clamp(progress, 0.0, 1.0);
+                latent += rise * std::clamp(progress, 0.0, 1.0);
             }
             const Seconds latency = sc.latency_median_minutes > 0.0
                                         ? static_cast<Seconds>(std::exp(latency_mu + sc.latency_log_sd * z_latency))
@@ -142,7 +152,9 @@ void validate(const GeneratorConfig& c) {
     require(std::isfinite(s.baseline), "scores.baseline", "must be finite");
     require(finite_nonnegative(s.between_patient_sd), "scores.between_patient_sd", "must be >= 0");
     require(finite_nonnegative(s.within_patient_sd), "scores.within_patient_sd", "must be >= 0");
+    require(s.noise_carryover >= 0 && s.noise_carryover < 1, "scores.noise_carryover", "must be in [0, 1)");
     require(std::isfinite(s.drift_size), "scores.drift_size", "must be finite");
+    require(finite_nonnegative(s.drift_size_sd), "scores.drift_size_sd", "must be >= 0");
     require(s.drift_onset_min_hours >= 0 && s.drift_onset_min_hours <= s.drift_onset_max_hours &&
                 std::isfinite(s.drift_onset_max_hours),
             "scores.drift_onset_min_hours/max_hours", "need 0 <= min <= max");

@@ -7,7 +7,8 @@
 // Common random numbers: arrivals of unit u come from stream
 // (seed, replication, arrivals, u); the stay and the score trajectory of the
 // n-th arrival on unit u come from streams (stay, entity) and (trajectory,
-// entity) with entity = encounter_entity(u, n). Every stream draws the same
+// entity) with entity = encounter_entity(u, n); a case's own rise, when
+// drift_size_sd is not 0, from (rise_size, entity). Every stream draws the same
 // number of values whatever the knob values, so changing one unit's rate, the
 // drift size or the missing-score probability leaves every other draw where
 // it was.
@@ -67,9 +68,20 @@ struct ScoreConfig {
     double baseline = 20.0;
     double between_patient_sd = 6.0;
     double within_patient_sd = 6.0;
+    // Correlation of the score-to-score noise one hour apart: the noise is an
+    // AR(1) process on the scores' schedule, correlation carryover^(gap in
+    // hours) from one scheduled score to the next, sd within_patient_sd
+    // throughout. 0: drawn afresh at each score. Noise that carries over
+    // crosses a threshold less often, so a plan pages less.
+    double noise_carryover = 0.0;
     // Cases only: a linear rise from 0 to drift_size, starting a uniform number of
     // hours in [onset_min, onset_max] before time zero and complete at time zero.
     double drift_size = 20.0;
+    // Each case's own rise is drift_size + drift_size_sd x a standard normal
+    // (stream rise_size): patients differ in how far they climb, and a log
+    // whose rises vary is harder to catch than one where every case climbs
+    // alike. Drawn from its own stream, so 0 leaves every other draw as it was.
+    double drift_size_sd = 0.0;
     double drift_onset_min_hours = 6.0;
     double drift_onset_max_hours = 48.0;
 };

@@ -34,6 +34,9 @@ struct PopulationSetup {
     std::optional<ShiftStress> shift;          // stress test applied to every replication
     TimeZone zone = TimeZone::utc();           // the log's local times
     std::uint64_t seed = 1;
+    // generate: which of its log's benefit or burden figures a fitted
+    // population does not reproduce (`tocsin fit --check`); empty: none known.
+    std::string fit_check;
     // Where target_auc and shift were declared, so errors found while
     // preparing name the scenario file's line.
     std::string file;

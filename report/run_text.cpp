@@ -151,7 +151,10 @@ std::string run_text(const Scenario& sc, const RunOutput& out, const RunSettings
     std::string text = run_header_text(sc.name, sc.simulation.zone, out.first_replication.population,
                                        out.first_replication.exclusions) + "\n";
     for (const std::string& line : plan_warning_lines(out.warnings)) text += line + "\n";
-    if (!out.warnings.empty()) text += "\n";
+    if (!sc.population.fit_check.empty())
+        text += "Warning: this population was fitted to a log whose figures it does not reproduce (tocsin fit --check): " +
+                sc.population.fit_check + ". Read its benefit and burden with that in mind.\n";
+    if (!out.warnings.empty() || !sc.population.fit_check.empty()) text += "\n";
     if (sc.replications > 1) {
         text += comparison_text(out.figures);
         text += "\n" + channel_units_text(out.figures, out.first_replication.channels.burden);

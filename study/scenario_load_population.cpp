@@ -106,7 +106,9 @@ ScoreConfig parse_scores(const Section& s) {
     k.baseline = s.real("baseline");
     k.between_patient_sd = s.real("between_patient_sd");
     k.within_patient_sd = s.real("within_patient_sd");
+    k.noise_carryover = s.real("noise_carryover");
     k.drift_size = s.real("drift_size");
+    k.drift_size_sd = s.real("drift_size_sd");
     k.drift_onset_min_hours = s.real("drift_onset_min_hours");
     k.drift_onset_max_hours = s.real("drift_onset_max_hours");
     if (k.drift_onset_max_hours < k.drift_onset_min_hours)
@@ -121,6 +123,7 @@ void parse_generator(const Section& g, Scenario& sc) {
     c.period_end = timestamp(g, "end", sc.simulation.zone);
     if (c.period_end <= c.period_start) g.fail("end", "the generated period ends before it starts");
     c.warmup_days = g.real("warmup_days");
+    sc.population.fit_check = g.text("fit_check");
     c.units = parse_units(g);
     const std::string& file = g.file();
     c.stay = parse_stay(Section(section_or_empty(g, "stay"), "population.generate.stay", file, "population.generate.stay"));

@@ -71,6 +71,7 @@ SectionSpec population_generate_keys() {
                 section_key("stay", {.help = "Length of stay (see population.generate.stay)."}),
                 section_key("outcome", {.help = "How often and when time zero happens (see population.generate.outcome)."}),
                 section_key("scores", {.help = "Score scale, cadence, delays and trajectories (see population.generate.scores)."}),
+                text_key("fit_check", {.absent = "none", .help = "Written by `tocsin fit --check` when the fitted population does not reproduce its log's benefit or burden figures, saying which; `tocsin run` repeats it as a warning."}),
             }};
 }
 
@@ -120,7 +121,9 @@ SectionSpec population_generate_scores_keys() {
                 real_key("baseline", {.unit = "latent", .fallback = 20, .range = {-1e6, 1e6}, .help = "Average level for everyone."}),
                 real_key("between_patient_sd", {.unit = "latent", .fallback = 6, .range = {0, 1e6}, .help = "Spread of patients' own levels."}),
                 real_key("within_patient_sd", {.unit = "latent", .fallback = 6, .range = {0, 1e6}, .help = "Score-to-score noise."}),
+                real_key("noise_carryover", {.fallback = 0, .range = {0, 0.99}, .help = "Correlation of the score-to-score noise one hour apart (0 = drawn afresh at each score)."}),
                 real_key("drift_size", {.unit = "latent", .fallback = 20, .range = {-1e6, 1e6}, .help = "Cases: rise reached at time zero (ignored when target_auc is given)."}),
+                real_key("drift_size_sd", {.unit = "latent", .fallback = 0, .range = {0, 1e6}, .help = "Cases: spread of each patient's own rise around drift_size (normal; 0 = every case rises alike)."}),
                 real_key("drift_onset_min_hours", {.unit = "hours", .fallback = 6, .range = {0, 24 * 60}, .help = "Cases: the rise starts a uniform number of hours before time zero, from ..."}),
                 real_key("drift_onset_max_hours", {.unit = "hours", .fallback = 48, .range = {0, 24 * 60}, .help = "... to this."}),
                 real_key("target_auc", {.absent = "none", .range = {0.01, 0.999}, .help = "Find drift_size so that the encounter-level AUC is this (reported; refused when out of reach)."}),
