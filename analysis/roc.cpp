@@ -7,6 +7,8 @@
 #include <cmath>
 #include <limits>
 #include <stdexcept>
+#include <string>
+#include <utility>
 
 namespace tocsin {
 
@@ -196,6 +198,93 @@ AucEstimate auc_delong(std::span<const double> scores, std::span<const std::uint
     out.standard_error = std::sqrt(s10 / static_cast<double>(out.positives) + s01 / static_cast<double>(out.negatives));
     const double z = normal_two_sided_z(confidence);
     out.interval = {std::max(0.0, auc - z * out.standard_error), std::min(1.0, auc + z * out.standard_error)};
+    return out;
+}
+
+namespace {
+
+void check_paired_input(std::span<const double> score_a, std::span<const double> score_b,
+                        std::span<const std::uint8_t> labels) {
+    if (score_a.size() != labels.size() || score_b.size() != labels.size())
+        throw std::invalid_argument("paired_auc_delong: score_a has " + std::to_string(score_a.size()) +
+                                    " values, score_b " + std::to_string(score_b.size()) + " and the labels " +
+                                    std::to_string(labels.size()) + "; all three must describe the same encounters");
+    for (const auto& [name, scores] : {std::pair{"score_a", score_a}, std::pair{"score_b", score_b}})
+        for (std::size_t i = 0; i < scores.size(); ++i)
+            if (!std::isfinite(scores[i]))
+                throw std::invalid_argument("paired_auc_delong: " + std::string(name) + "[" + std::to_string(i) +
+                                            "] is " + std::to_string(scores[i]) + ", not a finite number");
+    std::size_t cases = 0;
+    for (auto l : labels) cases += l ? 1 : 0;
+    const std::size_t controls = labels.size() - cases;
+    if (cases < 2 || controls < 2)
+        throw std::invalid_argument("paired_auc_delong: needs at least two cases and two controls to estimate the "
+                                    "variance; got " + std::to_string(cases) + " cases and " +
+                                    std::to_string(controls) + " controls");
+}
+
+// Sample covariance (n - 1 divisor) of two vectors of the same length, n >= 2.
+double sample_covariance(const std::vector<double>& x, const std::vector<double>& y) {
+    const double mx = mean_and_variance(x).first, my = mean_and_variance(y).first;
+    double s = 0.0;
+    for (std::size_t i = 0; i < x.size(); ++i) s += (x[i] - mx) * (y[i] - my);
+    return s / static_cast<double>(x.size() - 1);
+}
+
+std::vector<double> differences(const std::vector<double>& x, const std::vector<double>& y) {
+    std::vector<double> d(x.size());
+    for (std::size_t i = 0; i < x.size(); ++i) d[i] = x[i] - y[i];
+    return d;
+}
+
+// Whether x[i] - y[i] is the same for every i. A placement value is a count
+// of the other class (ties one half) over its size, so value * 2 * size is a
+// whole number: the question is decided exactly, not within a rounding
+// tolerance that would turn a true zero into a huge z.
+bool same_difference_throughout(const std::vector<double>& x, const std::vector<double>& y, std::size_t size) {
+    const double twice = 2.0 * static_cast<double>(size);
+    auto whole = [&](double v) { return std::llround(v * twice); };
+    for (std::size_t i = 1; i < x.size(); ++i)
+        if (whole(x[i]) - whole(y[i]) != whole(x[0]) - whole(y[0])) return false;
+    return true;
+}
+
+}  // namespace
+
+PairedAucComparison paired_auc_delong(std::span<const double> score_a, std::span<const double> score_b,
+                                      std::span<const std::uint8_t> labels, double confidence) {
+    check_paired_input(score_a, score_b, labels);
+    const PlacementValues a = placement_values(score_a, labels), b = placement_values(score_b, labels);
+    PairedAucComparison out;
+    out.cases = static_cast<std::int64_t>(a.of_positives.size());
+    out.controls = static_cast<std::int64_t>(a.of_negatives.size());
+    const double m = static_cast<double>(out.cases), n = static_cast<double>(out.controls);
+    // DeLong's S = S10 / m + S01 / n, entry by entry (both classes' vectors
+    // list the same encounters in the same order, so they pair up).
+    const auto [auc_a, s10_a] = mean_and_variance(a.of_positives);
+    const auto [auc_b, s10_b] = mean_and_variance(b.of_positives);
+    out.auc_a = auc_a;
+    out.auc_b = auc_b;
+    out.difference = auc_a - auc_b;
+    out.variance_a = s10_a / m + mean_and_variance(a.of_negatives).second / n;
+    out.variance_b = s10_b / m + mean_and_variance(b.of_negatives).second / n;
+    out.covariance = sample_covariance(a.of_positives, b.of_positives) / m +
+                     sample_covariance(a.of_negatives, b.of_negatives) / n;
+    // The variance of the difference, variance_a + variance_b - 2 covariance,
+    // is the same sum taken over each encounter's difference of placements;
+    // that form avoids the cancellation when the two scores nearly agree.
+    const bool no_spread = same_difference_throughout(a.of_positives, b.of_positives, a.of_negatives.size()) &&
+                           same_difference_throughout(a.of_negatives, b.of_negatives, a.of_positives.size());
+    if (!no_spread)
+        out.standard_error = std::sqrt(mean_and_variance(differences(a.of_positives, b.of_positives)).second / m +
+                                       mean_and_variance(differences(a.of_negatives, b.of_negatives)).second / n);
+    const double half = normal_two_sided_z(confidence) * out.standard_error;
+    out.interval = {std::max(-1.0, out.difference - half), std::min(1.0, out.difference + half)};
+    if (out.standard_error > 0.0) {
+        out.z = out.difference / out.standard_error;
+        const boost::math::normal_distribution<double> standard;
+        out.p = 2.0 * boost::math::cdf(boost::math::complement(standard, std::abs(*out.z)));
+    }
     return out;
 }
 

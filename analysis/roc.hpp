@@ -59,6 +59,37 @@ struct AucEstimate {
 AucEstimate auc_delong(std::span<const double> scores, std::span<const std::uint8_t> labels,
                        double confidence = 0.95);
 
+// Two scores measured on the same encounters, compared by the test for
+// correlated ROC curves of DeLong, DeLong & Clarke-Pearson (1988, Biometrics
+// 44:837-845, section 3): the AUCs are paired through the encounters, so the
+// variance of their difference subtracts twice their covariance, estimated
+// from the placement values of both scores (cases' and controls' sample
+// covariances, n - 1 divisor, as pROC's roc.test(paired = TRUE)).
+struct PairedAucComparison {
+    double auc_a = 0.0;
+    double auc_b = 0.0;
+    double difference = 0.0;   // auc_a - auc_b
+    double variance_a = 0.0;   // of the estimate auc_a (as auc_delong)
+    double variance_b = 0.0;   // of the estimate auc_b
+    double covariance = 0.0;   // of the two estimates
+    double standard_error = 0.0;  // of the difference: sqrt(variance_a + variance_b - 2 covariance)
+    Interval interval;            // difference -/+ z * SE, clipped to [-1, 1] (pROC does not clip)
+    // Absent when the standard error is zero: the placements of the two scores
+    // then differ by the same amount for every case and every control (e.g.
+    // identical scores, or a perfect score against a constant one), and a
+    // ratio to zero is no test. (pROC gives z = 0 for 0/0 and infinity else.)
+    std::optional<double> z;
+    std::optional<double> p;  // two-sided, 2 (1 - Phi(|z|))
+    std::int64_t cases = 0;
+    std::int64_t controls = 0;
+};
+// labels: 1 = case, 0 = control, the same encounters in the same order as both
+// score vectors. Throws std::invalid_argument for vectors of different lengths,
+// a score that is not a finite number, or fewer than two cases or two controls
+// (the sample variance of the placements needs two of each).
+PairedAucComparison paired_auc_delong(std::span<const double> score_a, std::span<const double> score_b,
+                                      std::span<const std::uint8_t> labels, double confidence = 0.95);
+
 // Hanley & McNeil (1982, Radiology 143:29-36, eq. 1-2) standard error of an AUC
 // with their approximations Q1 = A / (2 - A), Q2 = 2 A^2 / (1 + A). Kept to
 // compare with their published example; prefer auc_delong for reporting.

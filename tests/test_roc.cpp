@@ -261,3 +261,99 @@ TEST_CASE("roc.ascending_order_is_a_stable_sort") {
     CHECK(mismatched_values == 0);
     CHECK(mismatched_nonzero_indices == 0);
 }
+
+TEST_CASE("roc.paired_delong_hand_worked") {
+    // DeLong, DeLong & Clarke-Pearson (1988), section 3, on 2 cases and 3
+    // controls, worked by hand. Encounters in order: case 1, case 2,
+    // control 1, control 2, control 3.
+    //   score A: 0.9 0.4 | 0.1 0.5 0.4   (case 2 ties control 3)
+    //   score B: 0.3 0.8 | 0.2 0.6 0.9
+    // Placements of the cases (share of controls below, ties one half):
+    //   A: case 1 above all 3 -> 1; case 2 above control 1, ties control 3 -> 1.5/3 = 0.5
+    //   B: case 1 above control 1 -> 1/3; case 2 above controls 1, 2 -> 2/3
+    // Placements of the controls (share of cases above, ties one half):
+    //   A: control 1 -> 1; control 2 (case 1 above) -> 0.5; control 3 (case 1 above, case 2 tied) -> 0.75
+    //   B: control 1 -> 1; control 2 (case 2 above) -> 0.5; control 3 -> 0
+    // AUC A = (1 + 0.5) / 2 = 0.75, AUC B = (1/3 + 2/3) / 2 = 0.5, difference 0.25.
+    // Sample (co)variances, n - 1 divisor:
+    //   cases (divisor 1):    S10_AA = 0.25^2 + 0.25^2 = 1/8; S10_BB = (1/6)^2 * 2 = 1/18;
+    //                         S10_AB = 0.25 * (-1/6) + (-0.25) * (1/6) = -1/12
+    //   controls (divisor 2): S01_AA = (0.0625 + 0.0625 + 0) / 2 = 1/16; S01_BB = (0.25 + 0 + 0.25) / 2 = 1/4;
+    //                         S01_AB = (0.25 * 0.5 + (-0.25) * 0 + 0 * (-0.5)) / 2 = 1/16
+    // Var A = (1/8)/2 + (1/16)/3 = 1/12; Var B = (1/18)/2 + (1/4)/3 = 1/9;
+    // Cov = (-1/12)/2 + (1/16)/3 = -1/48.
+    // Var(A - B) = 1/12 + 1/9 + 2/48 = 17/72; SE = sqrt(17/72) = 0.485913;
+    // z = 0.25 / SE = 0.514496; p = erfc(z / sqrt 2) = 0.606905;
+    // interval 0.25 -/+ 1.959964 SE = -0.702371 to 1.202371, clipped to 1 above.
+    const std::vector<double> a{0.9, 0.4, 0.1, 0.5, 0.4}, b{0.3, 0.8, 0.2, 0.6, 0.9};
+    const std::vector<std::uint8_t> y{1, 1, 0, 0, 0};
+    const PairedAucComparison c = paired_auc_delong(a, b, y);
+    CHECK(c.cases == 2);
+    CHECK(c.controls == 3);
+    CHECK(c.auc_a == doctest::Approx(0.75).epsilon(1e-14));
+    CHECK(c.auc_b == doctest::Approx(0.5).epsilon(1e-14));
+    CHECK(c.difference == doctest::Approx(0.25).epsilon(1e-14));
+    CHECK(c.variance_a == doctest::Approx(1.0 / 12).epsilon(1e-14));
+    CHECK(c.variance_b == doctest::Approx(1.0 / 9).epsilon(1e-14));
+    CHECK(c.covariance == doctest::Approx(-1.0 / 48).epsilon(1e-14));
+    const double se = std::sqrt(17.0 / 72.0);
+    CHECK(c.standard_error == doctest::Approx(se).epsilon(1e-14));
+    REQUIRE(c.z);
+    REQUIRE(c.p);
+    CHECK(*c.z == doctest::Approx(0.25 / se).epsilon(1e-14));
+    CHECK(*c.p == doctest::Approx(std::erfc(0.25 / se / std::sqrt(2.0))).epsilon(1e-12));
+    CHECK(c.interval.lower == doctest::Approx(0.25 - 1.959963984540054 * se).epsilon(1e-12));
+    CHECK(c.interval.upper == 1.0);
+    // Swapping the scores flips the sign and nothing else.
+    const PairedAucComparison swapped = paired_auc_delong(b, a, y);
+    CHECK(swapped.difference == doctest::Approx(-0.25).epsilon(1e-14));
+    CHECK(swapped.standard_error == doctest::Approx(se).epsilon(1e-14));
+    CHECK(*swapped.p == doctest::Approx(*c.p).epsilon(1e-14));
+    CHECK(swapped.interval.lower == -1.0);
+}
+
+TEST_CASE("roc.paired_delong_without_spread_is_no_test") {
+    // Identical scores: every placement equal, difference exactly 0 and a
+    // zero standard error; z and p are absent rather than 0/0.
+    const std::vector<double> a{0.3, 0.7, 0.1, 0.7, 0.2, 0.5}, labels_as_scores{0, 1, 0, 1, 0, 1};
+    const std::vector<std::uint8_t> y{0, 1, 0, 1, 0, 1};
+    const PairedAucComparison same = paired_auc_delong(a, a, y);
+    CHECK(same.difference == 0.0);
+    CHECK(same.standard_error == 0.0);
+    CHECK_FALSE(same.z);
+    CHECK_FALSE(same.p);
+    CHECK(same.interval.lower == 0.0);
+    CHECK(same.interval.upper == 0.0);
+    CHECK(same.covariance == doctest::Approx(same.variance_a).epsilon(1e-14));
+    // A perfect score against a constant one: every case's placement is 1
+    // against 0.5, every control's 1 against 0.5, so the difference is 0.5
+    // with no spread at all: still no test (pROC would give z = infinity).
+    const std::vector<double> constant(6, 4.0);
+    const PairedAucComparison perfect = paired_auc_delong(labels_as_scores, constant, y);
+    CHECK(perfect.auc_a == 1.0);
+    CHECK(perfect.auc_b == 0.5);
+    CHECK(perfect.difference == 0.5);
+    CHECK(perfect.standard_error == 0.0);
+    CHECK_FALSE(perfect.z);
+    CHECK_FALSE(perfect.p);
+}
+
+TEST_CASE("roc.paired_delong_refuses_bad_input") {
+    const std::vector<double> a{0.1, 0.2, 0.3, 0.4}, b{0.4, 0.3, 0.2, 0.1};
+    const std::vector<std::uint8_t> y{0, 1, 0, 1};
+    CHECK_THROWS_WITH_AS(paired_auc_delong(a, std::vector<double>{0.1, 0.2, 0.3}, y),
+                         "paired_auc_delong: score_a has 4 values, score_b 3 and the labels 4; all three must "
+                         "describe the same encounters",
+                         std::invalid_argument);
+    CHECK_THROWS_AS(paired_auc_delong(a, b, std::vector<std::uint8_t>{0, 1, 0}), std::invalid_argument);
+    CHECK_THROWS_WITH_AS(paired_auc_delong(a, std::vector<double>{0.4, std::nan(""), 0.2, 0.1}, y),
+                         doctest::Contains("score_b[1] is nan, not a finite number"), std::invalid_argument);
+    CHECK_THROWS_WITH_AS(paired_auc_delong(std::vector<double>{0.1, 0.2, HUGE_VAL, 0.4}, b, y),
+                         doctest::Contains("score_a[2] is inf"), std::invalid_argument);
+    CHECK_THROWS_WITH_AS(paired_auc_delong(a, b, std::vector<std::uint8_t>{0, 0, 0, 0}),
+                         doctest::Contains("got 0 cases and 4 controls"), std::invalid_argument);
+    CHECK_THROWS_WITH_AS(paired_auc_delong(a, b, std::vector<std::uint8_t>{1, 1, 1, 1}),
+                         doctest::Contains("got 4 cases and 0 controls"), std::invalid_argument);
+    CHECK_THROWS_WITH_AS(paired_auc_delong(a, b, std::vector<std::uint8_t>{0, 1, 0, 0}),
+                         doctest::Contains("at least two cases and two controls"), std::invalid_argument);
+}
