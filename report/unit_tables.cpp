@@ -95,7 +95,7 @@ std::string per_ward_text(const ReplicatedUnitFigures& f) {
                           ? "Per ward, means over " + std::to_string(f.replications) +
                                 " replications (intervals in plan_unit_comparison and the report)"
                           : "Per ward (notices per night on the ward; its own patients' catches; lead in hours)";
-    out += teams ? ";\nunit_team_minutes: staff minutes per shift of the ward's own teams.\n" : ":\n";
+    out += teams ? ";\nunit_team_minutes_per_shift_mean: staff minutes per shift of the ward's own teams.\n" : ":\n";
     // Columns named as in plan_unit_summary and the options.
     std::vector<std::string_view> shown = {"per_unit_night_mean", "per_unit_night_p90", "per_unit_night_max",
                                            "caught",              "cases",              "lead_median_h"};
