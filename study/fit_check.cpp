@@ -5,6 +5,7 @@
 #include <limits>
 #include <stdexcept>
 
+#include "analysis/quantiles.hpp"
 #include "analysis/results.hpp"
 #include "models/discrimination.hpp"
 #include "study/experiment.hpp"
@@ -65,14 +66,6 @@ std::vector<double> figures_of(const Scenario& sc, const Population& pop, const 
     return out;
 }
 
-// Quantile by linear interpolation between order statistics (Hyndman & Fan 1996, type 7).
-double quantile(const std::vector<double>& sorted, double p) {
-    const double at = p * static_cast<double>(sorted.size() - 1);
-    const auto below = static_cast<std::size_t>(std::floor(at));
-    const std::size_t above = std::min(below + 1, sorted.size() - 1);
-    return sorted[below] + (at - static_cast<double>(below)) * (sorted[above] - sorted[below]);
-}
-
 std::vector<std::vector<double>> run_figures(const Scenario& sc, const PopulationFactory& make_population,
                                              std::uint64_t replications, unsigned threads) {
     std::vector<std::vector<double>> by_replication(replications);
@@ -119,11 +112,9 @@ FitCheck check_fit(const Scenario& scenario, const Population& log, const Genera
         if (values.empty()) {
             row.fitted_mean = row.fitted_low = row.fitted_high = none;
         } else {
-            double sum = 0;
-            for (double v : values) sum += v;
-            row.fitted_mean = sum / static_cast<double>(values.size());
-            row.fitted_low = quantile(values, 0.025);
-            row.fitted_high = quantile(values, 0.975);
+            row.fitted_mean = mean(values);
+            row.fitted_low = quantile_sorted(values, 0.025);
+            row.fitted_high = quantile_sorted(values, 0.975);
         }
         // A figure neither side has (no case caught anywhere) agrees; one side only does not.
         if (std::isnan(row.log_value) || values.empty())
