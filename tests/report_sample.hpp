@@ -66,7 +66,7 @@ inline ReportInput sample_report_input(const std::string& hostile = "") {
     boost::random::mt19937 engine(20261201u);
     for (const Plan& p : plans) {
         in.frontier.push_back({p.name, p.night_mean, p.night_mean * 0.9, p.night_mean * 1.1, p.caught, p.caught - 4.5,
-                               p.caught + 4.0, p.on_frontier});
+                               p.caught + 4.0, p.on_frontier, ""});
         PlanSeries nights{p.name, {}};
         boost::random::poisson_distribution<int> pages(p.night_mean);
         for (int i = 0; i < 3 * 28 * 4; ++i) nights.values.push_back(pages(engine));

@@ -426,7 +426,7 @@ TEST_CASE("report.charts_survive_odd_input") {
         ReportInput in = sample_report_input();
         in.burden_per_night = {{"empty", {}}, {"missing", {nan_value}}, {"flat", {3, 3, 3}}};
         in.lead_times_hours = {{"one", {2.5}}};
-        in.frontier = {{"alone", 1, nan_value, nan_value, 1, nan_value, nan_value, true}};
+        in.frontier = {{"alone", 1, nan_value, nan_value, 1, nan_value, nan_value, true, ""}};
         const std::string page = render_report(in);
         check_svg_numbers(page);
         CHECK(page.find("no values") != std::string::npos);
@@ -451,7 +451,7 @@ TEST_CASE("report.crowded_frontier_is_numbered") {
     ReportInput in;
     for (int i = 0; i < 30; ++i)
         in.frontier.push_back({"plan-" + std::to_string(i), double(30 - i), nan_value, nan_value, double(30 - i) * 2,
-                               nan_value, nan_value, i % 3 == 0});
+                               nan_value, nan_value, i % 3 == 0, ""});
     ScatterChart chart;
     for (const ReportFrontierPoint& p : in.frontier)
         chart.points.push_back({p.plan, p.burden, p.burden_lo, p.burden_hi, p.benefit, p.benefit_lo, p.benefit_hi, p.on_frontier});
