@@ -127,6 +127,7 @@ Population bootstrap_population(const Population& source, const BootstrapConfig&
 
     Population out;
     out.units = source.units;
+    out.groups = source.groups;
     out.period_start = start;
     out.period_end = end;
     out.excluded = source.excluded;

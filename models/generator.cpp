@@ -46,9 +46,34 @@ double score_value(ScoreScale scale, double latent) {
     return 1.0 / (1.0 + std::exp(-latent));
 }
 
+// Draws the encounter's value of each group column; returns the sum of those
+// values' score shifts.
+double assign_groups(const std::vector<GeneratedGroup>& groups, std::uint64_t entity, std::uint64_t seed,
+                     std::uint64_t replication, Encounter& e) {
+    double shift = 0.0;
+    e.groups.clear();
+    for (const GeneratedGroup& g : groups) {
+        RandomEngine engine =
+            make_stream(seed, replication, StreamPurpose::patient_group, entity_key({entity, text_entity(g.column.name)}));
+        const double u = uniform01(engine);
+        std::uint16_t level = g.column.not_recorded_level();
+        double below = 0.0;
+        for (std::size_t v = 0; v < g.shares.size(); ++v) {
+            below += g.shares[v];
+            if (u < below) {
+                level = static_cast<std::uint16_t>(v);
+                break;
+            }
+        }
+        e.groups.push_back(level);
+        if (level < g.score_shift.size()) shift += g.score_shift[level];
+    }
+    return shift;
+}
+
 // One encounter's usable scores into `out` (cleared first); counts what it drops.
 void generate_scores(const GeneratorConfig& config, const Encounter& encounter, std::uint64_t entity,
-                     std::uint64_t seed, std::uint64_t replication, std::vector<Score>& out,
+                     std::uint64_t seed, std::uint64_t replication, double group_shift, std::vector<Score>& out,
                      GenerationSummary& summary) {
     out.clear();
     const ScoreConfig& sc = config.scores;
@@ -87,7 +112,7 @@ void generate_scores(const GeneratorConfig& config, const Encounter& encounter, 
         if (u_missing < sc.missing_probability) {
             ++missing;
         } else {
-            double latent = sc.baseline + patient_offset + sc.within_patient_sd * noise;
+            double latent = sc.baseline + patient_offset + sc.within_patient_sd * noise + group_shift;
             if (is_case) {
                 const double progress = (t - (time_zero - onset_seconds)) / onset_seconds;
                 latent += rise * std::clamp(progress, 0.0, 1.0);
@@ -158,6 +183,19 @@ void validate(const GeneratorConfig& c) {
     require(s.drift_onset_min_hours >= 0 && s.drift_onset_min_hours <= s.drift_onset_max_hours &&
                 std::isfinite(s.drift_onset_max_hours),
             "scores.drift_onset_min_hours/max_hours", "need 0 <= min <= max");
+    for (const GeneratedGroup& g : c.groups) {
+        const std::string field = "groups." + g.column.name;
+        require(g.shares.size() == g.column.values.size(), field + ".shares", "needs one share per value");
+        double total = 0.0;
+        for (double share : g.shares) {
+            require(share >= 0 && share <= 1, field + ".shares", "each must be in [0, 1]");
+            total += share;
+        }
+        require(total <= 1 + 1e-9, field + ".shares", "must add up to at most 1 (the rest is not recorded)");
+        require(g.score_shift.empty() || g.score_shift.size() == g.column.levels(), field + ".score_shift",
+                "needs one shift per value and one for not recorded");
+        for (double shift : g.score_shift) require(std::isfinite(shift), field + ".score_shift", "must be finite");
+    }
 }
 
 int hour_of_week(Instant at, const TimeZone& zone) {
@@ -223,7 +261,8 @@ GenerationSummary generate_streaming(const GeneratorConfig& config, std::uint64_
             occupied_until.push(e.discharged);
             if (e.discharged <= config.period_start) continue;  // warm-up stay over before the period
 
-            generate_scores(config, e, entity, seed, replication, scores, summary);
+            const double group_shift = assign_groups(config.groups, entity, seed, replication, e);
+            generate_scores(config, e, entity, seed, replication, group_shift, scores, summary);
             ++summary.encounters;
             summary.scores += static_cast<std::int64_t>(scores.size());
             sink(e, std::span<const Score>(scores));
@@ -244,6 +283,7 @@ Population generate_population(const GeneratorConfig& config, std::uint64_t seed
             pop.score_start.push_back(pop.scores.size());
         });
     pop.units = std::move(summary.units);
+    for (const GeneratedGroup& g : config.groups) pop.groups.push_back(g.column);
     pop.excluded = std::move(summary.excluded);
     pop.period_start = config.period_start;
     pop.period_end = config.period_end;

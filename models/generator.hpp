@@ -11,7 +11,9 @@
 // drift_size_sd is not 0, from (rise_size, entity). Every stream draws the same
 // number of values whatever the knob values, so changing one unit's rate, the
 // drift size or the missing-score probability leaves every other draw where
-// it was.
+// it was. A patient-group value comes from (patient_group, entity_key(entity,
+// column name)): declaring groups moves no other draw, and a group's score
+// shift moves only its own patients' scores.
 #include <array>
 #include <cstdint>
 #include <functional>
@@ -86,8 +88,19 @@ struct ScoreConfig {
     double drift_onset_max_hours = 48.0;
 };
 
+// A patient-group column the generator fills in: each encounter's value is
+// drawn with the declared shares, and its scores' latent level may be moved
+// by a value's own shift, to show what a score that runs low (or high) for
+// one group does to who is reached.
+struct GeneratedGroup {
+    GroupColumn column;
+    std::vector<double> shares;       // one per value; what is left over is "not recorded"
+    std::vector<double> score_shift;  // one per level (values, then "not recorded"); points, or logits
+};
+
 struct GeneratorConfig {
     std::vector<UnitConfig> units;
+    std::vector<GeneratedGroup> groups;
     StayConfig stay;
     OutcomeConfig outcome;
     ScoreConfig scores;

@@ -6,6 +6,11 @@
 
 namespace tocsin {
 
+const std::string& GroupColumn::level_name(std::size_t level) const {
+    static const std::string missing = not_recorded;
+    return level < values.size() ? values[level] : missing;
+}
+
 void SkippedRows::merge(const SkippedRows& later, long line_offset) {
     count += later.count;
     for (long line : later.first_lines)

@@ -20,6 +20,25 @@ struct Encounter {
     Instant admitted = 0;
     Instant discharged = 0;
     std::optional<Instant> outcome_at;  // time zero, when the outcome happened
+    // The encounter's value of each patient-group column (Population::groups),
+    // as a level index; empty when the scenario declares no group.
+    std::vector<std::uint16_t> groups;
+};
+
+// A patient-group column the scenario declares (age band, language spoken,
+// admission route...): the values it may take. A missing value is a group of
+// its own, "not recorded", at level values.size(): never dropped, because the
+// patients whose group nobody wrote down are often the ones a committee
+// should look at.
+struct GroupColumn {
+    std::string name;
+    std::vector<std::string> values;
+    std::vector<std::string> recorded_as_missing;  // a log's own markers, e.g. "NA", "unknown"
+
+    static constexpr const char* not_recorded = "not recorded";
+    std::size_t levels() const { return values.size() + 1; }
+    std::uint16_t not_recorded_level() const { return static_cast<std::uint16_t>(values.size()); }
+    const std::string& level_name(std::size_t level) const;
 };
 
 struct Score {
@@ -63,6 +82,7 @@ struct Exclusions {
 
 struct Population {
     std::vector<std::string> units;       // unit names; index = unit id
+    std::vector<GroupColumn> groups;      // declared patient groups; Encounter::groups follows this order
     std::vector<Encounter> encounters;
     // Usable scores only (admitted <= available_at < min(discharged, outcome_at)),
     // grouped by encounter, each group in the order the rule sees them:

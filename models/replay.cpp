@@ -410,6 +410,33 @@ void parse_encounter_times(const RowContext& row, const std::vector<std::size_t>
     }
 }
 
+// The encounter's value of each declared group column, after the five
+// required columns in `col`. An empty field, or one of the column's own
+// markers for a missing value, is "not recorded".
+void parse_encounter_groups(const RowContext& row, const std::vector<std::size_t>& col,
+                            const std::vector<GroupColumn>& groups, Encounter& e) {
+    for (std::size_t g = 0; g < groups.size(); ++g) {
+        const GroupColumn& group = groups[g];
+        const std::size_t c = col[5 + g];
+        const std::string_view value = row.fields[c];
+        const auto& missing = group.recorded_as_missing;
+        if (value.empty() || std::find(missing.begin(), missing.end(), value) != missing.end()) {
+            e.groups.push_back(group.not_recorded_level());
+            continue;
+        }
+        const auto at = std::find(group.values.begin(), group.values.end(), value);
+        if (at == group.values.end()) {
+            row.text(c, group.name);
+            std::string expected;
+            for (const std::string& v : group.values) expected += (expected.empty() ? "" : ", ") + v;
+            row.fail(c, group.name, "a value not declared for group " + group.name,
+                     "expected one of the values declared for group " + group.name + " (" + expected +
+                         ") or an empty field (not recorded), found '" + std::string(value) + "'");
+        }
+        e.groups.push_back(static_cast<std::uint16_t>(at - group.values.begin()));
+    }
+}
+
 // One encounter row, checked and appended to pop.encounters, or throws RowProblem.
 void read_encounter_row(const RowContext& row, const ReplaySource& source, Seconds max_stay, Population& pop,
                         EncounterFile& file) {
@@ -436,6 +463,7 @@ void read_encounter_row(const RowContext& row, const ReplaySource& source, Secon
         if (source.bad_rows == BadRows::skip) file.index.emplace(e.id, skipped_encounter);
         throw;
     }
+    parse_encounter_groups(row, col, source.groups, e);
     std::string unit(fields[col[1]]);
     auto [it, added] = file.unit_index.emplace(unit, static_cast<std::uint32_t>(file.unit_names.size()));
     if (added) file.unit_names.push_back(unit);
@@ -452,7 +480,8 @@ void read_encounters(const ReplaySource& source, const TimeZone& zone, Populatio
     CsvReader reader(enc_path);
     if (!reader.next(fields)) throw InputError(enc_path, 1, 0, "", "file is empty (expected a header)");
     const long header_line = reader.line();
-    const std::vector<std::string_view> required = {"encounter", "unit", "admitted", "discharged", "outcome_at"};
+    std::vector<std::string_view> required = {"encounter", "unit", "admitted", "discharged", "outcome_at"};
+    for (const GroupColumn& g : source.groups) required.push_back(g.name);
     file.col = header_columns(reader, fields, required);
     const std::size_t width = fields.size();
     const Seconds max_stay = static_cast<Seconds>(std::llround(source.max_stay_days * 86400.0));
@@ -548,6 +577,7 @@ void number_units_by_name(Population& pop, const std::vector<std::string>& unit_
 Population load_replay(const ReplaySource& source, const TimeZone& zone) {
     Population pop;
     EncounterFile file;
+    pop.groups = source.groups;
     read_encounters(source, zone, pop, file);
     drop_far_out_encounters(source, pop, file);
     number_units_by_name(pop, file.unit_names);

@@ -47,6 +47,8 @@ struct ReplaySource {
     // Scores outside [score_low, score_high] are bad rows.
     double score_low = 0, score_high = 100;
     BadRows bad_rows = BadRows::stop;
+    // Patient-group columns of the encounters file, each required in its header.
+    std::vector<GroupColumn> groups;
 };
 
 Population load_replay(const ReplaySource& source, const TimeZone& zone);

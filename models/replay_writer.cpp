@@ -38,6 +38,7 @@ void check_encounter(const Population& pop, const Encounter& e, std::unordered_s
     check_name(e, e.id, "id");
     check_name(e, pop.units[e.unit], "unit name");
     if (!ids.insert(e.id).second) refuse(e, "the id is repeated");
+    if (e.groups.size() != pop.groups.size()) refuse(e, "its patient groups do not match the declared group columns");
     if (e.discharged <= e.admitted) refuse(e, "the stay does not end after it starts");
     if (e.outcome_at && (*e.outcome_at < e.admitted || *e.outcome_at > e.discharged))
         refuse(e, "the outcome lies outside the stay");
@@ -63,7 +64,9 @@ void check_scores(const Encounter& e, std::span<const Score> scores, std::vector
 
 ReplayText replay_csv(const Population& pop, const TimeZone& zone) {
     ReplayText text;
-    text.encounters = "encounter,unit,admitted,discharged,outcome_at\n";
+    text.encounters = "encounter,unit,admitted,discharged,outcome_at";
+    for (const GroupColumn& g : pop.groups) text.encounters += "," + csv_text(g.name);
+    text.encounters += "\n";
     text.scores = "encounter,scored_at,available_at,score\n";
     std::unordered_set<std::string_view> ids;
     std::vector<Instant> scored;
@@ -74,7 +77,12 @@ ReplayText replay_csv(const Population& pop, const TimeZone& zone) {
         const std::string id = csv_text(e.id);
         text.encounters += id + "," + csv_text(pop.units[e.unit]) + "," + format_local(e.admitted, zone) + "," +
                            format_local(e.discharged, zone) + "," +
-                           (e.outcome_at ? format_local(*e.outcome_at, zone) : std::string()) + "\n";
+                           (e.outcome_at ? format_local(*e.outcome_at, zone) : std::string());
+        // "not recorded" is written as an empty field, which reads back as not recorded.
+        for (std::size_t g = 0; g < pop.groups.size(); ++g)
+            text.encounters += "," + (e.groups[g] < pop.groups[g].values.size()
+                                          ? csv_text(pop.groups[g].values[e.groups[g]]) : std::string());
+        text.encounters += "\n";
         for (const Score& s : pop.scores_of(i))
             text.scores += id + "," + format_local(s.scored_at, zone) + "," + format_local(s.available_at, zone) + "," +
                            round_trip_text(s.value) + "\n";
@@ -98,6 +106,8 @@ ReplaySource replay_settings_for(const Population& pop, double usual_low, double
     // Whole days, so the key reads plainly; the reader compares in seconds.
     source.max_stay_days = std::max(source.max_stay_days, std::ceil(static_cast<double>(longest) / 86400.0));
     source.far_out_fence_iqr = 0;
+    source.groups = pop.groups;
+    for (GroupColumn& g : source.groups) g.recorded_as_missing.clear();  // written as empty fields
     return source;
 }
 
@@ -142,6 +152,13 @@ std::string replay_scenario_fragment(const ReplaySource& s, const ReplayFragment
     y += "    max_stay_days: " + round_trip_text(s.max_stay_days) + "\n";
     y += "    # Written by tocsin, not typed: no mistyped years to fence off.\n";
     y += "    far_out_fence_iqr: 0\n";
+    if (!s.groups.empty()) y += "  groups:\n";
+    for (const GroupColumn& g : s.groups) {
+        y += "    - name: " + yaml_quoted(g.name) + "\n";
+        y += "      values: [";
+        for (std::size_t v = 0; v < g.values.size(); ++v) y += (v ? ", " : "") + yaml_quoted(g.values[v]);
+        y += "]\n";
+    }
     return y;
 }
 

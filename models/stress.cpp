@@ -229,6 +229,7 @@ Population apply_shift(const Population& pop, const ShiftStress& stress, std::ui
     validate(stress, pop);
     Population out;
     out.units = pop.units;
+    out.groups = pop.groups;
     out.period_start = pop.period_start;
     out.period_end = pop.period_end;
     out.excluded = pop.excluded;

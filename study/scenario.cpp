@@ -114,6 +114,7 @@ void load_reporting(const Section& top, const TimeZone& zone, AnalysisSettings& 
         if (!s.has(key)) return std::nullopt;
         return timestamp(s, key, zone);
     };
+    analysis.smallest_group = s.integer("smallest_group");
     analysis.period_start = stamp("from");
     analysis.period_end = stamp("until");
     if (analysis.period_start && analysis.period_end && *analysis.period_end <= *analysis.period_start)

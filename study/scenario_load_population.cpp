@@ -2,6 +2,7 @@
 #include <cmath>
 #include <limits>
 
+#include "models/text.hpp"
 #include "study/scenario_load.hpp"
 
 // population: a replayed log or a generated one, its bootstrap and a stress test.
@@ -219,6 +220,78 @@ void parse_replay(const Section& s, const std::string& directory, ReplaySource& 
     else if (bad_rows != "stop") s.fail("bad_rows", "unknown value '" + bad_rows + "' (expected stop or skip)");
 }
 
+// A group's value list: present, printable, distinct. `what` names the list in messages.
+void check_group_values(const Section& g, std::string_view key, const std::vector<std::string>& values) {
+    for (std::size_t v = 0; v < values.size(); ++v) {
+        if (values[v].empty()) g.fail(key, "an empty value: an empty field already means not recorded");
+        if (std::string problem = text_problem(values[v]); !problem.empty())
+            g.fail(key, "'" + values[v] + "' is not printable text: " + problem);
+        if (std::find(values.begin(), values.begin() + static_cast<std::ptrdiff_t>(v), values[v]) !=
+            values.begin() + static_cast<std::ptrdiff_t>(v))
+            g.fail(key, "'" + values[v] + "' is listed twice");
+        if (values[v] == GroupColumn::not_recorded)
+            g.fail(key, "'" + values[v] + "' is what tocsin calls a missing value; list the log's marker under missing");
+    }
+}
+
+// One population.groups[] item: the column, and for a generated population its shares and score shifts.
+GeneratedGroup parse_group(const Section& g, bool generated, const std::vector<GeneratedGroup>& earlier) {
+    GeneratedGroup x;
+    x.column.name = g.text("name");
+    static const std::vector<std::string> taken = {"encounter", "unit", "admitted", "discharged", "outcome_at"};
+    if (x.column.name.empty()) g.fail("name", "a group needs a name (its column in the encounters file)");
+    if (std::string problem = text_problem(x.column.name); !problem.empty())
+        g.fail("name", "not printable text: " + problem);
+    if (std::find(taken.begin(), taken.end(), x.column.name) != taken.end())
+        g.fail("name", "'" + x.column.name + "' is one of the encounters file's own columns; name the group's column otherwise");
+    for (const GeneratedGroup& e : earlier)
+        if (e.column.name == x.column.name) g.fail("name", "group '" + x.column.name + "' is declared twice");
+    x.column.values = g.text_list("values");
+    if (x.column.values.empty()) g.fail("values", "list the values the column may take");
+    if (x.column.values.size() > 1000) g.fail("values", "more than 1,000 values: a group, not an identifier");
+    check_group_values(g, "values", x.column.values);
+    x.column.recorded_as_missing = g.text_list("missing");
+    check_group_values(g, "missing", x.column.recorded_as_missing);
+    for (const std::string& m : x.column.recorded_as_missing)
+        if (std::find(x.column.values.begin(), x.column.values.end(), m) != x.column.values.end())
+            g.fail("missing", "'" + m + "' is also one of the values");
+    if (!generated) {
+        for (std::string_view key : {"shares", "score_shift"})
+            if (g.has(key))
+                g.fail(key, "only a generated population takes " + std::string(key) +
+                                "; a replayed log's groups are read from its encounters file");
+        return x;
+    }
+    const std::size_t n = x.column.values.size();
+    x.shares = g.has("shares") ? g.real_list("shares") : std::vector<double>(n, 1.0 / static_cast<double>(n));
+    if (x.shares.size() != n) g.fail("shares", "give one share per value (" + std::to_string(n) + ")");
+    double total = 0;
+    for (double share : x.shares) {
+        if (share < 0 || share > 1) g.fail("shares", "each share must lie in [0, 1]");
+        total += share;
+    }
+    if (total > 1 + 1e-9) g.fail("shares", "the shares add up to more than 1 (the rest is not recorded)");
+    x.score_shift = g.real_list("score_shift");
+    if (!x.score_shift.empty() && x.score_shift.size() != n + 1)
+        g.fail("score_shift", "give one shift per value and one for not recorded (" + std::to_string(n + 1) + ")");
+    return x;
+}
+
+void load_groups(const Section& pop, Scenario& sc) {
+    if (!pop.has("groups")) return;
+    const bool generated = sc.population.source == PopulationSource::generate;
+    std::vector<GeneratedGroup> groups;
+    std::size_t i = 0;
+    for (const auto& node : pop.child("groups"))
+        groups.push_back(parse_group(
+            Section(node, "population.groups[]", pop.file(), "population.groups[" + std::to_string(i++) + "]"),
+            generated, groups));
+    for (GeneratedGroup& g : groups) {
+        if (generated) sc.population.generator.groups.push_back(g);
+        else sc.population.replay.groups.push_back(std::move(g.column));
+    }
+}
+
 }  // namespace
 
 void load_population(const Section& top, Scenario& sc) {
@@ -234,6 +307,7 @@ void load_population(const Section& top, Scenario& sc) {
         sc.population.source = PopulationSource::generate;
         parse_generator(Section(pop.child("generate"), "population.generate", file, "population.generate"), sc);
     }
+    load_groups(pop, sc);
     if (pop.has("bootstrap")) {
         if (sc.population.source != PopulationSource::replay)
             pop.fail("bootstrap", "bootstrap resamples a replayed log; a generated population makes every "

@@ -57,6 +57,19 @@ SectionSpec population_keys() {
                 section_key("generate", {.help = "Generate invented patients and scores (see population.generate); give replay or generate."}),
                 section_key("bootstrap", {.help = "With replay: how replications 1, 2, ... resample the log (see population.bootstrap)."}),
                 section_key("shift", {.help = "A stress test: change the population from a given instant on (see population.shift)."}),
+                list_key("groups", {.absent = "none", .help = "Patient-group columns, such as age band or language spoken; every benefit and burden figure is then also given by group (see population.groups[])."}),
+            }};
+}
+
+SectionSpec population_groups_keys() {
+    return {"population.groups[]",
+            "A patient-group column. A replayed log's encounters file must have it; an empty field (or a `missing` marker) is the group \"not recorded\", counted like any other, never dropped.",
+            {
+                text_key("name", {.required = true, .help = "Column name in the encounters file, and the group's name in reports, e.g. age_band."}),
+                list_key("values", {.required = true, .help = "The values the column may take, in the order reports list them; any other value is a bad row."}),
+                list_key("missing", {.absent = "none", .help = "What the log writes for a missing value, e.g. [NA, unknown]; counted as not recorded."}),
+                real_list_key("shares", {.unit = "share", .range = {0, 1}, .help = "generate: share of encounters with each value, in the order of values; what is left over is not recorded. Default: equal shares, none left over."}),
+                real_list_key("score_shift", {.unit = "points or logits", .range = {-1e6, 1e6}, .help = "generate: added to the latent level of every score of a value's patients, one per value then one for not recorded (points; logits on a probability scale): what a score that runs low for one group does."}),
             }};
 }
 
@@ -189,6 +202,7 @@ SectionSpec reporting_keys() {
             {
                 text_key("from", {.unit = "timestamp", .help = "Start of the reporting period (timestamp)."}),
                 text_key("until", {.unit = "timestamp", .help = "End of the reporting period (timestamp, exclusive)."}),
+                integer_key("smallest_group", {.unit = "encounters", .fallback = 11, .range = {1, 1000000}, .help = "A patient group with fewer encounters than this has its counts and figures suppressed in every output, as small-number disclosure rules usually require."}),
             }};
 }
 
@@ -353,6 +367,7 @@ const std::vector<SectionSpec>& scenario_sections() {
         population_shift_keys(),
         population_shift_census_keys(),
         population_replay_keys(),
+        population_groups_keys(),
         reporting_keys(),
         chart_openings_keys(),
         chart_openings_roles_keys(),
