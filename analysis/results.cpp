@@ -108,6 +108,7 @@ ReplicationResults replication_results(const SimulationSetup& setup, const Analy
     std::vector<PlanFigures> figures;
     for (const PlanResult& plan : r.plans) figures.push_back(plan.figures);
     r.units = unit_figures(setup, settings, pop, cal, rep, record, figures);
+    r.groups = group_figures(setup, settings, pop, record);
     r.exclusions = exclusions(pop, replayed_openings);
     r.channels = channel_results(setup, rep, pop, cal, record);
     if (setup.has_staff()) r.staff = staff_results(setup, pop, cal, rep, record, with_task_log);

@@ -9,6 +9,7 @@
 
 #include "analysis/channel_burden.hpp"
 #include "analysis/plan_figures.hpp"
+#include "analysis/group_figures.hpp"
 #include "analysis/unit_figures.hpp"
 #include "analysis/reporting.hpp"
 #include "analysis/workload.hpp"
@@ -87,6 +88,7 @@ struct ReplicationResults {
     PopulationSummary population;
     std::vector<PlanResult> plans;
     std::vector<UnitFigures> units;  // every plan on every unit (analysis/unit_figures.hpp)
+    std::vector<GroupFigures> groups;  // every plan for every patient group (analysis/group_figures.hpp)
     std::vector<UnitShiftNotices> unit_shift_notices;
     std::vector<Exclusion> exclusions;
     std::optional<std::vector<LoggedNotice>> notice_log;  // opt-in: holds encounter ids

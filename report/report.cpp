@@ -358,6 +358,17 @@ Section evaluation_section(const ReportInput& in, const HtmlTableOptions& table_
     return {"evaluation", "How well the score performs", body};
 }
 
+Section groups_section(const ReportInput& in, const HtmlTableOptions& table_options) {
+    std::string body = paragraph(in.group_intro);
+    if (!in.group_lines.empty()) body += "<div class=\"findings\">" + list(in.group_lines, "findings-list") + "</div>\n";
+    for (const IntervalChart& chart : in.group_charts)
+        body += "<figure>" + figure_title(chart.title) + interval_svg(chart) + "<figcaption>" +
+                html_escape(chart.description) + "</figcaption></figure>\n";
+    for (const Table& t : in.group_tables) body += html_table(t, table_options);
+    body += paragraph(in.group_note, "note");
+    return {"who-is-reached", "Who is reached", body};
+}
+
 // The sections the input gives, in reading order; empty inputs are left out.
 std::vector<Section> report_sections(const ReportInput& in) {
     std::vector<Section> sections{question_section(in)};
@@ -372,6 +383,7 @@ std::vector<Section> report_sections(const ReportInput& in) {
         sections.push_back({"per-ward", "Per ward",
                             paragraph(in.per_ward_intro) + html_table(*in.per_ward, table_options) +
                                 paragraph(in.per_ward_note, "note")});
+    if (!in.group_tables.empty()) sections.push_back(groups_section(in, table_options));
     if (!in.frontier.empty()) sections.push_back(frontier_section(in));
     if (given(in.channel_units))
         sections.push_back({"channels", "Each channel in its own unit",

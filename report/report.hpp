@@ -85,6 +85,12 @@ struct ReportInput {
     std::optional<Table> per_ward;
     std::string per_ward_intro, per_ward_note;
 
+    // Who is reached: each plan's benefit and burden by patient group, and the score by group.
+    std::vector<IntervalChart> group_charts;
+    std::vector<Table> group_tables;
+    std::vector<std::string> group_lines;  // gaps between groups, thin and suppressed groups
+    std::string group_intro, group_note;
+
     std::vector<PlanSeries> burden_per_night;
     std::string burden_per_night_label = "notices per unit per night";
     std::string burden_note;               // what one value is, e.g. "one unit-night of one replication"

@@ -10,6 +10,7 @@
 #include "report/basis.hpp"
 #include "report/cells.hpp"
 #include "report/comparison_tables.hpp"
+#include "report/group_tables.hpp"
 #include "report/html.hpp"
 #include "report/run_tables.hpp"
 #include "report/run_text.hpp"
@@ -204,6 +205,34 @@ void add_per_ward(ReportInput& in, const ReplicatedUnitFigures& f, const Metric*
         if (!in.column_labels.count(std::string(m.name))) in.column_labels[std::string(m.name)] = std::string(m.label);
 }
 
+// Who is reached: each plan by patient group, when the scenario declares groups.
+void add_groups(ReportInput& in, const Scenario& sc, const RunOutput& out, const TableBases& basis) {
+    const std::vector<GroupFigures>& first = out.first_replication.groups;
+    if (first.empty()) return;
+    const std::int64_t smallest = sc.analysis.smallest_group;
+    in.group_intro = "For each patient group the scenario declares: how many of the group's patients with the outcome "
+                     "each plan caught, with a 95% Wilson interval, and how often it sent a notice for the group's "
+                     "patients, per 100 patient-days so that groups of different size compare. Then the score itself "
+                     "by group. Basis: " + basis.first + ".";
+    in.group_lines = group_warning_lines(first, out.group_scores, smallest);
+    for (const std::string& line : in.group_lines)
+        if (line.rfind("Warning:", 0) == 0) in.key_findings.push_back(line);
+    in.group_charts = group_sensitivity_charts(first, smallest);
+    in.group_tables.push_back(plan_group_summary_table(first, out.first_replication.replication));
+    in.group_tables.back().basis = basis.first;
+    in.group_tables.push_back(group_score_table(out.group_scores));
+    in.group_tables.back().basis = basis.first_scores;
+    in.group_note = group_caution_text() + " A group with fewer than " + std::to_string(smallest) +
+                    " encounters (reporting.smallest_group) has its figures suppressed, as small-number disclosure "
+                    "rules usually require; a share of cases caught or an AUC needs at least " +
+                    std::to_string(min_cases_for_figure) + " cases (common practice, no source). Across replications: "
+                    "plan_group_comparison.csv; at each plan's threshold: score_by_group_at_thresholds.csv.";
+    in.column_labels["group"] = "Group";
+    in.column_labels["value"] = "Value";
+    in.column_labels["notices_per_100_patient_days"] = "notices per 100 patient-days";
+    in.column_labels["patient_days"] = "patient-days";
+}
+
 void add_staff(ReportInput& in, const std::vector<RoleWorkload>& workload) {
     Table t;
     t.name = "staff_workload";
@@ -265,6 +294,7 @@ ReportInput report_input_for_run(const Scenario& sc, const RunOutput& out, const
     }
     add_per_ward(in, out.unit_figures, settings.budget_limit ? budget : nullptr);
     if (in.per_ward) in.per_ward->basis = basis.replications;
+    add_groups(in, sc, out, basis);
     add_burden_per_night(in, out.first_replication, f.plans);
     in.channel_units = channel_units_table(f, out.first_replication.channels.burden);
     if (in.channel_units) in.channel_units->basis = basis.replications;

@@ -6,6 +6,7 @@
 #include "report/cautions.hpp"
 #include "report/comparison_tables.hpp"
 #include "report/evaluation_tables.hpp"
+#include "report/group_tables.hpp"
 #include "report/run_tables.hpp"
 #include "report/unit_tables.hpp"
 
@@ -46,6 +47,12 @@ std::vector<OutputFile> run_output_files(const Scenario& sc, const RunOutput& ou
     add(std::move(comparison.differences), basis.replications);
     add(std::move(comparison.replication_figures), basis.replications);
     add(plan_unit_comparison_table(out.unit_figures), basis.replications);
+    if (!out.first_replication.groups.empty()) {
+        add(plan_group_summary_table(out.first_replication.groups, out.first_replication.replication), basis.first);
+        add(plan_group_comparison_table(out.group_figures), basis.replications);
+        add(group_score_table(out.group_scores), basis.first_scores);
+        add(group_threshold_table(out.group_scores), basis.first_scores);
+    }
     add(frontier_table(out.figures, metric_index(*find_metric(settings.burden_metric)),
                        metric_index(*find_metric(settings.benefit_metric))),
         basis.replications);

@@ -7,6 +7,7 @@
 #include "report/cells.hpp"
 #include "report/comparison_tables.hpp"
 #include "report/evaluation_tables.hpp"
+#include "report/group_tables.hpp"
 #include "report/run_tables.hpp"
 #include "report/unit_tables.hpp"
 
@@ -161,6 +162,11 @@ std::string run_text(const Scenario& sc, const RunOutput& out, const RunSettings
     }
     else text += plan_summary_text(out.first_replication);
     if (const std::string wards = per_ward_text(out.unit_figures); !wards.empty()) text += "\n" + wards;
+    if (const std::string groups = who_is_reached_text(out.first_replication.groups, out.group_scores,
+                                                       sc.analysis.smallest_group,
+                                                       replication_zero_basis(sc.population));
+        !groups.empty())
+        text += "\n" + groups;
     if (out.evaluation) text += "\nThe score on the same population (replication 0):\n" + evaluation_summary(*out.evaluation);
     if (sc.simulation.plans.size() > 2) text += "\n" + frontier_text(out.figures, burden, benefit);
     if (!out.budget.empty())

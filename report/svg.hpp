@@ -68,6 +68,22 @@ struct BoxChart {
 };
 std::string box_svg(const BoxChart& chart);
 
+// One row per group: a dot at the value and a line across its interval (the
+// dot and the line carry the meaning, not colour). A row without a value says
+// why in words (e.g. "suppressed: fewer than 11 encounters").
+struct IntervalRow {
+    std::string label;
+    std::optional<double> value;
+    double lo = 0, hi = 0;
+    std::string no_value;  // shown instead of a dot when there is no value
+};
+struct IntervalChart {
+    std::string id, title, description, value_label;
+    std::vector<IntervalRow> rows;
+    double x_min = 0, x_max = 1;
+};
+std::string interval_svg(const IntervalChart& chart);
+
 // Lines through (x, y) points, e.g. ROC, calibration or decision curves.
 struct CurvePoint {
     double x = 0, y = 0;

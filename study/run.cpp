@@ -20,6 +20,7 @@ const Metric& metric_named(const std::string& name) {
 struct ReplicationsKept {
     std::vector<std::vector<PlanFigures>> figures;
     std::vector<std::vector<UnitFigures>> unit_figures;
+    std::vector<std::vector<GroupFigures>> group_figures;
     std::vector<std::vector<LoggedNotice>> notice_logs;
     std::vector<std::vector<LoggedTask>> task_logs;
     ScoreSample first_scores;  // replication 0's, for the plans' thresholds
@@ -44,6 +45,7 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
     ReplicationsKept kept;
     kept.figures.resize(sc.replications);
     kept.unit_figures.resize(sc.replications);
+    kept.group_figures.resize(sc.replications);
     kept.notice_logs.resize(sc.replications);
     kept.task_logs.resize(sc.replications);
     ExperimentOptions options;
@@ -60,6 +62,7 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
                                             sc.simulation.plans[p], rec.plans[p]);
                        }
                        kept.unit_figures[r] = unit_figures(sc.simulation, sc.analysis, pop, cal, rep, rec, kept.figures[r]);
+                       kept.group_figures[r] = group_figures(sc.simulation, sc.analysis, pop, rec);
                        if (r == 0) kept.first_scores = observed_scores(pop);  // read after every replication ends
                        if (r != 0 && !settings.notice_log && !settings.task_log) return;
                        ReplicationResults results = replication_results(sc.simulation, sc.analysis, pop, cal, rec,
@@ -73,10 +76,15 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
                        // The score's own measures are computed here, beside the other
                        // replications, rather than after them all.
                        std::optional<Evaluation> evaluation;
-                       if (settings.evaluate) evaluation = evaluate(pop, evaluation_options_for(sc));
+                       const EvaluationOptions measures = evaluation_options_for(sc);
+                       if (settings.evaluate) evaluation = evaluate(pop, measures);
+                       const std::vector<PlanThreshold> thresholds = plan_thresholds(sc.simulation);
+                       std::vector<GroupScoreFigures> group_scores = group_score_figures(
+                           pop, thresholds, measures.probability, sc.analysis.smallest_group, measures.confidence);
                        std::lock_guard<std::mutex> guard(kept.first_lock);
                        out.first_replication = std::move(results);
                        out.evaluation = std::move(evaluation);
+                       out.group_scores = std::move(group_scores);
                    });
     join_logs(out.first_replication.notice_log, kept.notice_logs);
     if (out.first_replication.staff) join_logs(out.first_replication.staff->task_log, kept.task_logs);
@@ -90,6 +98,7 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
     out.figures = collect_figures(names, kept.figures, channels);
     out.figures.first_is_log = replication_zero_is_the_log(sc.population);
     out.unit_figures = collect_unit_figures(names, kept.unit_figures);
+    out.group_figures = collect_group_figures(names, kept.group_figures);
     if (limited)
         out.budget = budget_by_group(out.figures, metric_index(*limited), *settings.budget_limit, metric_index(benefit));
     return out;

@@ -39,6 +39,8 @@ struct RunOutput {
     ReplicationResults first_replication;
     ReplicatedFigures figures;            // every plan's figures in every replication
     ReplicatedUnitFigures unit_figures;   // every plan's figures on every unit in every replication
+    ReplicatedGroupFigures group_figures;  // every plan's figures for every patient group in every replication
+    std::vector<GroupScoreFigures> group_scores;  // the score's measures by group, replication 0
     std::vector<PlanNetBenefit> plan_net_benefit;  // replication 0, an evaluation as the intervention
     // When a budget limit was given: one answer, or one per channel when the
     // budget metric's unit differs by channel and the plans use several (comparison_groups).
