@@ -1,5 +1,7 @@
 #include "report/group_tables.hpp"
 
+#include <algorithm>
+
 #include "analysis/comparison.hpp"
 #include "models/text.hpp"
 #include "report/cells.hpp"
@@ -126,29 +128,40 @@ std::string group_caution_text() {
 std::string who_is_reached_text(const std::vector<GroupFigures>& figures, const std::vector<GroupScoreFigures>& scores,
                                 std::int64_t smallest_group, const std::string& basis) {
     if (figures.empty()) return "";
-    std::string out = "Who is reached, by patient group (" + basis +
-                      "; sensitivity = share of cases caught, 95% Wilson interval; notices per 100 patient-days):\n";
-    for (std::size_t begin = 0; begin < figures.size();) {
-        std::size_t end = begin;
-        while (end < figures.size() && figures[end].plan == figures[begin].plan) ++end;
+    std::vector<std::string> plans, columns;
+    for (const GroupFigures& g : figures) {
+        if (plans.empty() || plans.back() != g.plan) plans.push_back(g.plan);
+        if (std::find(columns.begin(), columns.end(), g.group) == columns.end()) columns.push_back(g.group);
+    }
+    // A sweep's grid would fill the screen once per group; the files hold it all.
+    constexpr std::size_t most_plans_shown = 12;
+    if (plans.size() > most_plans_shown)
+        return "Who is reached: " + std::to_string(plans.size()) + " plans by patient group, in plan_group_summary "
+               "and plan_group_comparison (too many plans to show here).\n";
+    std::string out;
+    for (const std::string& column : columns) {
         Table view;
-        view.title = "Plan: " + figures[begin].plan;
-        view.columns = {"group", "value", "encounters", "cases", "caught", "sensitivity", "95% CI",
-                        "notices_per_100_patient_days", "lead_median_h"};
-        for (std::size_t i = begin; i < end; ++i) {
-            const GroupFigures& g = figures[i];
+        view.title = "Who is reached, by " + column + " (" + basis +
+                     "; share of the group's cases caught with its 95% Wilson interval):";
+        view.columns = {"plan", column, "stays", "cases", "caught", "share caught (95% CI)", "notices per 100 days",
+                        "lead h"};
+        for (const GroupFigures& g : figures) {
+            if (g.group != column) continue;
+            const bool first = view.rows.empty() || g.plan != figures[&g - figures.data() - 1].plan;
+            std::vector<Cell> row{first ? g.plan : std::string(), g.value};
             if (g.suppressed) {
-                view.add_row({g.group, g.value, std::string("suppressed"), Cell(), Cell(), Cell(), Cell(), Cell(), Cell()});
-                continue;
+                row.insert(row.end(), {std::string("suppressed"), Cell(), Cell(), Cell(), Cell(), Cell()});
+            } else {
+                const std::string caught = g.sensitivity ? share(*g.sensitivity) + " (" +
+                                                               share(g.sensitivity_interval.lower) + " to " +
+                                                               share(g.sensitivity_interval.upper) + ")"
+                                                         : std::string("too few cases");
+                row.insert(row.end(), {g.encounters, g.cases, g.caught, caught, cell_or_empty(g.notices_per_100_patient_days),
+                                       cell_or_empty(g.lead_median_hours)});
             }
-            const std::string ci = g.sensitivity ? share(g.sensitivity_interval.lower) + " to " +
-                                                       share(g.sensitivity_interval.upper)
-                                                 : std::string("too few cases");
-            view.add_row({g.group, g.value, g.encounters, g.cases, g.caught, cell_or_empty(g.sensitivity), ci,
-                          cell_or_empty(g.notices_per_100_patient_days), cell_or_empty(g.lead_median_hours)});
+            view.add_row(std::move(row));
         }
         out += to_text(view);
-        begin = end;
     }
     for (const std::string& line : group_warning_lines(figures, scores, smallest_group)) out += line + "\n";
     return out + group_caution_text() + "\n";

@@ -53,6 +53,24 @@ for unit, beds in UNITS.items():
             t = discharged + dt.timedelta(hours=rng.expovariate(1 / 10))
 
 
+# Each stay's age band, from a stream of its own so the stays and scores above
+# stay as they were. The older adults' ward takes older patients; the band of
+# about 1 stay in 50 was never written down (an empty field: "not recorded").
+AGE_BANDS = ["18-64", "65-79", "80+"]
+AGE_SHARES = {"4 North medicine": [0.5, 0.32, 0.16], "5 South surgery": [0.62, 0.28, 0.08],
+              "6 East older adults": [0.12, 0.42, 0.44]}
+group_rng = random.Random(20261205)
+
+
+def age_band(unit):
+    u = group_rng.random()
+    for band, share in zip(AGE_BANDS, AGE_SHARES[unit]):
+        if u < share:
+            return band
+        u -= share
+    return ""
+
+
 def naive_local(x):
     return x.astimezone(ZONE).strftime("%Y-%m-%d %H:%M:%S")
 
@@ -63,9 +81,9 @@ def utc(x):
 
 with open("encounters.csv", "w", newline="") as f:
     w = csv.writer(f, lineterminator="\n")
-    w.writerow(["encounter", "unit", "admitted", "discharged", "outcome_at"])
+    w.writerow(["encounter", "unit", "admitted", "discharged", "outcome_at", "age_band"])
     for eid, unit, a, d, o in sorted(encounters):
-        w.writerow([eid, unit, naive_local(a), naive_local(d), naive_local(o) if o else ""])
+        w.writerow([eid, unit, naive_local(a), naive_local(d), naive_local(o) if o else "", age_band(unit)])
 with open("scores.csv", "w", newline="") as f:
     w = csv.writer(f, lineterminator="\n")
     w.writerow(["encounter", "scored_at", "available_at", "score"])
