@@ -21,8 +21,13 @@ std::vector<GroupFigures> empty_rows(const std::string& plan, const Population& 
     std::vector<std::size_t> first(pop.groups.size());
     for (std::size_t g = 0; g < pop.groups.size(); ++g) {
         first[g] = rows.size();
-        for (std::size_t l = 0; l < pop.groups[g].levels(); ++l)
-            rows.push_back({.plan = plan, .group = pop.groups[g].name, .value = pop.groups[g].level_name(l)});
+        for (std::size_t l = 0; l < pop.groups[g].levels(); ++l) {
+            GroupFigures row;
+            row.plan = plan;
+            row.group = pop.groups[g].name;
+            row.value = pop.groups[g].level_name(l);
+            rows.push_back(std::move(row));
+        }
     }
     for (const Encounter& e : pop.encounters)
         for (std::size_t g = 0; g < pop.groups.size(); ++g) {
@@ -132,7 +137,9 @@ std::vector<GroupScoreFigures> group_score_figures(const Population& pop, std::s
     const std::vector<EncounterScore> all = encounter_level_scores(pop);
     for (std::size_t g = 0; g < pop.groups.size(); ++g)
         for (std::size_t l = 0; l < pop.groups[g].levels(); ++l) {
-            GroupScoreFigures row{.group = pop.groups[g].name, .value = pop.groups[g].level_name(l)};
+            GroupScoreFigures row;
+            row.group = pop.groups[g].name;
+            row.value = pop.groups[g].level_name(l);
             std::vector<EncounterScore> mine;
             std::int64_t encounters = 0;
             for (const Encounter& e : pop.encounters) encounters += e.groups[g] == l;

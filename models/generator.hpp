@@ -100,7 +100,7 @@ struct GeneratedGroup {
 
 struct GeneratorConfig {
     std::vector<UnitConfig> units;
-    std::vector<GeneratedGroup> groups;
+    std::vector<GeneratedGroup> groups{};
     StayConfig stay;
     OutcomeConfig outcome;
     ScoreConfig scores;

@@ -22,7 +22,7 @@ struct Encounter {
     std::optional<Instant> outcome_at;  // time zero, when the outcome happened
     // The encounter's value of each patient-group column (Population::groups),
     // as a level index; empty when the scenario declares no group.
-    std::vector<std::uint16_t> groups;
+    std::vector<std::uint16_t> groups{};
 };
 
 // A patient-group column the scenario declares (age band, language spoken,
@@ -33,7 +33,7 @@ struct Encounter {
 struct GroupColumn {
     std::string name;
     std::vector<std::string> values;
-    std::vector<std::string> recorded_as_missing;  // a log's own markers, e.g. "NA", "unknown"
+    std::vector<std::string> recorded_as_missing{};  // a log's own markers, e.g. "NA", "unknown"
 
     static constexpr const char* not_recorded = "not recorded";
     std::size_t levels() const { return values.size() + 1; }

@@ -48,7 +48,7 @@ struct ReplaySource {
     double score_low = 0, score_high = 100;
     BadRows bad_rows = BadRows::stop;
     // Patient-group columns of the encounters file, each required in its header.
-    std::vector<GroupColumn> groups;
+    std::vector<GroupColumn> groups{};
 };
 
 Population load_replay(const ReplaySource& source, const TimeZone& zone);

@@ -57,6 +57,31 @@ Table plan_group_comparison_table(const ReplicatedGroupFigures& f) {
     return t;
 }
 
+Table plan_group_differences_table(const ReplicatedGroupFigures& f) {
+    Table t = make_table("plan_group_differences",
+                         "Each group against its column's first value, paired by replication (mean and 95% CI)",
+                         {"plan", "group", "value", "compared_with", "metric", "mean", "ci_low", "ci_high",
+                          "replications"});
+    std::vector<std::size_t> first(f.rows.size());
+    for (std::size_t r = 0; r < f.rows.size(); ++r)
+        first[r] = r > 0 && f.rows[r].first == f.rows[r - 1].first ? first[r - 1] : r;
+    for (std::size_t p = 0; p < f.plans.size(); ++p)
+        for (std::size_t r = 0; r < f.rows.size(); ++r) {
+            if (first[r] == r) continue;
+            for (const char* name : {"sensitivity", "notices_per_100_patient_days", "lead_median_h"}) {
+                const std::size_t m = group_metric_index(name);
+                const auto mine = f.of(p, r, m), theirs = f.of(p, first[r], m);
+                std::vector<double> difference(mine.size());
+                for (std::size_t k = 0; k < mine.size(); ++k) difference[k] = mine[k] - theirs[k];  // NaN stays NaN
+                const MeanInterval mi = mean_interval(difference);
+                t.add_row({f.plans[p], f.rows[r].first, f.rows[r].second, f.rows[first[r]].second, std::string(name),
+                           finite_or_empty(mi.mean), finite_or_empty(mi.low), finite_or_empty(mi.high),
+                           static_cast<std::int64_t>(mi.n)});
+            }
+        }
+    return t;
+}
+
 Table group_score_table(const std::vector<GroupScoreFigures>& rows) {
     Table t = make_table("score_by_group", "The score by patient group (encounter level)",
                          {"group", "value", "suppressed", "encounters", "cases", "auc", "auc_ci_low", "auc_ci_high",

@@ -16,6 +16,9 @@ namespace tocsin {
 Table plan_group_summary_table(const std::vector<GroupFigures>& rows, std::uint64_t replication);
 // Across replications: mean and 95% CI of each per-group metric.
 Table plan_group_comparison_table(const ReplicatedGroupFigures& f);
+// Across replications: each group minus its column's first value in the same
+// replication (share caught, notices per 100 patient-days, lead), mean and 95% CI.
+Table plan_group_differences_table(const ReplicatedGroupFigures& f);
 // The score by group: AUC (DeLong), O/E and calibration-in-the-large with a
 // probability mapping, and sensitivity and specificity at each plan's threshold.
 Table group_score_table(const std::vector<GroupScoreFigures>& rows);

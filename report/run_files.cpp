@@ -50,6 +50,7 @@ std::vector<OutputFile> run_output_files(const Scenario& sc, const RunOutput& ou
     if (!out.first_replication.groups.empty()) {
         add(plan_group_summary_table(out.first_replication.groups, out.first_replication.replication), basis.first);
         add(plan_group_comparison_table(out.group_figures), basis.replications);
+        if (out.group_figures.replications > 1) add(plan_group_differences_table(out.group_figures), basis.replications);
         add(group_score_table(out.group_scores), basis.first_scores);
         add(group_threshold_table(out.group_scores), basis.first_scores);
     }

@@ -5,6 +5,7 @@
 // and the scenario keys' errors.
 #include <doctest/doctest.h>
 
+#include <algorithm>
 #include <cmath>
 #include <string>
 #include <vector>
@@ -270,4 +271,30 @@ population:
     const Scenario ok = parse_scenario(head + "    - {name: language, values: [en, cy], missing: [NA]}\n", "s.yaml", "");
     REQUIRE(ok.population.replay.groups.size() == 1);
     CHECK(ok.population.replay.groups[0].recorded_as_missing == std::vector<std::string>{"NA"});
+}
+
+TEST_CASE("group_figures.paired_differences_across_replications") {
+    // Replication 0 is the story (cy 1 of 10 caught, en 9 of 10); in
+    // replication 1 cy's one catch is gone (0 of 10). cy minus en: -0.8 and -0.9,
+    // mean -0.85; the Student-t 95% interval over 2 values is
+    // -0.85 +/- 12.706 x 0.0707 / sqrt(2) = -0.85 +/- 0.635.
+    const LanguageStory s;
+    LanguageStory fewer;
+    auto& notices = fewer.record.plans[0].notices;
+    notices.erase(std::remove_if(notices.begin(), notices.end(),
+                                 [&](const Notice& n) { return fewer.pop.encounters[n.encounter].groups[0] == 1; }),
+                  notices.end());
+    const ReplicatedGroupFigures f =
+        collect_group_figures({"page-60"}, {group_figures(s.setup, s.settings, s.pop, s.record),
+                                            group_figures(fewer.setup, fewer.settings, fewer.pop, fewer.record)});
+    const Table t = plan_group_differences_table(f);
+    bool found = false;
+    for (const auto& row : t.rows) {
+        if (std::get<std::string>(row[2]) != "cy" || std::get<std::string>(row[4]) != "sensitivity") continue;
+        found = true;
+        CHECK(std::get<std::string>(row[3]) == "en");
+        CHECK(std::get<double>(row[5]) == doctest::Approx(-0.85));
+        CHECK(std::get<double>(row[6]) == doctest::Approx(-0.85 - 12.7062 * std::sqrt(0.005) / std::sqrt(2.0)).epsilon(1e-4));
+    }
+    CHECK(found);
 }
