@@ -206,7 +206,7 @@ std::vector<IntervalChart> group_sensitivity_charts(const std::vector<GroupFigur
             const GroupFigures& g = figures[end];
             IntervalRow row{g.group + ": " + g.value, std::nullopt, 0, 0, ""};
             if (g.suppressed) row.no_value = "suppressed: fewer than " + std::to_string(smallest_group) + " encounters";
-            else if (!g.sensitivity) row.no_value = std::to_string(g.cases) + " cases: too few for a share";
+            else if (!g.sensitivity) row.no_value = std::to_string(g.cases) + (g.cases == 1 ? " case" : " cases") + ": too few for a share";
             else row.value = g.sensitivity, row.lo = g.sensitivity_interval.lower, row.hi = g.sensitivity_interval.upper;
             chart.rows.push_back(std::move(row));
         }
