@@ -89,6 +89,36 @@ std::string stress_line(const ShiftStress& x, const TimeZone& zone) {
     return out;
 }
 
+// The declared patient groups: what every figure is also broken down by.
+std::optional<std::string> groups_line(const Scenario& sc) {
+    const PopulationSetup& pop = sc.population;
+    std::vector<std::string> parts;
+    auto values = [](const GroupColumn& c) {
+        std::string out;
+        for (std::size_t v = 0; v < c.values.size(); ++v) out += (v ? ", " : "") + c.values[v];
+        return out;
+    };
+    for (const GroupColumn& c : pop.replay.groups) parts.push_back(c.name + " (" + values(c) + ")");
+    for (const GeneratedGroup& g : pop.generator.groups) {
+        std::string part = g.column.name + " (";
+        for (std::size_t v = 0; v < g.column.values.size(); ++v)
+            part += (v ? ", " : "") + g.column.values[v] + " " + num(g.shares[v]);
+        bool shifted = false;
+        for (double shift : g.score_shift) shifted |= shift != 0;
+        if (shifted) {
+            part += "; scores shifted by";
+            for (std::size_t l = 0; l < g.score_shift.size(); ++l)
+                part += (l ? ", " : " ") + g.column.level_name(l) + " " + num(g.score_shift[l]);
+        }
+        parts.push_back(part + ")");
+    }
+    if (parts.empty()) return std::nullopt;
+    std::string out = "Patient groups:";
+    for (std::size_t k = 0; k < parts.size(); ++k) out += (k ? "; " : " ") + parts[k];
+    return out + "; a missing value is its own group, not recorded; groups of fewer than " +
+           std::to_string(sc.analysis.smallest_group) + " encounters are suppressed";
+}
+
 void add_population(std::vector<DescriptionItem>& items, const Scenario& sc) {
     const PopulationSetup& pop = sc.population;
     if (pop.source == PopulationSource::replay) {
@@ -98,6 +128,7 @@ void add_population(std::vector<DescriptionItem>& items, const Scenario& sc) {
         items.push_back(statement(generated_line(pop, sc.simulation.zone)));
     }
     if (pop.shift) items.push_back(statement(stress_line(*pop.shift, sc.simulation.zone)));
+    if (auto groups = groups_line(sc)) items.push_back(statement(*groups));
 }
 
 // What the plan's channel does, when it is more than a page.
