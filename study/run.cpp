@@ -51,8 +51,10 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
     options.threads = settings.threads;
     options.progress = settings.progress;
     options.replayed_openings = settings.replayed_openings;
+    options.phases = settings.phases;
     run_experiment(sc, make_population, options,
                    [&](std::uint64_t r, const Population& pop, const ShiftCalendar& cal, const ReplicationRecord& rec) {
+                       const auto span = phase(settings.phases, "evaluate");
                        const ReportingShifts rep = reporting_shifts(sc.analysis, pop, cal);
                        for (std::size_t p = 0; p < rec.plans.size(); ++p) {
                            kept.figures[r].push_back(plan_figures(sc.analysis, pop, cal, rep, rec.plans[p]));
@@ -78,6 +80,7 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
                        out.first_replication = std::move(results);
                        out.evaluation = std::move(evaluation);
                    });
+    const auto span = phase(settings.phases, "evaluate");
     join_logs(out.first_replication.notice_log, kept.notice_logs);
     if (out.first_replication.staff) join_logs(out.first_replication.staff->task_log, kept.task_logs);
     std::vector<std::string> names;
