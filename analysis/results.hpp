@@ -99,4 +99,16 @@ ReplicationResults replication_results(const SimulationSetup& setup, const Analy
                                        const ReplicationRecord& record, bool with_notice_log, bool with_task_log = false,
                                        const ChartOpeningLog* replayed_openings = nullptr);
 
+// The same, from each plan's figures and each plan's figures on each unit
+// already computed for this record (`plan_figures` with `add_plan_burdens`,
+// and `unit_figures`), as a run does for every replication: not computed twice.
+struct KnownFigures {
+    std::vector<PlanFigures> plans;
+    std::vector<UnitFigures> units;
+};
+ReplicationResults replication_results(const SimulationSetup& setup, const AnalysisSettings& settings,
+                                       const Population& population, const ShiftCalendar& calendar,
+                                       const ReplicationRecord& record, KnownFigures known, bool with_notice_log,
+                                       bool with_task_log, const ChartOpeningLog* replayed_openings);
+
 }  // namespace tocsin

@@ -16,6 +16,7 @@
 
 #include <chrono>
 #include <cstdio>
+#include <ctime>
 #include <filesystem>
 #include <fstream>
 #include <iostream>
@@ -66,25 +67,24 @@ std::string read_file(const std::string& path) {
     return s.str();
 }
 
+const std::string bench_start = "2025-01-01 07:00:00";
+
+// `days` days after bench_start, in the same form.
+std::string bench_end(int days) {
+    std::tm t{};
+    t.tm_year = 125;
+    t.tm_mday = 1 + days;
+    t.tm_hour = 7;
+    timegm(&t);
+    char buf[32];
+    std::strftime(buf, sizeof buf, "%Y-%m-%d %H:%M:%S", &t);
+    return buf;
+}
+
 // A generated hospital of `beds` beds over `days` days, scored every 15 minutes.
 std::string generator_scenario(int beds, int days) {
-    std::ostringstream y;
-    y << "scenario_schema: 1\nname: bench hospital (invented)\ntime_zone: UTC\nseed: 7\n"
-      << "population:\n  generate:\n    start: \"2025-01-01 07:00:00\"\n    end: \"2025-01-01 07:00:00\"\n";
-    std::string text = y.str();
-    // The end date: `days` after the start.
-    const std::string end = [&] {
-        std::tm t{};
-        t.tm_year = 125;
-        t.tm_mon = 0;
-        t.tm_mday = 1 + days;
-        t.tm_hour = 7;
-        timegm(&t);
-        char buf[32];
-        std::strftime(buf, sizeof buf, "%Y-%m-%d %H:%M:%S", &t);
-        return std::string(buf);
-    }();
-    text.replace(text.rfind("2025-01-01 07:00:00"), 19, end);
+    std::string text = "scenario_schema: 1\nname: bench hospital (invented)\ntime_zone: UTC\nseed: 7\n"
+                       "population:\n  generate:\n    start: \"" + bench_start + "\"\n    end: \"" + bench_end(days) + "\"\n";
     std::ostringstream units;
     units << "    units:\n";
     for (int u = 0; u < beds / 25; ++u)
@@ -148,15 +148,8 @@ int main(int argc, char** argv) {
             std::cerr << "tocsin generate failed:\n" << read_file(dir + "/generate.err");
             return 1;
         }
-        std::tm t{};
-        t.tm_year = 125;
-        t.tm_mday = 1 + days;
-        t.tm_hour = 7;
-        timegm(&t);
-        char until[32];
-        std::strftime(until, sizeof until, "%Y-%m-%d %H:%M:%S", &t);
         scenario = log_dir + "/scenario.yaml";
-        std::ofstream(scenario) << replay_scenario("2025-01-01 07:00:00", until);
+        std::ofstream(scenario) << replay_scenario(bench_start, bench_end(days));
         std::printf("generated %d beds x %d days (15-minute scores) in %s\n", beds, days, log_dir.c_str());
     }
     std::printf("scenario %s, --threads %s, best of %d\n", scenario.c_str(), threads.c_str(), repeat);

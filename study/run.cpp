@@ -64,9 +64,11 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
                        kept.unit_figures[r] = unit_figures(sc.simulation, sc.analysis, pop, cal, rep, rec, kept.figures[r]);
                        if (r == 0) kept.first_scores = observed_scores(pop);  // read after every replication ends
                        if (r != 0 && !settings.notice_log && !settings.task_log) return;
-                       ReplicationResults results = replication_results(sc.simulation, sc.analysis, pop, cal, rec,
-                                                                        settings.notice_log, settings.task_log,
-                                                                        settings.replayed_openings);
+                       // The figures just computed, not computed again.
+                       ReplicationResults results =
+                           replication_results(sc.simulation, sc.analysis, pop, cal, rec,
+                                               KnownFigures{kept.figures[r], kept.unit_figures[r]}, settings.notice_log,
+                                               settings.task_log, settings.replayed_openings);
                        if (r != 0) {
                            if (results.notice_log) kept.notice_logs[r] = std::move(*results.notice_log);
                            if (results.staff && results.staff->task_log) kept.task_logs[r] = std::move(*results.staff->task_log);
