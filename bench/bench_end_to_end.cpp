@@ -68,6 +68,9 @@ std::string read_file(const std::string& path) {
 }
 
 const std::string bench_start = "2025-01-01 07:00:00";
+const std::string shifts_and_outcome =
+    "shifts:\n  - {name: day, starts: \"07:00\"}\n  - {name: night, starts: \"19:00\", night: true}\n"
+    "outcome:\n  window_hours: 24\n  min_lead_minutes: 60\n";
 
 // `days` days after bench_start, in the same form.
 std::string bench_end(int days) {
@@ -83,7 +86,7 @@ std::string bench_end(int days) {
 
 // A generated hospital of `beds` beds over `days` days, scored every 15 minutes.
 std::string generator_scenario(int beds, int days) {
-    std::string text = "scenario_schema: 1\nname: bench hospital (invented)\ntime_zone: UTC\nseed: 7\n"
+    std::string text = "scenario_schema: 1\nname: bench hospital (invented)\ntime_zone: UTC\nseed: 7\n" + shifts_and_outcome +
                        "population:\n  generate:\n    start: \"" + bench_start + "\"\n    end: \"" + bench_end(days) + "\"\n";
     std::ostringstream units;
     units << "    units:\n";
@@ -101,9 +104,7 @@ std::string generator_scenario(int beds, int days) {
 
 // The replayed log's scenario: a year.yaml-like run of 4 page plans and one staffed role.
 std::string replay_scenario(const std::string& from, const std::string& until) {
-    return "scenario_schema: 1\nname: bench replay (invented)\ntime_zone: UTC\nseed: 7\n"
-           "shifts:\n  - {name: day, starts: \"07:00\"}\n  - {name: night, starts: \"19:00\", night: true}\n"
-           "outcome:\n  window_hours: 24\n  min_lead_minutes: 60\n"
+    return "scenario_schema: 1\nname: bench replay (invented)\ntime_zone: UTC\nseed: 7\n" + shifts_and_outcome +
            "reporting:\n  from: \"" + from + "\"\n  until: \"" + until + "\"\n"
            "population:\n  replay:\n    encounters: encounters.csv\n    scores: scores.csv\n"
            "    score_range: [0, 100]\n    max_stay_days: 365\n"
