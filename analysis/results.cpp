@@ -95,20 +95,32 @@ StaffResults staff_results(const SimulationSetup& setup, const Population& pop, 
 ReplicationResults replication_results(const SimulationSetup& setup, const AnalysisSettings& settings, const Population& pop,
                                        const ShiftCalendar& cal, const ReplicationRecord& record, bool with_notice_log,
                                        bool with_task_log, const ChartOpeningLog* replayed_openings) {
+    const ReportingShifts rep = reporting_shifts(settings, pop, cal);
+    KnownFigures known;
+    for (std::size_t p = 0; p < setup.plans.size(); ++p) {
+        known.plans.push_back(plan_figures(settings, pop, cal, rep, record.plans[p]));
+        add_plan_burdens(known.plans.back(), setup, pop, cal, rep, setup.plans[p], record.plans[p]);
+    }
+    known.units = unit_figures(setup, settings, pop, cal, rep, record, known.plans);
+    known.groups = group_figures(setup, settings, pop, record);
+    return replication_results(setup, settings, pop, cal, record, std::move(known), with_notice_log, with_task_log,
+                               replayed_openings);
+}
+
+ReplicationResults replication_results(const SimulationSetup& setup, const AnalysisSettings& settings, const Population& pop,
+                                       const ShiftCalendar& cal, const ReplicationRecord& record, KnownFigures known,
+                                       bool with_notice_log, bool with_task_log, const ChartOpeningLog* replayed_openings) {
     ReplicationResults r;
     r.replication = record.replication;
     const ReportingShifts rep = reporting_shifts(settings, pop, cal);
     r.population = population_summary(pop, rep);
     for (std::size_t p = 0; p < setup.plans.size(); ++p) {
-        PlanResult plan{setup.plans[p].name, setup.plans[p].channel, plan_figures(settings, pop, cal, rep, record.plans[p])};
-        add_plan_burdens(plan.figures, setup, pop, cal, rep, setup.plans[p], record.plans[p]);
+        PlanResult plan{setup.plans[p].name, setup.plans[p].channel, std::move(known.plans[p])};
         add_unit_shift_notices(r.unit_shift_notices, plan.plan, plan.figures, pop, cal, rep);
         r.plans.push_back(std::move(plan));
     }
-    std::vector<PlanFigures> figures;
-    for (const PlanResult& plan : r.plans) figures.push_back(plan.figures);
-    r.units = unit_figures(setup, settings, pop, cal, rep, record, figures);
-    r.groups = group_figures(setup, settings, pop, record);
+    r.units = std::move(known.units);
+    r.groups = std::move(known.groups);
     r.exclusions = exclusions(pop, replayed_openings);
     r.channels = channel_results(setup, rep, pop, cal, record);
     if (setup.has_staff()) r.staff = staff_results(setup, pop, cal, rep, record, with_task_log);

@@ -101,4 +101,18 @@ ReplicationResults replication_results(const SimulationSetup& setup, const Analy
                                        const ReplicationRecord& record, bool with_notice_log, bool with_task_log = false,
                                        const ChartOpeningLog* replayed_openings = nullptr);
 
+// The same, from each plan's figures and each plan's figures on each unit
+// already computed for this record (`plan_figures` with `add_plan_burdens`,
+// `unit_figures` and `group_figures`), as a run does for every replication:
+// not computed twice.
+struct KnownFigures {
+    std::vector<PlanFigures> plans;
+    std::vector<UnitFigures> units;
+    std::vector<GroupFigures> groups;
+};
+ReplicationResults replication_results(const SimulationSetup& setup, const AnalysisSettings& settings,
+                                       const Population& population, const ShiftCalendar& calendar,
+                                       const ReplicationRecord& record, KnownFigures known, bool with_notice_log,
+                                       bool with_task_log, const ChartOpeningLog* replayed_openings);
+
 }  // namespace tocsin

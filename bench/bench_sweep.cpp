@@ -66,7 +66,9 @@ int main(int argc, char** argv) {
     }
     const GeneratorConfig config = hospital();
     const Scenario sc = sweep_of_100(replications);
-    const PopulationFactory factory = [&](std::uint64_t r) { return generate_population(config, 20261201, r); };
+    const PopulationFactory factory = [&](std::uint64_t r) {
+        return std::make_shared<const Population>(generate_population(config, 20261201, r));
+    };
     std::string first;
     double one_thread = 0;
     for (unsigned threads = 1; threads <= threads_max; threads *= 2) {

@@ -28,6 +28,8 @@
 #include "cli/evaluate_command.hpp"
 #include "cli/generate_command.hpp"
 #include "cli/option_specs.hpp"
+#include "report/terminal_progress.hpp"
+#include "report/progress_text.hpp"
 #include "models/population_source.hpp"
 #include "study/review_size.hpp"
 #include "models/errors.hpp"
@@ -62,6 +64,7 @@ struct RunOptions {
     std::string sweep_plan;
     std::vector<std::string> vary;
     bool keep_plans = false;
+    bool phases = false;  // print each phase's time and memory on stderr at the end
 };
 
 struct FitCommand {
@@ -90,29 +93,14 @@ void add_run_options(CLI::App* cmd, RunOptions& o) {
                     "Burden axis of the frontier (default per_unit_night_mean); one frontier per channel when it counts "
                     "notices, one for all plans on staff_minutes_per_unit_shift or evaluations_per_unit_shift");
     cmd->add_option("--benefit", o.benefit_metric, "Benefit axis of the frontier and budget (default caught)");
+    cmd->add_flag("--phases", o.phases,
+                  "At the end, print on stderr each phase's wall and CPU seconds and peak memory (read, prepare, "
+                  "simulate, staff, evaluate, write)");
 }
 
 unsigned thread_count(const std::string& requested) {
     if (const auto n = option_integer(option_specs().threads, "--threads", requested)) return static_cast<unsigned>(n);
     return std::max(1u, std::thread::hardware_concurrency());
-}
-
-// A progress bar with time left on stderr, only when stderr is a terminal.
-ProgressReport progress_bar() {
-    if (!::isatty(2)) return {};
-    const auto start = std::chrono::steady_clock::now();
-    return [start](std::uint64_t done, std::uint64_t total) {
-        const double elapsed = std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
-        const double left = done ? elapsed * static_cast<double>(total - done) / static_cast<double>(done) : 0;
-        const int width = 30, filled = static_cast<int>(width * done / std::max<std::uint64_t>(1, total));
-        std::fprintf(stderr, "\r  replication %llu/%llu [%s%s] %3d%%  ~%.0f s left   ",
-                     static_cast<unsigned long long>(done), static_cast<unsigned long long>(total),
-                     std::string(static_cast<std::size_t>(filled), '#').c_str(),
-                     std::string(static_cast<std::size_t>(width - filled), '.').c_str(),
-                     static_cast<int>(100 * done / std::max<std::uint64_t>(1, total)), left);
-        if (done == total) std::fprintf(stderr, "\r%*s\r", 80, "");
-        std::fflush(stderr);
-    };
 }
 
 // The replayed chart-opening log, when the scenario replays one.
@@ -177,7 +165,8 @@ int command_check(const std::string& path) {
     const PreparedPopulation prepared = prepare_population(sc.population);
     std::cout << describe_prepared(sc.population, prepared);
     if (const auto warning = reporting_period_warning(sc, prepared)) std::cout << *warning << "\n";
-    const Population pop = population_for(sc.population, prepared, 0);
+    const std::shared_ptr<const Population> first = population_factory(sc.population, prepared)(0);
+    const Population& pop = *first;
     std::int64_t cases = 0;
     for (const Encounter& e : pop.encounters) cases += e.outcome_at.has_value();
     std::cout << "Input: " << pop.encounters.size() << " encounters on " << pop.units.size() << " units ("
@@ -216,19 +205,40 @@ Scenario scenario_to_run(const RunOptions& opt, bool sweep) {
     return sc;
 }
 
-int command_run(const RunOptions& opt, bool sweep) {
-    const auto started = std::chrono::steady_clock::now();
-    std::optional<double> max_burden;
-    if (!opt.max_burden.empty()) max_burden = option_real(option_specs().max_burden, "--max-burden", opt.max_burden);
-    const unsigned threads = thread_count(opt.threads);
+// The run's settings from its options, each read against its range and the
+// output directory checked, before anything long runs.
+RunSettings run_settings(const RunOptions& opt) {
+    RunSettings settings;
+    if (!opt.max_burden.empty())
+        settings.budget_limit = option_real(option_specs().max_burden, "--max-burden", opt.max_burden);
+    settings.threads = thread_count(opt.threads);
     for (const auto& [option, name] : {std::pair{"--burden", &opt.burden_metric}, std::pair{"--benefit", &opt.benefit_metric},
                                        std::pair{"--budget-metric", &opt.budget_metric}})
         if (!find_metric(*name))
             throw InputError("command line", 0, 0, option,
                              "unknown metric '" + *name + "' (expected one of " + metric_names() + ")");
-    if (!opt.out_dir.empty()) check_output_directory(opt.out_dir);  // before the long part, not after
+    if (!opt.out_dir.empty()) check_output_directory(opt.out_dir);
+    settings.notice_log = opt.notice_log;
+    settings.task_log = opt.task_log;
+    settings.burden_metric = opt.burden_metric;
+    settings.benefit_metric = opt.benefit_metric;
+    settings.budget_metric = opt.budget_metric;
+    return settings;
+}
+
+int command_run(const RunOptions& opt, bool sweep) {
+    const auto started = std::chrono::steady_clock::now();
+    PhaseLog phases;
+    std::optional<TerminalProgress> terminal;
+    terminal.emplace(phases, stderr_is_terminal());
+    RunSettings settings = run_settings(opt);  // every option checked before the long part
+    settings.phases = &phases;
+    settings.progress = terminal->replications();
+    std::optional<PhaseLog::Span> reading(std::in_place, &phases, "read");
     const Scenario sc = scenario_to_run(opt, sweep);
     const PreparedPopulation prepared = prepare_population(sc.population);
+    reading.reset();
+    std::optional<PhaseLog::Span> preparing(std::in_place, &phases, "prepare");
     std::cout << describe_prepared(sc.population, prepared);
     const std::optional<std::string> period_warning = reporting_period_warning(sc, prepared);
     if (period_warning) std::cout << *period_warning << "\n";
@@ -241,20 +251,14 @@ int command_run(const RunOptions& opt, bool sweep) {
                              "population, generate chart openings (openings_per_hour) instead");
         openings = replayed_openings(sc, *prepared.log);
     }
-    RunSettings settings;
+    preparing.reset();
     settings.replayed_openings = openings ? &*openings : nullptr;
-    settings.threads = threads;
-    settings.notice_log = opt.notice_log;
-    settings.task_log = opt.task_log;
-    settings.progress = progress_bar();
-    settings.burden_metric = opt.burden_metric;
-    settings.benefit_metric = opt.benefit_metric;
-    settings.budget_limit = max_burden;
-    settings.budget_metric = opt.budget_metric;
     const RunOutput out = run_scenario(sc, factory, settings);
+    std::optional<PhaseLog::Span> writing(std::in_place, &phases, "write");
     std::cout << run_text(sc, out, settings);
     std::optional<ShiftEffect> effect;
     if (sc.population.shift) {
+        const auto span = phase(&phases, "stress test");
         effect = shift_effect(sc, factory, settings.threads);
         std::cout << "\n" << shift_effect_text(*effect, sc.simulation.zone);
     }
@@ -280,6 +284,13 @@ int command_run(const RunOptions& opt, bool sweep) {
         std::cout << "Wrote " << files.size() << " files to " << opt.out_dir << " in "
                   << format_real(std::chrono::duration<double>(std::chrono::steady_clock::now() - started).count(), 1)
                   << " s\n";
+    }
+    writing.reset();
+    terminal.reset();  // the line cleared before the table is printed
+    if (opt.phases) {
+        PhaseFigures total{"total", std::chrono::duration<double>(std::chrono::steady_clock::now() - started).count(),
+                           process_cpu_seconds(), process_peak_memory_kib(), 1};
+        std::cerr << phase_table_text(phases.figures(), total);
     }
     return 0;
 }

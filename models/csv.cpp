@@ -11,6 +11,17 @@ namespace tocsin {
 
 namespace {
 constexpr std::size_t block_size = std::size_t{8} << 20;
+
+// The bytes that end or break an unquoted field: one table look-up per byte
+// instead of four comparisons.
+struct FieldStops {
+    bool stop[256] = {};
+    constexpr FieldStops() {
+        stop[static_cast<unsigned char>(',')] = stop[static_cast<unsigned char>('\n')] = true;
+        stop[static_cast<unsigned char>('\r')] = stop[static_cast<unsigned char>('"')] = true;
+    }
+};
+constexpr FieldStops field_stops;
 }
 
 CsvReader::CsvReader(const std::string& path) : path_(path) {
@@ -108,12 +119,10 @@ bool CsvReader::parse_record(std::size_t& record_end, long& record_lines) {
             lines = quoted_lines;
         } else {
             const std::size_t start = p;
-            while (p < end && base[p] != ',' && base[p] != '\n' && base[p] != '\r') {
-                if (base[p] == '"')
-                    throw InputError(path_, next_line_, static_cast<long>(spans_.size() + 1), "",
-                                     "a quote inside an unquoted field (quote the whole field and double inner quotes)");
-                ++p;
-            }
+            while (p < end && !field_stops.stop[static_cast<unsigned char>(base[p])]) ++p;
+            if (p < end && base[p] == '"')
+                throw InputError(path_, next_line_, static_cast<long>(spans_.size() + 1), "",
+                                 "a quote inside an unquoted field (quote the whole field and double inner quotes)");
             if (p == end && !eof) return false;
             spans_.emplace_back(start, p - start);
         }

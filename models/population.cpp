@@ -11,6 +11,12 @@ const std::string& GroupColumn::level_name(std::size_t level) const {
     return level < values.size() ? values[level] : missing;
 }
 
+std::string GroupColumn::values_text() const {
+    std::string out;
+    for (const std::string& v : values) out += (out.empty() ? "" : ", ") + v;
+    return out;
+}
+
 void SkippedRows::merge(const SkippedRows& later, long line_offset) {
     count += later.count;
     for (long line : later.first_lines)

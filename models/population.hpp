@@ -39,6 +39,7 @@ struct GroupColumn {
     std::size_t levels() const { return values.size() + 1; }
     std::uint16_t not_recorded_level() const { return static_cast<std::uint16_t>(values.size()); }
     const std::string& level_name(std::size_t level) const;
+    std::string values_text() const;  // "18-64, 65-79, 80+"
 };
 
 struct Score {

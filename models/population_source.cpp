@@ -14,7 +14,7 @@ namespace tocsin {
 PreparedPopulation prepare_population(const PopulationSetup& sc) {
     PreparedPopulation p;
     if (sc.source == PopulationSource::replay) {
-        p.log = load_replay(sc.replay, sc.zone);
+        p.log = std::make_shared<const Population>(load_replay(sc.replay, sc.zone));
         if (sc.shift) {
             try {
                 validate(*sc.shift, *p.log);
@@ -91,8 +91,11 @@ PopulationFactory population_factory(const PopulationSetup& scenario) {
 PopulationFactory population_factory(const PopulationSetup& scenario, const PreparedPopulation& prepared) {
     auto shared_scenario = std::make_shared<const PopulationSetup>(scenario);
     auto shared_prepared = std::make_shared<const PreparedPopulation>(prepared);
-    return [shared_scenario, shared_prepared](std::uint64_t replication) {
-        return population_for(*shared_scenario, *shared_prepared, replication);
+    return [shared_scenario, shared_prepared](std::uint64_t replication) -> std::shared_ptr<const Population> {
+        const PopulationSetup& setup = *shared_scenario;
+        if (setup.source == PopulationSource::replay && !setup.shift && (!setup.bootstrap || replication == 0))
+            return shared_prepared->log;
+        return std::make_shared<const Population>(population_for(setup, *shared_prepared, replication));
     };
 }
 

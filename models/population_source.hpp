@@ -5,6 +5,7 @@
 // function of (setup, replication index).
 #include <cstdint>
 #include <functional>
+#include <memory>
 #include <optional>
 #include <string>
 
@@ -46,7 +47,9 @@ struct PopulationSetup {
 // What is worth doing once per scenario rather than once per replication:
 // reading the log, or calibrating the generator to a target AUC.
 struct PreparedPopulation {
-    std::optional<Population> log;              // replay
+    // replay; shared so that copies of the prepared population (a factory's,
+    // replication 0 of a plain replay) never copy a year of scores
+    std::shared_ptr<const Population> log;
     std::optional<EligibleDays> bootstrap_days;  // replay with bootstrap: the days it draws from
     GeneratorConfig generator;                  // generate, after calibration
     std::optional<AucCalibration> calibration;  // generate with target_auc
@@ -71,8 +74,10 @@ std::string replication_zero_basis(const PopulationSetup& setup);
 // days a bootstrap draws from), for `check` and `run`.
 std::string describe_prepared(const PopulationSetup& setup, const PreparedPopulation& prepared);
 
-// Makes the population of any replication (safe to call from several threads at once).
-using PopulationFactory = std::function<Population(std::uint64_t replication)>;
+// Makes the population of any replication (safe to call from several threads
+// at once). Shared and read-only: replication 0 of a plain replay is the
+// prepared log itself, not a copy of it.
+using PopulationFactory = std::function<std::shared_ptr<const Population>(std::uint64_t replication)>;
 
 // The first form prepares the population itself.
 PopulationFactory population_factory(const PopulationSetup& setup);

@@ -52,6 +52,7 @@ struct RowContext {
     const std::vector<std::string_view>& fields;
     const TimeZone& zone;
     Exclusions& excluded;
+    TimestampCache* cache = nullptr;  // the reader's own, for rows that share a date
 
     [[noreturn]] void fail(std::size_t column, std::string_view name, std::string reason,
                            const std::string& message) const {
@@ -60,7 +61,7 @@ struct RowContext {
     }
     Instant timestamp(std::size_t column, std::string_view name) const {
         TimestampNote note;
-        auto t = parse_timestamp(fields[column], zone, &note);
+        auto t = parse_timestamp(fields[column], zone, &note, cache);
         if (!t)
             fail(column, name, "bad timestamp in " + std::string(name),
                  "expected a timestamp such as 2026-03-03T19:05:00Z, 2026-03-03T20:05:00+01:00 or "
@@ -163,10 +164,11 @@ void parse_score_rows(CsvReader& reader, const ScoreColumns& c, const IdIndex& i
                       const TimeZone& zone, ScoreChunk& out) {
     std::vector<std::string_view> fields;
     LastLookup last;
+    TimestampCache dates;
     try {
         while (reader.next(fields)) {
             if (blank(fields)) continue;
-            RowContext row{reader, fields, zone, out.notes};
+            RowContext row{reader, fields, zone, out.notes, &dates};
             Score s;
             try {
                 const std::uint32_t e = parse_score_row(row, c, index, source, last, s);
@@ -201,14 +203,22 @@ std::vector<long long> score_chunk_cuts(const ReplaySource& source, long long bo
     return cuts;
 }
 
+// The fewest bytes a usable score row takes: an id of one character, a
+// 19-character scored_at, an empty available_at, a one-digit score, three
+// commas and a line break.
+constexpr long long shortest_score_row = 1 + 19 + 0 + 1 + 3 + 1;
+
 // Parses the chunks between consecutive `bounds`, one thread each.
 std::vector<ScoreChunk> parse_score_chunks(const ReplaySource& source, const TimeZone& zone, const IdIndex& index,
                                            const ScoreColumns& columns, const std::vector<long long>& bounds) {
     std::vector<ScoreChunk> chunks(bounds.size() - 1);
     parallel_for(chunks.size(), static_cast<unsigned>(chunks.size()), [&](std::size_t k) {
         CsvReader reader(source.scores_path, bounds[k], bounds[k + 1]);
-        // Reserve from the average row length so the arrays never regrow.
-        const auto expected = static_cast<std::size_t>((bounds[k + 1] - bounds[k]) / 40 + 16);
+        // Room for as many rows as the bytes could hold, so the arrays never
+        // regrow; the first chunk's for the whole file, so the others are
+        // joined onto it in place. Pages never written cost no memory.
+        const long long bytes = k == 0 ? bounds.back() - bounds.front() : bounds[k + 1] - bounds[k];
+        const auto expected = static_cast<std::size_t>(bytes / shortest_score_row + 16);
         chunks[k].scores.reserve(expected);
         chunks[k].owner.reserve(expected);
         parse_score_rows(reader, columns, index, source, zone, chunks[k]);
@@ -232,14 +242,12 @@ void join_score_chunks(std::vector<ScoreChunk>& chunks, Exclusions& excluded, st
         total += c.scores.size();
         for (const auto& [what, n] : c.notes.notes) excluded.notes[what] += n;
     }
-    if (chunks.size() == 1) {
-        scores = std::move(chunks[0].scores);
-        owner = std::move(chunks[0].owner);
-        return;
-    }
-    scores.reserve(total);
+    scores = std::move(chunks[0].scores);
+    owner = std::move(chunks[0].owner);
+    scores.reserve(total);  // already so (parse_score_chunks), unless rows were shorter than any usable one
     owner.reserve(total);
-    for (ScoreChunk& c : chunks) {
+    for (std::size_t k = 1; k < chunks.size(); ++k) {
+        ScoreChunk& c = chunks[k];
         scores.insert(scores.end(), c.scores.begin(), c.scores.end());
         owner.insert(owner.end(), c.owner.begin(), c.owner.end());
         std::vector<Score>().swap(c.scores);
@@ -410,9 +418,8 @@ void parse_encounter_times(const RowContext& row, const std::vector<std::size_t>
     }
 }
 
-// The encounter's value of each declared group column, after the five
-// required columns in `col`. An empty field, or one of the column's own
-// markers for a missing value, is "not recorded".
+// The encounter's value of each group column (after the five required ones in
+// `col`); an empty field or one of the column's missing markers is "not recorded".
 void parse_encounter_groups(const RowContext& row, const std::vector<std::size_t>& col,
                             const std::vector<GroupColumn>& groups, Encounter& e) {
     for (std::size_t g = 0; g < groups.size(); ++g) {
@@ -427,10 +434,8 @@ void parse_encounter_groups(const RowContext& row, const std::vector<std::size_t
         const auto at = std::find(group.values.begin(), group.values.end(), value);
         if (at == group.values.end()) {
             row.text(c, group.name);
-            std::string expected;
-            for (const std::string& v : group.values) expected += (expected.empty() ? "" : ", ") + v;
             row.fail(c, group.name, "a value not declared for group " + group.name,
-                     "expected one of the values declared for group " + group.name + " (" + expected +
+                     "expected one of the values declared for group " + group.name + " (" + group.values_text() +
                          ") or an empty field (not recorded), found '" + std::string(value) + "'");
         }
         e.groups.push_back(static_cast<std::uint16_t>(at - group.values.begin()));

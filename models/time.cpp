@@ -6,6 +6,7 @@
 #include <charconv>
 #include <cstdio>
 #include <cstdlib>
+#include <cstring>
 #include <fstream>
 #include <iterator>
 #include <span>
@@ -291,6 +292,18 @@ std::int32_t TimeZone::offset_at(Instant t) const {
     return offsets_[static_cast<std::size_t>(it - transitions_.begin()) - 1];
 }
 
+std::optional<std::int32_t> TimeZone::steady_offset(Instant from, Instant to) const {
+    const bool rule_governs = rule_ && (transitions_.empty() || to > transitions_.back());
+    if (rule_governs) {
+        if (rule_->has_dst || (!transitions_.empty() && from <= transitions_.back())) return std::nullopt;
+        return rule_->std_offset;
+    }
+    // The table alone: steady when no change falls in (from, to].
+    const auto it = std::upper_bound(transitions_.begin(), transitions_.end(), from);
+    if (it != transitions_.end() && *it <= to) return std::nullopt;
+    return offset_at(from);
+}
+
 Instant TimeZone::from_local(const CivilTime& l, LocalMapping* mapping) const {
     const Instant local = days_from_civil(l.year, l.month, l.day) * 86400 + l.hour * 3600 + l.minute * 60 + l.second;
     // An instant t shows `local` when t + offset_at(t) == local. Offsets are
@@ -354,16 +367,59 @@ int days_in_month(int y, int m) {
 
 }  // namespace
 
-std::optional<Instant> parse_timestamp(std::string_view s, const TimeZone& zone, TimestampNote* note) {
+namespace {
+
+// "YYYY-MM-DD" at the start of s, read and checked into c; false when it is
+// not a possible date.
+bool read_date(std::string_view s, CivilTime& c) {
+    return digits(s, 0, 4, c.year) && s[4] == '-' && digits(s, 5, 2, c.month) && s[7] == '-' &&
+           digits(s, 8, 2, c.day) && c.month >= 1 && c.month <= 12 && c.day >= 1 &&
+           c.day <= days_in_month(c.year, c.month);
+}
+
+// The first 10 bytes of a and b are equal (two fixed-size loads, no call).
+bool same_date(const char* a, const char* b) {
+    std::uint64_t a8, b8;
+    std::uint16_t a2, b2;
+    std::memcpy(&a8, a, 8);
+    std::memcpy(&b8, b, 8);
+    std::memcpy(&a2, a + 8, 2);
+    std::memcpy(&b2, b + 8, 2);
+    return a8 == b8 && a2 == b2;
+}
+
+// Two decimal digits at p into out.
+bool two_digits(const char* p, int& out) {
+    const unsigned a = static_cast<unsigned char>(p[0]) - '0', b = static_cast<unsigned char>(p[1]) - '0';
+    out = static_cast<int>(a * 10 + b);
+    return a < 10 && b < 10;
+}
+
+// The date of s through the cache: read once per run of rows with one date.
+bool cached_date(std::string_view s, const TimeZone& zone, TimestampCache& cache, CivilTime& c) {
+    if (cache.valid && cache.zone == &zone && same_date(s.data(), cache.date)) return true;
+    if (!read_date(s, c)) return false;
+    std::memcpy(cache.date, s.data(), 10);
+    cache.valid = true;
+    cache.zone = &zone;
+    cache.days = days_from_civil(c.year, c.month, c.day);
+    // As from_local looks: every offset within two days of the local day.
+    const Instant local_day = cache.days * 86400;
+    cache.steady_offset = zone.steady_offset(local_day - days(3), local_day + days(3));
+    return true;
+}
+
+}  // namespace
+
+std::optional<Instant> parse_timestamp(std::string_view s, const TimeZone& zone, TimestampNote* note,
+                                       TimestampCache* cache) {
     CivilTime c;
     if (s.size() < 19) return std::nullopt;
-    if (!digits(s, 0, 4, c.year) || s[4] != '-' || !digits(s, 5, 2, c.month) || s[7] != '-' ||
-        !digits(s, 8, 2, c.day) || (s[10] != 'T' && s[10] != ' ') || !digits(s, 11, 2, c.hour) ||
-        s[13] != ':' || !digits(s, 14, 2, c.minute) || s[16] != ':' || !digits(s, 17, 2, c.second))
+    const char* t = s.data();
+    if ((t[10] != 'T' && t[10] != ' ') || !two_digits(t + 11, c.hour) || t[13] != ':' || !two_digits(t + 14, c.minute) ||
+        t[16] != ':' || !two_digits(t + 17, c.second) || c.hour > 23 || c.minute > 59 || c.second > 59)
         return std::nullopt;
-    if (c.month < 1 || c.month > 12 || c.day < 1 || c.day > days_in_month(c.year, c.month) || c.hour > 23 ||
-        c.minute > 59 || c.second > 59)
-        return std::nullopt;
+    if (cache ? !cached_date(s, zone, *cache, c) : !read_date(s, c)) return std::nullopt;
     std::size_t p = 19;
     if (p < s.size() && s[p] == '.') {
         ++p;
@@ -371,9 +427,14 @@ std::optional<Instant> parse_timestamp(std::string_view s, const TimeZone& zone,
         while (p < s.size() && s[p] >= '0' && s[p] <= '9') ++p;
         if (p == start) return std::nullopt;
     }
-    const Instant as_utc = days_from_civil(c.year, c.month, c.day) * 86400 + c.hour * 3600 + c.minute * 60 + c.second;
+    const std::int64_t day = cache ? cache->days : days_from_civil(c.year, c.month, c.day);
+    const Instant as_utc = day * 86400 + c.hour * 3600 + c.minute * 60 + c.second;
     if (note) note->mapping = LocalMapping::unique;
-    if (p == s.size()) return zone.from_local(c, note ? &note->mapping : nullptr);
+    if (p == s.size()) {
+        if (cache && cache->steady_offset) return as_utc - *cache->steady_offset;
+        if (cache) c = civil_from_instant(as_utc);  // the date, which the cache skipped reading
+        return zone.from_local(c, note ? &note->mapping : nullptr);
+    }
     if (s[p] == 'Z' && p + 1 == s.size()) return as_utc;
     if (s[p] == '+' || s[p] == '-') {
         int sign = s[p] == '+' ? 1 : -1, oh = 0, om = 0;

@@ -69,6 +69,11 @@ public:
     // earlier instant is taken; in the skipped hour when clocks go forward the
     // time is moved forward by the size of the gap. `mapping` says which happened.
     Instant from_local(const CivilTime& local, LocalMapping* mapping = nullptr) const;
+    // The offset in force over all of [from, to] when it does not change
+    // there (so every local time whose instant lies there maps to one instant,
+    // local - offset); nothing when it changes or may (a daylight-saving
+    // footer rule governs part of it).
+    std::optional<std::int32_t> steady_offset(Instant from, Instant to) const;
     // Last instant whose offset is known: the end of the table for a zone
     // whose file has no footer rule (TZif version 1), otherwise unbounded.
     Instant covered_until() const { return covered_until_; }
@@ -86,12 +91,25 @@ struct TimestampNote {
     LocalMapping mapping = LocalMapping::unique;
 };
 
+// What parse_timestamp remembers of the last date it read, for a reader that
+// calls it for millions of rows of which one day's share a date: the date's
+// days since the epoch, checked once, and whether the zone's offset is steady
+// over that local day (then a local time is date + time - offset, without a
+// search of the zone's changes). One per reader (per thread); never shared.
+struct TimestampCache {
+    char date[10] = {};
+    bool valid = false;
+    std::int64_t days = 0;
+    std::optional<std::int32_t> steady_offset;
+    const TimeZone* zone = nullptr;
+};
+
 // Parses "YYYY-MM-DDTHH:MM:SS" or "YYYY-MM-DD HH:MM:SS", optionally with
 // fractional seconds (truncated), followed by "Z", "+HH:MM", "-HH:MM", "+HHMM",
 // "+HH:MM:SS" or nothing (then read in `zone`). Returns nothing when the text is not such
 // a timestamp or names an impossible date.
 std::optional<Instant> parse_timestamp(std::string_view text, const TimeZone& zone,
-                                       TimestampNote* note = nullptr);
+                                       TimestampNote* note = nullptr, TimestampCache* cache = nullptr);
 
 // "HH:MM" -> minutes after local midnight, or nothing.
 std::optional<int> parse_clock_minutes(std::string_view text);

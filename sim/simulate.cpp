@@ -129,7 +129,7 @@ void run_staff(const SimulationSetup& setup, const Population& population, const
 
 ReplicationRecord simulate_replication(const SimulationSetup& setup, const Population& population,
                                        const ShiftCalendar& calendar, std::uint64_t replication, unsigned threads,
-                                       const ChartOpeningLog* replayed_openings) {
+                                       const ChartOpeningLog* replayed_openings, PhaseLog* phases) {
     const std::size_t n_plans = setup.plans.size();
     const std::size_t n_enc = population.encounters.size();
     if (has_chart_plan(setup) && setup.chart_openings && !setup.chart_openings->replay_path.empty() &&
@@ -140,22 +140,26 @@ ReplicationRecord simulate_replication(const SimulationSetup& setup, const Popul
     const unsigned n_blocks =
         std::max(1u, std::min<unsigned>(threads, static_cast<unsigned>(std::max<std::size_t>(1, n_enc / 1024))));
     std::vector<EncounterBlock> blocks(n_blocks);
-    const RuleClock clock{&setup.zone, &calendar};
-    parallel_for(n_blocks, n_blocks, [&](std::size_t b) {
-        fire_encounter_plans(setup, population, clock, replayed_openings, replication, n_enc * b / n_blocks,
-                             n_enc * (b + 1) / n_blocks, blocks[b]);
-    });
     ReplicationRecord record;
-    record.replication = replication;
-    record.plans.resize(n_plans);
-    for (std::size_t p = 0; p < n_plans; ++p) {
-        const Plan& plan = setup.plans[p];
-        if (plan.channel == Channel::handoff_list || plan.channel == Channel::ranked_review)
-            record.plans[p] =
-                run_round_channel(setup, population, calendar, plan, static_cast<std::uint32_t>(p), replication);
-        else
-            join_blocks(blocks, p, record.plans[p]);
+    {
+        const auto span = phase(phases, "simulate");
+        const RuleClock clock{&setup.zone, &calendar};
+        parallel_for(n_blocks, n_blocks, [&](std::size_t b) {
+            fire_encounter_plans(setup, population, clock, replayed_openings, replication, n_enc * b / n_blocks,
+                                 n_enc * (b + 1) / n_blocks, blocks[b]);
+        });
+        record.replication = replication;
+        record.plans.resize(n_plans);
+        for (std::size_t p = 0; p < n_plans; ++p) {
+            const Plan& plan = setup.plans[p];
+            if (plan.channel == Channel::handoff_list || plan.channel == Channel::ranked_review)
+                record.plans[p] =
+                    run_round_channel(setup, population, calendar, plan, static_cast<std::uint32_t>(p), replication);
+            else
+                join_blocks(blocks, p, record.plans[p]);
+        }
     }
+    const auto span = phase(setup.has_staff() ? phases : nullptr, "staff");
     if (setup.has_staff()) run_staff(setup, population, calendar, replication, n_blocks, record);
     return record;
 }

@@ -6,6 +6,7 @@
 #include <utility>
 #include <vector>
 
+#include "models/phase_log.hpp"
 #include "models/population.hpp"
 #include "sim/notice.hpp"
 #include "sim/setup.hpp"
@@ -48,6 +49,7 @@ ShiftCalendar calendar_for(const SimulationSetup& setup, const Population& popul
 // generate them otherwise.
 ReplicationRecord simulate_replication(const SimulationSetup& setup, const Population& population,
                                        const ShiftCalendar& calendar, std::uint64_t replication,
-                                       unsigned threads = 1, const ChartOpeningLog* replayed_openings = nullptr);
+                                       unsigned threads = 1, const ChartOpeningLog* replayed_openings = nullptr,
+                                       PhaseLog* phases = nullptr);
 
 }  // namespace tocsin

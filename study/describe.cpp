@@ -93,12 +93,7 @@ std::string stress_line(const ShiftStress& x, const TimeZone& zone) {
 std::optional<std::string> groups_line(const Scenario& sc) {
     const PopulationSetup& pop = sc.population;
     std::vector<std::string> parts;
-    auto values = [](const GroupColumn& c) {
-        std::string out;
-        for (std::size_t v = 0; v < c.values.size(); ++v) out += (v ? ", " : "") + c.values[v];
-        return out;
-    };
-    for (const GroupColumn& c : pop.replay.groups) parts.push_back(c.name + " (" + values(c) + ")");
+    for (const GroupColumn& c : pop.replay.groups) parts.push_back(c.name + " (" + c.values_text() + ")");
     for (const GeneratedGroup& g : pop.generator.groups) {
         std::string part = g.column.name + " (";
         for (std::size_t v = 0; v < g.column.values.size(); ++v)

@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <exception>
 #include <mutex>
+#include <optional>
 #include <stdexcept>
 
 #include "models/parallel.hpp"
@@ -26,10 +27,13 @@ void run_experiment(const Scenario& scenario, const PopulationFactory& make_popu
     parallel_for(total, workers, [&](std::uint64_t r) {
         std::exception_ptr error;
         try {
-            const Population population = make_population(r);
+            std::optional<PhaseLog::Span> preparing(std::in_place, options.phases, "prepare");
+            const std::shared_ptr<const Population> shared = make_population(r);
+            const Population& population = *shared;
             const ShiftCalendar calendar = calendar_for(scenario, population);
-            const ReplicationRecord record =
-                simulate_replication(scenario.simulation, population, calendar, r, inner, options.replayed_openings);
+            preparing.reset();
+            const ReplicationRecord record = simulate_replication(scenario.simulation, population, calendar, r, inner,
+                                                                  options.replayed_openings, options.phases);
             observe(r, population, calendar, record);
         } catch (...) {
             error = std::current_exception();

@@ -26,6 +26,7 @@ struct ExperimentOptions {
     // Chart openings replayed from a log; they belong to the replayed log
     // itself, so only a plain replay (one replication) may use them.
     const ChartOpeningLog* replayed_openings = nullptr;
+    PhaseLog* phases = nullptr;  // times prepare (each replication's population), simulate, staff; may be null
 };
 
 // Runs replications 0 .. replications-1. If any replication throws, the error

@@ -93,8 +93,9 @@ FitCheck check_fit(const Scenario& scenario, const Population& log, const Genera
     generated.population.target_auc.reset();
     generated.population.shift.reset();
     generated.population.bootstrap.reset();
-    const std::vector<double> log_figures =
-        run_figures(scenario, [&](std::uint64_t) { return log; }, 1, 1).front();
+    // The log itself, not a copy: a pointer that owns nothing (the caller keeps the log).
+    const PopulationFactory the_log = [&](std::uint64_t) { return std::shared_ptr<const Population>(std::shared_ptr<const Population>(), &log); };
+    const std::vector<double> log_figures = run_figures(scenario, the_log, 1, 1).front();
     const std::vector<std::vector<double>> fitted_figures =
         run_figures(generated, population_factory(generated.population), replications, threads);
 

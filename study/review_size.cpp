@@ -117,7 +117,8 @@ ReviewSizing size_review_list(const Scenario& sc, const PopulationFactory& make_
     std::vector<std::vector<ReviewSizeRow>> by_rep(sc.replications);
     // Each replication writes only its own slot: the result is the same whatever the thread count.
     parallel_for(by_rep.size(), threads, [&](std::size_t r) {
-        const Population pop = make_population(r);
+        const std::shared_ptr<const Population> shared = make_population(r);
+        const Population& pop = *shared;
         const ShiftCalendar cal = calendar_for(sc, pop);
         by_rep[r] = size_rows(sc, pop, cal, p, smallest_size, largest_size, r);
     });

@@ -53,8 +53,10 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
     options.threads = settings.threads;
     options.progress = settings.progress;
     options.replayed_openings = settings.replayed_openings;
+    options.phases = settings.phases;
     run_experiment(sc, make_population, options,
                    [&](std::uint64_t r, const Population& pop, const ShiftCalendar& cal, const ReplicationRecord& rec) {
+                       const auto span = phase(settings.phases, "evaluate");
                        const ReportingShifts rep = reporting_shifts(sc.analysis, pop, cal);
                        for (std::size_t p = 0; p < rec.plans.size(); ++p) {
                            kept.figures[r].push_back(plan_figures(sc.analysis, pop, cal, rep, rec.plans[p]));
@@ -65,9 +67,11 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
                        kept.group_figures[r] = group_figures(sc.simulation, sc.analysis, pop, rec);
                        if (r == 0) kept.first_scores = observed_scores(pop);  // read after every replication ends
                        if (r != 0 && !settings.notice_log && !settings.task_log) return;
-                       ReplicationResults results = replication_results(sc.simulation, sc.analysis, pop, cal, rec,
-                                                                        settings.notice_log, settings.task_log,
-                                                                        settings.replayed_openings);
+                       // The figures just computed, not computed again.
+                       ReplicationResults results =
+                           replication_results(sc.simulation, sc.analysis, pop, cal, rec,
+                                               KnownFigures{kept.figures[r], kept.unit_figures[r], kept.group_figures[r]}, settings.notice_log,
+                                               settings.task_log, settings.replayed_openings);
                        if (r != 0) {
                            if (results.notice_log) kept.notice_logs[r] = std::move(*results.notice_log);
                            if (results.staff && results.staff->task_log) kept.task_logs[r] = std::move(*results.staff->task_log);
@@ -86,6 +90,7 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
                        out.evaluation = std::move(evaluation);
                        out.group_scores = std::move(group_scores);
                    });
+    const auto span = phase(settings.phases, "evaluate");
     join_logs(out.first_replication.notice_log, kept.notice_logs);
     if (out.first_replication.staff) join_logs(out.first_replication.staff->task_log, kept.task_logs);
     std::vector<std::string> names;

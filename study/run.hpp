@@ -30,6 +30,7 @@ struct RunSettings {
     std::optional<double> budget_limit;
     std::string budget_metric = "worst_unit_night_p90";
     bool evaluate = true;  // model-evaluation measures on replication 0's population
+    PhaseLog* phases = nullptr;  // the run's phases timed here (prepare, simulate, staff, evaluate); may be null
 };
 
 struct RunOutput {

@@ -162,7 +162,7 @@ TEST_CASE("bootstrap_steady_state.clockwork_log_with_ramp_up_and_cut_off_tail") 
     // pages per night: no sampling error, so no tolerance.
     auto make = [&](const BootstrapConfig& c) -> PopulationFactory {
         const EligibleDays d = find_eligible_days(log, c);
-        return [&log, c, d](std::uint64_t r) { return bootstrap_population(log, c, d, 3, r); };
+        return [&log, c, d](std::uint64_t r) { return std::make_shared<const Population>(bootstrap_population(log, c, d, 3, r)); };
     };
     const Instant start = log.period_start;
     const Scenario steady_nights = paging_scenario(21, start + days(5), start + days(29));
@@ -216,7 +216,7 @@ TEST_CASE("bootstrap_steady_state.stationary_log_replayed") {
     const std::uint64_t R = 100;
     const Scenario sc = paging_scenario(R + 1, from, until);
     auto boot = [&](const BootstrapConfig& c, const EligibleDays& d) -> PopulationFactory {
-        return [&, c, d](std::uint64_t r) { return bootstrap_population(log, c, d, 5, r); };
+        return [&, c, d](std::uint64_t r) { return std::make_shared<const Population>(bootstrap_population(log, c, d, 5, r)); };
     };
     const std::vector<double> steady = per_unit_night(sc, boot({}, eligible));
     BootstrapConfig every_day;
@@ -225,7 +225,7 @@ TEST_CASE("bootstrap_steady_state.stationary_log_replayed") {
     // The generator's own expectation, from 20 more generated periods.
     const std::uint64_t G = 20;
     const std::vector<double> gen = per_unit_night(paging_scenario(G, config.period_start, config.period_end),
-                                                   [&](std::uint64_t r) { return generate_population(config, 21, r + 1); });
+                                                   [&](std::uint64_t r) { return std::make_shared<const Population>(generate_population(config, 21, r + 1)); });
     const double as_logged = steady[0];
     REQUIRE(old[0] == as_logged);  // replication 0 is the log either way
     const Summary s = summary(std::span(steady).subspan(1)), o = summary(std::span(old).subspan(1)), g = summary(gen);

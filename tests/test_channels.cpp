@@ -430,7 +430,7 @@ TEST_CASE("channels.review_size_over_replications") {
     };
     Ward first = ward(80, 50), second = ward(90, 60);
     first.sc.replications = 2;
-    const PopulationFactory two = [&](std::uint64_t r) { return r == 0 ? first.pop : second.pop; };
+    const PopulationFactory two = [&](std::uint64_t r) { return std::make_shared<const Population>(r == 0 ? first.pop : second.pop); };
     const ReviewSizing s = size_review_list(first.sc, two, 0, 1, 6, 0.8, 1);
     REQUIRE(s.summary.size() == 6);
     CHECK(s.replications == 2);

@@ -69,14 +69,19 @@ std::string all_tables(const Scenario& sc, const RunOutput& out, const RunSettin
 
 }  // namespace
 
+// The same, as a run's population factory hands it out.
+std::shared_ptr<const Population> shared_small_population(std::uint64_t replication) {
+    return std::make_shared<const Population>(small_population(replication));
+}
+
 TEST_CASE("experiment.same_results_whatever_the_threads") {
     const Scenario sc = two_plans(7);
     RunSettings one, two;
     one.threads = 1;
     two.threads = 2;
     one.notice_log = two.notice_log = true;
-    const RunOutput a = run_scenario(sc, small_population, one);
-    const RunOutput b = run_scenario(sc, small_population, two);
+    const RunOutput a = run_scenario(sc, shared_small_population, one);
+    const RunOutput b = run_scenario(sc, shared_small_population, two);
     CHECK(all_tables(sc, a, one) == all_tables(sc, b, two));
     CHECK(a.figures.replications == 7);
     // Replications differ from each other (the factory is random per replication).
@@ -93,7 +98,7 @@ TEST_CASE("experiment.plans_share_patients") {
     ExperimentOptions options;
     options.replications = 3;
     options.threads = 2;
-    run_experiment(sc, small_population, options,
+    run_experiment(sc, shared_small_population, options,
                    [&](std::uint64_t r, const Population& pop, const ShiftCalendar&, const ReplicationRecord& rec) {
                        std::lock_guard<std::mutex> guard(lock);
                        ++populations_seen[r];
@@ -113,9 +118,9 @@ TEST_CASE("experiment.errors_surface") {
     ExperimentOptions options;
     options.replications = 4;
     options.threads = 2;
-    auto failing = [](std::uint64_t r) -> Population {
+    auto failing = [](std::uint64_t r) {
         if (r == 2) throw std::runtime_error("replication 2 failed");
-        return small_population(r);
+        return shared_small_population(r);
     };
     CHECK_THROWS_WITH(run_experiment(sc, failing, options, [](auto, const auto&, const auto&, const auto&) {}),
                       "replication 2 failed");

@@ -223,3 +223,40 @@ TEST_CASE("time.posix_rule_forms") {
         }
     }
 }
+
+TEST_CASE("time.date_cache_reads_as_without_it") {
+    // Every 10 minutes over the days around both of a year's changes, in
+    // zones with and without daylight saving, and with offsets written out:
+    // the reader's date cache (one per reader, reused row after row) must
+    // give the same instant and the same note as reading each text afresh.
+    for (const char* name : {"UTC", "Europe/London", "America/Chicago", "Australia/Lord_Howe"}) {
+        const TimeZone zone = std::string(name) == "UTC" ? TimeZone::utc() : TimeZone::load(name);
+        TimestampCache cache;
+        int compared = 0;
+        for (int month : {3, 4, 10, 11}) {
+            const Instant from = days_from_civil(2026, month, 1) * 86400;
+            for (Instant t = from; t < from + 8 * 86400; t += 600) {
+                const CivilTime c = civil_from_instant(t);
+                char text[40];
+                for (const char* suffix : {"", "Z", "+01:00"}) {
+                    std::snprintf(text, sizeof text, "%04d-%02d-%02d %02d:%02d:%02d%s", c.year, c.month, c.day, c.hour,
+                                  c.minute, c.second, suffix);
+                    TimestampNote plain, cached;
+                    const auto a = parse_timestamp(text, zone, &plain);
+                    const auto b = parse_timestamp(text, zone, &cached, &cache);
+                    REQUIRE(a.has_value());
+                    CHECK(a == b);
+                    CHECK(plain.mapping == cached.mapping);
+                    ++compared;
+                }
+            }
+        }
+        CHECK(compared == 4 * 8 * 144 * 3);
+    }
+    // A bad date is never remembered as good, nor a good one spoilt by a bad time.
+    TimestampCache cache;
+    CHECK(parse_timestamp("2026-02-30 10:00:00", TimeZone::utc(), nullptr, &cache) == std::nullopt);
+    CHECK(parse_timestamp("2026-02-28 25:00:00", TimeZone::utc(), nullptr, &cache) == std::nullopt);
+    CHECK(parse_timestamp("2026-02-28 10:00:00", TimeZone::utc(), nullptr, &cache) == days_from_civil(2026, 2, 28) * 86400 + 36000);
+    CHECK(parse_timestamp("2026-02-29 10:00:00", TimeZone::utc(), nullptr, &cache) == std::nullopt);
+}

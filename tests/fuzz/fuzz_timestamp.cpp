@@ -39,9 +39,24 @@ Instant wall_seconds(const CivilTime& c) {
     return days_from_civil(c.year, c.month, c.day) * 86400 + c.hour * 3600 + c.minute * 60 + c.second;
 }
 
+// The reader's date cache changes nothing: the text read with a fresh cache,
+// and again with the cache the first reading left, as without one.
+void check_cached(const std::string& text, const TimeZone& zone, const std::optional<Instant>& t,
+                  const TimestampNote& note) {
+    TimestampCache cache;
+    for (int pass = 0; pass < 2; ++pass) {
+        TimestampNote cached_note;
+        const std::optional<Instant> cached = parse_timestamp(text, zone, &cached_note, &cache);
+        if (cached != t || (t && cached_note.mapping != note.mapping))
+            broken("'" + text + "' in " + zone.name() + ": read differently through the date cache (pass " +
+                   std::to_string(pass + 1) + ")");
+    }
+}
+
 void check(const std::string& text, const TimeZone& zone) {
     TimestampNote note;
     const std::optional<Instant> t = parse_timestamp(text, zone, &note);
+    check_cached(text, zone, t, note);
     if (!t) return;
     const std::string where = "'" + text + "' in " + zone.name();
     const std::string utc = format_utc(*t);
