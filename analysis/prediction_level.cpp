@@ -1,16 +1,16 @@
 #include "analysis/prediction_level.hpp"
 
 #include <algorithm>
-#include <boost/random/uniform_int_distribution.hpp>
 #include <climits>
 #include <cmath>
 #include <cstdio>
 #include <limits>
 #include <stdexcept>
 
+#include "analysis/encounter_bootstrap.hpp"
 #include "analysis/quantiles.hpp"
+#include "models/parallel.hpp"
 #include "models/text.hpp"
-#include "models/random_streams.hpp"
 
 namespace tocsin {
 
@@ -22,37 +22,26 @@ constexpr std::int32_t no_outcome = INT32_MAX;
 // Horizon limit meaning "before the end of the stay": every case's prediction qualifies.
 constexpr std::int32_t rest_of_stay = INT32_MAX - 1;
 
+}  // namespace
+
 std::int32_t horizon_limit_seconds(double horizon_hours) {
     if (horizon_hours == 0.0) return rest_of_stay;
     return static_cast<std::int32_t>(std::min<double>(std::llround(horizon_hours * 3600.0), rest_of_stay));
 }
 
-}  // namespace
-
 RankedPredictions rank_predictions(const Population& pop) {
     const std::size_t n = pop.scores.size();
     RankedPredictions r;
-    std::vector<std::uint32_t> order;
-    {
-        std::vector<double> values(n);
-        for (std::size_t i = 0; i < n; ++i) values[i] = pop.scores[i].value;
-        order = ascending_order(values);
-    }
-    std::vector<std::uint32_t> owner(n);
-    for (std::size_t e = 0; e < pop.encounters.size(); ++e) {
-        if (pop.score_start[e + 1] > pop.score_start[e]) r.encounters_used.push_back(static_cast<std::uint32_t>(e));
-        for (std::size_t i = pop.score_start[e]; i < pop.score_start[e + 1]; ++i) owner[i] = static_cast<std::uint32_t>(e);
-    }
     r.value.resize(n);
     r.encounter.resize(n);
     r.seconds_to_outcome.resize(n);
     r.available_at.resize(n);
-    for (std::size_t i = 0; i < n; ++i) {
-        const std::uint32_t s = order[i];
+    // Puts score s of encounter e at rank position i.
+    const auto place = [&](std::size_t i, std::size_t s, std::uint32_t e) {
         const Score& score = pop.scores[s];
-        const Encounter& enc = pop.encounters[owner[s]];
+        const Encounter& enc = pop.encounters[e];
         r.value[i] = score.value;
-        r.encounter[i] = owner[s];
+        r.encounter[i] = e;
         r.available_at[i] = score.available_at;
         if (enc.outcome_at) {
             const std::int64_t ahead = *enc.outcome_at - score.available_at;  // > 0 for a usable score
@@ -60,25 +49,39 @@ RankedPredictions rank_predictions(const Population& pop) {
         } else {
             r.seconds_to_outcome[i] = no_outcome;
         }
+    };
+    std::vector<double> values(n);
+    for (std::size_t i = 0; i < n; ++i) values[i] = pop.scores[i].value;
+    for (std::size_t e = 0; e < pop.encounters.size(); ++e)
+        if (pop.score_start[e + 1] > pop.score_start[e]) r.encounters_used.push_back(static_cast<std::uint32_t>(e));
+    if (const auto few = distinct_value_ranks(values, std::size_t{1} << 16)) {
+        // Few distinct values: a counting sort that puts each score straight
+        // in its place, reading the population in order (the same order as
+        // ascending_order: ranks ascending, ties by position).
+        values = {};
+        std::vector<std::size_t> next(few->count.size(), 0);
+        for (std::size_t k = 1; k < next.size(); ++k) next[k] = next[k - 1] + few->count[k - 1];
+        for (std::uint32_t e : r.encounters_used)
+            for (std::size_t s = pop.score_start[e]; s < pop.score_start[e + 1]; ++s) place(next[few->rank[s]]++, s, e);
+        return r;
     }
+    const std::vector<std::uint32_t> order = ascending_order(values);
+    values = {};
+    std::vector<std::uint32_t> owner(n);
+    for (std::uint32_t e : r.encounters_used)
+        for (std::size_t s = pop.score_start[e]; s < pop.score_start[e + 1]; ++s) owner[s] = e;
+    for (std::size_t i = 0; i < n; ++i) place(i, order[i], owner[order[i]]);
     return r;
 }
 
-namespace {
+double AucSums::auc() const {
+    return positives && negatives
+               ? static_cast<double>(twice_u) / (2.0 * static_cast<double>(positives) * static_cast<double>(negatives))
+               : not_a_number;
+}
 
-struct AucSums {
-    std::int64_t twice_u = 0, positives = 0, negatives = 0;
-    double auc() const {
-        return positives && negatives ? static_cast<double>(twice_u) /
-                                            (2.0 * static_cast<double>(positives) * static_cast<double>(negatives))
-                                      : not_a_number;
-    }
-};
-
-// AUC at several horizons in one ascending pass. `weights` (per encounter)
-// gives each prediction its encounter's bootstrap multiplicity; empty = 1.
-std::vector<AucSums> auc_by_horizon(const RankedPredictions& r, const std::vector<std::int32_t>& limits,
-                                    const std::vector<std::uint32_t>& weights) {
+std::vector<AucSums> auc_sums_by_horizon(const RankedPredictions& r, const std::vector<std::int32_t>& limits,
+                                         const std::vector<std::uint32_t>& weights) {
     const std::size_t n = r.value.size(), k = limits.size();
     std::vector<AucSums> sums(k);
     std::vector<std::int64_t> pos(k);
@@ -87,8 +90,6 @@ std::vector<AucSums> auc_by_horizon(const RankedPredictions& r, const std::vecto
         std::fill(pos.begin(), pos.end(), 0);
         std::int64_t group = 0;
         const double v = r.value[i];
-        // Branch-free on purpose: a third of bootstrap weights are 0 and the
-        // labels are unpredictable, so multiplying beats skipping.
         for (; i < n && r.value[i] == v; ++i) {
             const std::int64_t w = weights.empty() ? 1 : weights[r.encounter[i]];
             const std::int32_t ahead = r.seconds_to_outcome[i];
@@ -105,19 +106,7 @@ std::vector<AucSums> auc_by_horizon(const RankedPredictions& r, const std::vecto
     return sums;
 }
 
-// Multiplicity of each encounter in bootstrap replicate b: |used| draws with
-// replacement from the encounters that have predictions. One stream per
-// replicate, so a replicate does not depend on how many came before it.
-std::vector<std::uint32_t> bootstrap_weights(const std::vector<std::uint32_t>& used, std::size_t encounters,
-                                             const EvaluationOptions& o, int replicate) {
-    std::vector<std::uint32_t> w(encounters, 0);
-    if (used.empty()) return w;
-    RandomEngine engine = make_stream(o.seed, o.replication, StreamPurpose::evaluation_bootstrap,
-                                      static_cast<std::uint64_t>(replicate));
-    boost::random::uniform_int_distribution<std::size_t> pick(0, used.size() - 1);
-    for (std::size_t d = 0; d < used.size(); ++d) ++w[used[pick(engine)]];
-    return w;
-}
+namespace {
 
 Interval percentile_interval(std::vector<double> values, double confidence) {
     values.erase(std::remove_if(values.begin(), values.end(), [](double v) { return !std::isfinite(v); }), values.end());
@@ -174,11 +163,8 @@ std::vector<std::vector<double>> bootstrap_auc_by_horizon(const Population& pop,
                                                           const std::vector<std::int32_t>& limits,
                                                           const EvaluationOptions& o) {
     std::vector<std::vector<double>> replicates(limits.size());
-    for (int b = 0; b < o.bootstrap_replicates; ++b) {
-        const auto w = bootstrap_weights(r.encounters_used, pop.encounters.size(), o, b);
-        const auto sums = auc_by_horizon(r, limits, w);
+    for (const auto& sums : bootstrap_auc_sums(r, limits, pop.encounters.size(), o))
         for (std::size_t h = 0; h < limits.size(); ++h) replicates[h].push_back(sums[h].auc());
-    }
     return replicates;
 }
 
@@ -205,7 +191,7 @@ Interval bootstrap_interval(const std::vector<double>& replicates, const Evaluat
 std::vector<PredictionAuc> prediction_auc_from_ranked(const Population& pop, const RankedPredictions& r,
                                                       const EvaluationOptions& o) {
     const std::vector<std::int32_t> limits = horizon_limits(o.horizons_hours);
-    const auto point = auc_by_horizon(r, limits, {});
+    const auto point = auc_sums_by_horizon(r, limits, {});
     const auto replicates = bootstrap_auc_by_horizon(pop, r, limits, o);
     std::vector<PredictionAuc> out;
     for (std::size_t h = 0; h < limits.size(); ++h) {
@@ -274,16 +260,16 @@ ObservedExpected observed_expected_of_groups(const LabelledProbabilities& l, dou
 
 Interval bootstrap_oe_interval(const Population& pop, const RankedPredictions& r, const LabelledProbabilities& l,
                                const EvaluationOptions& o) {
-    std::vector<double> ratios;
-    for (int b = 0; b < o.bootstrap_replicates; ++b) {
-        const auto w = bootstrap_weights(r.encounters_used, pop.encounters.size(), o, b);
+    std::vector<double> ratios(static_cast<std::size_t>(o.bootstrap_replicates));
+    parallel_for(ratios.size(), o.threads, [&](std::size_t b) {
+        const auto w = bootstrap_multiplicities(r.encounters_used, pop.encounters.size(), o, static_cast<int>(b));
         double observed = 0.0, expected = 0.0;
         for (std::uint32_t e : r.encounters_used) {
             observed += w[e] * l.observed_by_encounter[e];
             expected += w[e] * l.expected_by_encounter[e];
         }
-        ratios.push_back(expected > 0 ? observed / expected : not_a_number);
-    }
+        ratios[b] = expected > 0 ? observed / expected : not_a_number;
+    });
     return bootstrap_interval(ratios, o);
 }
 

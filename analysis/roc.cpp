@@ -64,6 +64,12 @@ std::vector<std::uint32_t> ascending_order(std::span<const double> values) {
         std::stable_sort(order.begin(), order.end(), [&](std::uint32_t a, std::uint32_t b) { return values[a] < values[b]; });
         return order;
     }
+    if (const auto few = distinct_value_ranks(values, std::size_t{1} << 16)) {
+        std::vector<std::size_t> next(few->count.size(), 0);
+        for (std::size_t r = 1; r < next.size(); ++r) next[r] = next[r - 1] + few->count[r - 1];
+        for (std::size_t i = 0; i < n; ++i) order[next[few->rank[i]]++] = static_cast<std::uint32_t>(i);
+        return order;
+    }
     std::vector<std::uint64_t> keys(n), keys_next(n);
     std::vector<std::uint32_t> order_next(n);
     // 11-bit digits (6 passes): 2,048 buckets keep the scatter within cache
@@ -97,6 +103,45 @@ std::vector<std::uint32_t> ascending_order(std::span<const double> values) {
         order.swap(order_next);
     }
     return order;
+}
+
+std::optional<DistinctValueRanks> distinct_value_ranks(std::span<const double> values, std::size_t most) {
+    const std::size_t n = values.size();
+    most = std::min({most, std::size_t{1} << 16, n});
+    // Open addressing on the sort key, at most half full; an id per distinct
+    // key in the order first seen, turned into ranks once all are known.
+    int bits = 1;
+    while ((std::size_t{1} << bits) < 2 * most) ++bits;
+    const std::size_t mask = (std::size_t{1} << bits) - 1;
+    constexpr std::uint32_t empty = std::numeric_limits<std::uint32_t>::max();
+    std::vector<std::uint64_t> slot_key(mask + 1);
+    std::vector<std::uint32_t> slot_id(mask + 1, empty);
+    std::vector<std::uint64_t> key_of_id;
+    DistinctValueRanks out;
+    out.rank.resize(n);
+    for (std::size_t i = 0; i < n; ++i) {
+        const std::uint64_t k = sort_key(values[i]);
+        std::size_t h = static_cast<std::size_t>((k * 0x9E3779B97F4A7C15ULL) >> (64 - bits));
+        while (slot_id[h] != empty && slot_key[h] != k) h = (h + 1) & mask;
+        if (slot_id[h] == empty) {
+            if (key_of_id.size() == most) return std::nullopt;
+            slot_key[h] = k;
+            slot_id[h] = static_cast<std::uint32_t>(key_of_id.size());
+            key_of_id.push_back(k);
+        }
+        out.rank[i] = static_cast<std::uint16_t>(slot_id[h]);
+    }
+    std::vector<std::uint32_t> ids(key_of_id.size());
+    for (std::size_t id = 0; id < ids.size(); ++id) ids[id] = static_cast<std::uint32_t>(id);
+    std::sort(ids.begin(), ids.end(), [&](std::uint32_t a, std::uint32_t b) { return key_of_id[a] < key_of_id[b]; });
+    std::vector<std::uint16_t> rank_of_id(ids.size());
+    for (std::size_t r = 0; r < ids.size(); ++r) rank_of_id[ids[r]] = static_cast<std::uint16_t>(r);
+    out.count.assign(ids.size(), 0);
+    for (std::uint16_t& r : out.rank) {
+        r = rank_of_id[r];
+        ++out.count[r];
+    }
+    return out;
 }
 
 namespace {

@@ -92,11 +92,6 @@ void add_run_options(CLI::App* cmd, RunOptions& o) {
     cmd->add_option("--benefit", o.benefit_metric, "Benefit axis of the frontier and budget (default caught)");
 }
 
-unsigned thread_count(const std::string& requested) {
-    if (const auto n = option_integer(option_specs().threads, "--threads", requested)) return static_cast<unsigned>(n);
-    return std::max(1u, std::thread::hardware_concurrency());
-}
-
 // A progress bar with time left on stderr, only when stderr is a terminal.
 ProgressReport progress_bar() {
     if (!::isatty(2)) return {};

@@ -73,7 +73,11 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
                        // The score's own measures are computed here, beside the other
                        // replications, rather than after them all.
                        std::optional<Evaluation> evaluation;
-                       if (settings.evaluate) evaluation = evaluate(pop, evaluation_options_for(sc));
+                       if (settings.evaluate) {
+                           EvaluationOptions eo = evaluation_options_for(sc);
+                           eo.threads = settings.threads;
+                           evaluation = evaluate(pop, eo);
+                       }
                        std::lock_guard<std::mutex> guard(kept.first_lock);
                        out.first_replication = std::move(results);
                        out.evaluation = std::move(evaluation);
