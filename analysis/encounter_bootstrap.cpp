@@ -3,13 +3,52 @@
 #include <algorithm>
 #include <array>
 #include <bit>
-#include <boost/random/uniform_int_distribution.hpp>
+#include <limits>
 #include <stdexcept>
+#include <type_traits>
 
 #include "models/parallel.hpp"
 #include "models/random_streams.hpp"
 
 namespace tocsin {
+
+namespace {
+
+// The draws of boost::random::uniform_int_distribution<std::size_t>(0, range)
+// on a 64-bit engine (boost/random/uniform_int_distribution.hpp,
+// generate_uniform_int, the branch where the engine's range is the larger):
+// a draw x gives floor(x / bucket), kept when it is at most `range`. The same
+// draws, with the division by the fixed bucket done by a multiplication and
+// at most two corrections (it is most of the bootstrap's cost otherwise);
+// tests/test_encounter_bootstrap.cpp compares it with Boost's draw by draw.
+__extension__ typedef unsigned __int128 uint128;  // g++ and clang; __extension__ keeps -Wpedantic quiet
+
+class UniformIndex {
+public:
+    explicit UniformIndex(std::uint64_t range) : range_(range) {
+        constexpr std::uint64_t engine_range = std::numeric_limits<std::uint64_t>::max();
+        bucket_ = engine_range / (range + 1);
+        if (engine_range % (range + 1) == range) ++bucket_;
+        reciprocal_ = engine_range / bucket_;
+    }
+    std::uint64_t operator()(RandomEngine& engine) const {
+        if (range_ == 0) return 0;  // Boost draws nothing then either
+        // A Mersenne Twister of 64-bit words: draws are every value from 0 to 2^64 - 1.
+        static_assert(RandomEngine::word_size == 64 && std::is_same_v<RandomEngine::result_type, std::uint64_t>);
+        for (;;) {
+            const std::uint64_t x = engine();
+            // reciprocal_ <= 2^64 / bucket_, so q is floor(x / bucket_) or at most 2 below it.
+            auto q = static_cast<std::uint64_t>((static_cast<uint128>(x) * reciprocal_) >> 64);
+            while (x - q * bucket_ >= bucket_) ++q;
+            if (q <= range_) return q;
+        }
+    }
+
+private:
+    std::uint64_t range_, bucket_ = 1, reciprocal_ = 1;
+};
+
+}  // namespace
 
 std::vector<std::uint32_t> bootstrap_multiplicities(const std::vector<std::uint32_t>& used, std::size_t encounters,
                                                     const EvaluationOptions& o, int replicate) {
@@ -17,7 +56,7 @@ std::vector<std::uint32_t> bootstrap_multiplicities(const std::vector<std::uint3
     if (used.empty()) return w;
     RandomEngine engine = make_stream(o.seed, o.replication, StreamPurpose::evaluation_bootstrap,
                                       static_cast<std::uint64_t>(replicate));
-    boost::random::uniform_int_distribution<std::size_t> pick(0, used.size() - 1);
+    const UniformIndex pick(used.size() - 1);
     for (std::size_t d = 0; d < used.size(); ++d) ++w[used[pick(engine)]];
     return w;
 }
@@ -42,6 +81,7 @@ constexpr std::uint32_t row_limit = 255;
 constexpr std::uint8_t ends_tie_group = 0x80;
 constexpr std::size_t most_classes = 64;  // a bit each in a 64-bit mask
 constexpr std::size_t prefetch_ahead = 24;
+constexpr std::size_t copies = 4;
 
 // One byte per ranked prediction for the batched walk: whether it is the last
 // of its tie group, and its class = how many of the distinct horizon limits
@@ -80,12 +120,14 @@ Tagged tag_predictions(const RankedPredictions& r, const std::vector<std::int32_
 // The walk of one batch. Within a tie group, multiplicities are added per
 // class in 16-bit lanes (`part`, moved to 64-bit `group` before they could
 // overflow); at the group's end its positives earn 2 per negative below and
-// 1 per negative tied, exactly as in auc_sums_by_horizon.
+// 1 per negative tied, exactly as in auc_sums_by_horizon. Consecutive
+// predictions add into different copies of `part`, so each addition need not
+// wait for the one before it to be stored.
 class BatchWalk {
 public:
     BatchWalk(const Tagged& t, std::uint32_t largest)
         : t_(t), horizons_(t.rank.size()), last_class_(t.classes - 1),
-          flush_every_(65535 / std::max<std::uint32_t>(1, largest)), part_(t.classes * lanes, 0),
+          flush_every_(65535 / std::max<std::uint32_t>(1, largest)), part_(copies * t.classes * lanes, 0),
           group_(t.classes * lanes, 0), twice_u_(horizons_ * lanes, 0), positives_(horizons_ * lanes, 0),
           negatives_before_last_(horizons_ * lanes, 0) {}
 
@@ -95,7 +137,7 @@ public:
         for (std::size_t i = 0; i < n; ++i) {
             const std::uint8_t tag = t_.tag[i];
             const std::size_t c = tag & (ends_tie_group - 1);
-            std::uint16_t* __restrict p = part_.data() + c * lanes;
+            std::uint16_t* __restrict p = part_.data() + ((i % copies) * t_.classes + c) * lanes;
             const std::uint8_t* __restrict w = rows + static_cast<std::size_t>(encounter[i]) * lanes;
             // The rows are read in no order and do not all fit in the core's
             // cache: ask for one well ahead.
@@ -119,10 +161,12 @@ private:
     void flush() {
         for (std::uint64_t m = touched_; m; m &= m - 1) {
             const auto c = static_cast<std::size_t>(std::countr_zero(m));
-            std::uint16_t* p = part_.data() + c * lanes;
             std::int64_t* g = group_.data() + c * lanes;
-            for (std::size_t l = 0; l < lanes; ++l) g[l] += p[l];
-            std::fill(p, p + lanes, std::uint16_t{0});
+            for (std::size_t copy = 0; copy < copies; ++copy) {
+                std::uint16_t* p = part_.data() + (copy * t_.classes + c) * lanes;
+                for (std::size_t l = 0; l < lanes; ++l) g[l] += p[l];
+                std::fill(p, p + lanes, std::uint16_t{0});
+            }
         }
         in_group_ |= touched_;
         touched_ = 0;
@@ -166,7 +210,7 @@ private:
     std::size_t horizons_, last_class_;
     std::uint32_t flush_every_;
     std::uint64_t touched_ = 0, in_group_ = 0;  // classes with something in part_ / group_
-    std::vector<std::uint16_t> part_;           // [class][lane]
+    std::vector<std::uint16_t> part_;           // [copy][class][lane]
     std::vector<std::int64_t> group_;           // [class][lane]
     // Running sums [horizon][lane]; negatives are split into the last class
     // (shared by every horizon) and the others.

@@ -6,9 +6,12 @@
 #include <cstdio>
 #include <limits>
 #include <stdexcept>
+#include <utility>
 
 #include "analysis/encounter_bootstrap.hpp"
 #include "analysis/quantiles.hpp"
+#include "analysis/roc.hpp"
+#include "analysis/value_ranks.hpp"
 #include "models/parallel.hpp"
 #include "models/text.hpp"
 
@@ -22,6 +25,36 @@ constexpr std::int32_t no_outcome = INT32_MAX;
 // Horizon limit meaning "before the end of the stay": every case's prediction qualifies.
 constexpr std::int32_t rest_of_stay = INT32_MAX - 1;
 
+// Few distinct values: a counting sort that puts each score straight in its
+// place, reading the population in order (the same order as ascending_order:
+// ranks ascending, ties by position). The encounters are cut into runs of
+// about equal score counts, one per thread; a run's scores of one rank go
+// after those of the runs before it, so the order is the same for any count.
+template <class Place>
+void place_by_rank(const Population& pop, const std::vector<std::uint32_t>& used, const DistinctValueRanks& few,
+                   unsigned threads, const Place& place) {
+    const std::size_t n = pop.scores.size(), ranks = few.count.size();
+    const std::size_t runs = std::max<std::size_t>(1, std::min<std::size_t>(threads, used.size()));
+    std::vector<std::size_t> first_of_run(runs + 1, used.size());
+    for (std::size_t p = 0; p < runs; ++p)
+        first_of_run[p] = static_cast<std::size_t>(
+            std::lower_bound(used.begin(), used.end(), n / runs * p,
+                             [&](std::uint32_t e, std::size_t at) { return pop.score_start[e] < at; }) -
+            used.begin());
+    std::vector<std::vector<std::size_t>> next(runs, std::vector<std::size_t>(ranks, 0));
+    const auto each_score = [&](std::size_t p, const auto& visit) {
+        for (std::size_t u = first_of_run[p]; u < first_of_run[p + 1]; ++u)
+            for (std::size_t s = pop.score_start[used[u]]; s < pop.score_start[used[u] + 1]; ++s) visit(s, used[u]);
+    };
+    parallel_for(runs, threads, [&](std::size_t p) { each_score(p, [&](std::size_t s, std::uint32_t) { ++next[p][few.rank[s]]; }); });
+    std::size_t at = 0;
+    for (std::size_t k = 0; k < ranks; ++k)
+        for (std::size_t p = 0; p < runs; ++p) at += std::exchange(next[p][k], at);
+    parallel_for(runs, threads, [&](std::size_t p) {
+        each_score(p, [&](std::size_t s, std::uint32_t e) { place(next[p][few.rank[s]]++, s, e); });
+    });
+}
+
 }  // namespace
 
 std::int32_t horizon_limit_seconds(double horizon_hours) {
@@ -29,7 +62,7 @@ std::int32_t horizon_limit_seconds(double horizon_hours) {
     return static_cast<std::int32_t>(std::min<double>(std::llround(horizon_hours * 3600.0), rest_of_stay));
 }
 
-RankedPredictions rank_predictions(const Population& pop) {
+RankedPredictions rank_predictions(const Population& pop, unsigned threads) {
     const std::size_t n = pop.scores.size();
     RankedPredictions r;
     r.value.resize(n);
@@ -50,21 +83,14 @@ RankedPredictions rank_predictions(const Population& pop) {
             r.seconds_to_outcome[i] = no_outcome;
         }
     };
-    std::vector<double> values(n);
-    for (std::size_t i = 0; i < n; ++i) values[i] = pop.scores[i].value;
     for (std::size_t e = 0; e < pop.encounters.size(); ++e)
         if (pop.score_start[e + 1] > pop.score_start[e]) r.encounters_used.push_back(static_cast<std::uint32_t>(e));
-    if (const auto few = distinct_value_ranks(values, std::size_t{1} << 16)) {
-        // Few distinct values: a counting sort that puts each score straight
-        // in its place, reading the population in order (the same order as
-        // ascending_order: ranks ascending, ties by position).
-        values = {};
-        std::vector<std::size_t> next(few->count.size(), 0);
-        for (std::size_t k = 1; k < next.size(); ++k) next[k] = next[k - 1] + few->count[k - 1];
-        for (std::uint32_t e : r.encounters_used)
-            for (std::size_t s = pop.score_start[e]; s < pop.score_start[e + 1]; ++s) place(next[few->rank[s]]++, s, e);
+    if (const auto few = distinct_value_ranks(n, [&](std::size_t s) { return pop.scores[s].value; }, std::size_t{1} << 16)) {
+        place_by_rank(pop, r.encounters_used, *few, threads, place);
         return r;
     }
+    std::vector<double> values(n);
+    for (std::size_t i = 0; i < n; ++i) values[i] = pop.scores[i].value;
     const std::vector<std::uint32_t> order = ascending_order(values);
     values = {};
     std::vector<std::uint32_t> owner(n);

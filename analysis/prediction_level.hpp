@@ -18,7 +18,8 @@ struct RankedPredictions {
     std::vector<Instant> available_at;
     std::vector<std::uint32_t> encounters_used;  // encounters with at least one prediction, ascending
 };
-RankedPredictions rank_predictions(const Population& population);
+// `threads` share the placing of the scores; the order does not depend on it.
+RankedPredictions rank_predictions(const Population& population, unsigned threads = 1);
 
 // Seconds before time zero within which a prediction is positive, for a
 // horizon in hours (0: before the end of the stay, every case's prediction).

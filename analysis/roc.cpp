@@ -10,18 +10,13 @@
 #include <string>
 #include <utility>
 
+#include "analysis/value_ranks.hpp"
+
 namespace tocsin {
 
 namespace {
 
 constexpr double not_a_number = std::numeric_limits<double>::quiet_NaN();
-
-// Monotone map from a double to an unsigned key: flips negatives entirely and
-// sets the sign bit of non-negatives, so unsigned order equals numeric order.
-std::uint64_t sort_key(double x) {
-    const auto bits = std::bit_cast<std::uint64_t>(x);
-    return (bits >> 63) ? ~bits : bits | 0x8000000000000000ULL;
-}
 
 void check_same_length(std::size_t scores, std::size_t labels) {
     if (scores != labels) throw std::invalid_argument("scores and labels differ in length");
@@ -64,7 +59,7 @@ std::vector<std::uint32_t> ascending_order(std::span<const double> values) {
         std::stable_sort(order.begin(), order.end(), [&](std::uint32_t a, std::uint32_t b) { return values[a] < values[b]; });
         return order;
     }
-    if (const auto few = distinct_value_ranks(values, std::size_t{1} << 16)) {
+    if (const auto few = distinct_value_ranks(n, [&](std::size_t i) { return values[i]; }, std::size_t{1} << 16)) {
         std::vector<std::size_t> next(few->count.size(), 0);
         for (std::size_t r = 1; r < next.size(); ++r) next[r] = next[r - 1] + few->count[r - 1];
         for (std::size_t i = 0; i < n; ++i) order[next[few->rank[i]]++] = static_cast<std::uint32_t>(i);
@@ -103,45 +98,6 @@ std::vector<std::uint32_t> ascending_order(std::span<const double> values) {
         order.swap(order_next);
     }
     return order;
-}
-
-std::optional<DistinctValueRanks> distinct_value_ranks(std::span<const double> values, std::size_t most) {
-    const std::size_t n = values.size();
-    most = std::min({most, std::size_t{1} << 16, n});
-    // Open addressing on the sort key, at most half full; an id per distinct
-    // key in the order first seen, turned into ranks once all are known.
-    int bits = 1;
-    while ((std::size_t{1} << bits) < 2 * most) ++bits;
-    const std::size_t mask = (std::size_t{1} << bits) - 1;
-    constexpr std::uint32_t empty = std::numeric_limits<std::uint32_t>::max();
-    std::vector<std::uint64_t> slot_key(mask + 1);
-    std::vector<std::uint32_t> slot_id(mask + 1, empty);
-    std::vector<std::uint64_t> key_of_id;
-    DistinctValueRanks out;
-    out.rank.resize(n);
-    for (std::size_t i = 0; i < n; ++i) {
-        const std::uint64_t k = sort_key(values[i]);
-        std::size_t h = static_cast<std::size_t>((k * 0x9E3779B97F4A7C15ULL) >> (64 - bits));
-        while (slot_id[h] != empty && slot_key[h] != k) h = (h + 1) & mask;
-        if (slot_id[h] == empty) {
-            if (key_of_id.size() == most) return std::nullopt;
-            slot_key[h] = k;
-            slot_id[h] = static_cast<std::uint32_t>(key_of_id.size());
-            key_of_id.push_back(k);
-        }
-        out.rank[i] = static_cast<std::uint16_t>(slot_id[h]);
-    }
-    std::vector<std::uint32_t> ids(key_of_id.size());
-    for (std::size_t id = 0; id < ids.size(); ++id) ids[id] = static_cast<std::uint32_t>(id);
-    std::sort(ids.begin(), ids.end(), [&](std::uint32_t a, std::uint32_t b) { return key_of_id[a] < key_of_id[b]; });
-    std::vector<std::uint16_t> rank_of_id(ids.size());
-    for (std::size_t r = 0; r < ids.size(); ++r) rank_of_id[ids[r]] = static_cast<std::uint16_t>(r);
-    out.count.assign(ids.size(), 0);
-    for (std::uint16_t& r : out.rank) {
-        r = rank_of_id[r];
-        ++out.count[r];
-    }
-    return out;
 }
 
 namespace {

@@ -31,17 +31,6 @@ Interval wilson_interval(std::int64_t successes, std::int64_t trials, double con
 // NaN is not a score: callers must not pass it.
 std::vector<std::uint32_t> ascending_order(std::span<const double> values);
 
-// When `values` hold at most `most` distinct values (capped at 65,536): each
-// value's rank among them (0 = the lowest, ties and order as in
-// ascending_order) and how many values have each rank; otherwise nothing. A
-// counting sort by rank is then ascending_order in one pass: the fast path
-// for scores in whole points or one decimal, as most clinical scores are.
-struct DistinctValueRanks {
-    std::vector<std::uint16_t> rank;
-    std::vector<std::size_t> count;  // per rank
-};
-std::optional<DistinctValueRanks> distinct_value_ranks(std::span<const double> values, std::size_t most);
-
 // Area under the ROC curve by the Mann-Whitney statistic with ties counted
 // one half: P(score of a positive > score of a negative) + 0.5 P(tie).
 // labels: 1 = positive (case), 0 = negative. NaN when either class is empty.

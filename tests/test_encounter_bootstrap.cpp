@@ -14,6 +14,7 @@
 
 #include "analysis/encounter_bootstrap.hpp"
 #include "analysis/roc.hpp"
+#include "analysis/value_ranks.hpp"
 #include "models/random_streams.hpp"
 
 using namespace tocsin;
@@ -189,7 +190,8 @@ TEST_CASE("encounter_bootstrap.long_tie_groups_do_not_overflow_the_lanes") {
 
 TEST_CASE("encounter_bootstrap.ranking_is_a_stable_sort_with_few_or_many_distinct_values") {
     // Few distinct values take the counting sort, more than 65,536 the radix
-    // sort; both must give the stable ascending order of the scores.
+    // sort; both must give the stable ascending order of the scores, the
+    // counting sort also when split over threads.
     for (const int levels : {7, 1000000000}) {
         Population pop;
         pop.units = {"Ward A"};
@@ -216,13 +218,39 @@ TEST_CASE("encounter_bootstrap.ranking_is_a_stable_sort_with_few_or_many_distinc
                          [&](std::uint32_t a, std::uint32_t b) { return pop.scores[a].value < pop.scores[b].value; });
         std::vector<double> values;
         for (const Score& s : pop.scores) values.push_back(s.value);
-        CHECK(distinct_value_ranks(values, std::size_t{1} << 16).has_value() == (levels < 65536));
+        CHECK(distinct_value_ranks(values.size(), [&](std::size_t i) { return values[i]; }, std::size_t{1} << 16).has_value() ==
+              (levels < 65536));
         CHECK(ascending_order(values) == order);
-        const RankedPredictions ranked = rank_predictions(pop);
-        bool same = ranked.value.size() == order.size();
-        for (std::size_t i = 0; same && i < order.size(); ++i)
-            same = ranked.value[i] == pop.scores[order[i]].value && ranked.encounter[i] == encounter_of[order[i]] &&
-                   ranked.available_at[i] == pop.scores[order[i]].available_at;
-        CHECK(same);
+        for (unsigned threads : {1u, 3u}) {
+            const RankedPredictions ranked = rank_predictions(pop, threads);
+            bool same = ranked.value.size() == order.size();
+            for (std::size_t i = 0; same && i < order.size(); ++i)
+                same = ranked.value[i] == pop.scores[order[i]].value && ranked.encounter[i] == encounter_of[order[i]] &&
+                       ranked.available_at[i] == pop.scores[order[i]].available_at;
+            CHECK(same);
+        }
+    }
+}
+
+TEST_CASE("encounter_bootstrap.multiplicities_are_boosts_uniform_draws") {
+    // bootstrap_multiplicities does Boost's uniform_int_distribution
+    // arithmetic itself (a multiplication for the division): it must count
+    // exactly the draws Boost's own distribution makes from the same stream,
+    // whatever the number of encounters drawn from, one included (no draw).
+    EvaluationOptions o;
+    o.seed = 99;
+    o.replication = 4;
+    for (const std::size_t used_count : {std::size_t{1}, std::size_t{2}, std::size_t{3}, std::size_t{7},
+                                         std::size_t{1000}, std::size_t{90715}, std::size_t{262147}}) {
+        std::vector<std::uint32_t> used;
+        for (std::size_t k = 0; k < used_count; ++k) used.push_back(static_cast<std::uint32_t>(2 * k + 1));
+        const std::size_t encounters = 2 * used_count + 1;
+        for (int b : {0, 5}) {
+            std::vector<std::uint32_t> expected(encounters, 0);
+            RandomEngine engine = make_stream(o.seed, o.replication, StreamPurpose::evaluation_bootstrap, static_cast<std::uint64_t>(b));
+            boost::random::uniform_int_distribution<std::size_t> pick(0, used_count - 1);
+            for (std::size_t d = 0; d < used_count; ++d) ++expected[used[pick(engine)]];
+            CHECK(bootstrap_multiplicities(used, encounters, o, b) == expected);
+        }
     }
 }
