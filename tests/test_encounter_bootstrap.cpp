@@ -95,24 +95,33 @@ void check_same(const AucSums& fast, const AucSums& reference) {
 }  // namespace
 
 TEST_CASE("encounter_bootstrap.every_replicate_equals_the_resample_counted_pair_by_pair") {
-    // 37 replicates: a batch of 32 lanes and a short one; four limits, one of
-    // them the whole stay, two of them equal.
+    // 70 replicates: two batches of 35 lanes on 2 threads, a full batch of 64
+    // and a short one on 1 thread; four limits, one of them the whole stay,
+    // two of them equal.
     for (const int levels : {3, 8, 40}) {
         const Population pop = random_population(static_cast<std::uint64_t>(levels), 60, levels);
         const RankedPredictions ranked = rank_predictions(pop);
         const std::vector<std::int32_t> limits = {horizon_limit_seconds(4), horizon_limit_seconds(12),
                                                   horizon_limit_seconds(4), horizon_limit_seconds(0)};
         EvaluationOptions o;
-        o.bootstrap_replicates = 37;
+        o.bootstrap_replicates = 70;
         o.seed = 11;
         o.replication = 3;
         o.threads = 2;
-        const auto fast = bootstrap_auc_sums(ranked, limits, pop.encounters.size(), o);
-        REQUIRE(fast.size() == 37);
+        const auto two = bootstrap_auc_sums(ranked, limits, pop.encounters.size(), o);
+        o.threads = 1;
+        const auto one = bootstrap_auc_sums(ranked, limits, pop.encounters.size(), o);
+        REQUIRE(two.size() == 70);
+        REQUIRE(one.size() == 70);
         for (int b = 0; b < o.bootstrap_replicates; ++b) {
             const auto drawn = drawn_encounters(pop, o, b);
-            REQUIRE(fast[b].size() == limits.size());
-            for (std::size_t h = 0; h < limits.size(); ++h) check_same(fast[b][h], resampled_pairwise(pop, drawn, limits[h]));
+            REQUIRE(two[b].size() == limits.size());
+            REQUIRE(one[b].size() == limits.size());
+            for (std::size_t h = 0; h < limits.size(); ++h) {
+                const AucSums reference = resampled_pairwise(pop, drawn, limits[h]);
+                check_same(two[b][h], reference);
+                check_same(one[b][h], reference);
+            }
         }
     }
 }
@@ -122,7 +131,7 @@ TEST_CASE("encounter_bootstrap.figures_do_not_depend_on_threads_or_batches") {
     const RankedPredictions ranked = rank_predictions(pop);
     const std::vector<std::int32_t> limits = {horizon_limit_seconds(6), horizon_limit_seconds(24)};
     EvaluationOptions o;
-    o.bootstrap_replicates = 70;
+    o.bootstrap_replicates = 150;
     o.threads = 1;
     const auto one = bootstrap_auc_sums(ranked, limits, pop.encounters.size(), o);
     for (unsigned threads : {2u, 3u, 7u}) {
