@@ -323,6 +323,17 @@ double drift_horizon_hours(const EvaluationOptions& o) {
     return o.horizons_hours.empty() ? 0.0 : o.horizons_hours.front();
 }
 
+// The period holding instant t (periods.starts[0] <= t). Up to a few dozen
+// periods (months of a year), counting the starts at or before t without a
+// branch beats a binary search whose every step is a coin toss.
+std::size_t period_of(const std::vector<Instant>& starts, Instant t) {
+    if (starts.size() > 48)
+        return static_cast<std::size_t>(std::upper_bound(starts.begin(), starts.end(), t) - starts.begin() - 1);
+    std::size_t period = 0;
+    for (std::size_t q = 1; q < starts.size(); ++q) period += starts[q] <= t;
+    return period;
+}
+
 struct PeriodSums {
     std::vector<AucSums> auc;
     std::vector<double> expected;  // sum of probabilities (0 without a mapping)
@@ -343,8 +354,7 @@ PeriodSums sums_by_period(const RankedPredictions& r, const Periods& periods, st
         const double v = r.value[i];
         const double p = o.probability ? o.probability->probability(v) : 0.0;
         for (; i < n && r.value[i] == v; ++i) {
-            const auto at = std::upper_bound(periods.starts.begin(), periods.starts.end(), r.available_at[i]);
-            const auto period = static_cast<std::uint32_t>(at - periods.starts.begin() - 1);
+            const auto period = static_cast<std::uint32_t>(period_of(periods.starts, r.available_at[i]));
             if (!is_touched[period]) {
                 is_touched[period] = 1;
                 touched.push_back(period);
