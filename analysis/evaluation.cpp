@@ -187,7 +187,7 @@ std::optional<DecisionCurveResult> decision_curve_for(const std::vector<Encounte
 
 std::vector<PredictionAuc> prediction_level_auc(const Population& pop, const EvaluationOptions& o) {
     validate(o);
-    return prediction_auc_from_ranked(pop, rank_predictions(pop), o);
+    return prediction_auc_from_ranked(pop, rank_predictions(pop, o.threads), o);
 }
 
 std::vector<double> first_crossing_lead_hours(const Population& pop, double threshold, double window_hours) {
@@ -270,7 +270,7 @@ Evaluation evaluate(const Population& pop, const EvaluationOptions& o) {
     ev.thresholds = encounter_threshold_measures(encounter_scores, thresholds, o.confidence);
     ev.lead_times = lead_times_by_threshold(pop, thresholds.values, o.window_hours, o.min_lead_hours);
     ev.decision_curve = decision_curve_for(encounter_scores, o);
-    const RankedPredictions ranked = rank_predictions(pop);
+    const RankedPredictions ranked = rank_predictions(pop, o.threads);
     ev.prediction_auc = prediction_auc_from_ranked(pop, ranked, o);
     calibration_from_ranked(pop, ranked, o, ev);
     if (o.probability && !encounter_scores.empty())

@@ -61,6 +61,7 @@ struct EvaluationOptions {
     std::uint64_t seed = 1;
     std::uint64_t replication = 0;
     double confidence = 0.95;
+    unsigned threads = 1;                 // for the bootstrap; the figures do not depend on it
     int calibration_groups = 10;
     int smoothed_points = 50;
 };

@@ -1,16 +1,19 @@
 #include "analysis/prediction_level.hpp"
 
 #include <algorithm>
-#include <boost/random/uniform_int_distribution.hpp>
 #include <climits>
 #include <cmath>
 #include <cstdio>
 #include <limits>
 #include <stdexcept>
+#include <utility>
 
+#include "analysis/encounter_bootstrap.hpp"
 #include "analysis/quantiles.hpp"
+#include "analysis/roc.hpp"
+#include "analysis/value_ranks.hpp"
+#include "models/parallel.hpp"
 #include "models/text.hpp"
-#include "models/random_streams.hpp"
 
 namespace tocsin {
 
@@ -22,37 +25,56 @@ constexpr std::int32_t no_outcome = INT32_MAX;
 // Horizon limit meaning "before the end of the stay": every case's prediction qualifies.
 constexpr std::int32_t rest_of_stay = INT32_MAX - 1;
 
+// Few distinct values: a counting sort that puts each score straight in its
+// place, reading the population in order (the same order as ascending_order:
+// ranks ascending, ties by position). The encounters are cut into runs of
+// about equal score counts, one per thread; a run's scores of one rank go
+// after those of the runs before it, so the order is the same for any count.
+template <class Place>
+void place_by_rank(const Population& pop, const std::vector<std::uint32_t>& used, const DistinctValueRanks& few,
+                   unsigned threads, const Place& place) {
+    const std::size_t n = pop.scores.size(), ranks = few.count.size();
+    const std::size_t runs = std::max<std::size_t>(1, std::min<std::size_t>(threads, used.size()));
+    std::vector<std::size_t> first_of_run(runs + 1, used.size());
+    for (std::size_t p = 0; p < runs; ++p)
+        first_of_run[p] = static_cast<std::size_t>(
+            std::lower_bound(used.begin(), used.end(), n / runs * p,
+                             [&](std::uint32_t e, std::size_t at) { return pop.score_start[e] < at; }) -
+            used.begin());
+    std::vector<std::vector<std::size_t>> next(runs, std::vector<std::size_t>(ranks, 0));
+    const auto each_score = [&](std::size_t p, const auto& visit) {
+        for (std::size_t u = first_of_run[p]; u < first_of_run[p + 1]; ++u)
+            for (std::size_t s = pop.score_start[used[u]]; s < pop.score_start[used[u] + 1]; ++s) visit(s, used[u]);
+    };
+    parallel_for(runs, threads, [&](std::size_t p) { each_score(p, [&](std::size_t s, std::uint32_t) { ++next[p][few.rank[s]]; }); });
+    std::size_t at = 0;
+    for (std::size_t k = 0; k < ranks; ++k)
+        for (std::size_t p = 0; p < runs; ++p) at += std::exchange(next[p][k], at);
+    parallel_for(runs, threads, [&](std::size_t p) {
+        each_score(p, [&](std::size_t s, std::uint32_t e) { place(next[p][few.rank[s]]++, s, e); });
+    });
+}
+
+}  // namespace
+
 std::int32_t horizon_limit_seconds(double horizon_hours) {
     if (horizon_hours == 0.0) return rest_of_stay;
     return static_cast<std::int32_t>(std::min<double>(std::llround(horizon_hours * 3600.0), rest_of_stay));
 }
 
-}  // namespace
-
-RankedPredictions rank_predictions(const Population& pop) {
+RankedPredictions rank_predictions(const Population& pop, unsigned threads) {
     const std::size_t n = pop.scores.size();
     RankedPredictions r;
-    std::vector<std::uint32_t> order;
-    {
-        std::vector<double> values(n);
-        for (std::size_t i = 0; i < n; ++i) values[i] = pop.scores[i].value;
-        order = ascending_order(values);
-    }
-    std::vector<std::uint32_t> owner(n);
-    for (std::size_t e = 0; e < pop.encounters.size(); ++e) {
-        if (pop.score_start[e + 1] > pop.score_start[e]) r.encounters_used.push_back(static_cast<std::uint32_t>(e));
-        for (std::size_t i = pop.score_start[e]; i < pop.score_start[e + 1]; ++i) owner[i] = static_cast<std::uint32_t>(e);
-    }
     r.value.resize(n);
     r.encounter.resize(n);
     r.seconds_to_outcome.resize(n);
     r.available_at.resize(n);
-    for (std::size_t i = 0; i < n; ++i) {
-        const std::uint32_t s = order[i];
+    // Puts score s of encounter e at rank position i.
+    const auto place = [&](std::size_t i, std::size_t s, std::uint32_t e) {
         const Score& score = pop.scores[s];
-        const Encounter& enc = pop.encounters[owner[s]];
+        const Encounter& enc = pop.encounters[e];
         r.value[i] = score.value;
-        r.encounter[i] = owner[s];
+        r.encounter[i] = e;
         r.available_at[i] = score.available_at;
         if (enc.outcome_at) {
             const std::int64_t ahead = *enc.outcome_at - score.available_at;  // > 0 for a usable score
@@ -60,25 +82,32 @@ RankedPredictions rank_predictions(const Population& pop) {
         } else {
             r.seconds_to_outcome[i] = no_outcome;
         }
+    };
+    for (std::size_t e = 0; e < pop.encounters.size(); ++e)
+        if (pop.score_start[e + 1] > pop.score_start[e]) r.encounters_used.push_back(static_cast<std::uint32_t>(e));
+    if (const auto few = distinct_value_ranks(n, [&](std::size_t s) { return pop.scores[s].value; }, std::size_t{1} << 16)) {
+        place_by_rank(pop, r.encounters_used, *few, threads, place);
+        return r;
     }
+    std::vector<double> values(n);
+    for (std::size_t i = 0; i < n; ++i) values[i] = pop.scores[i].value;
+    const std::vector<std::uint32_t> order = ascending_order(values);
+    values = {};
+    std::vector<std::uint32_t> owner(n);
+    for (std::uint32_t e : r.encounters_used)
+        for (std::size_t s = pop.score_start[e]; s < pop.score_start[e + 1]; ++s) owner[s] = e;
+    for (std::size_t i = 0; i < n; ++i) place(i, order[i], owner[order[i]]);
     return r;
 }
 
-namespace {
+double AucSums::auc() const {
+    return positives && negatives
+               ? static_cast<double>(twice_u) / (2.0 * static_cast<double>(positives) * static_cast<double>(negatives))
+               : not_a_number;
+}
 
-struct AucSums {
-    std::int64_t twice_u = 0, positives = 0, negatives = 0;
-    double auc() const {
-        return positives && negatives ? static_cast<double>(twice_u) /
-                                            (2.0 * static_cast<double>(positives) * static_cast<double>(negatives))
-                                      : not_a_number;
-    }
-};
-
-// AUC at several horizons in one ascending pass. `weights` (per encounter)
-// gives each prediction its encounter's bootstrap multiplicity; empty = 1.
-std::vector<AucSums> auc_by_horizon(const RankedPredictions& r, const std::vector<std::int32_t>& limits,
-                                    const std::vector<std::uint32_t>& weights) {
+std::vector<AucSums> auc_sums_by_horizon(const RankedPredictions& r, const std::vector<std::int32_t>& limits,
+                                         const std::vector<std::uint32_t>& weights) {
     const std::size_t n = r.value.size(), k = limits.size();
     std::vector<AucSums> sums(k);
     std::vector<std::int64_t> pos(k);
@@ -87,8 +116,6 @@ std::vector<AucSums> auc_by_horizon(const RankedPredictions& r, const std::vecto
         std::fill(pos.begin(), pos.end(), 0);
         std::int64_t group = 0;
         const double v = r.value[i];
-        // Branch-free on purpose: a third of bootstrap weights are 0 and the
-        // labels are unpredictable, so multiplying beats skipping.
         for (; i < n && r.value[i] == v; ++i) {
             const std::int64_t w = weights.empty() ? 1 : weights[r.encounter[i]];
             const std::int32_t ahead = r.seconds_to_outcome[i];
@@ -105,19 +132,7 @@ std::vector<AucSums> auc_by_horizon(const RankedPredictions& r, const std::vecto
     return sums;
 }
 
-// Multiplicity of each encounter in bootstrap replicate b: |used| draws with
-// replacement from the encounters that have predictions. One stream per
-// replicate, so a replicate does not depend on how many came before it.
-std::vector<std::uint32_t> bootstrap_weights(const std::vector<std::uint32_t>& used, std::size_t encounters,
-                                             const EvaluationOptions& o, int replicate) {
-    std::vector<std::uint32_t> w(encounters, 0);
-    if (used.empty()) return w;
-    RandomEngine engine = make_stream(o.seed, o.replication, StreamPurpose::evaluation_bootstrap,
-                                      static_cast<std::uint64_t>(replicate));
-    boost::random::uniform_int_distribution<std::size_t> pick(0, used.size() - 1);
-    for (std::size_t d = 0; d < used.size(); ++d) ++w[used[pick(engine)]];
-    return w;
-}
+namespace {
 
 Interval percentile_interval(std::vector<double> values, double confidence) {
     values.erase(std::remove_if(values.begin(), values.end(), [](double v) { return !std::isfinite(v); }), values.end());
@@ -174,11 +189,8 @@ std::vector<std::vector<double>> bootstrap_auc_by_horizon(const Population& pop,
                                                           const std::vector<std::int32_t>& limits,
                                                           const EvaluationOptions& o) {
     std::vector<std::vector<double>> replicates(limits.size());
-    for (int b = 0; b < o.bootstrap_replicates; ++b) {
-        const auto w = bootstrap_weights(r.encounters_used, pop.encounters.size(), o, b);
-        const auto sums = auc_by_horizon(r, limits, w);
+    for (const auto& sums : bootstrap_auc_sums(r, limits, pop.encounters.size(), o))
         for (std::size_t h = 0; h < limits.size(); ++h) replicates[h].push_back(sums[h].auc());
-    }
     return replicates;
 }
 
@@ -205,7 +217,7 @@ Interval bootstrap_interval(const std::vector<double>& replicates, const Evaluat
 std::vector<PredictionAuc> prediction_auc_from_ranked(const Population& pop, const RankedPredictions& r,
                                                       const EvaluationOptions& o) {
     const std::vector<std::int32_t> limits = horizon_limits(o.horizons_hours);
-    const auto point = auc_by_horizon(r, limits, {});
+    const auto point = auc_sums_by_horizon(r, limits, {});
     const auto replicates = bootstrap_auc_by_horizon(pop, r, limits, o);
     std::vector<PredictionAuc> out;
     for (std::size_t h = 0; h < limits.size(); ++h) {
@@ -274,16 +286,16 @@ ObservedExpected observed_expected_of_groups(const LabelledProbabilities& l, dou
 
 Interval bootstrap_oe_interval(const Population& pop, const RankedPredictions& r, const LabelledProbabilities& l,
                                const EvaluationOptions& o) {
-    std::vector<double> ratios;
-    for (int b = 0; b < o.bootstrap_replicates; ++b) {
-        const auto w = bootstrap_weights(r.encounters_used, pop.encounters.size(), o, b);
+    std::vector<double> ratios(static_cast<std::size_t>(o.bootstrap_replicates));
+    parallel_for(ratios.size(), o.threads, [&](std::size_t b) {
+        const auto w = bootstrap_multiplicities(r.encounters_used, pop.encounters.size(), o, static_cast<int>(b));
         double observed = 0.0, expected = 0.0;
         for (std::uint32_t e : r.encounters_used) {
             observed += w[e] * l.observed_by_encounter[e];
             expected += w[e] * l.expected_by_encounter[e];
         }
-        ratios.push_back(expected > 0 ? observed / expected : not_a_number);
-    }
+        ratios[b] = expected > 0 ? observed / expected : not_a_number;
+    });
     return bootstrap_interval(ratios, o);
 }
 
@@ -311,6 +323,17 @@ double drift_horizon_hours(const EvaluationOptions& o) {
     return o.horizons_hours.empty() ? 0.0 : o.horizons_hours.front();
 }
 
+// The period holding instant t (periods.starts[0] <= t). Up to a few dozen
+// periods (months of a year), counting the starts at or before t without a
+// branch beats a binary search whose every step is a coin toss.
+std::size_t period_of(const std::vector<Instant>& starts, Instant t) {
+    if (starts.size() > 48)
+        return static_cast<std::size_t>(std::upper_bound(starts.begin(), starts.end(), t) - starts.begin() - 1);
+    std::size_t period = 0;
+    for (std::size_t q = 1; q < starts.size(); ++q) period += starts[q] <= t;
+    return period;
+}
+
 struct PeriodSums {
     std::vector<AucSums> auc;
     std::vector<double> expected;  // sum of probabilities (0 without a mapping)
@@ -331,8 +354,7 @@ PeriodSums sums_by_period(const RankedPredictions& r, const Periods& periods, st
         const double v = r.value[i];
         const double p = o.probability ? o.probability->probability(v) : 0.0;
         for (; i < n && r.value[i] == v; ++i) {
-            const auto at = std::upper_bound(periods.starts.begin(), periods.starts.end(), r.available_at[i]);
-            const auto period = static_cast<std::uint32_t>(at - periods.starts.begin() - 1);
+            const auto period = static_cast<std::uint32_t>(period_of(periods.starts, r.available_at[i]));
             if (!is_touched[period]) {
                 is_touched[period] = 1;
                 touched.push_back(period);

@@ -18,7 +18,25 @@ struct RankedPredictions {
     std::vector<Instant> available_at;
     std::vector<std::uint32_t> encounters_used;  // encounters with at least one prediction, ascending
 };
-RankedPredictions rank_predictions(const Population& population);
+// `threads` share the placing of the scores; the order does not depend on it.
+RankedPredictions rank_predictions(const Population& population, unsigned threads = 1);
+
+// Seconds before time zero within which a prediction is positive, for a
+// horizon in hours (0: before the end of the stay, every case's prediction).
+std::int32_t horizon_limit_seconds(double horizon_hours);
+
+// The Mann-Whitney sums at one horizon, in exact integers: twice U (each
+// positive earns 2 per negative below it and 1 per negative tied with it).
+struct AucSums {
+    std::int64_t twice_u = 0, positives = 0, negatives = 0;
+    double auc() const;  // NaN when either class is empty
+};
+
+// The sums at several horizon limits in one ascending pass. `weights` (per
+// encounter) counts each prediction as many times as its encounter's weight;
+// empty = once each.
+std::vector<AucSums> auc_sums_by_horizon(const RankedPredictions& ranked, const std::vector<std::int32_t>& limits,
+                                         const std::vector<std::uint32_t>& weights);
 
 std::vector<PredictionAuc> prediction_auc_from_ranked(const Population& population, const RankedPredictions& ranked,
                                                       const EvaluationOptions& options);

@@ -10,18 +10,13 @@
 #include <string>
 #include <utility>
 
+#include "analysis/value_ranks.hpp"
+
 namespace tocsin {
 
 namespace {
 
 constexpr double not_a_number = std::numeric_limits<double>::quiet_NaN();
-
-// Monotone map from a double to an unsigned key: flips negatives entirely and
-// sets the sign bit of non-negatives, so unsigned order equals numeric order.
-std::uint64_t sort_key(double x) {
-    const auto bits = std::bit_cast<std::uint64_t>(x);
-    return (bits >> 63) ? ~bits : bits | 0x8000000000000000ULL;
-}
 
 void check_same_length(std::size_t scores, std::size_t labels) {
     if (scores != labels) throw std::invalid_argument("scores and labels differ in length");
@@ -62,6 +57,12 @@ std::vector<std::uint32_t> ascending_order(std::span<const double> values) {
     if (std::is_sorted(values.begin(), values.end())) return order;
     if (n < 2048) {
         std::stable_sort(order.begin(), order.end(), [&](std::uint32_t a, std::uint32_t b) { return values[a] < values[b]; });
+        return order;
+    }
+    if (const auto few = distinct_value_ranks(n, [&](std::size_t i) { return values[i]; }, std::size_t{1} << 16)) {
+        std::vector<std::size_t> next(few->count.size(), 0);
+        for (std::size_t r = 1; r < next.size(); ++r) next[r] = next[r - 1] + few->count[r - 1];
+        for (std::size_t i = 0; i < n; ++i) order[next[few->rank[i]]++] = static_cast<std::uint32_t>(i);
         return order;
     }
     std::vector<std::uint64_t> keys(n), keys_next(n);

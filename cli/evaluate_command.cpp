@@ -73,6 +73,7 @@ CLI::App* add_evaluate_command(CLI::App& app, EvaluateCommand& c) {
     cmd->add_option("--period-days", c.period_days, "Drift periods of this many days (default: calendar months in the scenario's time zone)");
     cmd->add_option("--bootstrap", c.bootstrap_replicates, "Encounter-bootstrap replicates for prediction-level intervals (default 200; 0 = none)");
     cmd->add_option("--replication", c.replication, "Which replication's population to evaluate (default 0: the log as replayed)");
+    cmd->add_option("-j,--threads", c.threads, "Worker threads for the bootstrap (default: all cores); results do not depend on it");
     return cmd;
 }
 
@@ -101,6 +102,7 @@ int run_evaluate_command(const EvaluateCommand& c) {
     KeySpec replication_index = key_spec("top level", "replications");
     replication_index.range = {0, *replication_index.range.max - 1};
     const auto replication = static_cast<std::uint64_t>(option_integer(replication_index, "--replication", c.replication));
+    const unsigned threads = thread_count(c.threads);
     std::vector<double> decision_thresholds, evaluations_per_case;
     for (const std::string& t : c.decision_thresholds)
         decision_thresholds.push_back(option_real(spec.decision_threshold, "--decision-threshold", t));
@@ -127,6 +129,7 @@ int run_evaluate_command(const EvaluateCommand& c) {
     o.drift_period_days = period_days;
     o.bootstrap_replicates = bootstrap;
     o.replication = replication;
+    o.threads = threads;
 
     const Evaluation ev = evaluate(pop, o);
     std::cout << evaluation_summary(ev) << "\n" << to_text(encounter_auc_table(ev.encounter_auc), 3) << "\n"

@@ -26,6 +26,7 @@ struct EvaluateCommand {
     std::string period_days = "0";
     std::string bootstrap_replicates = "200";
     std::string replication = "0";
+    std::string threads = "0";  // 0 = all cores
 };
 
 CLI::App* add_evaluate_command(CLI::App& app, EvaluateCommand& command);

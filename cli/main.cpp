@@ -98,11 +98,6 @@ void add_run_options(CLI::App* cmd, RunOptions& o) {
                   "simulate, staff, evaluate, write)");
 }
 
-unsigned thread_count(const std::string& requested) {
-    if (const auto n = option_integer(option_specs().threads, "--threads", requested)) return static_cast<unsigned>(n);
-    return std::max(1u, std::thread::hardware_concurrency());
-}
-
 // The replayed chart-opening log, when the scenario replays one.
 std::optional<ChartOpeningLog> replayed_openings(const Scenario& sc, const Population& pop) {
     if (!sc.simulation.chart_openings || sc.simulation.chart_openings->replay_path.empty()) return std::nullopt;

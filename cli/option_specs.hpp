@@ -4,14 +4,17 @@
 // uses that key's KeySpec instead, so its range is declared once, in
 // study/scenario_schema.cpp. Both kinds are read with option_real /
 // option_integer (study/scenario_keys.hpp), the check scenario keys get.
+#include <algorithm>
+#include <string>
 #include <string_view>
+#include <thread>
 
 #include "study/scenario_keys.hpp"
 
 namespace tocsin {
 
 struct OptionSpecs {
-    // run, sweep
+    // run, sweep, evaluate
     KeySpec max_burden = real_key("--max-burden", {.range = {.min = 0}});
     KeySpec threads = integer_key("--threads", {.fallback = 0, .range = {0, 4096}});
     // review-size (its --sizes are values of plans[].review.top_n)
@@ -35,6 +38,12 @@ struct OptionSpecs {
 inline const OptionSpecs& option_specs() {
     static const OptionSpecs specs;
     return specs;
+}
+
+// --threads as given, or every core for 0.
+inline unsigned thread_count(const std::string& requested) {
+    if (const auto n = option_integer(option_specs().threads, "--threads", requested)) return static_cast<unsigned>(n);
+    return std::max(1u, std::thread::hardware_concurrency());
 }
 
 }  // namespace tocsin

@@ -80,7 +80,8 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
                        // The score's own measures are computed here, beside the other
                        // replications, rather than after them all.
                        std::optional<Evaluation> evaluation;
-                       const EvaluationOptions measures = evaluation_options_for(sc);
+                       EvaluationOptions measures = evaluation_options_for(sc);
+                       measures.threads = settings.threads;
                        if (settings.evaluate) evaluation = evaluate(pop, measures);
                        const std::vector<PlanThreshold> thresholds = plan_thresholds(sc.simulation);
                        std::vector<GroupScoreFigures> group_scores = group_score_figures(

@@ -41,10 +41,20 @@ TEST_CASE("evaluate.cli_writes_the_library_tables") {
 
     CHECK(read_file(dir.path("one/CAUTIONS.txt")).find("not a medical device") != std::string::npos);
 
-    // Same scenario and seed: byte-identical files.
-    REQUIRE(run_tocsin("evaluate " + demo + " --threshold 60 --bootstrap 20 --out " + dir.path("two")).exit_code == 0);
-    CHECK(read_file(dir.path("one/evaluation_prediction_auc.csv")) ==
-          read_file(dir.path("two/evaluation_prediction_auc.csv")));
+    // Same scenario and seed: byte-identical files, whatever the thread count
+    // (the first run used every core, the library call above one thread).
+    REQUIRE(run_tocsin("evaluate " + demo + " --threshold 60 --bootstrap 20 --threads 3 --out " + dir.path("two")).exit_code == 0);
+    for (const Table& t : evaluation_tables(ev)) {
+        CAPTURE(t.name);
+        CHECK(read_file(dir.path("one/" + t.name + ".csv")) == read_file(dir.path("two/" + t.name + ".csv")));
+    }
+}
+
+TEST_CASE("evaluate.cli_rejects_a_bad_thread_count") {
+    const std::string demo = std::string(TOCSIN_SOURCE_DIR) + "/scenarios/fernhollow-replay.yaml";
+    const auto r = run_tocsin("evaluate " + demo + " --threads -1");
+    CHECK(r.exit_code == 2);
+    CHECK(r.output.find("--threads") != std::string::npos);
 }
 
 TEST_CASE("evaluate.cli_rejects_a_bad_mapping") {
