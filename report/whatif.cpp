@@ -103,20 +103,22 @@ std::string render_whatif_page(const WhatIfInput& in) {
             "hold every figure.</p></noscript>\n</section>\n"
             "<aside class=\"cautions\" id=\"cautions\" aria-label=\"Cautions\">\n<p>" + html_escape(cautions) +
             "</p>\n</aside>\n</div>\n<main>\n";
-    page += "<section id=\"selection\" aria-live=\"polite\">\n<h2>Selected: <span id=\"selected-name\"></span></h2>\n"
-            "<p id=\"selected-settings\"></p>\n<p id=\"selected-budget\" class=\"budget\"></p>\n"
+    // Only the summary is a live region: a screen reader announces the new
+    // plan, not every table cell, when a control moves.
+    page += "<section id=\"selection\">\n<div aria-live=\"polite\">\n<h2>Selected: <span id=\"selected-name\"></span>"
+            "</h2>\n<p id=\"selected-settings\"></p>\n<p id=\"selected-budget\" class=\"budget\"></p>\n</div>\n"
             "<table id=\"figures\">\n<caption>The selected plan's figures</caption>\n<thead><tr><th scope=\"col\">"
             "Figure</th><th scope=\"col\">Mean</th><th scope=\"col\">95% interval</th></tr></thead>\n"
             "<tbody></tbody>\n</table>\n<p class=\"note\">" + html_escape(in.interval_note) + "</p>\n"
-            "<table id=\"wards\">\n<caption>The selected plan on each ward</caption>\n<thead></thead><tbody></tbody>\n"
-            "</table>\n</section>\n";
+            "</section>\n";
     page += "<section id=\"tradeoff\">\n<h2>Burden and benefit</h2>\n<p id=\"chart-caption\"></p>\n"
             "<div id=\"chart\"><svg id=\"chart-svg\" viewBox=\"0 0 720 420\" role=\"img\" "
             "aria-labelledby=\"chart-caption\"></svg></div>\n<p class=\"note\" id=\"chart-key\"></p>\n"
             "<table id=\"neighbours\">\n<caption>Its neighbours</caption>\n<thead><tr><th scope=\"col\">Neighbour</th>"
             "<th scope=\"col\">Plan</th><th scope=\"col\" id=\"neighbour-burden\"></th><th scope=\"col\" "
             "id=\"neighbour-benefit\"></th><th scope=\"col\">Budget</th></tr></thead>\n<tbody></tbody>\n</table>\n"
-            "</section>\n";
+            "</section>\n<section id=\"per-ward\">\n<table id=\"wards\">\n<caption>The selected plan on each "
+            "ward</caption>\n<thead></thead><tbody></tbody>\n</table>\n</section>\n";
     if (!in.budget_answer.empty())
         page += "<section id=\"budget\">\n<h2>The budget question</h2>\n<p>" + html_escape(in.budget_answer) +
                 "</p>\n</section>\n";

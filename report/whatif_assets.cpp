@@ -31,7 +31,7 @@ table { border-collapse: collapse; margin: 0.6rem 0; }
 caption { text-align: left; font-weight: bold; padding-bottom: 0.2rem; }
 th, td { border-bottom: 1px solid #999; padding: 0.25rem 0.6rem; text-align: left; vertical-align: top; }
 td.number { text-align: right; font-variant-numeric: tabular-nums; white-space: nowrap; }
-th { overflow-wrap: anywhere; }
+th { overflow-wrap: break-word; }
 .note { color: var(--grey); font-size: 0.9rem; max-width: 60rem; }
 .budget { font-weight: bold; }
 .within::before { content: "\2713  "; }
@@ -190,9 +190,11 @@ const char* const script_text = R"js(
     if (parent) parent.appendChild(e);
     return e;
   }
+  // Round steps of 1, 2 or 5 times a power of ten, at most six ticks.
   function ticks(lo, hi) {
-    var out = [];
-    for (var k = 0; k <= 4; ++k) out.push(lo + (hi - lo) * k / 4);
+    var step = Math.pow(10, Math.floor(Math.log10((hi - lo) / 5))), out = [];
+    [1, 2, 5, 10].some(function (m) { if ((hi - lo) / (step * m) <= 5) { step *= m; return true; } return false; });
+    for (var v = Math.ceil(lo / step) * step; v <= hi + step * 1e-9; v += step) out.push(parseFloat(v.toPrecision(6)));
     return out;
   }
   // One mark per plan of the selection's group: filled when on the frontier,
@@ -214,18 +216,20 @@ const char* const script_text = R"js(
     if (x1 === x0) { x0 -= 1; x1 += 1; }
     if (y1 === y0) { y0 -= 1; y1 += 1; }
     var padX = (x1 - x0) * 0.06, padY = (y1 - y0) * 0.08;  // no mark on an axis
-    x0 -= padX; x1 += padX; y0 -= padY; y1 += padY;
+    // Counts and shares start at zero: the padding never shows a negative axis.
+    x0 = Math.min(x0, 0) < 0 ? x0 - padX : Math.max(0, x0 - padX); x1 += padX;
+    y0 = Math.min(y0, 0) < 0 ? y0 - padY : Math.max(0, y0 - padY); y1 += padY;
     function sx(v) { return L + (v - x0) / (x1 - x0) * (W - L - R); }
     function sy(v) { return H - B - (v - y0) / (y1 - y0) * (H - T - B); }
     replace(root, []);
     svg("title", {}, root).textContent = data.burden.label + " against " + data.benefit.label;
     ticks(x0, x1).forEach(function (v) {
       svg("line", { x1: sx(v), x2: sx(v), y1: T, y2: H - B, stroke: "#ddd" }, root);
-      svg("text", { x: sx(v), y: H - B + 20, "text-anchor": "middle" }, root).textContent = Number(v.toPrecision(3));
+      svg("text", { x: sx(v), y: H - B + 20, "text-anchor": "middle" }, root).textContent = String(v);
     });
     ticks(y0, y1).forEach(function (v) {
       svg("line", { x1: L, x2: W - R, y1: sy(v), y2: sy(v), stroke: "#ddd" }, root);
-      svg("text", { x: L - 6, y: sy(v) + 5, "text-anchor": "end" }, root).textContent = Number(v.toPrecision(3));
+      svg("text", { x: L - 6, y: sy(v) + 5, "text-anchor": "end" }, root).textContent = String(v);
     });
     svg("text", { x: (L + W - R) / 2, y: H - 12, "text-anchor": "middle" }, root).textContent = data.burden.label + " (fewer is lighter)";
     svg("text", { x: 16, y: (T + H - B) / 2, "text-anchor": "middle", transform: "rotate(-90 16 " + (T + H - B) / 2 + ")" }, root)
@@ -248,7 +252,7 @@ const char* const script_text = R"js(
       svg("circle", { cx: cx, cy: cy, r: 15, fill: "none", stroke: "#D55E00", "stroke-width": 4 }, root);
       svg("text", { x: cx + (cx > W / 2 ? -20 : 20), y: cy - 18, "text-anchor": cx > W / 2 ? "end" : "start", "font-weight": "bold" }, root).textContent = "selected";
     }
-    document.getElementById("chart-caption").textContent = "The " + (p.group || "plans") + " of the run, the selected one ringed. " +
+    document.getElementById("chart-caption").textContent = (p.group && p.group !== "all plans" ? "The " + p.group : "All plans") + " of the run, the selected one ringed. " +
       group.filter(function (j) { return plans[j].frontier; }).length + " of " + group.length + " are on the frontier (not beaten on both).";
     document.getElementById("chart-key").textContent = "Filled mark: on the frontier (joined by the line); hollow: another plan is lighter and reaches as many. " +
       (data.budget_asked ? "Square: within the budget; circle: over it. " : "") +
