@@ -72,8 +72,7 @@ WhatIfInput whatif_input_for_run(const Scenario& sc, const RunOutput& out, const
     WhatIfInput in;
     in.title = sc.name;
     in.question = sc.description;
-    in.cautions = report.cautions;
-    in.interval_note = report.interval_note;
+    in.interval_note = report.interval_note;  // cautions left empty: cautions_text(), as in the report
     in.budget_answer = report.budget_answer;
     if (grid) in.axes = axes_of(*grid);
     std::vector<std::size_t> metrics;
