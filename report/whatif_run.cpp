@@ -38,14 +38,25 @@ int decimals_of(const std::vector<WhatIfFigure>& shown, const Metric& m) {
 
 WhatIfFigure figure_of(const Metric& m, int decimals) { return {std::string(m.name), std::string(m.label), decimals}; }
 
+// A label for people from an axis path: the path after "plan." or "roles.",
+// without "rule", in words ("plan.rule.snooze_minutes" -> "snooze minutes",
+// "roles.cover nurse.roster.night" -> "cover nurse roster night").
+std::string axis_label(const std::string& path) {
+    std::string label;
+    std::size_t start = path.find('.') == std::string::npos ? 0 : path.find('.') + 1;
+    while (start <= path.size()) {
+        const std::size_t end = std::min(path.find('.', start), path.size());
+        const std::string part = path.substr(start, end - start);
+        if (part != "rule" && !part.empty()) label += (label.empty() ? "" : " ") + part;
+        start = end + 1;
+    }
+    std::replace(label.begin(), label.end(), '_', ' ');
+    return label.empty() ? path : label;
+}
+
 std::vector<WhatIfAxis> axes_of(const SweepGrid& grid) {
     std::vector<WhatIfAxis> axes;
-    for (const SweepAxis& a : grid.axes) {
-        const std::size_t dot = a.path.rfind('.');
-        std::string label = dot == std::string::npos ? a.path : a.path.substr(dot + 1);
-        std::replace(label.begin(), label.end(), '_', ' ');
-        axes.push_back({a.path, label, a.values});
-    }
+    for (const SweepAxis& a : grid.axes) axes.push_back({a.path, axis_label(a.path), a.values});
     return axes;
 }
 

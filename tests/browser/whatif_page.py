@@ -3,9 +3,10 @@
 
 Usage: whatif_page.py TOCSIN_BINARY SCRATCH_DIR
 
-Runs a small sweep of an invented scenario whose swept plan and one ward carry
-hostile names, loads the sweep's whatif.html, and checks:
-  keyboard   a control moved with the arrow key selects the next grid point;
+Runs a small sweep (and a run) of an invented scenario whose swept plan and one
+ward carry hostile names, loads the sweep's whatif.html (and the run's), and checks:
+  keyboard   a control moved with the arrow key selects the next grid point (on the
+             run's page, without a grid, the plan list selects the next plan);
   figures    every figure shown equals the sweep's CSV row for that plan
              (plan_comparison.csv, plan_unit_comparison.csv): the exact text in
              data-exact, and the shown text rounded from it as the page rounds;
@@ -65,14 +66,12 @@ def write_scenario(source_dir, scratch):
     return path
 
 
-def run_sweep(tocsin, scenario, out):
+def run_tocsin(tocsin, command, scenario, out, *options):
     shutil.rmtree(out, ignore_errors=True)
-    command = [tocsin, "sweep", scenario, "--plan", HOSTILE_PLAN, "--vary", "plan.rule.threshold=50:70:10",
-               "--vary", "plan.rule.snooze_minutes=60,240", "--replications", "4", "--max-burden", LIMIT,
-               "--out", out]
+    command = [tocsin, command, scenario, *options, "--out", out]
     result = subprocess.run(command, capture_output=True, text=True)
     if result.returncode != 0:
-        fail("tocsin sweep failed:\n" + result.stdout + result.stderr)
+        fail(" ".join(command) + " failed:\n" + result.stdout + result.stderr)
 
 
 def read_csv(path):
@@ -133,6 +132,20 @@ def check_keyboard(driver):
     output = driver.find_element(By.ID, "axis-0-value").get_attribute("textContent")
     if output != data["axes"][0]["values"][at[0] + 1]:
         problems.append("the control's value reads %r" % output)
+    return problems
+
+
+def check_plan_choice(driver):
+    """A run's page (no sweep): no sliders; arrow down on the plan list selects the next plan."""
+    plans = page_data(driver)["plans"]
+    problems = ["%d sliders on a run's page" % len(driver.find_elements(By.CSS_SELECTOR, "#controls input"))]
+    problems = problems if "0 sliders" not in problems[0] else []
+    try:
+        driver.find_element(By.ID, "plan-choice").send_keys(Keys.DOWN)
+    except WebDriverException as e:
+        return problems + ["the plan list does not take the keyboard: " + e.msg]
+    if len(plans) < 2 or selected(driver) != plans[1]["name"]:
+        problems.append("after arrow down the page shows %r, expected the second plan" % selected(driver))
     return problems
 
 
@@ -335,8 +348,11 @@ def main():
         sys.exit(77)
     os.makedirs(scratch, exist_ok=True)
     source_dir = os.path.dirname(os.path.dirname(os.path.dirname(os.path.abspath(__file__))))
-    out = os.path.join(scratch, "sweep")
-    run_sweep(tocsin, write_scenario(source_dir, scratch), out)
+    out, run_out = os.path.join(scratch, "sweep"), os.path.join(scratch, "run")
+    scenario = write_scenario(source_dir, scratch)
+    run_tocsin(tocsin, "sweep", scenario, out, "--plan", HOSTILE_PLAN, "--vary", "plan.rule.threshold=50:70:10",
+               "--vary", "plan.rule.snooze_minutes=60,240", "--replications", "4", "--max-burden", LIMIT)
+    run_tocsin(tocsin, "run", scenario, run_out, "--replications", "3")
     page = os.path.join(out, "whatif.html")
     page_text = open(page, encoding="utf-8").read()
     results = []
@@ -361,6 +377,12 @@ def main():
         expect("print", check_print(driver))
         expect("screenshot", check_screenshot(driver, os.path.join(scratch, "whatif.png")))
         expect("console", check_console(driver))
+
+        load(driver, os.path.join(run_out, "whatif.html"))
+        expect("run: inert", check_inert(driver))  # its first plan, shown on opening, has the hostile name
+        expect("run: plan list", check_plan_choice(driver))
+        expect("run: figures", check_figures(driver, run_out))
+        expect("run: console", check_console(driver))
 
         load(driver, broken(page_text, scratch, "keyboard", "input.type = \"range\";", "input.type = \"range\"; input.disabled = true;"))
         expect("keyboard", check_keyboard(driver), True)
