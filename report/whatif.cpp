@@ -33,10 +33,14 @@ std::string shown(double v, int decimals) { return std::isfinite(v) ? format_rea
 
 // [shown mean, shown low, shown high, exact mean, exact low, exact high]; the
 // exact texts are the CSV's (format_number), empty where the CSV cell is.
-std::string value_json(const WhatIfValue& v, int decimals) {
-    return "[" + quoted(shown(v.mean, decimals)) + "," + quoted(shown(v.low, decimals)) + "," +
-           quoted(shown(v.high, decimals)) + "," + quoted(format_number(v.mean)) + "," + quoted(format_number(v.low)) +
-           "," + quoted(format_number(v.high)) + "]";
+// A ward's values are shown only (the first three): with all their digits a
+// hospital's twenty wards would take a 500-plan page past 2 MB.
+std::string value_json(const WhatIfValue& v, int decimals, bool exact = true) {
+    std::string out = "[" + quoted(shown(v.mean, decimals)) + "," + quoted(shown(v.low, decimals)) + "," +
+                      quoted(shown(v.high, decimals));
+    if (exact) out += "," + quoted(format_number(v.mean)) + "," + quoted(format_number(v.low)) + "," +
+                      quoted(format_number(v.high));
+    return out + "]";
 }
 
 std::string figure_json(const WhatIfFigure& f) {
@@ -70,7 +74,7 @@ std::string plan_json(const WhatIfInput& in, const WhatIfPlan& p) {
     for (std::size_t u = 0; u < p.wards.size(); ++u) {
         out += u ? ",[" : "[";
         for (std::size_t k = 0; k < p.wards[u].size() && k < in.ward_figures.size(); ++k)
-            out += (k ? "," : "") + value_json(p.wards[u][k], in.ward_figures[k].decimals);
+            out += (k ? "," : "") + value_json(p.wards[u][k], in.ward_figures[k].decimals, false);
         out += "]";
     }
     return out + "]}";

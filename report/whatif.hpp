@@ -6,9 +6,11 @@
 // figures with their intervals, its place on the burden/benefit frontier and
 // its neighbours, and whether it is within the budget.
 //
-// Every figure is carried twice: as shown (rounded for people, format_real)
-// and exact (format_number, the text the CSV tables hold), so what the page
-// shows can be checked against the CSV row of the plan. Every name is text:
+// Every figure of a plan is carried twice: as shown (rounded for people,
+// format_real) and exact (format_number, the text the CSV tables hold), so
+// what the page shows can be checked against the CSV row of the plan; a
+// ward's figures are carried as shown only, which keeps a 500-plan page of a
+// twenty-ward hospital within 2 MB. Every name is text:
 // the JSON escapes < > & U+2028 U+2029 so no name can close its script
 // element, and the page's script inserts names with textContent only.
 #include <cstddef>

@@ -14,16 +14,16 @@ h1 { font-size: 1.7rem; margin: 0.8rem 0 0.3rem; overflow-wrap: anywhere; }
 h2 { font-size: 1.3rem; margin: 1rem 0 0.4rem; overflow-wrap: anywhere; }
 .question { margin: 0 0 0.6rem; max-width: 70rem; }
 .layout { display: flex; gap: 1.5rem; align-items: flex-start; }
-.side { flex: 0 0 22rem; position: sticky; top: 0.5rem; }
+.side { flex: 0 0 22rem; min-width: 0; position: sticky; top: 0.5rem; max-height: calc(100vh - 1rem); overflow-y: auto; }
 main { flex: 1 1 auto; min-width: 0; }
-@media (max-width: 900px) { .layout { display: block; } .side { position: static; } }
+@media (max-width: 900px) { .layout { display: block; } .side { position: static; max-height: none; } }
 .controls { border: 2px solid var(--ink); padding: 0.4rem 0.8rem 0.8rem; }
 .control { margin: 0.6rem 0; }
 .control label { display: block; font-weight: bold; }
 .control .key { display: block; color: var(--grey); font-size: 0.8rem; }
 .control input[type=range] { width: 100%; height: 2rem; }
-.control output { font-size: 1.2rem; font-weight: bold; }
-select { font: inherit; max-width: 100%; }
+.control output { float: right; font-size: 1.2rem; font-weight: bold; }
+select { font: inherit; width: 100%; }
 :focus-visible { outline: 3px solid var(--orange); outline-offset: 2px; }
 .cautions { border-left: 6px solid var(--vermillion); padding: 0.3rem 0.8rem; margin-top: 0.8rem; background: #fff4ec; font-size: 0.95rem; }
 .cautions p { margin: 0.2rem 0; }
@@ -42,7 +42,7 @@ button.plan { font: inherit; text-align: left; background: none; border: 1px sol
 @media print {
   body { font-size: 11pt; margin: 0; }
   .layout { display: block; }
-  .side { position: static; }
+  .side { position: static; max-height: none; overflow: visible; }
   .controls { display: none; }
   .cautions { background: none; }
   button.plan { border: none; padding: 0; }
@@ -68,14 +68,14 @@ const char* const script_text = R"js(
   function shown(s) { return s === "" ? "\u2013" : s; }
   function number(v, cls, exact) {
     var td = el("td", shown(v), "number " + cls);
-    td.setAttribute("data-exact", exact);
+    if (exact !== undefined) td.setAttribute("data-exact", exact);
     return td;
   }
   function interval(v) { return v[1] === "" ? "\u2013" : v[1] + " to " + v[2]; }
   function valueCells(tr, v) {
     tr.appendChild(number(v[0], "mean", v[3]));
     var td = number(v[1] === "" ? "" : interval(v), "interval", v[4]);
-    td.setAttribute("data-exact-high", v[5]);
+    if (v[5] !== undefined) td.setAttribute("data-exact-high", v[5]);
     tr.appendChild(td);
   }
   function budgetWords(p) { return p.budget === null ? "" : p.budget ? "within the budget" : "over the budget"; }
@@ -104,10 +104,10 @@ const char* const script_text = R"js(
         var i = gridPlan[at.join(",")];
         if (i !== undefined) show(i);
       });
+      row.appendChild(out);
       row.appendChild(label);
       row.appendChild(el("span", axis.key, "key"));
       row.appendChild(input);
-      row.appendChild(out);
       box.appendChild(row);
       sliders.push({ input: input, out: out, axis: axis });
     });

@@ -116,6 +116,9 @@ TEST_CASE("whatif.figures_shown_and_exact") {
     // Shown with the figure's decimals (format_real), exact as the CSV prints
     // it (format_number); no interval: empty texts, as the CSV's empty cells.
     CHECK(data.find("\"f\":[[\"0.7\",\"\",\"\",\"0.6666666666666666\",\"\",\"\"]") != std::string::npos);
+    // A ward's figure is carried as shown only (the page's size).
+    in.plans[0].wards[0][0] = {2.0 / 3.0, 0.5, 0.75};
+    CHECK(whatif_data_json(in).find("\"w\":[[[\"0.67\",\"0.5\",\"0.75\"],") != std::string::npos);
 }
 
 TEST_CASE("whatif.same_input_same_bytes") {
@@ -123,10 +126,10 @@ TEST_CASE("whatif.same_input_same_bytes") {
 }
 
 TEST_CASE("whatif.five_hundred_plan_sweep_fits_in_two_megabytes") {
-    // The limit: 500 plans on three axes, six wards, every figure
+    // The limit: 500 plans on three axes, twenty wards, every figure
     // with its interval and every number with all its digits.
-    const std::string page = render_whatif_page(sample(500, 6, "page-55"));
-    MESSAGE("what-if page for 500 plans and 6 wards: " << page.size() << " bytes");
+    const std::string page = render_whatif_page(sample(500, 20, "page-55"));
+    MESSAGE("what-if page for 500 plans and 20 wards: " << page.size() << " bytes");
     CHECK(page.size() <= 2u * 1024 * 1024);
 }
 
