@@ -65,6 +65,7 @@ const char* const script_text = R"js(
     if (cls) e.className = cls;
     return e;
   }
+  function words(s) { return s.replace(/_/g, " "); }
   function shown(s) { return s === "" ? "\u2013" : s; }
   function number(v, cls, exact) {
     var td = el("td", shown(v), "number " + cls);
@@ -84,7 +85,7 @@ const char* const script_text = R"js(
     children.forEach(function (c) { node.appendChild(c); });
   }
   function settingsOf(p) {
-    if (!p.at.length) return axes.length ? "Not on the grid: the plan as written in the scenario." : "";
+    if (!p.at.length) return axes.length ? "Not on the grid: the plan as written in the scenario" : "";
     return axes.map(function (a, k) { return a.label + " = " + a.values[p.at[k]]; }).join(", ");
   }
 
@@ -156,7 +157,7 @@ const char* const script_text = R"js(
       });
     });
     var x = Number(p.x[3]), lighter = -1, heavier = -1;
-    plans.forEach(function (q, j) {
+    if (p.x[3] !== "") plans.forEach(function (q, j) {
       if (j === i || !q.frontier || q.group !== p.group || q.x[3] === "") return;
       var qx = Number(q.x[3]);
       if (qx < x && (lighter < 0 || qx > Number(plans[lighter].x[3]))) lighter = j;
@@ -211,6 +212,12 @@ const char* const script_text = R"js(
     var group = plans.map(function (q, j) { return j; }).filter(function (j) {
       return plans[j].group === p.group && plans[j].x[3] !== "" && plans[j].y[3] !== "";
     });
+    replace(root, []);
+    if (!group.length) {
+      document.getElementById("chart-caption").textContent = "No plan of this group has both figures to place on the chart.";
+      document.getElementById("chart-key").textContent = "";
+      return;
+    }
     var xs = group.map(function (j) { return Number(plans[j].x[3]); }), ys = group.map(function (j) { return Number(plans[j].y[3]); });
     var x0 = Math.min.apply(null, xs), x1 = Math.max.apply(null, xs), y0 = Math.min.apply(null, ys), y1 = Math.max.apply(null, ys);
     if (x1 === x0) { x0 -= 1; x1 += 1; }
@@ -221,7 +228,6 @@ const char* const script_text = R"js(
     y0 = Math.min(y0, 0) < 0 ? y0 - padY : Math.max(0, y0 - padY); y1 += padY;
     function sx(v) { return L + (v - x0) / (x1 - x0) * (W - L - R); }
     function sy(v) { return H - B - (v - y0) / (y1 - y0) * (H - T - B); }
-    replace(root, []);
     svg("title", {}, root).textContent = data.burden.label + " against " + data.benefit.label;
     ticks(x0, x1).forEach(function (v) {
       svg("line", { x1: sx(v), x2: sx(v), y1: T, y2: H - B, stroke: "#ddd" }, root);
@@ -252,8 +258,8 @@ const char* const script_text = R"js(
       svg("circle", { cx: cx, cy: cy, r: 15, fill: "none", stroke: "#D55E00", "stroke-width": 4 }, root);
       svg("text", { x: cx + (cx > W / 2 ? -20 : 20), y: cy - 18, "text-anchor": cx > W / 2 ? "end" : "start", "font-weight": "bold" }, root).textContent = "selected";
     }
-    document.getElementById("chart-caption").textContent = (p.group && p.group !== "all plans" ? "The " + p.group : "All plans") + " of the run, the selected one ringed. " +
-      group.filter(function (j) { return plans[j].frontier; }).length + " of " + group.length + " are on the frontier (not beaten on both).";
+    document.getElementById("chart-caption").textContent = (p.group && p.group !== "all plans" ? "The " + words(p.group) : "All plans") + " of the run, the selected one ringed. " +
+      "On the frontier (not beaten on both): " + group.filter(function (j) { return plans[j].frontier; }).length + " of " + group.length + ".";
     document.getElementById("chart-key").textContent = "Filled mark: on the frontier (joined by the line); hollow: another plan is lighter and reaches as many. " +
       (data.budget_asked ? "Square: within the budget; circle: over it. " : "") +
       "Thick ring: the selected plan; dashed rings: its neighbours. Select a mark or a neighbour to move there.";
@@ -264,7 +270,7 @@ const char* const script_text = R"js(
     current = i;
     document.getElementById("selected-name").textContent = p.name;
     document.getElementById("selected-settings").textContent = settingsOf(p) +
-      (p.channel ? (settingsOf(p) ? ". " : "") + "Channel: " + p.channel + (p.unit ? ", burden counted as " + p.unit : "") + "." : "");
+      (p.channel ? (settingsOf(p) ? ". " : "") + "Channel: " + words(p.channel) + (p.unit ? ", burden counted as " + p.unit : "") + "." : "");
     var b = document.getElementById("selected-budget");
     b.textContent = p.budget === null ? "" : p.budget ? "Within the budget." : "Over the budget.";
     b.className = "budget" + (p.budget === null ? "" : p.budget ? " within" : " over");
