@@ -101,7 +101,8 @@ std::string render_whatif_page(const WhatIfInput& in) {
     if (!in.question.empty()) page += "<p class=\"question\">" + html_escape(in.question) + "</p>\n";
     page += "</header>\n<div class=\"layout\">\n<div class=\"side\">\n"
             "<section class=\"controls\" aria-labelledby=\"controls-heading\">\n"
-            "<h2 id=\"controls-heading\">Choose a plan</h2>\n<div id=\"controls\"></div>\n"
+            "<h2 id=\"controls-heading\">Choose a plan</h2>\n<p class=\"note\">Tab to a control; the arrow keys move "
+            "it. Every position is a plan already run.</p>\n<div id=\"controls\"></div>\n"
             "<p class=\"control\"><label for=\"plan-choice\">Plan</label>\n<select id=\"plan-choice\"></select></p>\n"
             "<noscript><p>Moving between plans needs JavaScript; report.html and the CSV tables beside this page "
             "hold every figure.</p></noscript>\n</section>\n"
