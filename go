@@ -13,8 +13,10 @@ JOBS="${JOBS:-$(nproc)}"
 
 BUILD_PACKAGES=(g++ cmake make pkgconf tzdata libboost-random-dev libboost-graph-dev libeigen3-dev
                 libyaml-cpp-dev libcli11-dev doctest-dev)
-# Outside references the test suite checks against, and the browser that renders the report.
-REFERENCE_PACKAGES=(python3 python3-sklearn python3-statsmodels python3-scipy r-base-core r-cran-proc chromium fonts-liberation zlib1g-dev)
+# Outside references the test suite checks against, and the browser that renders the report
+# (and, driven by chromium-driver through python3-selenium, the what-if page).
+REFERENCE_PACKAGES=(python3 python3-sklearn python3-statsmodels python3-scipy r-base-core r-cran-proc chromium fonts-liberation zlib1g-dev
+                    chromium-driver python3-selenium)
 
 # libFuzzer comes with clang's runtime libraries.
 FUZZ_PACKAGES=(clang libclang-rt-14-dev)

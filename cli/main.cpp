@@ -24,6 +24,7 @@
 #include "report/run_files.hpp"
 #include "report/run_text.hpp"
 #include "report/study_answers.hpp"
+#include "report/whatif_run.hpp"
 #include "study/shift_effect.hpp"
 #include "cli/evaluate_command.hpp"
 #include "cli/generate_command.hpp"
@@ -79,7 +80,7 @@ struct FitCommand {
 
 void add_run_options(CLI::App* cmd, RunOptions& o) {
     cmd->add_option("scenario", o.scenario, "Scenario YAML file")->required();
-    cmd->add_option("-o,--out", o.out_dir, "Write tidy CSV and JSON tables and report.html to this directory");
+    cmd->add_option("-o,--out", o.out_dir, "Write tidy CSV and JSON tables, report.html and the what-if page whatif.html to this directory");
     cmd->add_option("--report", o.report_path, "Also write the self-contained HTML report to this file");
     cmd->add_flag("--notice-log", o.notice_log, "Also write every notice with its encounter id (patient-level)");
     cmd->add_flag("--task-log", o.task_log, "Also write every staff task with its encounter id (patient-level)");
@@ -182,22 +183,23 @@ int command_check(const std::string& path) {
     return 0;
 }
 
-// The scenario as loaded, or the sweep's grid of plans built from it; with
-// the replications the command line asks for.
-Scenario scenario_to_run(const RunOptions& opt, bool sweep) {
-    Scenario sc;
+// The scenario as loaded, or the sweep's grid of plans built from it (and
+// where each plan sits on the grid); with the replications the command line asks for.
+SweptScenario scenario_to_run(const RunOptions& opt, bool sweep) {
+    SweptScenario swept;
+    Scenario& sc = swept.scenario;
     if (sweep) {
         SweepRequest request;
         request.base_plan = opt.sweep_plan;
         for (const auto& v : opt.vary) request.axes.push_back(parse_sweep_axis(v));
         request.keep_other_plans = opt.keep_plans;
-        sc = sweep_scenario(opt.scenario, request);
+        swept = sweep_with_grid(opt.scenario, request);
         std::cout << "Sweep: " << sc.simulation.plans.size() << " plans\n";
     } else {
         sc = load_scenario(opt.scenario);
     }
     if (!opt.replications.empty()) override_replications(sc, "--replications", opt.replications);
-    return sc;
+    return swept;
 }
 
 // The run's settings from its options, each read against its range and the
@@ -230,7 +232,8 @@ int command_run(const RunOptions& opt, bool sweep) {
     settings.phases = &phases;
     settings.progress = terminal->replications();
     std::optional<PhaseLog::Span> reading(std::in_place, &phases, "read");
-    const Scenario sc = scenario_to_run(opt, sweep);
+    const SweptScenario swept = scenario_to_run(opt, sweep);
+    const Scenario& sc = swept.scenario;
     const PreparedPopulation prepared = prepare_population(sc.population);
     reading.reset();
     std::optional<PhaseLog::Span> preparing(std::in_place, &phases, "prepare");
@@ -257,12 +260,13 @@ int command_run(const RunOptions& opt, bool sweep) {
         effect = shift_effect(sc, factory, settings.threads);
         std::cout << "\n" << shift_effect_text(*effect, sc.simulation.zone);
     }
-    std::string report;
+    std::string report, whatif;
     if (!opt.out_dir.empty() || !opt.report_path.empty()) {
         ReportInput input = report_input_for_run(sc, out, settings);
         if (period_warning) input.key_findings.push_back(*period_warning);
         if (out.evaluation) add_evaluation(input, *out.evaluation, sc.score_label);
         report = render_report(input);
+        whatif = render_whatif_page(whatif_input_for_run(sc, out, settings, input, sweep ? &swept.grid : nullptr));
     }
     if (!opt.report_path.empty()) {
         write_output_file(opt.report_path, report);
@@ -273,6 +277,7 @@ int command_run(const RunOptions& opt, bool sweep) {
         if (effect) more.push_back(shift_effect_table(*effect));
         std::vector<OutputFile> files = run_output_files(sc, out, settings, std::move(more));
         files.push_back({"report.html", report});
+        files.push_back({"whatif.html", whatif});
         files.push_back({"run_record.json",
                          run_record_json(sc, settings, std::chrono::duration<double>(std::chrono::steady_clock::now() - started).count())});
         write_output_files(opt.out_dir, files);

@@ -407,11 +407,14 @@ private:
     std::vector<std::string> role_variants_;  // names of role copies made so far
 };
 
-// Appends every grid point's plan, the last axis varying fastest.
-void add_grid_plans(YAML::Node& plans, Grid& grid, const std::vector<SweepAxis>& axes, std::size_t size) {
+// Appends every grid point's plan, the last axis varying fastest, and its
+// position to `positions`.
+void add_grid_plans(YAML::Node& plans, Grid& grid, const std::vector<SweepAxis>& axes, std::size_t size,
+                    std::vector<std::vector<std::size_t>>& positions) {
     std::vector<std::size_t> at(axes.size(), 0);
     for (std::size_t g = 0; g < size; ++g) {
         plans.push_back(grid.plan_at(at));
+        positions.push_back(at);
         for (std::size_t a = axes.size(); a-- > 0;) {
             if (++at[a] < axes[a].values.size()) break;
             at[a] = 0;
@@ -431,7 +434,7 @@ std::string plan_named_in(const std::string& field, const YAML::Node& plans) {
     return " in plan '" + plans[k]["name"].Scalar() + "'";
 }
 
-Scenario build_sweep(const std::string& path, const SweepRequest& request) {
+SweptScenario build_sweep(const std::string& path, const SweepRequest& request) {
     std::ifstream in(path);
     if (!in) throw InputError(path, 0, 0, "", "cannot open scenario file");
     std::stringstream text;
@@ -452,15 +455,19 @@ Scenario build_sweep(const std::string& path, const SweepRequest& request) {
 
     Grid grid(root, base_node, base, axes);
     YAML::Node plans(YAML::NodeType::Sequence);
+    SweepGrid placed{axes, {}};
     if (request.keep_other_plans)
-        for (std::size_t k = 0; k < root["plans"].size(); ++k) plans.push_back(YAML::Clone(root["plans"][k]));
-    add_grid_plans(plans, grid, axes, size);
+        for (std::size_t k = 0; k < root["plans"].size(); ++k) {
+            plans.push_back(YAML::Clone(root["plans"][k]));
+            placed.positions.emplace_back();
+        }
+    add_grid_plans(plans, grid, axes, size, placed.positions);
     root["plans"] = plans;
     root.remove("sweep");
     YAML::Emitter out;
     out << root;
     try {
-        return parse_scenario(out.c_str(), path + " (swept)", dir);
+        return {parse_scenario(out.c_str(), path + " (swept)", dir), std::move(placed)};
     } catch (const InputError& e) {
         // The generated file's lines mean nothing to the user; name the
         // axes instead, one of which gave the value, and the grid point's
@@ -473,6 +480,10 @@ Scenario build_sweep(const std::string& path, const SweepRequest& request) {
 }  // namespace
 
 Scenario sweep_scenario(const std::string& path, const SweepRequest& request) {
+    return sweep_with_grid(path, request).scenario;
+}
+
+SweptScenario sweep_with_grid(const std::string& path, const SweepRequest& request) {
     // The scenario's own text is checked by parse_scenario first; a yaml-cpp
     // exception from a later step is still the file's, and must name it.
     try {

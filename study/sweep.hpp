@@ -58,4 +58,18 @@ struct SweepRequest {
 // comes from.
 Scenario sweep_scenario(const std::string& scenario_path, const SweepRequest& request);
 
+// Where each plan of a swept scenario sits on the grid, for views that move
+// along one axis at a time (the what-if page).
+struct SweepGrid {
+    std::vector<SweepAxis> axes;  // the axes swept, values as written into the scenario
+    // Per plan, in the scenario's plan order: the index of its value on each
+    // axis; empty for a plan kept as written (keep_other_plans).
+    std::vector<std::vector<std::size_t>> positions;
+};
+struct SweptScenario {
+    Scenario scenario;
+    SweepGrid grid;
+};
+SweptScenario sweep_with_grid(const std::string& scenario_path, const SweepRequest& request);
+
 }  // namespace tocsin

@@ -292,6 +292,7 @@ TEST_CASE("end_to_end.stress_test_sweep_and_evaluate_goldens") {
     REQUIRE(sweep.exit_code == 0);
     check_golden_text(dir, all_tables(dir.path("sweep")), "sweep_all_tables.txt");
     check_golden(dir.path("sweep/report.html"), "sweep_report.html");
+    check_golden(dir.path("sweep/whatif.html"), "sweep_whatif.html");
     check_golden_text(dir, terminal_text(sweep.output), "sweep_terminal.txt");
 
     const auto evaluation = run_tocsin("evaluate " + demo + " --probability divide:100 --evaluate-per-case 5 --out " +
