@@ -8,6 +8,7 @@
 #include <fstream>
 #include <optional>
 #include <iostream>
+#include <memory>
 #include <cstdio>
 #include <optional>
 #include <sstream>
@@ -39,6 +40,14 @@
 #include "study/scenario_keys.hpp"
 #include "sim/simulate.hpp"
 #include "study/sweep.hpp"
+#include "study/work_items.hpp"
+#ifdef TOCSIN_MPI
+#include "cli/mpi_ranks.hpp"
+#else
+namespace tocsin {
+class MpiRanks {};  // a build without MPI runs in one process
+}  // namespace tocsin
+#endif
 
 using namespace tocsin;
 
@@ -216,8 +225,19 @@ Scenario scenario_to_run(const RunOptions& opt, bool sweep) {
     return sc;
 }
 
-int command_run(const RunOptions& opt, bool sweep) {
-    const auto started = std::chrono::steady_clock::now();
+// What a run needs before it starts; every rank of an MPI run makes the same.
+struct PreparedRun {
+    std::chrono::steady_clock::time_point started = std::chrono::steady_clock::now();
+    Scenario sc;
+    PopulationFactory factory;
+    std::optional<ChartOpeningLog> openings;
+    std::optional<std::string> period_warning;
+    RunSettings settings;
+};
+
+// Fills `run` in place (its settings point at its openings). Only the rank
+// that writes checks the output directory.
+void prepare_run(const RunOptions& opt, bool sweep, bool writes, PreparedRun& run) {
     std::optional<double> max_burden;
     if (!opt.max_burden.empty()) max_burden = option_real(option_specs().max_burden, "--max-burden", opt.max_burden);
     const unsigned threads = thread_count(opt.threads);
@@ -226,23 +246,23 @@ int command_run(const RunOptions& opt, bool sweep) {
         if (!find_metric(*name))
             throw InputError("command line", 0, 0, option,
                              "unknown metric '" + *name + "' (expected one of " + metric_names() + ")");
-    if (!opt.out_dir.empty()) check_output_directory(opt.out_dir);  // before the long part, not after
-    const Scenario sc = scenario_to_run(opt, sweep);
+    if (writes && !opt.out_dir.empty()) check_output_directory(opt.out_dir);  // before the long part, not after
+    run.sc = scenario_to_run(opt, sweep);
+    const Scenario& sc = run.sc;
     const PreparedPopulation prepared = prepare_population(sc.population);
     std::cout << describe_prepared(sc.population, prepared);
-    const std::optional<std::string> period_warning = reporting_period_warning(sc, prepared);
-    if (period_warning) std::cout << *period_warning << "\n";
-    const PopulationFactory factory = population_factory(sc.population, prepared);
-    std::optional<ChartOpeningLog> openings;
+    run.period_warning = reporting_period_warning(sc, prepared);
+    if (run.period_warning) std::cout << *run.period_warning << "\n";
+    run.factory = population_factory(sc.population, prepared);
     if (sc.simulation.chart_openings && !sc.simulation.chart_openings->replay_path.empty()) {
         if (!prepared.log || sc.population.bootstrap)
             throw InputError(sc.file, 0, 0, "chart_openings.replay",
                              "replayed chart openings belong to the replayed log; with a bootstrapped or generated "
                              "population, generate chart openings (openings_per_hour) instead");
-        openings = replayed_openings(sc, *prepared.log);
+        run.openings = replayed_openings(sc, *prepared.log);
     }
-    RunSettings settings;
-    settings.replayed_openings = openings ? &*openings : nullptr;
+    RunSettings& settings = run.settings;
+    settings.replayed_openings = run.openings ? &*run.openings : nullptr;
     settings.threads = threads;
     settings.notice_log = opt.notice_log;
     settings.task_log = opt.task_log;
@@ -251,7 +271,47 @@ int command_run(const RunOptions& opt, bool sweep) {
     settings.benefit_metric = opt.benefit_metric;
     settings.budget_limit = max_burden;
     settings.budget_metric = opt.budget_metric;
-    const RunOutput out = run_scenario(sc, factory, settings);
+}
+
+#ifdef TOCSIN_MPI
+// Across MPI ranks: every rank prepares the run; rank 0 distributes and
+// returns the output, the others compute what they are given and return nothing.
+std::optional<RunOutput> run_on_ranks(const RunOptions& opt, bool sweep, MpiRanks& ranks, PreparedRun& run) {
+    std::exception_ptr failed;
+    try {
+        prepare_run(opt, sweep, ranks.writes(), run);
+    } catch (...) {
+        failed = std::current_exception();
+    }
+    if (!ranks.agree_on_setup(failed)) return std::nullopt;
+    if (!ranks.writes()) {
+        PopulationCache populations(run.factory);
+        ranks.serve([&](const WorkItem& item) {
+            return run_work_item(run.sc, populations, run.settings, item, run.settings.threads);
+        });
+        return std::nullopt;
+    }
+    return run_scenario_distributed(run.sc, run.factory, run.settings, ranks);
+}
+#endif
+
+int command_run(const RunOptions& opt, bool sweep, MpiRanks* ranks) {
+    PreparedRun run;
+    std::optional<RunOutput> ran;
+#ifdef TOCSIN_MPI
+    if (ranks) {
+        ran = run_on_ranks(opt, sweep, *ranks, run);
+        if (!ran) return 0;  // a worker rank; rank 0 reports any failure
+    }
+#else
+    (void)ranks;
+#endif
+    if (!ran) {
+        prepare_run(opt, sweep, true, run);
+        ran = run_scenario(run.sc, run.factory, run.settings);
+    }
+    const auto& [started, sc, factory, openings, period_warning, settings] = run;
+    const RunOutput& out = *ran;
     std::cout << run_text(sc, out, settings);
     std::optional<ShiftEffect> effect;
     if (sc.population.shift) {
@@ -343,9 +403,26 @@ int command_fit(const FitCommand& cmd) {
     return 0;
 }
 
+// Under mpirun (a build with TOCSIN_MPI) every rank runs this same program;
+// the ranks other than 0 print nothing. Otherwise there are no ranks.
+std::unique_ptr<MpiRanks> join_ranks(int& argc, char**& argv) {
+#ifdef TOCSIN_MPI
+    std::unique_ptr<MpiRanks> ranks = MpiRanks::join(argc, argv);
+    if (ranks && !ranks->writes()) {
+        std::cout.rdbuf(nullptr);
+        std::cerr.rdbuf(nullptr);  // its errors travel to rank 0, which prints them
+    }
+    return ranks;
+#else
+    (void)argc, (void)argv;
+    return nullptr;
+#endif
+}
+
 }  // namespace
 
 int main(int argc, char** argv) {
+    const std::unique_ptr<MpiRanks> ranks = join_ranks(argc, argv);
     CLI::App app{"tocsin: simulate clinical alert workflows and the staff work they cause.\n" + cautions_text()};
     app.set_version_flag("--version", std::string("tocsin ") + TOCSIN_VERSION);
     app.require_subcommand(1);
@@ -400,8 +477,8 @@ int main(int argc, char** argv) {
     }
     try {
         if (*check) return command_check(check_path);
-        if (*run) return command_run(run_opt, false);
-        if (*sweep) return command_run(sweep_opt, true);
+        if (*run) return command_run(run_opt, false, ranks.get());
+        if (*sweep) return command_run(sweep_opt, true, ranks.get());
         if (*fit) return command_fit(fit_cmd);
         if (*size) return command_review_size(size_opt);
         if (*evaluate) return run_evaluate_command(evaluate_cmd);
