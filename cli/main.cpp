@@ -10,6 +10,7 @@
 #include <iostream>
 #include <memory>
 #include <cstdio>
+#include <cstdlib>
 #include <optional>
 #include <sstream>
 #include <thread>
@@ -415,6 +416,13 @@ std::unique_ptr<MpiRanks> join_ranks(int& argc, char**& argv) {
     return ranks;
 #else
     (void)argc, (void)argv;
+    // Under mpirun every rank would run the whole command and write the same files.
+    for (const char* name : {"OMPI_COMM_WORLD_SIZE", "PMI_SIZE"})
+        if (const char* size = std::getenv(name); size && std::string(size) != "1") {
+            std::cerr << "tocsin: error: this build has no MPI (configure with -DTOCSIN_MPI=ON); under mpirun each of the "
+                      << size << " ranks would run the whole command\n";
+            std::exit(2);
+        }
     return nullptr;
 #endif
 }

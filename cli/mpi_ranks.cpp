@@ -17,6 +17,8 @@
 #include <string>
 #include <thread>
 
+#include <sys/resource.h>
+
 #include "models/errors.hpp"
 #include "study/work_codec.hpp"
 
@@ -35,14 +37,24 @@ namespace {
 enum Tag : int { item_tag = 1, stop_tag = 2, result_tag = 3, error_tag = 4, skipped_tag = 5 };
 
 // The work done by one rank, reported on rank 0's terminal at the end.
+// `cpu_seconds` is the whole process's (set-up included): on a shared
+// machine a rank can be busy for long without getting a core.
 struct Busy {
     double seconds = 0;
     std::uint64_t items = 0;
+    double cpu_seconds = 0;
     template <typename Archive>
     void serialize(Archive& a, unsigned) {
-        a & seconds & items;
+        a & seconds & items & cpu_seconds;
     }
 };
+
+double process_cpu_seconds() {
+    rusage u{};
+    getrusage(RUSAGE_SELF, &u);
+    return static_cast<double>(u.ru_utime.tv_sec + u.ru_stime.tv_sec) +
+           static_cast<double>(u.ru_utime.tv_usec + u.ru_stime.tv_usec) / 1e6;
+}
 
 // A failure as it travels: the exit code it would have in one process (2 for
 // bad input, 1 otherwise), where it happened, and the message.
@@ -225,6 +237,7 @@ void MpiRanks::serve(const std::function<WorkResult(const WorkItem&)>& compute) 
             mpi_->world.send(0, error_tag, encode_failure(failure_of(std::current_exception(), rank_, size_, item_place(item), item)));
         }
     }
+    busy.cpu_seconds = process_cpu_seconds();
     mpi::gather(mpi_->world, busy, 0);
 }
 
@@ -232,14 +245,14 @@ void MpiRanks::release_workers(double own_seconds, std::uint64_t own_items, doub
     released_ = true;
     for (unsigned w = 1; w < size_; ++w) mpi_->world.send(static_cast<int>(w), stop_tag);
     std::vector<Busy> busy;
-    mpi::gather(mpi_->world, Busy{own_seconds, own_items}, busy, 0);
+    mpi::gather(mpi_->world, Busy{own_seconds, own_items, process_cpu_seconds()}, busy, 0);
     if (!(wall_seconds > 0)) return;
     // On stderr, so that what a run prints on stdout is the same on any number of ranks.
     std::fprintf(stderr, "Ranks: %u; wall %.2f s; busy time per rank (share of wall):\n", size_, wall_seconds);
     for (unsigned r = 0; r < busy.size(); ++r)
-        std::fprintf(stderr, "  rank %u: %.2f s (%.0f%%), %llu work item%s%s\n", r, busy[r].seconds,
-                     100 * busy[r].seconds / wall_seconds, static_cast<unsigned long long>(busy[r].items),
-                     busy[r].items == 1 ? "" : "s", r == 0 ? " and replication 0 whole" : "");
+        std::fprintf(stderr, "  rank %u: %.2f s (%.0f%%), %llu work item%s%s; CPU %.2f s since it started\n", r,
+                     busy[r].seconds, 100 * busy[r].seconds / wall_seconds, static_cast<unsigned long long>(busy[r].items),
+                     busy[r].items == 1 ? "" : "s", r == 0 ? " and replication 0 whole" : "", busy[r].cpu_seconds);
 }
 
 std::vector<WorkResult> MpiRanks::distribute(std::span<const WorkItem> items, const std::function<void()>& first,
