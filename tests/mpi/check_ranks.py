@@ -1,7 +1,7 @@
 #!/usr/bin/env python3
 """Runs and sweeps across MPI ranks against the same run in one process.
 
-    check_ranks.py TOCSIN SOURCE_DIR WORK_DIR identical run|sweep RANKS THREADS
+    check_ranks.py TOCSIN SOURCE_DIR WORK_DIR identical run|sweep|resampled RANKS THREADS
     check_ranks.py TOCSIN SOURCE_DIR WORK_DIR fails setup|work RANKS
 
 `identical`: the run in one process (one thread) and under `mpirun -np RANKS`
@@ -21,12 +21,15 @@ import sys
 tocsin, source, work, mode, what, ranks = sys.argv[1:7]
 scenario = os.path.join(source, "scenarios", "demo.yaml")
 # Small and quick: four replications of the demo's plans with both
-# patient-level logs (items are whole replications), or a 5 x 2 grid of the
-# first plan over five replications (items are blocks of grid points).
+# patient-level logs (items are whole replications), a 5 x 2 grid of the
+# first plan over five replications (items are blocks of grid points), or six
+# replications resampled from the invented log.
 args = {
     "run": ["run", scenario, "-r", "4", "--notice-log", "--task-log"],
     "sweep": ["sweep", scenario, "--vary", "plan.rule.threshold=50:70:5", "--vary",
               "plan.rule.snooze_minutes=60,240", "-r", "5", "--max-burden", "0.5"],
+    # A replayed log, resampled by days: every rank reads the log itself.
+    "resampled": ["run", os.path.join(source, "scenarios", "fernhollow-resampled.yaml"), "-r", "6"],
 }
 env = dict(os.environ, OMPI_MCA_btl="self,vader", OMPI_MCA_btl_vader_single_copy_mechanism="none")
 mpirun = ["mpirun", "--oversubscribe", "-np", ranks]
