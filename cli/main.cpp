@@ -6,6 +6,7 @@
 #include <chrono>
 #include <filesystem>
 #include <fstream>
+#include <functional>
 #include <optional>
 #include <iostream>
 #include <memory>
@@ -236,9 +237,10 @@ struct PreparedRun {
     RunSettings settings;
 };
 
-// Fills `run` in place (its settings point at its openings). Only the rank
-// that writes checks the output directory.
-void prepare_run(const RunOptions& opt, bool sweep, bool writes, PreparedRun& run) {
+// Fills `run` in place (its settings point at its openings), in two steps:
+// the options and the scenario, then the population. Only the rank that
+// writes checks the output directory.
+void prepare_scenario(const RunOptions& opt, bool sweep, bool writes, PreparedRun& run) {
     std::optional<double> max_burden;
     if (!opt.max_burden.empty()) max_burden = option_real(option_specs().max_burden, "--max-burden", opt.max_burden);
     const unsigned threads = thread_count(opt.threads);
@@ -249,8 +251,15 @@ void prepare_run(const RunOptions& opt, bool sweep, bool writes, PreparedRun& ru
                              "unknown metric '" + *name + "' (expected one of " + metric_names() + ")");
     if (writes && !opt.out_dir.empty()) check_output_directory(opt.out_dir);  // before the long part, not after
     run.sc = scenario_to_run(opt, sweep);
+    run.settings.threads = threads;
+    run.settings.budget_limit = max_burden;
+}
+
+// `prepare` reads the log (or, across ranks, receives it) and prepares the population.
+void prepare_population_of(const RunOptions& opt, PreparedRun& run,
+                           const std::function<PreparedPopulation(const PopulationSetup&)>& prepare) {
     const Scenario& sc = run.sc;
-    const PreparedPopulation prepared = prepare_population(sc.population);
+    const PreparedPopulation prepared = prepare(sc.population);
     std::cout << describe_prepared(sc.population, prepared);
     run.period_warning = reporting_period_warning(sc, prepared);
     if (run.period_warning) std::cout << *run.period_warning << "\n";
@@ -264,13 +273,11 @@ void prepare_run(const RunOptions& opt, bool sweep, bool writes, PreparedRun& ru
     }
     RunSettings& settings = run.settings;
     settings.replayed_openings = run.openings ? &*run.openings : nullptr;
-    settings.threads = threads;
     settings.notice_log = opt.notice_log;
     settings.task_log = opt.task_log;
     settings.progress = progress_bar();
     settings.burden_metric = opt.burden_metric;
     settings.benefit_metric = opt.benefit_metric;
-    settings.budget_limit = max_burden;
     settings.budget_metric = opt.budget_metric;
 }
 
@@ -278,9 +285,20 @@ void prepare_run(const RunOptions& opt, bool sweep, bool writes, PreparedRun& ru
 // Across MPI ranks: every rank prepares the run; rank 0 distributes and
 // returns the output, the others compute what they are given and return nothing.
 std::optional<RunOutput> run_on_ranks(const RunOptions& opt, bool sweep, MpiRanks& ranks, PreparedRun& run) {
+    // Each step ends with every rank agreeing, so that the collective read
+    // of the log is reached by every rank or by none.
     std::exception_ptr failed;
     try {
-        prepare_run(opt, sweep, ranks.writes(), run);
+        prepare_scenario(opt, sweep, ranks.writes(), run);
+    } catch (...) {
+        failed = std::current_exception();
+    }
+    if (!ranks.agree_on_setup(failed)) return std::nullopt;
+    try {
+        prepare_population_of(opt, run, [&](const PopulationSetup& setup) {
+            return setup.source == PopulationSource::replay ? ranks.prepare_shared_population(setup)
+                                                            : prepare_population(setup);
+        });
     } catch (...) {
         failed = std::current_exception();
     }
@@ -308,7 +326,8 @@ int command_run(const RunOptions& opt, bool sweep, MpiRanks* ranks) {
     (void)ranks;
 #endif
     if (!ran) {
-        prepare_run(opt, sweep, true, run);
+        prepare_scenario(opt, sweep, true, run);
+        prepare_population_of(opt, run, [](const PopulationSetup& setup) { return prepare_population(setup); });
         ran = run_scenario(run.sc, run.factory, run.settings);
     }
     const auto& [started, sc, factory, openings, period_warning, settings] = run;

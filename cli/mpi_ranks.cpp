@@ -6,6 +6,7 @@
 #include <boost/serialization/string.hpp>
 #include <boost/serialization/vector.hpp>
 
+#include <algorithm>
 #include <atomic>
 #include <chrono>
 #include <cstdio>
@@ -20,6 +21,7 @@
 #include <sys/resource.h>
 
 #include "models/errors.hpp"
+#include "models/replay.hpp"
 #include "study/work_codec.hpp"
 
 namespace tocsin {
@@ -207,6 +209,40 @@ bool MpiRanks::agree_on_setup(std::exception_ptr own_error) {
     }
     setup_agreed_ = true;
     return true;
+}
+
+namespace {
+
+// Broadcasts rank 0's bytes in pieces of 1 GiB (MPI counts are ints).
+void broadcast_bytes(const mpi::communicator& world, std::string& bytes) {
+    std::uint64_t size = bytes.size();
+    mpi::broadcast(world, size, 0);
+    bytes.resize(size);
+    constexpr std::uint64_t piece = std::uint64_t{1} << 30;
+    for (std::uint64_t at = 0; at < size; at += piece)
+        mpi::broadcast(world, bytes.data() + at, static_cast<int>(std::min(piece, size - at)), 0);
+}
+
+}  // namespace
+
+PreparedPopulation MpiRanks::prepare_shared_population(const PopulationSetup& setup) {
+    std::exception_ptr read_error;
+    std::string bytes;
+    if (rank_ == 0) {
+        try {
+            bytes = encode_population(load_replay(setup.replay, setup.zone));
+        } catch (...) {
+            read_error = std::current_exception();
+        }
+    }
+    bool read = !read_error;
+    mpi::broadcast(mpi_->world, read, 0);
+    if (read_error) std::rethrow_exception(read_error);
+    if (!read) throw std::runtime_error("rank 0 could not read the log");  // rank 0 reports why
+    broadcast_bytes(mpi_->world, bytes);
+    Population log = decode_population(bytes);
+    std::string().swap(bytes);  // the log is held once
+    return prepare_population(setup, std::move(log));
 }
 
 void MpiRanks::serve(const std::function<WorkResult(const WorkItem&)>& compute) {

@@ -31,6 +31,13 @@ public:
     // nothing and stop). Returns true when all are ready.
     bool agree_on_setup(std::exception_ptr own_error);
 
+    // A collective step of the set-up: rank 0 reads the replayed log and
+    // broadcasts it (measured faster than every rank reading it: README,
+    // "Across MPI ranks"); every rank then prepares the population from it.
+    // Throws on every rank when rank 0 could not read it (rank 0's own error
+    // there), so every rank reaches agree_on_setup.
+    PreparedPopulation prepare_shared_population(const PopulationSetup& setup);
+
     // Rank 0: hands out the items and gathers their results (see WorkDistributor).
     std::vector<WorkResult> distribute(std::span<const WorkItem> items, const std::function<void()>& first,
                                        const std::function<WorkResult(const WorkItem&)>& compute) override;

@@ -1,6 +1,7 @@
 #include "study/work_codec.hpp"
 
 #include <cstring>
+#include <map>
 #include <stdexcept>
 #include <type_traits>
 
@@ -14,6 +15,11 @@ namespace {
 static_assert(sizeof(PlanFigures) == 496, "PlanFigures changed: list the new field in fields(PlanFigures) below");
 static_assert(sizeof(UnitFigures) == 312, "UnitFigures changed: list the new field in fields(UnitFigures) below");
 static_assert(sizeof(LoggedNotice) == 176, "LoggedNotice changed: list the new field in fields(LoggedNotice) below");
+static_assert(sizeof(Population) == 304, "Population changed: list the new field in fields(Population) below");
+static_assert(sizeof(Encounter) == 72, "Encounter changed: list the new field in fields(Encounter) below");
+static_assert(sizeof(Score) == 24, "Score changed: list the new field in fields(Score) below");
+static_assert(sizeof(Exclusions) == 192, "Exclusions changed: list the new field in fields(Exclusions) below");
+static_assert(sizeof(SkippedRows) == 32, "SkippedRows changed: list the new field in fields(SkippedRows) below");
 static_assert(sizeof(LoggedTask) == 288, "LoggedTask changed: list the new field in fields(LoggedTask) below");
 
 class Writer {
@@ -38,6 +44,11 @@ public:
     void operator()(const std::vector<T>& v) {
         (*this)(static_cast<std::uint64_t>(v.size()));
         for (const T& e : v) (*this)(e);
+    }
+    template <typename K, typename T>
+    void operator()(const std::map<K, T>& m) {
+        (*this)(static_cast<std::uint64_t>(m.size()));
+        for (const auto& [k, v] : m) (*this)(k), (*this)(v);
     }
     template <typename T>
         requires std::is_class_v<T>
@@ -71,6 +82,16 @@ public:
     void operator()(std::vector<T>& v) {
         v.assign(count(1), T{});  // every element takes a byte at least
         for (T& e : v) (*this)(e);
+    }
+    template <typename K, typename T>
+    void operator()(std::map<K, T>& m) {
+        m.clear();
+        for (std::size_t n = count(1); n > 0; --n) {
+            K k{};
+            T v{};
+            (*this)(k), (*this)(v);
+            m.emplace(std::move(k), std::move(v));
+        }
     }
     template <typename T>
         requires std::is_class_v<T>
@@ -143,6 +164,31 @@ void fields(V& v, LoggedTask& t) {
 }
 
 template <typename V>
+void fields(V& v, Encounter& e) {
+    v(e.id), v(e.unit), v(e.admitted), v(e.discharged), v(e.outcome_at);
+}
+
+template <typename V>
+void fields(V& v, Score& s) {
+    v(s.available_at), v(s.scored_at), v(s.value);
+}
+
+template <typename V>
+void fields(V& v, SkippedRows& r) {
+    v(r.count), v(r.first_lines);
+}
+
+template <typename V>
+void fields(V& v, Exclusions& x) {
+    v(x.scores_by_reason), v(x.encounters_by_reason), v(x.notes), v(x.rows_skipped);
+}
+
+template <typename V>
+void fields(V& v, Population& p) {
+    v(p.units), v(p.encounters), v(p.scores), v(p.score_start), v(p.excluded), v(p.period_start), v(p.period_end);
+}
+
+template <typename V>
 void fields(V& v, WorkResult& r) {
     v(r.item), v(r.figures), v(r.unit_figures), v(r.notice_log), v(r.task_log);
 }
@@ -169,5 +215,7 @@ std::string encode_work_item(const WorkItem& item) { return encode(item); }
 WorkItem decode_work_item(const std::string& bytes) { return decode<WorkItem>(bytes); }
 std::string encode_work_result(const WorkResult& result) { return encode(result); }
 WorkResult decode_work_result(const std::string& bytes) { return decode<WorkResult>(bytes); }
+std::string encode_population(const Population& population) { return encode(population); }
+Population decode_population(const std::string& bytes) { return decode<Population>(bytes); }
 
 }  // namespace tocsin

@@ -17,4 +17,8 @@ std::string encode_work_result(const WorkResult& result);
 // Throws std::runtime_error when the bytes end early or run on.
 WorkResult decode_work_result(const std::string& bytes);
 
+// A replayed log, read once and sent to the other ranks.
+std::string encode_population(const Population& population);
+Population decode_population(const std::string& bytes);
+
 }  // namespace tocsin

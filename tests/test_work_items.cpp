@@ -6,6 +6,7 @@
 #include <algorithm>
 #include <bit>
 #include <cmath>
+#include <cstring>
 #include <limits>
 #include <set>
 
@@ -153,4 +154,33 @@ TEST_CASE("work_items.a_run_cut_into_items_writes_the_same_files") {
         CHECK(distributor.handed_out == (logs ? 3u : 3u * sc.simulation.plans.size()));
         CHECK(all_files(sc, whole, settings) == all_files(sc, cut, settings));
     }
+}
+
+TEST_CASE("work_items.a_replayed_log_travels_whole") {
+    // What rank 0 broadcasts: the invented log as read, with its exclusions
+    // (scores after discharge, a repeated local hour) and its skipped rows.
+    const Scenario sc = load_scenario(std::string(TOCSIN_SOURCE_DIR) + "/scenarios/fernhollow-replay.yaml");
+    const PreparedPopulation read = prepare_population(sc.population);
+    REQUIRE(read.log);
+    const Population& log = *read.log;
+    const std::string bytes = encode_population(log);
+    const Population back = decode_population(bytes);
+    CHECK(back.units == log.units);
+    REQUIRE(back.encounters.size() == log.encounters.size());
+    CHECK(back.encounters.back().id == log.encounters.back().id);
+    CHECK(back.encounters.back().outcome_at == log.encounters.back().outcome_at);
+    REQUIRE(back.scores.size() == log.scores.size());
+    CHECK(std::memcmp(back.scores.data(), log.scores.data(), log.scores.size() * sizeof(Score)) == 0);
+    CHECK(back.score_start == log.score_start);
+    CHECK(back.excluded.scores_by_reason == log.excluded.scores_by_reason);
+    CHECK(!log.excluded.scores_by_reason.empty());
+    CHECK(back.excluded.notes == log.excluded.notes);
+    CHECK(back.excluded.rows_skipped.size() == log.excluded.rows_skipped.size());
+    CHECK(back.period_start == log.period_start);
+    CHECK(back.period_end == log.period_end);
+    CHECK(encode_population(back) == bytes);
+    // Prepared from the received log, the population is the one prepared from the file.
+    const PreparedPopulation received = prepare_population(sc.population, back);
+    CHECK(encode_population(population_for(sc.population, received, 0)) ==
+          encode_population(population_for(sc.population, read, 0)));
 }

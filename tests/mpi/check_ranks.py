@@ -28,7 +28,7 @@ args = {
     "run": ["run", scenario, "-r", "4", "--notice-log", "--task-log"],
     "sweep": ["sweep", scenario, "--vary", "plan.rule.threshold=50:70:5", "--vary",
               "plan.rule.snooze_minutes=60,240", "-r", "5", "--max-burden", "0.5"],
-    # A replayed log, resampled by days: every rank reads the log itself.
+    # A replayed log, resampled by days: rank 0 reads it and broadcasts it.
     "resampled": ["run", os.path.join(source, "scenarios", "fernhollow-resampled.yaml"), "-r", "6"],
 }
 env = dict(os.environ, OMPI_MCA_btl="self,vader", OMPI_MCA_btl_vader_single_copy_mechanism="none")
