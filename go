@@ -18,6 +18,9 @@ BUILD_PACKAGES=(g++ cmake make pkgconf tzdata libboost-random-dev libboost-graph
 REFERENCE_PACKAGES=(python3 python3-sklearn python3-statsmodels python3-scipy r-base-core r-cran-proc chromium fonts-liberation zlib1g-dev
                     chromium-driver python3-selenium)
 
+# Runs and sweeps across MPI ranks (-DTOCSIN_MPI=ON): Boost.MPI and Open MPI's mpirun.
+MPI_PACKAGES=(libboost-mpi-dev openmpi-bin)
+
 # libFuzzer comes with clang's runtime libraries.
 FUZZ_PACKAGES=(clang libclang-rt-14-dev)
 
@@ -82,8 +85,8 @@ case "${1:-}" in
         ./build/tocsin run scenarios/demo.yaml --out out/demo
         ;;
     test)
-        install_missing "${BUILD_PACKAGES[@]}" "${REFERENCE_PACKAGES[@]}"
-        build build all -DTOCSIN_TESTS=ON -DTOCSIN_BENCH=ON
+        install_missing "${BUILD_PACKAGES[@]}" "${REFERENCE_PACKAGES[@]}" "${MPI_PACKAGES[@]}"
+        build build all -DTOCSIN_TESTS=ON -DTOCSIN_BENCH=ON -DTOCSIN_MPI=ON
         (cd build && ctest -j "$JOBS" --output-on-failure --timeout 600)
         # Second pass: the same tests under AddressSanitizer + UndefinedBehaviorSanitizer.
         cmake -S . -B build-sanitize -DCMAKE_BUILD_TYPE=RelWithDebInfo -DTOCSIN_SANITIZE=ON -DTOCSIN_TESTS=ON -DTOCSIN_BENCH=OFF > /dev/null
@@ -106,9 +109,12 @@ case "${1:-}" in
         build build all -DTOCSIN_TESTS=ON -DTOCSIN_BENCH=ON
         ;;
     bench)
-        install_missing "${BUILD_PACKAGES[@]}"
-        build build all -DTOCSIN_TESTS=ON -DTOCSIN_BENCH=ON
-        for b in build/bench/bench_*; do [ -x "$b" ] && "$b"; done
+        install_missing "${BUILD_PACKAGES[@]}" "${MPI_PACKAGES[@]}"
+        build build all -DTOCSIN_TESTS=ON -DTOCSIN_BENCH=ON -DTOCSIN_MPI=ON
+        for b in build/bench/bench_*; do
+            case "$b" in */bench_mpi_*) continue ;; esac  # run under mpirun with arguments (DEVELOPERS.md)
+            [ -x "$b" ] && "$b"
+        done
         ;;
     keys)  # refresh the README's scenario key reference from the built tool
         build build tocsin

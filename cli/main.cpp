@@ -6,9 +6,12 @@
 #include <chrono>
 #include <filesystem>
 #include <fstream>
+#include <functional>
 #include <optional>
 #include <iostream>
+#include <memory>
 #include <cstdio>
+#include <cstdlib>
 #include <optional>
 #include <sstream>
 #include <thread>
@@ -42,6 +45,14 @@
 #include "study/scenario_keys.hpp"
 #include "sim/simulate.hpp"
 #include "study/sweep.hpp"
+#include "study/work_items.hpp"
+#ifdef TOCSIN_MPI
+#include "cli/mpi_ranks.hpp"
+#else
+namespace tocsin {
+class MpiRanks {};  // a build without MPI runs in one process
+}  // namespace tocsin
+#endif
 
 using namespace tocsin;
 
@@ -203,8 +214,8 @@ SweptScenario scenario_to_run(const RunOptions& opt, bool sweep) {
 }
 
 // The run's settings from its options, each read against its range and the
-// output directory checked, before anything long runs.
-RunSettings run_settings(const RunOptions& opt) {
+// output directory checked (by the rank that writes), before anything long runs.
+RunSettings run_settings(const RunOptions& opt, bool writes) {
     RunSettings settings;
     if (!opt.max_burden.empty())
         settings.budget_limit = option_real(option_specs().max_burden, "--max-burden", opt.max_burden);
@@ -214,7 +225,7 @@ RunSettings run_settings(const RunOptions& opt) {
         if (!find_metric(*name))
             throw InputError("command line", 0, 0, option,
                              "unknown metric '" + *name + "' (expected one of " + metric_names() + ")");
-    if (!opt.out_dir.empty()) check_output_directory(opt.out_dir);
+    if (writes && !opt.out_dir.empty()) check_output_directory(opt.out_dir);
     settings.notice_log = opt.notice_log;
     settings.task_log = opt.task_log;
     settings.burden_metric = opt.burden_metric;
@@ -223,41 +234,110 @@ RunSettings run_settings(const RunOptions& opt) {
     return settings;
 }
 
-int command_run(const RunOptions& opt, bool sweep) {
-    const auto started = std::chrono::steady_clock::now();
+// What a run needs before it starts; every rank of an MPI run makes the same.
+struct PreparedRun {
+    std::chrono::steady_clock::time_point started = std::chrono::steady_clock::now();
     PhaseLog phases;
     std::optional<TerminalProgress> terminal;
-    terminal.emplace(phases, stderr_is_terminal());
-    RunSettings settings = run_settings(opt);  // every option checked before the long part
-    settings.phases = &phases;
-    settings.progress = terminal->replications();
-    std::optional<PhaseLog::Span> reading(std::in_place, &phases, "read");
-    const SweptScenario swept = scenario_to_run(opt, sweep);
-    const Scenario& sc = swept.scenario;
-    const PreparedPopulation prepared = prepare_population(sc.population);
-    reading.reset();
-    std::optional<PhaseLog::Span> preparing(std::in_place, &phases, "prepare");
-    std::cout << describe_prepared(sc.population, prepared);
-    const std::optional<std::string> period_warning = reporting_period_warning(sc, prepared);
-    if (period_warning) std::cout << *period_warning << "\n";
-    const PopulationFactory factory = population_factory(sc.population, prepared);
+    SweptScenario swept;
+    PopulationFactory factory;
     std::optional<ChartOpeningLog> openings;
+    std::optional<std::string> period_warning;
+    RunSettings settings;
+};
+
+// Fills `run` in place (its settings point at its phases and openings), in two
+// steps: the options and the scenario, then the population.
+void prepare_scenario(const RunOptions& opt, bool sweep, bool writes, PreparedRun& run) {
+    run.settings = run_settings(opt, writes);  // every option checked before the long part
+    run.settings.phases = &run.phases;
+    run.terminal.emplace(run.phases, writes && stderr_is_terminal());
+    run.settings.progress = run.terminal->replications();
+    run.swept = scenario_to_run(opt, sweep);
+}
+
+// `prepare` reads the log (or, across ranks, receives it) and prepares the population.
+void prepare_population_of(PreparedRun& run, const std::function<PreparedPopulation(const PopulationSetup&)>& prepare) {
+    const Scenario& sc = run.swept.scenario;
+    std::optional<PhaseLog::Span> reading(std::in_place, &run.phases, "read");
+    const PreparedPopulation prepared = prepare(sc.population);
+    reading.reset();
+    const auto preparing = phase(&run.phases, "prepare");
+    std::cout << describe_prepared(sc.population, prepared);
+    run.period_warning = reporting_period_warning(sc, prepared);
+    if (run.period_warning) std::cout << *run.period_warning << "\n";
+    run.factory = population_factory(sc.population, prepared);
     if (sc.simulation.chart_openings && !sc.simulation.chart_openings->replay_path.empty()) {
         if (!prepared.log || sc.population.bootstrap)
             throw InputError(sc.file, 0, 0, "chart_openings.replay",
                              "replayed chart openings belong to the replayed log; with a bootstrapped or generated "
                              "population, generate chart openings (openings_per_hour) instead");
-        openings = replayed_openings(sc, *prepared.log);
+        run.openings = replayed_openings(sc, *prepared.log);
     }
-    preparing.reset();
-    settings.replayed_openings = openings ? &*openings : nullptr;
-    const RunOutput out = run_scenario(sc, factory, settings);
-    std::optional<PhaseLog::Span> writing(std::in_place, &phases, "write");
+    run.settings.replayed_openings = run.openings ? &*run.openings : nullptr;
+}
+
+#ifdef TOCSIN_MPI
+// Across MPI ranks: every rank prepares the run; rank 0 distributes and
+// returns the output, the others compute what they are given and return nothing.
+std::optional<RunOutput> run_on_ranks(const RunOptions& opt, bool sweep, MpiRanks& ranks, PreparedRun& run) {
+    // Each step ends with every rank agreeing, so that the collective read
+    // of the log is reached by every rank or by none.
+    std::exception_ptr failed;
+    try {
+        prepare_scenario(opt, sweep, ranks.writes(), run);
+    } catch (...) {
+        failed = std::current_exception();
+    }
+    if (!ranks.agree_on_setup(failed)) return std::nullopt;
+    try {
+        prepare_population_of(run, [&](const PopulationSetup& setup) {
+            return setup.source == PopulationSource::replay ? ranks.prepare_shared_population(setup)
+                                                            : prepare_population(setup);
+        });
+    } catch (...) {
+        failed = std::current_exception();
+    }
+    if (!ranks.agree_on_setup(failed)) return std::nullopt;
+    const Scenario& sc = run.swept.scenario;
+    if (!ranks.writes()) {
+        PopulationCache populations(run.factory);
+        ranks.serve([&](const WorkItem& item) {
+            return run_work_item(sc, populations, run.settings, item, run.settings.threads);
+        });
+        return std::nullopt;
+    }
+    return run_scenario_distributed(sc, run.factory, run.settings, ranks);
+}
+#endif
+
+int command_run(const RunOptions& opt, bool sweep, MpiRanks* ranks) {
+    PreparedRun run;
+    std::optional<RunOutput> ran;
+#ifdef TOCSIN_MPI
+    if (ranks) {
+        ran = run_on_ranks(opt, sweep, *ranks, run);
+        if (!ran) return 0;  // a worker rank; rank 0 reports any failure
+    }
+#else
+    (void)ranks;
+#endif
+    if (!ran) {
+        prepare_scenario(opt, sweep, true, run);
+        prepare_population_of(run, [](const PopulationSetup& setup) { return prepare_population(setup); });
+        ran = run_scenario(run.swept.scenario, run.factory, run.settings);
+    }
+    const Scenario& sc = run.swept.scenario;
+    const RunSettings& settings = run.settings;
+    const RunOutput& out = *ran;
+    const auto started = run.started;
+    const std::optional<std::string>& period_warning = run.period_warning;
+    std::optional<PhaseLog::Span> writing(std::in_place, &run.phases, "write");
     std::cout << run_text(sc, out, settings);
     std::optional<ShiftEffect> effect;
     if (sc.population.shift) {
-        const auto span = phase(&phases, "stress test");
-        effect = shift_effect(sc, factory, settings.threads);
+        const auto span = phase(&run.phases, "stress test");
+        effect = shift_effect(sc, run.factory, settings.threads);
         std::cout << "\n" << shift_effect_text(*effect, sc.simulation.zone);
     }
     std::string report, whatif;
@@ -266,7 +346,7 @@ int command_run(const RunOptions& opt, bool sweep) {
         if (period_warning) input.key_findings.push_back(*period_warning);
         if (out.evaluation) add_evaluation(input, *out.evaluation, sc.score_label);
         report = render_report(input);
-        whatif = render_whatif_page(whatif_input_for_run(sc, out, settings, input, sweep ? &swept.grid : nullptr));
+        whatif = render_whatif_page(whatif_input_for_run(sc, out, settings, input, sweep ? &run.swept.grid : nullptr));
     }
     if (!opt.report_path.empty()) {
         write_output_file(opt.report_path, report);
@@ -286,11 +366,11 @@ int command_run(const RunOptions& opt, bool sweep) {
                   << " s\n";
     }
     writing.reset();
-    terminal.reset();  // the line cleared before the table is printed
+    run.terminal.reset();  // the line cleared before the table is printed
     if (opt.phases) {
         PhaseFigures total{"total", std::chrono::duration<double>(std::chrono::steady_clock::now() - started).count(),
                            process_cpu_seconds(), process_peak_memory_kib(), 1};
-        std::cerr << phase_table_text(phases.figures(), total);
+        std::cerr << phase_table_text(run.phases.figures(), total);
     }
     return 0;
 }
@@ -354,9 +434,33 @@ int command_fit(const FitCommand& cmd) {
     return 0;
 }
 
+// Under mpirun (a build with TOCSIN_MPI) every rank runs this same program;
+// the ranks other than 0 print nothing. Otherwise there are no ranks.
+std::unique_ptr<MpiRanks> join_ranks(int& argc, char**& argv) {
+#ifdef TOCSIN_MPI
+    std::unique_ptr<MpiRanks> ranks = MpiRanks::join(argc, argv);
+    if (ranks && !ranks->writes()) {
+        std::cout.rdbuf(nullptr);
+        std::cerr.rdbuf(nullptr);  // its errors travel to rank 0, which prints them
+    }
+    return ranks;
+#else
+    (void)argc, (void)argv;
+    // Under mpirun every rank would run the whole command and write the same files.
+    for (const char* name : {"OMPI_COMM_WORLD_SIZE", "PMI_SIZE"})
+        if (const char* size = std::getenv(name); size && std::string(size) != "1") {
+            std::cerr << "tocsin: error: this build has no MPI (configure with -DTOCSIN_MPI=ON); under mpirun each of the "
+                      << size << " ranks would run the whole command\n";
+            std::exit(2);
+        }
+    return nullptr;
+#endif
+}
+
 }  // namespace
 
 int main(int argc, char** argv) {
+    const std::unique_ptr<MpiRanks> ranks = join_ranks(argc, argv);
     CLI::App app{"tocsin: simulate clinical alert workflows and the staff work they cause.\n" + cautions_text()};
     app.set_version_flag("--version", std::string("tocsin ") + TOCSIN_VERSION);
     app.require_subcommand(1);
@@ -411,8 +515,8 @@ int main(int argc, char** argv) {
     }
     try {
         if (*check) return command_check(check_path);
-        if (*run) return command_run(run_opt, false);
-        if (*sweep) return command_run(sweep_opt, true);
+        if (*run) return command_run(run_opt, false, ranks.get());
+        if (*sweep) return command_run(sweep_opt, true, ranks.get());
         if (*fit) return command_fit(fit_cmd);
         if (*size) return command_review_size(size_opt);
         if (*evaluate) return run_evaluate_command(evaluate_cmd);

@@ -11,26 +11,29 @@
 
 namespace tocsin {
 
-PreparedPopulation prepare_population(const PopulationSetup& sc) {
+PreparedPopulation prepare_population(const PopulationSetup& sc, Population log) {
     PreparedPopulation p;
-    if (sc.source == PopulationSource::replay) {
-        p.log = std::make_shared<const Population>(load_replay(sc.replay, sc.zone));
-        if (sc.shift) {
-            try {
-                validate(*sc.shift, *p.log);
-            } catch (const std::invalid_argument& e) {
-                throw InputError(sc.file, sc.shift_at.line, sc.shift_at.column, "population.shift", e.what());
-            }
+    p.log = std::make_shared<const Population>(std::move(log));
+    if (sc.shift) {
+        try {
+            validate(*sc.shift, *p.log);
+        } catch (const std::invalid_argument& e) {
+            throw InputError(sc.file, sc.shift_at.line, sc.shift_at.column, "population.shift", e.what());
         }
-        if (sc.bootstrap) {
-            try {
-                p.bootstrap_days = find_eligible_days(*p.log, *sc.bootstrap);
-            } catch (const std::invalid_argument& e) {
-                throw InputError(sc.file, sc.bootstrap_at.line, sc.bootstrap_at.column, "population.bootstrap", e.what());
-            }
-        }
-        return p;
     }
+    if (sc.bootstrap) {
+        try {
+            p.bootstrap_days = find_eligible_days(*p.log, *sc.bootstrap);
+        } catch (const std::invalid_argument& e) {
+            throw InputError(sc.file, sc.bootstrap_at.line, sc.bootstrap_at.column, "population.bootstrap", e.what());
+        }
+    }
+    return p;
+}
+
+PreparedPopulation prepare_population(const PopulationSetup& sc) {
+    if (sc.source == PopulationSource::replay) return prepare_population(sc, load_replay(sc.replay, sc.zone));
+    PreparedPopulation p;
     p.generator = sc.generator;
     if (sc.target_auc) {
         try {

@@ -59,6 +59,9 @@ struct PreparedPopulation {
 // is out of reach, when a shift names a unit the log does not have, or when
 // the bootstrap has no eligible day.
 PreparedPopulation prepare_population(const PopulationSetup& setup);
+// The same for a replayed scenario whose log was read elsewhere (by another
+// process, which sent it): everything but the reading.
+PreparedPopulation prepare_population(const PopulationSetup& setup, Population log);
 
 // Replication 0 of a replayed scenario is the log as replayed.
 Population population_for(const PopulationSetup& setup, const PreparedPopulation& prepared, std::uint64_t replication);

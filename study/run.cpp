@@ -16,17 +16,6 @@ const Metric& metric_named(const std::string& name) {
     return *m;
 }
 
-// What each replication leaves behind: its plans' figures, and the logs when asked.
-struct ReplicationsKept {
-    std::vector<std::vector<PlanFigures>> figures;
-    std::vector<std::vector<UnitFigures>> unit_figures;
-    std::vector<std::vector<GroupFigures>> group_figures;
-    std::vector<std::vector<LoggedNotice>> notice_logs;
-    std::vector<std::vector<LoggedTask>> task_logs;
-    ScoreSample first_scores;  // replication 0's, for the plans' thresholds
-    std::mutex first_lock;
-};
-
 // Appends the logs of replications 1, 2, ... to replication 0's, in replication order.
 template <typename Entry>
 void join_logs(std::optional<std::vector<Entry>>& first, std::vector<std::vector<Entry>>& others) {
@@ -37,61 +26,66 @@ void join_logs(std::optional<std::vector<Entry>>& first, std::vector<std::vector
 
 }  // namespace
 
-RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_population, const RunSettings& settings) {
-    metric_named(settings.burden_metric);  // checked before anything runs; report/ draws the frontier on it
-    const Metric& benefit = metric_named(settings.benefit_metric);
-    const Metric* limited = settings.budget_limit ? &metric_named(settings.budget_metric) : nullptr;
-    RunOutput out;
-    ReplicationsKept kept;
-    kept.figures.resize(sc.replications);
-    kept.unit_figures.resize(sc.replications);
-    kept.group_figures.resize(sc.replications);
-    kept.notice_logs.resize(sc.replications);
-    kept.task_logs.resize(sc.replications);
-    ExperimentOptions options;
-    options.replications = sc.replications;
-    options.threads = settings.threads;
-    options.progress = settings.progress;
-    options.replayed_openings = settings.replayed_openings;
-    options.phases = settings.phases;
-    run_experiment(sc, make_population, options,
-                   [&](std::uint64_t r, const Population& pop, const ShiftCalendar& cal, const ReplicationRecord& rec) {
-                       const auto span = phase(settings.phases, "evaluate");
-                       const ReportingShifts rep = reporting_shifts(sc.analysis, pop, cal);
-                       for (std::size_t p = 0; p < rec.plans.size(); ++p) {
-                           kept.figures[r].push_back(plan_figures(sc.analysis, pop, cal, rep, rec.plans[p]));
-                           add_plan_burdens(kept.figures[r].back(), sc.simulation, pop, cal, rep,
-                                            sc.simulation.plans[p], rec.plans[p]);
-                       }
-                       kept.unit_figures[r] = unit_figures(sc.simulation, sc.analysis, pop, cal, rep, rec, kept.figures[r]);
-                       kept.group_figures[r] = group_figures(sc.simulation, sc.analysis, pop, rec);
-                       if (r == 0) kept.first_scores = observed_scores(pop);  // read after every replication ends
-                       if (r != 0 && !settings.notice_log && !settings.task_log) return;
-                       // The figures just computed, not computed again.
-                       ReplicationResults results =
-                           replication_results(sc.simulation, sc.analysis, pop, cal, rec,
-                                               KnownFigures{kept.figures[r], kept.unit_figures[r], kept.group_figures[r]}, settings.notice_log,
-                                               settings.task_log, settings.replayed_openings);
-                       if (r != 0) {
-                           if (results.notice_log) kept.notice_logs[r] = std::move(*results.notice_log);
-                           if (results.staff && results.staff->task_log) kept.task_logs[r] = std::move(*results.staff->task_log);
-                           return;
-                       }
-                       // The score's own measures are computed here, beside the other
-                       // replications, rather than after them all.
-                       std::optional<Evaluation> evaluation;
-                       EvaluationOptions measures = evaluation_options_for(sc);
-                       measures.threads = settings.threads;
-                       if (settings.evaluate) evaluation = evaluate(pop, measures);
-                       const std::vector<PlanThreshold> thresholds = plan_thresholds(sc.simulation);
-                       std::vector<GroupScoreFigures> group_scores = group_score_figures(
-                           pop, thresholds, measures.probability, sc.analysis.smallest_group, measures.confidence);
-                       std::lock_guard<std::mutex> guard(kept.first_lock);
-                       out.first_replication = std::move(results);
-                       out.evaluation = std::move(evaluation);
-                       out.group_scores = std::move(group_scores);
-                   });
+PlansFigures replication_figures(const Scenario& sc, const Population& pop, const ShiftCalendar& cal,
+                                 const ReplicationRecord& rec) {
+    PlansFigures out;
+    const ReportingShifts rep = reporting_shifts(sc.analysis, pop, cal);
+    for (std::size_t p = 0; p < rec.plans.size(); ++p) {
+        out.figures.push_back(plan_figures(sc.analysis, pop, cal, rep, rec.plans[p]));
+        add_plan_burdens(out.figures.back(), sc.simulation, pop, cal, rep, sc.simulation.plans[p], rec.plans[p]);
+    }
+    out.unit_figures = unit_figures(sc.simulation, sc.analysis, pop, cal, rep, rec, out.figures);
+    out.group_figures = group_figures(sc.simulation, sc.analysis, pop, rec);
+    return out;
+}
+
+ReplicationsKept::ReplicationsKept(std::uint64_t replications)
+    : figures(replications),
+      unit_figures(replications),
+      group_figures(replications),
+      notice_logs(replications),
+      task_logs(replications) {}
+
+void keep_replication(const Scenario& sc, const RunSettings& settings, std::uint64_t r, const Population& pop,
+                      const ShiftCalendar& cal, const ReplicationRecord& rec, ReplicationsKept& kept, RunOutput& out) {
     const auto span = phase(settings.phases, "evaluate");
+    PlansFigures figures = replication_figures(sc, pop, cal, rec);
+    kept.figures[r] = std::move(figures.figures);
+    kept.unit_figures[r] = std::move(figures.unit_figures);
+    kept.group_figures[r] = std::move(figures.group_figures);
+    if (r == 0) kept.first_scores = observed_scores(pop);  // read after every replication ends
+    if (r != 0 && !settings.notice_log && !settings.task_log) return;
+    // The figures just computed, not computed again.
+    ReplicationResults results =
+        replication_results(sc.simulation, sc.analysis, pop, cal, rec,
+                            KnownFigures{kept.figures[r], kept.unit_figures[r], kept.group_figures[r]},
+                            settings.notice_log, settings.task_log, settings.replayed_openings);
+    if (r != 0) {
+        if (results.notice_log) kept.notice_logs[r] = std::move(*results.notice_log);
+        if (results.staff && results.staff->task_log) kept.task_logs[r] = std::move(*results.staff->task_log);
+        return;
+    }
+    // The score's own measures are computed here, beside the other
+    // replications, rather than after them all.
+    std::optional<Evaluation> evaluation;
+    EvaluationOptions measures = evaluation_options_for(sc);
+    measures.threads = settings.threads;
+    if (settings.evaluate) evaluation = evaluate(pop, measures);
+    std::vector<GroupScoreFigures> group_scores = group_score_figures(
+        pop, plan_thresholds(sc.simulation), measures.probability, sc.analysis.smallest_group, measures.confidence);
+    std::lock_guard<std::mutex> guard(kept.first_lock);
+    out.first_replication = std::move(results);
+    out.evaluation = std::move(evaluation);
+    out.group_scores = std::move(group_scores);
+}
+
+void check_run_metrics(const RunSettings& settings) {
+    metric_named(settings.burden_metric);  // report/ draws the frontier on it
+    metric_named(settings.benefit_metric);
+    if (settings.budget_limit) metric_named(settings.budget_metric);
+}
+
+void finish_run(const Scenario& sc, const RunSettings& settings, ReplicationsKept& kept, RunOutput& out) {
     join_logs(out.first_replication.notice_log, kept.notice_logs);
     if (out.first_replication.staff) join_logs(out.first_replication.staff->task_log, kept.task_logs);
     std::vector<std::string> names;
@@ -105,8 +99,31 @@ RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_populat
     out.figures.first_is_log = replication_zero_is_the_log(sc.population);
     out.unit_figures = collect_unit_figures(names, kept.unit_figures);
     out.group_figures = collect_group_figures(names, kept.group_figures);
-    if (limited)
-        out.budget = budget_by_group(out.figures, metric_index(*limited), *settings.budget_limit, metric_index(benefit));
+    if (settings.budget_limit)
+        out.budget = budget_by_group(out.figures, metric_index(metric_named(settings.budget_metric)),
+                                     *settings.budget_limit, metric_index(metric_named(settings.benefit_metric)));
+}
+
+ExperimentOptions experiment_options(const Scenario& sc, const RunSettings& settings) {
+    ExperimentOptions options;
+    options.replications = sc.replications;
+    options.threads = settings.threads;
+    options.progress = settings.progress;
+    options.replayed_openings = settings.replayed_openings;
+    options.phases = settings.phases;
+    return options;
+}
+
+RunOutput run_scenario(const Scenario& sc, const PopulationFactory& make_population, const RunSettings& settings) {
+    check_run_metrics(settings);  // before anything runs
+    RunOutput out;
+    ReplicationsKept kept(sc.replications);
+    run_experiment(sc, make_population, experiment_options(sc, settings),
+                   [&](std::uint64_t r, const Population& pop, const ShiftCalendar& cal, const ReplicationRecord& rec) {
+                       keep_replication(sc, settings, r, pop, cal, rec, kept, out);
+                   });
+    const auto span = phase(settings.phases, "evaluate");
+    finish_run(sc, settings, kept, out);
     return out;
 }
 

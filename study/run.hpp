@@ -2,6 +2,7 @@
 // A whole run: every plan over every replication, reduced to typed results.
 // report/ renders them; the command-line tool prints and writes what it renders.
 #include <cstdint>
+#include <mutex>
 #include <optional>
 #include <string>
 #include <vector>
@@ -59,5 +60,38 @@ std::optional<std::string> reporting_period_warning(const Scenario& scenario, co
 // Runs every plan over every replication. report/run_text.hpp and
 // report/run_tables.hpp render what it returns.
 RunOutput run_scenario(const Scenario& scenario, const PopulationFactory& make_population, const RunSettings& settings);
+
+// The pieces of run_scenario, shared with a run whose replications are cut
+// into work items (study/work_items.hpp), so that both keep exactly the same.
+struct PlansFigures {
+    std::vector<PlanFigures> figures;       // one per plan of the record
+    std::vector<UnitFigures> unit_figures;  // plan-major, units in the population's order
+    std::vector<GroupFigures> group_figures;  // plan-major, groups in declared order
+};
+// Every plan's figures in one replication; the record's plans are the scenario's.
+PlansFigures replication_figures(const Scenario& scenario, const Population& population, const ShiftCalendar& calendar,
+                                 const ReplicationRecord& record);
+
+// What each replication leaves behind: its plans' figures, and the logs when asked.
+struct ReplicationsKept {
+    explicit ReplicationsKept(std::uint64_t replications);
+    std::vector<std::vector<PlanFigures>> figures;
+    std::vector<std::vector<UnitFigures>> unit_figures;
+    std::vector<std::vector<GroupFigures>> group_figures;
+    std::vector<std::vector<LoggedNotice>> notice_logs;
+    std::vector<std::vector<LoggedTask>> task_logs;
+    ScoreSample first_scores;  // replication 0's, for the plans' thresholds
+    std::mutex first_lock;
+};
+// Keeps one replication (replication 0 also gives `out`'s first_replication
+// and evaluation).
+void keep_replication(const Scenario& scenario, const RunSettings& settings, std::uint64_t replication,
+                      const Population& population, const ShiftCalendar& calendar, const ReplicationRecord& record,
+                      ReplicationsKept& kept, RunOutput& out);
+// Throws when a metric the settings name is unknown.
+void check_run_metrics(const RunSettings& settings);
+// Joins the logs and compares the plans across every kept replication.
+void finish_run(const Scenario& scenario, const RunSettings& settings, ReplicationsKept& kept, RunOutput& out);
+ExperimentOptions experiment_options(const Scenario& scenario, const RunSettings& settings);
 
 }  // namespace tocsin
