@@ -26,6 +26,7 @@ __extension__ typedef unsigned __int128 uint128;  // g++ and clang; __extension_
 class UniformIndex {
 public:
     explicit UniformIndex(std::uint64_t range) : range_(range) {
+        if (range == 0) return;  // one choice, no draw: and the bucket below would wrap to 0
         constexpr std::uint64_t engine_range = std::numeric_limits<std::uint64_t>::max();
         bucket_ = engine_range / (range + 1);
         if (engine_range % (range + 1) == range) ++bucket_;
