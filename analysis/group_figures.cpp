@@ -134,6 +134,7 @@ std::vector<GroupScoreFigures> group_score_figures(const Population& pop, std::s
                                                    const std::optional<ProbabilityMapping>& mapping,
                                                    std::int64_t smallest_group, double confidence) {
     std::vector<GroupScoreFigures> out;
+    if (pop.groups.empty()) return out;  // no pass over a year of scores for nothing
     const std::vector<EncounterScore> all = encounter_level_scores(pop);
     for (std::size_t g = 0; g < pop.groups.size(); ++g)
         for (std::size_t l = 0; l < pop.groups[g].levels(); ++l) {
