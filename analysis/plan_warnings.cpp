@@ -14,12 +14,14 @@ auto identity(const PlanFigures& f) { return std::tie(f.notices, f.caught, f.uni
 
 }  // namespace
 
-PlanWarnings plan_warnings(const std::vector<Plan>& plans, const ScoreSample& observed,
+PlanWarnings plan_warnings(const std::vector<Plan>& plans, const std::vector<ScoreSample>& samples,
                            const std::vector<PlanFigures>& figures) {
     PlanWarnings w;
-    const ScoreRange range = observed.range();
-    if (range.scores > 0)
-        for (const Plan& p : plans) {
+    for (const Plan& p : plans) {
+            if (p.score >= samples.size()) continue;
+            const ScoreSample& observed = samples[p.score];
+            const ScoreRange range = observed.range();
+            if (range.scores == 0) continue;
             const double t = p.rule.threshold;
             if (!std::isfinite(t)) continue;
             if (t < range.lowest || t > range.highest) {

@@ -63,10 +63,11 @@ struct PlanWarnings {
     }
 };
 
-// `figures[p]` are plan p's figures in replication 0, `observed` that
-// replication's usable scores. A plan without a floor (a ranked review's
+// `figures[p]` are plan p's figures in replication 0, `samples[k]` that
+// replication's usable values of score k (a plan's threshold is checked
+// against its own score). A plan without a floor (a ranked review's
 // threshold of -infinity) has no threshold to check.
-PlanWarnings plan_warnings(const std::vector<Plan>& plans, const ScoreSample& observed,
+PlanWarnings plan_warnings(const std::vector<Plan>& plans, const std::vector<ScoreSample>& samples,
                            const std::vector<PlanFigures>& figures);
 
 }  // namespace tocsin

@@ -71,8 +71,9 @@ namespace {
 struct Copier {
     const Population& source;
     Population& out;
-    std::vector<Score> scores;
-    std::vector<std::uint32_t> owner;
+    // Per score (the first, then the others): values and their encounters.
+    std::vector<std::vector<Score>> scores;
+    std::vector<std::vector<std::uint32_t>> owner;
 
     void copy(std::size_t e, Seconds shift, const std::string& id) {
         Encounter enc = source.encounters[e];
@@ -82,12 +83,13 @@ struct Copier {
         if (enc.outcome_at) *enc.outcome_at += shift;
         const auto index = static_cast<std::uint32_t>(out.encounters.size());
         out.encounters.push_back(std::move(enc));
-        for (Score s : source.scores_of(e)) {
-            s.scored_at += shift;
-            s.available_at += shift;
-            scores.push_back(s);
-            owner.push_back(index);
-        }
+        for (std::size_t k = 0; k < source.score_count(); ++k)
+            for (Score s : source.scores_of(e, k)) {
+                s.scored_at += shift;
+                s.available_at += shift;
+                scores[k].push_back(s);
+                owner[k].push_back(index);
+            }
     }
 };
 
@@ -132,7 +134,11 @@ Population bootstrap_population(const Population& source, const BootstrapConfig&
     out.period_end = end;
     out.excluded = source.excluded;
     out.excluded.notes["bootstrap replication: exclusion counts are those of the source log"] += 1;
-    Copier copier{source, out, {}, {}};
+    out.score_name = source.score_name;
+    for (const OtherScore& o : source.other_scores)
+        out.other_scores.push_back({.name = o.name, .excluded_by_reason = o.excluded_by_reason});
+    Copier copier{source, out, std::vector<std::vector<Score>>(source.score_count()),
+                  std::vector<std::vector<std::uint32_t>>(source.score_count())};
     for (std::uint32_t u = 0; u < n_units; ++u) {
         RandomEngine engine = make_stream(seed, replication, StreamPurpose::bootstrap, u);
         const std::vector<int> plan = plan_blocks(eligible.blocks, target_blocks, config, engine, eligible.first_block);
@@ -156,7 +162,7 @@ Population bootstrap_population(const Population& source, const BootstrapConfig&
             }
         }
     }
-    group_scores_by_encounter(out, copier.scores, copier.owner);
+    for (std::size_t k = 0; k < out.score_count(); ++k) group_scores_by_encounter(out, copier.scores[k], copier.owner[k], k);
     return out;
 }
 

@@ -38,56 +38,117 @@ std::int64_t Exclusions::total_scores() const {
     return n;
 }
 
-void group_scores_by_encounter(Population& pop, std::vector<Score>& scores, std::vector<std::uint32_t>& owner) {
+namespace {
+
+// One score's values, offsets and exclusion counts, wherever they live.
+struct ScoreArrays {
+    std::vector<Score>& values;
+    std::vector<std::size_t>& start;
+    std::map<std::string, std::int64_t>& excluded;
+};
+
+ScoreArrays arrays_of(Population& pop, std::size_t score) {
+    if (score == 0) return {pop.scores, pop.score_start, pop.excluded.scores_by_reason};
+    OtherScore& o = pop.other_scores.at(score - 1);
+    return {o.scores, o.score_start, o.excluded_by_reason};
+}
+
+void exclude_unusable(const std::vector<Encounter>& encounters, ScoreArrays a) {
+    std::size_t out = 0;
+    std::int64_t before_admission = 0, after_discharge = 0, at_or_after_outcome = 0;
+    std::vector<std::size_t> start(encounters.size() + 1, 0);
+    for (std::size_t e = 0; e < encounters.size(); ++e) {
+        const Encounter& enc = encounters[e];
+        start[e] = out;
+        for (std::size_t i = a.start[e]; i < a.start[e + 1]; ++i) {
+            const Score& s = a.values[i];
+            if (s.available_at < enc.admitted) { ++before_admission; continue; }
+            if (enc.outcome_at && s.available_at >= *enc.outcome_at) { ++at_or_after_outcome; continue; }
+            if (s.available_at >= enc.discharged) { ++after_discharge; continue; }
+            a.values[out++] = s;
+        }
+    }
+    start[encounters.size()] = out;
+    a.values.resize(out);
+    a.start = std::move(start);
+    auto add = [&](const char* reason, std::int64_t n) {
+        if (n) a.excluded[reason] += n;
+    };
+    add("available before admission", before_admission);
+    add("available at or after the outcome (time zero)", at_or_after_outcome);
+    add("available at or after discharge", after_discharge);
+}
+
+}  // namespace
+
+void group_scores_by_encounter(Population& pop, std::vector<Score>& scores, std::vector<std::uint32_t>& owner,
+                               std::size_t score) {
+    ScoreArrays a = arrays_of(pop, score);
     const std::size_t n_enc = pop.encounters.size();
-    pop.score_start.assign(n_enc + 1, 0);
-    for (std::uint32_t e : owner) ++pop.score_start[e + 1];
-    std::partial_sum(pop.score_start.begin(), pop.score_start.end(), pop.score_start.begin());
+    a.start.assign(n_enc + 1, 0);
+    for (std::uint32_t e : owner) ++a.start[e + 1];
+    std::partial_sum(a.start.begin(), a.start.end(), a.start.begin());
     bool already_grouped = std::is_sorted(owner.begin(), owner.end());
     if (already_grouped) {
-        pop.scores = std::move(scores);
+        a.values = std::move(scores);
     } else {
         // Stable counting sort: source order survives inside each encounter.
-        pop.scores.resize(scores.size());
-        std::vector<std::size_t> next(pop.score_start.begin(), pop.score_start.end() - 1);
-        for (std::size_t i = 0; i < scores.size(); ++i) pop.scores[next[owner[i]]++] = scores[i];
+        a.values.resize(scores.size());
+        std::vector<std::size_t> next(a.start.begin(), a.start.end() - 1);
+        for (std::size_t i = 0; i < scores.size(); ++i) a.values[next[owner[i]]++] = scores[i];
         std::vector<Score>().swap(scores);
     }
     std::vector<std::uint32_t>().swap(owner);
-    auto before = [](const Score& a, const Score& b) {
-        return a.available_at != b.available_at ? a.available_at < b.available_at : a.scored_at < b.scored_at;
+    auto before = [](const Score& x, const Score& y) {
+        return x.available_at != y.available_at ? x.available_at < y.available_at : x.scored_at < y.scored_at;
     };
     for (std::size_t e = 0; e < n_enc; ++e) {
-        auto first = pop.scores.begin() + static_cast<std::ptrdiff_t>(pop.score_start[e]);
-        auto last = pop.scores.begin() + static_cast<std::ptrdiff_t>(pop.score_start[e + 1]);
+        auto first = a.values.begin() + static_cast<std::ptrdiff_t>(a.start[e]);
+        auto last = a.values.begin() + static_cast<std::ptrdiff_t>(a.start[e + 1]);
         if (!std::is_sorted(first, last, before)) std::stable_sort(first, last, before);
     }
 }
 
 void apply_score_exclusions(Population& pop) {
-    std::size_t out = 0;
-    std::int64_t before_admission = 0, after_discharge = 0, at_or_after_outcome = 0;
-    std::vector<std::size_t> start(pop.encounters.size() + 1, 0);
-    for (std::size_t e = 0; e < pop.encounters.size(); ++e) {
-        const Encounter& enc = pop.encounters[e];
-        start[e] = out;
-        for (std::size_t i = pop.score_start[e]; i < pop.score_start[e + 1]; ++i) {
-            const Score& s = pop.scores[i];
-            if (s.available_at < enc.admitted) { ++before_admission; continue; }
-            if (enc.outcome_at && s.available_at >= *enc.outcome_at) { ++at_or_after_outcome; continue; }
-            if (s.available_at >= enc.discharged) { ++after_discharge; continue; }
-            pop.scores[out++] = s;
-        }
+    for (std::size_t k = 0; k < pop.score_count(); ++k) exclude_unusable(pop.encounters, arrays_of(pop, k));
+}
+
+void swap_first_score(Population& pop, std::size_t score) {
+    if (score == 0) return;
+    OtherScore& o = pop.other_scores.at(score - 1);
+    std::swap(pop.score_name, o.name);
+    std::swap(pop.scores, o.scores);
+    std::swap(pop.score_start, o.score_start);
+    std::swap(pop.excluded.scores_by_reason, o.excluded_by_reason);
+}
+
+Population with_only_score(const Population& pop, std::size_t score) {
+    Population out;
+    out.units = pop.units;
+    out.groups = pop.groups;
+    out.encounters = pop.encounters;
+    out.excluded = pop.excluded;
+    out.period_start = pop.period_start;
+    out.period_end = pop.period_end;
+    if (score == 0) {
+        out.score_name = pop.score_name;
+        out.scores = pop.scores;
+        out.score_start = pop.score_start;
+        return out;
     }
-    start[pop.encounters.size()] = out;
-    pop.scores.resize(out);
-    pop.score_start = std::move(start);
-    auto add = [&](const char* reason, std::int64_t n) {
-        if (n) pop.excluded.scores_by_reason[reason] += n;
-    };
-    add("available before admission", before_admission);
-    add("available at or after the outcome (time zero)", at_or_after_outcome);
-    add("available at or after discharge", after_discharge);
+    const OtherScore& o = pop.other_scores.at(score - 1);
+    out.score_name = o.name;
+    out.scores = o.scores;
+    out.score_start = o.score_start;
+    out.excluded.scores_by_reason = o.excluded_by_reason;
+    return out;
+}
+
+std::optional<std::size_t> score_index(const Population& pop, const std::string& name) {
+    if (name.empty() || name == pop.score_name) return 0;
+    for (std::size_t k = 0; k < pop.other_scores.size(); ++k)
+        if (pop.other_scores[k].name == name) return k + 1;
+    return std::nullopt;
 }
 
 void default_period(Population& pop) {
@@ -130,10 +191,11 @@ double ScoreSample::percentile(double fraction) const {
     return ascending[std::min(k, ascending.size()) - 1];
 }
 
-ScoreSample observed_scores(const Population& pop) {
+ScoreSample observed_scores(const Population& pop, std::size_t score) {
     ScoreSample sample;
-    sample.ascending.reserve(pop.scores.size());
-    for (const Score& s : pop.scores) sample.ascending.push_back(s.value);
+    const std::vector<Score>& values = score == 0 ? pop.scores : pop.other_scores.at(score - 1).scores;
+    sample.ascending.reserve(values.size());
+    for (const Score& s : values) sample.ascending.push_back(s.value);
     std::sort(sample.ascending.begin(), sample.ascending.end());
     return sample;
 }

@@ -81,6 +81,17 @@ struct Exclusions {
     std::int64_t total_scores() const;
 };
 
+// A further score on the same encounters: the score in use today beside a
+// candidate, or two candidates. Its usable scores are grouped and ordered like
+// Population::scores, and what was excluded is counted for it alone, since one
+// score may be missing where the other is present.
+struct OtherScore {
+    std::string name;  // what a plan's `score` names
+    std::vector<Score> scores{};
+    std::vector<std::size_t> score_start{};
+    std::map<std::string, std::int64_t> excluded_by_reason{};
+};
+
 struct Population {
     std::vector<std::string> units;       // unit names; index = unit id
     std::vector<GroupColumn> groups;      // declared patient groups; Encounter::groups follows this order
@@ -95,23 +106,49 @@ struct Population {
     Instant period_start = 0;
     Instant period_end = 0;
 
+    // The first score's name when other scores are declared ("" otherwise),
+    // and the others, in the scenario's order: score k > 0 is other_scores[k - 1].
+    std::string score_name;
+    std::vector<OtherScore> other_scores;
+
     std::span<const Score> scores_of(std::size_t encounter) const {
         return {scores.data() + score_start[encounter], score_start[encounter + 1] - score_start[encounter]};
     }
+    std::span<const Score> scores_of(std::size_t encounter, std::size_t score) const {
+        if (score == 0) return scores_of(encounter);
+        const OtherScore& o = other_scores[score - 1];
+        return {o.scores.data() + o.score_start[encounter], o.score_start[encounter + 1] - o.score_start[encounter]};
+    }
+    std::size_t score_count() const { return 1 + other_scores.size(); }
     // End of the interval in which scores are usable: min(discharged, outcome_at).
     static Instant usable_until(const Encounter& e) {
         return e.outcome_at && *e.outcome_at < e.discharged ? *e.outcome_at : e.discharged;
     }
 };
 
-// Rebuild score_start from a per-score encounter index, sorting each group into
-// rule order. `owner[i]` is the encounter of `scores[i]`; source order breaks ties.
-void group_scores_by_encounter(Population& population, std::vector<Score>& scores,
-                               std::vector<std::uint32_t>& owner);
+// Rebuild score `score`'s values and offsets (0: Population::scores and
+// score_start) from a per-value encounter index, sorting each encounter's
+// values into rule order. `owner[i]` is the encounter of `values[i]`; source
+// order breaks ties.
+void group_scores_by_encounter(Population& population, std::vector<Score>& values,
+                               std::vector<std::uint32_t>& owner, std::size_t score = 0);
 
-// Remove scores outside [admitted, min(discharged, outcome_at)) and count them by
-// reason. Assumes scores are grouped (score_start valid).
+// Remove every score's values outside [admitted, min(discharged, outcome_at))
+// and count them by reason, for each score apart. Assumes values are grouped.
 void apply_score_exclusions(Population& population);
+
+// Exchanges the first score with score `score` (names, values, offsets and
+// exclusion counts; constant time), so that code written for the first score
+// serves any; doing it twice restores the population.
+void swap_first_score(Population& population, std::size_t score);
+
+// A copy of `population` whose only score is its score `score`, under that
+// score's name: what measures of one score read.
+Population with_only_score(const Population& population, std::size_t score);
+
+// The index of the score called `name` (the first score answers to its own
+// name and to ""), or nullopt.
+std::optional<std::size_t> score_index(const Population& population, const std::string& name);
 
 // Set period_start/period_end to span every stay when they are unset (both 0).
 void default_period(Population& population);
@@ -135,6 +172,6 @@ struct ScoreSample {
     // (the inverse of the empirical distribution; Hyndman & Fan 1996, type 1).
     double percentile(double fraction) const;
 };
-ScoreSample observed_scores(const Population& population);
+ScoreSample observed_scores(const Population& population, std::size_t score = 0);
 
 }  // namespace tocsin

@@ -19,6 +19,10 @@
 //     admission, at or after time zero, at or after discharge; a repeated
 //     score row (same encounter, scored_at and score: the one available first
 //     is kept).
+//   several scores: each is read like the first (its own range, bad rows and
+//     exclusions, counted for that score); in a file that holds several
+//     scores' columns an empty field is "not recorded in this row" for that
+//     score, counted, not a bad row.
 //   counted notes: naive local times in a repeated hour (earlier taken) or a
 //     skipped hour (moved forward); blank lines are skipped.
 #include <string>
@@ -27,6 +31,15 @@
 #include "models/time.hpp"
 
 namespace tocsin {
+
+// A further score on the same encounters (see OtherScore): a column of the
+// scores file, or a file of its own with the same columns.
+struct OtherScoreSource {
+    std::string name;
+    std::string path;              // the scores file itself when it is a column of it
+    std::string column = "score";  // the column holding its values
+    double score_low = 0, score_high = 100;
+};
 
 struct ReplaySource {
     std::string encounters_path;
@@ -49,6 +62,9 @@ struct ReplaySource {
     BadRows bad_rows = BadRows::stop;
     // Patient-group columns of the encounters file, each required in its header.
     std::vector<GroupColumn> groups{};
+    // Further scores, and then the first score's own name (plans choose by name).
+    std::vector<OtherScoreSource> other_scores{};
+    std::string score_name{};
 };
 
 Population load_replay(const ReplaySource& source, const TimeZone& zone);

@@ -63,6 +63,9 @@ void check_scores(const Encounter& e, std::span<const Score> scores, std::vector
 }  // namespace
 
 ReplayText replay_csv(const Population& pop, const TimeZone& zone) {
+    if (!pop.other_scores.empty())
+        throw std::invalid_argument("a population with other scores (" + pop.other_scores.front().name +
+                                    ") cannot be written as a log yet: only its first score would be written");
     ReplayText text;
     text.encounters = "encounter,unit,admitted,discharged,outcome_at";
     for (const GroupColumn& g : pop.groups) text.encounters += "," + csv_text(g.name);

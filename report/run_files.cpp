@@ -6,6 +6,7 @@
 #include "report/cautions.hpp"
 #include "report/comparison_tables.hpp"
 #include "report/evaluation_tables.hpp"
+#include "report/score_comparison_tables.hpp"
 #include "report/group_tables.hpp"
 #include "report/run_tables.hpp"
 #include "report/unit_tables.hpp"
@@ -61,6 +62,14 @@ std::vector<OutputFile> run_output_files(const Scenario& sc, const RunOutput& ou
     add(plan_net_benefit_table(out.plan_net_benefit), basis.first);
     if (out.evaluation)
         for (Table& table : evaluation_tables(*out.evaluation)) add(std::move(table), basis.first_scores);
+    for (std::size_t k = 0; k < out.other_evaluations.size(); ++k)
+        for (Table& table : other_score_evaluation_tables(out.other_evaluations[k], k + 1,
+                                                          out.score_comparison.auc.at(k).other))
+            add(std::move(table), basis.first_scores);
+    if (!out.score_comparison.auc.empty()) {
+        add(score_comparison_auc_table(out.score_comparison), basis.first_scores);
+        add(score_comparison_thresholds_table(out.score_comparison), basis.first_scores);
+    }
     if (t.notice_log) add(std::move(*t.notice_log), basis.every);
     for (auto* staff : {&t.staff_workload, &t.staff_escalations, &t.task_fates})
         if (*staff) add(std::move(**staff), basis.first);

@@ -7,6 +7,7 @@
 #include "report/cells.hpp"
 #include "report/comparison_tables.hpp"
 #include "report/evaluation_tables.hpp"
+#include "report/score_comparison_tables.hpp"
 #include "report/group_tables.hpp"
 #include "report/run_tables.hpp"
 #include "report/unit_tables.hpp"
@@ -168,6 +169,7 @@ std::string run_text(const Scenario& sc, const RunOutput& out, const RunSettings
         !groups.empty())
         text += "\n" + groups;
     if (out.evaluation) text += "\nThe score on the same population (replication 0):\n" + evaluation_summary(*out.evaluation);
+    if (!out.score_comparison.auc.empty()) text += "\n" + score_comparison_text(out.score_comparison);
     if (sc.simulation.plans.size() > 2) text += "\n" + frontier_text(out.figures, burden, benefit);
     if (!out.budget.empty())
         text += "\n" + budget_text(out.figures, out.budget, metric_index(*find_metric(settings.budget_metric)),

@@ -107,8 +107,8 @@ struct Inpatient {
 // visited in increasing order.
 class Census {
 public:
-    Census(const Population& pop, const Rule& rule, const RuleClock& clock)
-        : pop_(pop), rule_(rule), clock_(clock), by_admission_(pop.encounters.size()) {
+    Census(const Population& pop, std::size_t score, const Rule& rule, const RuleClock& clock)
+        : pop_(pop), score_(score), rule_(rule), clock_(clock), by_admission_(pop.encounters.size()) {
         for (std::uint32_t e = 0; e < by_admission_.size(); ++e) {
             by_admission_[e] = e;
             first_ = std::min(first_, pop.encounters[e].admitted);
@@ -135,7 +135,7 @@ public:
         std::erase_if(patients_,
                       [&](const auto& item) { return Population::usable_until(pop_.encounters[item.first]) <= t; });
         for (auto& [e, patient] : patients_) {
-            const auto scores = pop_.scores_of(e);
+            const auto scores = pop_.scores_of(e, score_);
             while (patient.next_score < scores.size() && scores[patient.next_score].available_at <= t)
                 patient.rule.see(scores[patient.next_score++]);
         }
@@ -146,6 +146,7 @@ public:
 
 private:
     const Population& pop_;
+    std::size_t score_;  // the plan's score
     const Rule& rule_;
     RuleClock clock_;
     std::vector<std::uint32_t> by_admission_;
@@ -214,7 +215,7 @@ void review_round(const RoundContext& c, Instant t, Census& census, PlanRecord& 
     for (auto& [e, patient] : census.patients()) {
         const auto reason = patient.rule.would_fire(t);
         if (!reason) continue;
-        const Score& latest = c.pop.scores_of(e)[patient.next_score - 1];
+        const Score& latest = c.pop.scores_of(e, c.plan.score)[patient.next_score - 1];
         groups[per_unit ? c.pop.encounters[e].unit : 0].push_back(
             {latest.value, latest.available_at, &c.pop.encounters[e].id, e, *reason});
     }
@@ -254,7 +255,7 @@ PlanRecord run_round_channel(const SimulationSetup& setup, const Population& pop
                                                                                    : plan.handoff.times_minutes)
                                             : plan.review.times_minutes;
     const Rule rule = channel_rule(plan);
-    Census census(pop, rule, RuleClock{&setup.zone, &cal});
+    Census census(pop, plan.score, rule, RuleClock{&setup.zone, &cal});
     const RoundContext context{pop, plan, plan_index, ReplicationSeed{setup.seed, replication}};
     for (const Instant t : daily_instants(times, setup.zone, census.first(), census.last())) {
         census.advance_to(t);

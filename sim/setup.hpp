@@ -22,6 +22,7 @@ struct Plan {
     std::string name;
     std::string description;
     Channel channel = Channel::page;
+    std::size_t score = 0;  // the score its rule reads: 0 the first, k Population::other_scores[k - 1]
     std::string role;  // who answers
     Rule rule;
     StaffPlan staffing;       // first_role indexes SimulationSetup::roles (when roles are declared)

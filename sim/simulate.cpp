@@ -47,8 +47,9 @@ void fire_encounter_plans(const SimulationSetup& setup, const Population& popula
     const bool any_chart = has_chart_plan(setup);
     EncounterOpenings openings;
     for (std::size_t e = first; e < last; ++e) {
-        const auto scores = population.scores_of(e);
-        if (scores.empty() && !any_chart) continue;
+        bool any_scores = false;
+        for (std::size_t k = 0; k < population.score_count(); ++k) any_scores = any_scores || !population.scores_of(e, k).empty();
+        if (!any_scores && !any_chart) continue;
         const auto enc = static_cast<std::uint32_t>(e);
         const std::uint32_t unit = population.encounters[e].unit;
         // Openings are drawn once per encounter and shared by every chart plan.
@@ -56,6 +57,7 @@ void fire_encounter_plans(const SimulationSetup& setup, const Population& popula
         for (std::size_t p = 0; p < n_plans; ++p) {
             const Plan& plan = setup.plans[p];
             const auto pi = static_cast<std::uint32_t>(p);
+            const auto scores = population.scores_of(e, plan.score);
             if (plan.channel == Channel::page) {
                 fire_page_rule(plan.rule, clock, scores, enc, unit, pi, plan.channel, out.notices[p]);
                 out.occasions[p] += static_cast<std::int64_t>(scores.size());

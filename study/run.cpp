@@ -53,7 +53,8 @@ void keep_replication(const Scenario& sc, const RunSettings& settings, std::uint
     kept.figures[r] = std::move(figures.figures);
     kept.unit_figures[r] = std::move(figures.unit_figures);
     kept.group_figures[r] = std::move(figures.group_figures);
-    if (r == 0) kept.first_scores = observed_scores(pop);  // read after every replication ends
+    if (r == 0)  // read after every replication ends
+        for (std::size_t k = 0; k < pop.score_count(); ++k) kept.first_scores.push_back(observed_scores(pop, k));
     if (r != 0 && !settings.notice_log && !settings.task_log) return;
     // The figures just computed, not computed again.
     ReplicationResults results =
@@ -70,12 +71,23 @@ void keep_replication(const Scenario& sc, const RunSettings& settings, std::uint
     std::optional<Evaluation> evaluation;
     EvaluationOptions measures = evaluation_options_for(sc);
     measures.threads = settings.threads;
-    if (settings.evaluate) evaluation = evaluate(pop, measures);
+    std::vector<Evaluation> other_evaluations;
+    if (settings.evaluate) {
+        evaluation = evaluate(pop, measures);
+        EvaluationOptions other_measures = measures;
+        other_measures.probability.reset();  // a mapping declared for the first score says nothing of the others
+        for (std::size_t k = 1; k < pop.score_count(); ++k)
+            other_evaluations.push_back(evaluate(with_only_score(pop, k), other_measures));
+    }
+    ScoreComparison comparison =
+        compare_scores(pop, sc.simulation.plans, ScoreComparisonOptions{.seed = sc.simulation.seed});
     std::vector<GroupScoreFigures> group_scores = group_score_figures(
         pop, plan_thresholds(sc.simulation), measures.probability, sc.analysis.smallest_group, measures.confidence);
     std::lock_guard<std::mutex> guard(kept.first_lock);
     out.first_replication = std::move(results);
     out.evaluation = std::move(evaluation);
+    out.other_evaluations = std::move(other_evaluations);
+    out.score_comparison = std::move(comparison);
     out.group_scores = std::move(group_scores);
 }
 

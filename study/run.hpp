@@ -12,6 +12,7 @@
 #include "analysis/plan_net_benefit.hpp"
 #include "analysis/plan_warnings.hpp"
 #include "analysis/results.hpp"
+#include "analysis/score_comparison.hpp"
 #include "study/experiment.hpp"
 #include "study/scenario.hpp"
 
@@ -48,6 +49,10 @@ struct RunOutput {
     // budget metric's unit differs by channel and the plans use several (comparison_groups).
     std::vector<BudgetAnswer> budget;
     std::optional<Evaluation> evaluation;  // on replication 0's population
+    // With other scores: each one's measures (in the scenario's order) and the
+    // paired comparison with the first, on replication 0's population.
+    std::vector<Evaluation> other_evaluations;
+    ScoreComparison score_comparison;
     PlanWarnings warnings;                 // thresholds outside replication 0's scores, identical plans
 };
 
@@ -80,7 +85,7 @@ struct ReplicationsKept {
     std::vector<std::vector<GroupFigures>> group_figures;
     std::vector<std::vector<LoggedNotice>> notice_logs;
     std::vector<std::vector<LoggedTask>> task_logs;
-    ScoreSample first_scores;  // replication 0's, for the plans' thresholds
+    std::vector<ScoreSample> first_scores;  // replication 0's, one per score, for the plans' thresholds
     std::mutex first_lock;
 };
 // Keeps one replication (replication 0 also gives `out`'s first_replication

@@ -70,6 +70,7 @@ void load_top_level(const Section& top, const std::string& yaml_text, Scenario& 
     sc.population.file = sc.file;
     sc.replications = static_cast<std::uint64_t>(top.integer("replications"));
     sc.score_label = top.text("score_label");
+    sc.score_name = top.text("score_name");
 }
 
 // shifts[], sorted by start time.

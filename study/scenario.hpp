@@ -18,6 +18,12 @@ namespace tocsin {
 
 inline constexpr int scenario_schema_version = 1;
 
+// A score as reports name it: what plans call it and what it is called.
+struct ScoreLabel {
+    std::string name;
+    std::string label;
+};
+
 // A scenario file, read: each layer's plain input, plus what names the study.
 struct Scenario {
     std::string file;               // path as given
@@ -27,6 +33,8 @@ struct Scenario {
     std::string description;
     std::string time_zone_name;
     std::string score_label = "score";
+    std::string score_name = "score";        // what plans call the first score
+    std::vector<ScoreLabel> other_scores{};  // population.other_scores, in order
     std::uint64_t replications = 1;
     PopulationSetup population;  // models: where each replication's population comes from
     SimulationSetup simulation;  // sim: plans, staff, shifts, clock, seed

@@ -200,6 +200,17 @@ Plan parse_plan(const Section& s, const Scenario& sc, const std::string& where) 
     p.name = s.text("name");
     if (p.name.empty()) s.fail("name", "plan name is empty");
     p.description = s.text("description");
+    if (s.has("score")) {
+        const std::string name = s.text("score");
+        std::string known = sc.score_name;
+        if (name != sc.score_name) {
+            std::size_t k = 0;
+            while (k < sc.other_scores.size() && sc.other_scores[k].name != name) known += ", " + sc.other_scores[k++].name;
+            if (k == sc.other_scores.size())
+                s.fail("score", "unknown score '" + name + "' (the scenario's scores: " + known + ")");
+            p.score = k + 1;
+        }
+    }
     p.channel = parse_channel(s);
     // A chart interruption goes to whoever opens the chart unless a role is named.
     p.role = p.channel == Channel::chart_interruption && !s.has("role") ? "whoever opens the chart" : s.text("role");

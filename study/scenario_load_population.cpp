@@ -277,6 +277,49 @@ GeneratedGroup parse_group(const Section& g, bool generated, const std::vector<G
     return x;
 }
 
+// population.other_scores[]: each further score's name and label, and for a
+// replayed log where its values are read.
+void load_other_scores(const Section& pop, Scenario& sc) {
+    if (!pop.has("other_scores")) return;
+    const bool replayed = sc.population.source == PopulationSource::replay;
+    std::size_t i = 0;
+    for (const auto& node : pop.child("other_scores")) {
+        const Section o(node, "population.other_scores[]", pop.file(),
+                        "population.other_scores[" + std::to_string(i++) + "]");
+        ScoreLabel named{o.text("name"), o.has("label") ? o.text("label") : o.text("name")};
+        if (named.name.empty()) o.fail("name", "a score needs a name (what plans[].score calls it)");
+        if (std::string problem = text_problem(named.name); !problem.empty())
+            o.fail("name", "not printable text: " + problem);
+        if (named.name == sc.score_name)
+            o.fail("name", "'" + named.name + "' is the first score's name (score_name); give each score its own");
+        for (const ScoreLabel& e : sc.other_scores)
+            if (e.name == named.name) o.fail("name", "score '" + named.name + "' is declared twice");
+        if (!replayed) {
+            for (std::string_view key : {"column", "file", "score_range"})
+                if (o.has(key))
+                    o.fail(key, "only a replayed log reads " + std::string(key) + "; a generated population makes its scores");
+            o.fail("name", "a generated population makes one score for now; declare other scores with a replayed log");
+        }
+        OtherScoreSource src{.name = named.name,
+                             .path = o.has("file") ? resolve(sc.directory, o.text("file")) : sc.population.replay.scores_path,
+                             .column = o.text("column")};
+        const std::vector<double> range = o.real_list("score_range");
+        if (range.size() != 2 || !std::isfinite(range[0]) || !std::isfinite(range[1]) || !(range[0] < range[1]))
+            o.fail("score_range", "expected [low, high] with two finite numbers, low below high");
+        src.score_low = range[0];
+        src.score_high = range[1];
+        if (src.column.empty()) o.fail("column", "give the column that holds this score's values");
+        for (const OtherScoreSource& e : sc.population.replay.other_scores)
+            if (e.path == src.path && e.column == src.column)
+                o.fail("column", "score '" + e.name + "' already reads column '" + src.column + "' of this file");
+        if (src.path == sc.population.replay.scores_path && src.column == "score")
+            o.fail("column", "column 'score' of the scores file is the first score's; name this score's own column");
+        sc.population.replay.other_scores.push_back(std::move(src));
+        sc.other_scores.push_back(std::move(named));
+    }
+    sc.population.replay.score_name = sc.score_name;
+}
+
 void load_groups(const Section& pop, Scenario& sc) {
     if (!pop.has("groups")) return;
     const bool generated = sc.population.source == PopulationSource::generate;
@@ -308,6 +351,7 @@ void load_population(const Section& top, Scenario& sc) {
         parse_generator(Section(pop.child("generate"), "population.generate", file, "population.generate"), sc);
     }
     load_groups(pop, sc);
+    load_other_scores(pop, sc);
     if (pop.has("bootstrap")) {
         if (sc.population.source != PopulationSource::replay)
             pop.fail("bootstrap", "bootstrap resamples a replayed log; a generated population makes every "
@@ -319,6 +363,9 @@ void load_population(const Section& top, Scenario& sc) {
     if (pop.has("shift")) {
         const YAML::Node node = pop.child("shift");
         sc.population.shift = parse_shift(Section(node, "population.shift", file, "population.shift"), sc);
+        if (!sc.other_scores.empty())
+            pop.fail("shift", "a stress test changes the first score only for now, so with other_scores it would "
+                              "compare a shifted score with an unshifted one; leave out the shift or other_scores");
         sc.population.shift_at = {node.Mark().line + 1, node.Mark().column + 1};
     }
     if (std::string problem = replications_problem(sc, sc.replications); !problem.empty())

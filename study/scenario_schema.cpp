@@ -18,6 +18,7 @@ SectionSpec top_level_keys() {
                 integer_key("seed", {.fallback = 1, .range = {0, 9.2e18}, .help = "Seed of every random stream; same seed, same results."}),
                 integer_key("replications", {.fallback = 1, .range = {1, 100000}, .help = "How many replications of every plan to run (more than 1 needs a resampled or generated population)."}),
                 text_key("score_label", {.fallback = "score", .help = "What the score is called in reports, e.g. 'ward risk score'."}),
+                text_key("score_name", {.fallback = "score", .help = "What plans call the first score (plans[].score) when population.other_scores declares others, e.g. candidate."}),
                 list_key("shifts", {.required = true, .help = "The daily shifts, one item each (see shifts[])."}),
                 section_key("outcome", {.required = true, .help = "What counts as catching a case (see outcome)."}),
                 section_key("population", {.required = true, .help = "Where encounters and scores come from (see population)."}),
@@ -57,7 +58,20 @@ SectionSpec population_keys() {
                 section_key("generate", {.help = "Generate invented patients and scores (see population.generate); give replay or generate."}),
                 section_key("bootstrap", {.help = "With replay: how replications 1, 2, ... resample the log (see population.bootstrap)."}),
                 section_key("shift", {.help = "A stress test: change the population from a given instant on (see population.shift)."}),
+                list_key("other_scores", {.absent = "none", .help = "Further scores of the same patients, e.g. the score in use today beside a candidate: each evaluated beside the first, compared with it on the same stays, and usable by plans (see population.other_scores[])."}),
                 list_key("groups", {.absent = "none", .help = "Patient-group columns, such as age band or language spoken; every benefit and burden figure is then also given by group (see population.groups[])."}),
+            }};
+}
+
+SectionSpec population_other_scores_keys() {
+    return {"population.other_scores[]",
+            "A further score of the same encounters. In a replayed log, a column of the scores file (an empty field there is \"not recorded in this row\" for that score, counted) or a file of its own with the scores file's columns.",
+            {
+                text_key("name", {.required = true, .help = "What plans call it (plans[].score) and tables show, e.g. bedside."}),
+                text_key("label", {.absent = "the name", .help = "What it is called in reports, e.g. 'bedside vital-sign score (in use today)'."}),
+                text_key("column", {.fallback = "score", .help = "replay: the column holding its values."}),
+                text_key("file", {.unit = "path", .absent = "population.replay.scores", .help = "replay: a file of its own with columns encounter,scored_at,available_at and `column`."}),
+                real_list_key("score_range", {.unit = "score", .fallback = {0, 100}, .help = "replay: [low, high]; its values outside it are bad rows."}),
             }};
 }
 
@@ -231,6 +245,7 @@ SectionSpec plans_keys() {
             {
                 text_key("name", {.required = true, .help = "Unique plan name shown in every table."}),
                 text_key("description", {.help = "One line on what the plan is for."}),
+                text_key("score", {.absent = "the first score", .help = "Which score the plan's rule reads: score_name or one of population.other_scores[].name."}),
                 text_key("channel", {.fallback = "page", .help = "How a firing is delivered: page, chart_interruption, handoff_list or ranked_review."}),
                 text_key("role", {.fallback = "responder", .help = "Who answers the notice; when roles are declared, one of them. For a chart interruption, only openings by this chart-opening role are interrupted (default: every role)."}),
                 text_key("queue", {.fallback = "fifo", .help = "Order in which waiting tasks are taken up: fifo (first come) or priority (highest score first)."}),
@@ -368,6 +383,7 @@ const std::vector<SectionSpec>& scenario_sections() {
         population_shift_census_keys(),
         population_replay_keys(),
         population_groups_keys(),
+        population_other_scores_keys(),
         reporting_keys(),
         chart_openings_keys(),
         chart_openings_roles_keys(),

@@ -15,8 +15,9 @@ namespace {
 static_assert(sizeof(PlanFigures) == 496, "PlanFigures changed: list the new field in fields(PlanFigures) below");
 static_assert(sizeof(UnitFigures) == 312, "UnitFigures changed: list the new field in fields(UnitFigures) below");
 static_assert(sizeof(LoggedNotice) == 176, "LoggedNotice changed: list the new field in fields(LoggedNotice) below");
-static_assert(sizeof(Population) == 328, "Population changed: list the new field in fields(Population) below");
+static_assert(sizeof(Population) == 384, "Population changed: list the new field in fields(Population) below");
 static_assert(sizeof(Encounter) == 96, "Encounter changed: list the new field in fields(Encounter) below");
+static_assert(sizeof(OtherScore) == 128, "OtherScore changed: list the new field in fields(OtherScore) below");
 static_assert(sizeof(Score) == 24, "Score changed: list the new field in fields(Score) below");
 static_assert(sizeof(Exclusions) == 192, "Exclusions changed: list the new field in fields(Exclusions) below");
 static_assert(sizeof(SkippedRows) == 32, "SkippedRows changed: list the new field in fields(SkippedRows) below");
@@ -204,8 +205,14 @@ void fields(V& v, Exclusions& x) {
 }
 
 template <typename V>
+void fields(V& v, OtherScore& o) {
+    v(o.name), v(o.scores), v(o.score_start), v(o.excluded_by_reason);
+}
+
+template <typename V>
 void fields(V& v, Population& p) {
     v(p.units), v(p.groups), v(p.encounters), v(p.scores), v(p.score_start), v(p.excluded), v(p.period_start), v(p.period_end);
+    v(p.score_name), v(p.other_scores);
 }
 
 template <typename V>

@@ -80,7 +80,7 @@ TEST_CASE("plan_warnings.threshold_outside_the_scores_seen") {
                                      page("review-floor-200", 200, Channel::ranked_review)};
     std::vector<PlanFigures> f;
     for (std::size_t i = 0; i < plans.size(); ++i) f.push_back(figures(static_cast<std::int64_t>(i), 0, {}));
-    const PlanWarnings w = plan_warnings(plans, points_seen, f);
+    const PlanWarnings w = plan_warnings(plans, {points_seen}, f);
     REQUIRE(w.thresholds.size() == 3);
     CHECK(w.thresholds[0].plan == "above");
     CHECK(w.thresholds[0].above);
@@ -95,8 +95,8 @@ TEST_CASE("plan_warnings.threshold_outside_the_scores_seen") {
     REQUIRE(w.low_thresholds.size() == 1);
     CHECK(w.low_thresholds[0].plan == "at-the-bottom");
     // Without scores there is no range to be outside of.
-    CHECK(plan_warnings(plans, ScoreSample{}, f).thresholds.empty());
-    CHECK(plan_warnings(plans, ScoreSample{}, f).low_thresholds.empty());
+    CHECK(plan_warnings(plans, {ScoreSample{}}, f).thresholds.empty());
+    CHECK(plan_warnings(plans, {ScoreSample{}}, f).low_thresholds.empty());
 }
 
 TEST_CASE("plan_warnings.threshold_inside_the_scores_but_below_nearly_all_of_them") {
@@ -111,7 +111,7 @@ TEST_CASE("plan_warnings.threshold_inside_the_scores_but_below_nearly_all_of_the
                                      page("five", 5), page("five-and-a-half", 5.5), page("sensible-60", 60)};
     std::vector<PlanFigures> f;
     for (std::size_t i = 0; i < plans.size(); ++i) f.push_back(figures(static_cast<std::int64_t>(i), 0, {}));
-    const PlanWarnings w = plan_warnings(plans, scores, f);
+    const PlanWarnings w = plan_warnings(plans, {scores}, f);
     CHECK(w.thresholds.empty());
     REQUIRE(w.low_thresholds.size() == 4);
     CHECK(w.low_thresholds[0].plan == "trial-0.2");
@@ -131,7 +131,7 @@ TEST_CASE("plan_warnings.threshold_inside_the_scores_but_below_nearly_all_of_the
                       "scores of replication 0 (4; scores 0 to 99): 99% of scores reach it, so the plan fires on "
                       "nearly every score. Is the threshold on the scores' scale?");
     // A sensible threshold alone: no warning at all.
-    CHECK(plan_warnings({page("sensible-60", 60)}, scores, {figures(3, 1, {})}).empty());
+    CHECK(plan_warnings({page("sensible-60", 60)}, {scores}, {figures(3, 1, {})}).empty());
 }
 
 TEST_CASE("plan_warnings.a_probability_threshold_on_scores_with_many_zeros") {
@@ -144,7 +144,7 @@ TEST_CASE("plan_warnings.a_probability_threshold_on_scores_with_many_zeros") {
     scores.ascending.back() = 100;  // the top of the scale seen
     const std::vector<Plan> plans = {page("trial-0.3", 0.3), page("sensible-40", 40), page("one", 1)};
     const std::vector<PlanFigures> f = {figures(1, 0, {}), figures(2, 0, {}), figures(3, 0, {})};
-    const PlanWarnings w = plan_warnings(plans, scores, f);
+    const PlanWarnings w = plan_warnings(plans, {scores}, f);
     CHECK(w.thresholds.empty());
     CHECK(w.low_thresholds.empty());
     REQUIRE(w.probability_thresholds.size() == 1);  // 1 is a whole point, not a probability
@@ -156,7 +156,7 @@ TEST_CASE("plan_warnings.a_probability_threshold_on_scores_with_many_zeros") {
     // On probabilities (0 to 0.9) the same threshold is sensible: no warning.
     ScoreSample probabilities;
     for (int v = 0; v <= 90; ++v) probabilities.ascending.push_back(v / 100.0);
-    CHECK(plan_warnings({page("prob-0.3", 0.3)}, probabilities, {figures(1, 0, {})}).empty());
+    CHECK(plan_warnings({page("prob-0.3", 0.3)}, {probabilities}, {figures(1, 0, {})}).empty());
 }
 
 TEST_CASE("plan_warnings.identical_plans_are_named_together") {
@@ -164,18 +164,18 @@ TEST_CASE("plan_warnings.identical_plans_are_named_together") {
     const std::vector<PlanFigures> f = {figures(10, 2, {4, 6}), figures(7, 1, {3, 4}), figures(10, 2, {4, 6}),
                                         figures(10, 2, {6, 4}),  // same totals, other unit-shifts: not identical
                                         figures(7, 1, {3, 4})};
-    const PlanWarnings w = plan_warnings(plans, points_seen, f);
+    const PlanWarnings w = plan_warnings(plans, {points_seen}, f);
     CHECK(w.thresholds.empty());
     REQUIRE(w.identical.size() == 2);
     CHECK(w.identical[0].plans == std::vector<std::string>{"a", "c"});
     CHECK(w.identical[1].plans == std::vector<std::string>{"b", "e"});
     // Catches alone set plans apart too.
-    CHECK(plan_warnings({page("a", 50), page("b", 60)}, points_seen, {figures(10, 2, {4, 6}), figures(10, 3, {4, 6})})
+    CHECK(plan_warnings({page("a", 50), page("b", 60)}, {points_seen}, {figures(10, 2, {4, 6}), figures(10, 3, {4, 6})})
               .empty());
     const std::vector<std::string> lines = plan_warning_lines(w);
     REQUIRE(lines.size() == 2);
     CHECK(lines[0].rfind("Warning: plans a and c gave identical figures in replication 0", 0) == 0);
-    const PlanWarnings three = plan_warnings({page("x", 1), page("y", 2), page("z", 3)}, ScoreSample{},
+    const PlanWarnings three = plan_warnings({page("x", 1), page("y", 2), page("z", 3)}, {ScoreSample{}},
                                              {figures(0, 0, {0}), figures(0, 0, {0}), figures(0, 0, {0})});
     CHECK(plan_warning_lines(three)[0].rfind("Warning: plans x, y and z gave identical figures", 0) == 0);
 }

@@ -20,6 +20,7 @@ OUTCOME_RATE = 0.07  # share of stays ending in an unplanned ICU transfer (inven
 
 rng = random.Random(20261201)
 encounters, scores = [], []
+course = {}  # each stay's own level and the start of its rise, for the bedside score
 serial = 0
 for unit, beds in UNITS.items():
     bed_free = [START - dt.timedelta(hours=rng.uniform(0, 72)) for _ in range(beds)]
@@ -50,6 +51,7 @@ for unit, beds in UNITS.items():
                     scores.append((eid, s, s + latency, round(value, 1)))
                 s += dt.timedelta(minutes=rng.gauss(60, 6))
             encounters.append((eid, unit, admitted, discharged, outcome))
+            course[eid] = (base, drift_start)
             t = discharged + dt.timedelta(hours=rng.expovariate(1 / 10))
 
 
@@ -71,6 +73,31 @@ def age_band(unit):
     return ""
 
 
+# An invented bedside score already in use (0 to 20 points, charted at each
+# observation round, about every 4 hours), from a stream of its own so the
+# stays and the deterioration score above stay as they were. It shares each
+# patient's own level with the deterioration score and climbs before an
+# outcome too, but is coarser and noisier: the candidate should beat it, and
+# the comparison shows by how much.
+bedside_rng = random.Random(20261206)
+
+
+def bedside_rows(eid, admitted, discharged, outcome):
+    base, drift_start = course[eid]
+    rows = []
+    s = admitted + dt.timedelta(minutes=bedside_rng.uniform(20, 240))
+    while s < discharged:
+        value = 1.5 + 0.12 * (base - 28) + bedside_rng.gauss(0, 1.6)
+        if outcome and s > drift_start:
+            hours_in = (s - drift_start).total_seconds() / 3600
+            span = (outcome - drift_start).total_seconds() / 3600
+            value += 4.5 * min(1.0, hours_in / max(span, 1))
+        if bedside_rng.random() > 0.05:  # a round now and then is not charted
+            rows.append((eid, s, s + dt.timedelta(minutes=10), max(0, min(20, round(value)))))
+        s += dt.timedelta(minutes=bedside_rng.gauss(240, 30))
+    return rows
+
+
 def naive_local(x):
     return x.astimezone(ZONE).strftime("%Y-%m-%d %H:%M:%S")
 
@@ -89,4 +116,12 @@ with open("scores.csv", "w", newline="") as f:
     w.writerow(["encounter", "scored_at", "available_at", "score"])
     for eid, s, a, v in sorted(scores):
         w.writerow([eid, utc(s), utc(a), v])
-print(len(encounters), "encounters,", len(scores), "scores")
+bedside = []
+for eid, unit, a, d, o in sorted(encounters):
+    bedside += bedside_rows(eid, a, d, o)
+with open("bedside_scores.csv", "w", newline="") as f:
+    w = csv.writer(f, lineterminator="\n")
+    w.writerow(["encounter", "scored_at", "available_at", "bedside"])
+    for eid, s, a, v in bedside:
+        w.writerow([eid, utc(s), utc(a), v])
+print(len(encounters), "encounters,", len(scores), "scores,", len(bedside), "bedside scores")

@@ -1,0 +1,114 @@
+#include "report/score_comparison_tables.hpp"
+
+#include <cmath>
+#include <cstdio>
+
+#include "report/cells.hpp"
+#include "report/evaluation_tables.hpp"
+
+namespace tocsin {
+
+Table score_comparison_auc_table(const ScoreComparison& c) {
+    Table t = make_table("score_comparison_auc", "Two scores on the same stays: encounter-level AUC, paired test",
+                         {"first_score", "other_score", "stays_compared", "cases", "non_cases", "stays_first_only",
+                          "stays_other_only", "stays_neither", "auc_first", "auc_other", "difference", "difference_se",
+                          "difference_lower", "difference_upper", "z", "p_value", "confidence", "test"});
+    for (const ScorePairAuc& a : c.auc) {
+        std::vector<Cell> row{a.first, a.other, a.stays, a.cases, a.controls, a.only_first, a.only_other, a.neither};
+        if (a.test) {
+            const PairedAucComparison& x = *a.test;
+            for (Cell cell : {Cell(x.auc_a), Cell(x.auc_b), Cell(x.difference), Cell(x.standard_error),
+                              Cell(x.interval.lower), Cell(x.interval.upper), cell_or_empty(x.z), cell_or_empty(x.p),
+                              Cell(a.confidence)})
+                row.push_back(cell);
+        } else {
+            row.insert(row.end(), 9, Cell());
+        }
+        row.push_back(std::string("DeLong, DeLong & Clarke-Pearson 1988, paired"));
+        t.add_row(std::move(row));
+    }
+    return t;
+}
+
+Table score_comparison_thresholds_table(const ScoreComparison& c) {
+    Table t = make_table(
+        "score_comparison_thresholds",
+        "Each plan's threshold against the other score at the threshold flagging as many stays: who each flags, net benefit",
+        {"plan", "plan_score", "plan_threshold", "other_score", "matched_threshold", "stays_compared", "cases",
+         "cases_flagged_by_both", "cases_flagged_by_plan_score_only", "cases_flagged_by_other_score_only",
+         "cases_flagged_by_neither", "non_cases_flagged_by_both", "non_cases_flagged_by_plan_score_only",
+         "non_cases_flagged_by_other_score_only", "non_cases_flagged_by_neither", "evaluations_per_case",
+         "threshold_probability", "net_benefit_plan_score", "net_benefit_other_score", "difference",
+         "difference_lower", "difference_upper", "resamples"});
+    for (const ThresholdComparison& x : c.thresholds) {
+        std::vector<Cell> row{x.plan, x.plan_score, x.plan_threshold, x.other_score, finite_or_empty(x.matched_threshold),
+                              x.stays, x.cases};
+        for (std::int64_t n : x.cases_by) row.push_back(n);
+        for (std::int64_t n : x.non_cases_by) row.push_back(n);
+        row.push_back(x.evaluations_per_case);
+        row.push_back(1.0 / x.evaluations_per_case);
+        if (x.stays > 0) {
+            for (double v : {x.net_benefit_plan, x.net_benefit_other, x.difference, x.difference_interval.lower,
+                             x.difference_interval.upper})
+                row.push_back(v);
+        } else {
+            row.insert(row.end(), 5, Cell());
+        }
+        row.push_back(std::int64_t{x.resamples});
+        t.add_row(std::move(row));
+    }
+    return t;
+}
+
+std::vector<Table> other_score_evaluation_tables(const Evaluation& evaluation, std::size_t k, const std::string& name) {
+    std::vector<Table> tables = evaluation_tables(evaluation);
+    for (Table& t : tables) {
+        t.name = "other_score_" + std::to_string(k) + "_" + t.name;
+        t.title += " - score " + name;
+    }
+    return tables;
+}
+
+namespace {
+
+std::string number(double v, int decimals) {
+    char buf[64];
+    std::snprintf(buf, sizeof buf, "%.*f", decimals, v);
+    return buf;
+}
+
+}  // namespace
+
+std::string score_comparison_text(const ScoreComparison& c) {
+    if (c.auc.empty()) return "";
+    std::string s = "Two scores on the same stays (replication 0; a comparison of scores, not of outcomes)\n";
+    for (const ScorePairAuc& a : c.auc) {
+        s += "  " + a.first + " against " + a.other + ": " + std::to_string(a.stays) + " stays with both (" +
+             std::to_string(a.cases) + " cases)";
+        if (a.only_first + a.only_other > 0)
+            s += "; left out: " + std::to_string(a.only_first) + " with " + a.first + " only, " +
+                 std::to_string(a.only_other) + " with " + a.other + " only";
+        s += "\n";
+        if (!a.test) {
+            s += "    AUC difference: needs cases and non-cases\n";
+            continue;
+        }
+        const PairedAucComparison& x = *a.test;
+        s += "    AUC " + number(x.auc_a, 3) + " against " + number(x.auc_b, 3) + ", difference " +
+             number(x.difference, 3) + " (" + number(x.interval.lower, 3) + " to " + number(x.interval.upper, 3) + ")";
+        if (x.p) s += ", z " + number(*x.z, 2) + ", p " + number(*x.p, 4);
+        s += " (DeLong, paired)\n";
+    }
+    for (const ThresholdComparison& x : c.thresholds) {
+        if (x.evaluations_per_case != 10 || x.stays == 0) continue;
+        s += "  " + x.plan + " (" + x.plan_score + " >= " + number(x.plan_threshold, 2) + ") against " + x.other_score +
+             (std::isfinite(x.matched_threshold) ? " >= " + number(x.matched_threshold, 2) : std::string(" (none)")) +
+             ": cases flagged by one only " + std::to_string(x.cases_by[1]) + " / " + std::to_string(x.cases_by[2]) +
+             ", non-cases " + std::to_string(x.non_cases_by[1]) + " / " + std::to_string(x.non_cases_by[2]) +
+             "; net benefit difference at 10 evaluations per case " + number(x.difference * 100, 2) + " per 100 stays (" +
+             number(x.difference_interval.lower * 100, 2) + " to " + number(x.difference_interval.upper * 100, 2) + ")\n";
+    }
+    return s;
+}
+
+}  // namespace tocsin
