@@ -6,6 +6,8 @@
 #include <cstdio>
 #include <map>
 #include <sstream>
+#include <utility>
+#include <vector>
 
 #include "analysis/averted.hpp"
 #include "report/averted_tables.hpp"
@@ -322,6 +324,12 @@ ReportInput report_input_for_run(const Scenario& sc, const RunOutput& out, const
     if (!out.first_replication.acceptance_by_load.empty()) {
         in.acceptance_by_load = acceptance_by_load_table(out.first_replication.acceptance_by_load);
         in.acceptance_by_load->basis = basis.first_shifts;
+        for (const auto& [name, label] : std::vector<std::pair<std::string, std::string>>{
+                 {"load", "load counted"},
+                 {"band", "notices before"},
+                 {"share", "share that led to an evaluation"},
+                 {"declared_probability", "declared probability (mean)"}})
+            in.column_labels[name] = label;
         in.acceptance_note =
             "Some plans declare that the chance a notice leads to an evaluation falls with the notices before it "
             "(an assumption, README \"Response that falls with load\"). Each row counts the notices that met a load "
