@@ -71,8 +71,27 @@ const std::vector<Metric>& plan_metrics() {
          [](const PlanFigures& f) { return or_nan(f.channel_burden_mean); }, ChannelUnit::own},
         {"channel_burden_p90", "burden in the channel's own unit, 90th percentile", Better::lower,
          [](const PlanFigures& f) { return or_nan(f.channel_burden_p90); }, ChannelUnit::own},
+        {"assumed_averted",
+         "outcomes averted, expected under the declared effect (the declared effect applied to simulated catches, "
+         "not an estimate from data)",
+         Better::higher, [](const PlanFigures& f) { return or_nan(f.assumed_averted); }, ChannelUnit::neutral, true},
+        {"evaluations_per_assumed_averted",
+         "evaluations per outcome averted under the declared effect (the declared effect applied to simulated "
+         "catches, not an estimate from data)",
+         Better::lower, [](const PlanFigures& f) { return or_nan(f.evaluations_per_assumed_averted); },
+         ChannelUnit::neutral, true},
     };
     return metrics;
+}
+
+bool shown_metric(const ReplicatedFigures& f, std::size_t metric) {
+    if (!plan_metrics()[metric].declared_only) return true;
+    // assumed_averted is a number (0 included) in every replication when the effect is declared.
+    const std::size_t averted = metric_index(*find_metric("assumed_averted"));
+    for (std::size_t p = 0; p < f.values.size(); ++p)
+        for (double v : f.of(p, averted))
+            if (!std::isnan(v)) return true;
+    return false;
 }
 
 const Metric* find_metric(std::string_view name) {

@@ -37,6 +37,9 @@ struct Metric {
     Better better;
     double (*value)(const PlanFigures&);  // NaN when undefined
     ChannelUnit unit = ChannelUnit::neutral;
+    // Reported only when the scenario declares what it rests on (an averted
+    // effect): shown_metric says whether a run has it.
+    bool declared_only = false;
 };
 
 // Every per-plan metric reported across replications, in table order.
@@ -105,6 +108,10 @@ BudgetAnswer best_within_budget(const ReplicatedFigures& f, std::size_t burden_m
 // One answer per comparison group (comparison_groups).
 std::vector<BudgetAnswer> budget_by_group(const ReplicatedFigures& f, std::size_t burden_metric, double limit,
                                           std::size_t benefit_metric);
+
+// Whether `metric` is reported for `f`: always, unless it rests on a declared
+// effect that the run's plans have no figure for (none declared).
+bool shown_metric(const ReplicatedFigures& f, std::size_t metric);
 
 // A paired difference: each replication's figure of `plan` minus that of `versus`.
 MeanInterval paired_difference(const ReplicatedFigures& f, std::size_t plan, std::size_t versus, std::size_t metric);

@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cstdint>
 
+#include "analysis/averted.hpp"
 #include "analysis/channel_burden.hpp"
 #include "analysis/quantiles.hpp"
 #include "sim/channels.hpp"
@@ -230,6 +231,11 @@ PlanFigures plan_figures(const AnalysisSettings& settings, const Population& pop
     const auto actions = record.staff ? catching_actions(record) : requests;
     const auto caught_at = record.staff ? first_catch(settings, pop, actions) : noticed_at;
     catch_figures(f, pop, actions, caught_at, noticed_at);
+    if (settings.averted) {
+        f.assumed_averted = expected_averted(*settings.averted, settings.min_lead, pop, caught_at);
+        if (*f.assumed_averted > 0)
+            f.evaluations_per_assumed_averted = static_cast<double>(f.evaluations) / *f.assumed_averted;
+    }
     return f;
 }
 

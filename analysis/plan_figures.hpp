@@ -44,6 +44,10 @@ struct PlanFigures {
     std::optional<double> lead_from_notice_median_hours;
     std::optional<double> wait_median_minutes, wait_p90_minutes;  // notice to evaluation start
     std::optional<std::int64_t> never_taken_up;
+    // Only with a declared effect (analysis/averted.hpp): the expected outcomes
+    // averted (the sum of the caught cases' chances) and evaluations per one.
+    // The declared assumption applied to simulated catches, not an estimate from data.
+    std::optional<double> assumed_averted, evaluations_per_assumed_averted;
     // Burdens that need the plan itself (add_plan_burdens). The channel's own
     // unit (analysis/channel_burden.hpp: pages per unit per shift, interruptions
     // per clinician per shift, flags per handoff, reviews per round), and two

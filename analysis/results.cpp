@@ -123,6 +123,7 @@ ReplicationResults replication_results(const SimulationSetup& setup, const Analy
     r.groups = std::move(known.groups);
     r.exclusions = exclusions(pop, replayed_openings);
     r.channels = channel_results(setup, rep, pop, cal, record);
+    r.acceptance_by_load = acceptance_by_load(setup, record, rep.from, rep.until);
     if (setup.has_staff()) r.staff = staff_results(setup, pop, cal, rep, record, with_task_log);
     if (with_notice_log) r.notice_log = notice_log(setup, pop, record);
     return r;

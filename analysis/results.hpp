@@ -7,6 +7,7 @@
 #include <string>
 #include <vector>
 
+#include "analysis/acceptance_by_load.hpp"
 #include "analysis/channel_burden.hpp"
 #include "analysis/plan_figures.hpp"
 #include "analysis/group_figures.hpp"
@@ -94,6 +95,7 @@ struct ReplicationResults {
     std::optional<std::vector<LoggedNotice>> notice_log;  // opt-in: holds encounter ids
     std::optional<StaffResults> staff;
     ChannelResults channels;  // each channel's burden in its own unit (analysis/channel_burden.hpp)
+    std::vector<LoadBandRow> acceptance_by_load;  // plans that declare fatigue (analysis/acceptance_by_load.hpp)
 };
 
 ReplicationResults replication_results(const SimulationSetup& setup, const AnalysisSettings& settings,

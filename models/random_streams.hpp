@@ -29,7 +29,8 @@ enum class StreamPurpose : std::uint64_t {
     handoff_follow_up = 13, // entity: entity_key(encounter, handoff instant)
     rise_size = 14,         // entity: encounter (a case's own pre-outcome rise; drawn only when it varies)
     patient_group = 15,     // entity: entity_key(encounter, group column name)
-    score_comparison = 17,  // entity: entity_key(plan name, other score name); replication 0
+    notice_response = 16,   // entity: entity_key(encounter, notice instant, occurrence); a page under fatigue (sim/fatigue.hpp)
+    score_comparison = 17,  // entity: entity_key(plan name, other score name, N x 1000); replication 0
 };
 
 // SplitMix64 finaliser (Steele, Lea & Flood 2014): a bijective 64-bit mix.

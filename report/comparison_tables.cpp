@@ -47,6 +47,7 @@ ComparisonTables comparison_tables(const ReplicatedFigures& f, std::size_t ref) 
     t.replication_figures.columns = {"plan", "replication", "metric", "value"};
     for (std::size_t p = 0; p < f.plans.size(); ++p)
         for (std::size_t m = 0; m < metrics.size(); ++m) {
+            if (!shown_metric(f, m)) continue;
             const std::string name(metrics[m].name);
             const MeanInterval mi = mean_interval(f.of(p, m));
             t.comparison.add_row({f.plans[p], name, finite_or_empty(mi.mean), finite_or_empty(mi.low),

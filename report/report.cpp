@@ -394,6 +394,12 @@ std::vector<Section> report_sections(const ReportInput& in) {
     if (given(in.staff_and_waits))
         sections.push_back({"staff", "Staff time and waiting, by role",
                             html_table(*in.staff_and_waits, table_options) + paragraph(in.staff_note, "note")});
+    if (given(in.outcomes_averted))
+        sections.push_back({"averted", "Outcomes averted, under a stated effect",
+                            paragraph(in.outcomes_averted_note, "note") + html_table(*in.outcomes_averted, table_options)});
+    if (given(in.acceptance_by_load))
+        sections.push_back({"fatigue", "Response that falls with load",
+                            html_table(*in.acceptance_by_load, table_options) + paragraph(in.acceptance_note, "note")});
     if (!in.evaluation_tables.empty() || !in.evaluation_charts.empty())
         sections.push_back(evaluation_section(in, table_options));
     sections.push_back({"run", "How this report was made", run_record_body(in.run)});

@@ -103,6 +103,12 @@ struct ReportInput {
     std::optional<Table> staff_and_waits;  // staff minutes and task waits by role
     std::string staff_note;
 
+    std::optional<Table> outcomes_averted;  // only with a declared averted effect
+    std::string outcomes_averted_note;
+
+    std::optional<Table> acceptance_by_load;  // plans that declare fatigue: realised against declared
+    std::string acceptance_note;
+
     std::vector<Table> evaluation_tables;       // model-evaluation measures
     std::vector<LineChart> evaluation_charts;   // e.g. roc_chart(), calibration_chart(), decision_curve_chart()
     std::string evaluation_note;

@@ -6,7 +6,11 @@
 #include <cstdio>
 #include <map>
 #include <sstream>
+#include <utility>
+#include <vector>
 
+#include "analysis/averted.hpp"
+#include "report/averted_tables.hpp"
 #include "report/basis.hpp"
 #include "report/cells.hpp"
 #include "report/comparison_tables.hpp"
@@ -308,6 +312,30 @@ ReportInput report_input_for_run(const Scenario& sc, const RunOutput& out, const
     if (with_staff) {
         add_staff(in, out.first_replication.staff->workload);
         in.staff_and_waits->basis = basis.first;
+    }
+    if ((in.outcomes_averted = outcomes_averted_table(f))) {
+        in.outcomes_averted->basis = basis.replications;
+        in.outcomes_averted_note =
+            "These figures are " + std::string(averted_caution) + ": the scenario declares how likely an evaluation "
+            "is to prevent the outcome by how long before time zero it starts (see \"What the scenario assumes\"), "
+            "and each plan's caught cases are counted through that assumption. They say what a plan might achieve "
+            "if the assumption held; they are not evidence that it does.";
+    }
+    if (!out.first_replication.acceptance_by_load.empty()) {
+        in.acceptance_by_load = acceptance_by_load_table(out.first_replication.acceptance_by_load);
+        in.acceptance_by_load->basis = basis.first_shifts;
+        for (const auto& [name, label] : std::vector<std::pair<std::string, std::string>>{
+                 {"load", "load counted"},
+                 {"band", "notices before"},
+                 {"share", "share that led to an evaluation"},
+                 {"declared_probability", "declared probability (mean)"}})
+            in.column_labels[name] = label;
+        in.acceptance_note =
+            "Some plans declare that the chance a notice leads to an evaluation falls with the notices before it "
+            "(an assumption, README \"Response that falls with load\"). Each row counts the notices that met a load "
+            "in that band: how many led to an evaluation, and the probability the declared effect gave them on "
+            "average. A page not followed was acknowledged without an evaluation; an interruption not followed was "
+            "dismissed. Neither can catch a case.";
     }
     add_run_record(in, sc, f, burden, benefit);
     return in;

@@ -4,6 +4,7 @@
 
 #include "report/basis.hpp"
 #include "report/cautions.hpp"
+#include "report/averted_tables.hpp"
 #include "report/comparison_tables.hpp"
 #include "report/evaluation_tables.hpp"
 #include "report/score_comparison_tables.hpp"
@@ -43,11 +44,13 @@ std::vector<OutputFile> run_output_files(const Scenario& sc, const RunOutput& ou
     add(std::move(t.channel_burden), basis.first);
     if (!t.rounds.rows.empty()) add(std::move(t.rounds), basis.first);
     if (!t.chart_interruptions.rows.empty()) add(std::move(t.chart_interruptions), basis.first_shifts);
+    if (t.acceptance_by_load) add(std::move(*t.acceptance_by_load), basis.first_shifts);
     ComparisonTables comparison = comparison_tables(out.figures);
     add(std::move(comparison.comparison), basis.replications);
     add(std::move(comparison.differences), basis.replications);
     add(std::move(comparison.replication_figures), basis.replications);
     add(plan_unit_comparison_table(out.unit_figures), basis.replications);
+    if (auto averted = outcomes_averted_table(out.figures)) add(std::move(*averted), basis.replications);
     if (!out.first_replication.groups.empty()) {
         add(plan_group_summary_table(out.first_replication.groups, out.first_replication.replication), basis.first);
         add(plan_group_comparison_table(out.group_figures), basis.replications);

@@ -1,7 +1,10 @@
 #include "report/run_tables.hpp"
 
+#include <cmath>
+
 #include "report/cells.hpp"
 #include "report/unit_tables.hpp"
+#include "models/text.hpp"
 #include "sim/notice.hpp"
 
 namespace tocsin {
@@ -173,6 +176,34 @@ Table chart_interruptions_table(const std::vector<ChartInterruptionCount>& count
     return t;
 }
 
+Table acceptance_by_load_table(const std::vector<LoadBandRow>& rows) {
+    Table t;
+    t.name = "acceptance_by_load";
+    t.title = "Notices that led to an evaluation, by the load they met (declared fatigue)";
+    t.columns = {"plan", "load", "band", "notices", "evaluations", "share", "declared_probability"};
+    for (const LoadBandRow& r : rows)
+        t.add_row({r.plan, std::string(to_string(r.load)), load_band_name(r.band), r.notices, r.evaluations,
+                   cell_or_empty(r.share), cell_or_empty(r.declared)});
+    return t;
+}
+
+std::string acceptance_by_load_text(const std::vector<LoadBandRow>& rows) {
+    std::string out;
+    auto percent = [](const std::optional<double>& v) { return v ? format_real(std::round(*v * 1000) / 10) + "%" : "n/a"; };
+    for (std::size_t i = 0; i < rows.size(); ++i) {
+        const LoadBandRow& r = rows[i];
+        const bool new_plan = i == 0 || rows[i - 1].plan != r.plan;
+        const bool new_kind = new_plan || rows[i - 1].load != r.load;
+        if (new_plan) out += (out.empty() ? "" : "\n") + std::string("Fatigue, plan ") + r.plan + ": share led to an evaluation (declared)";
+        if (new_kind)
+            out += r.load == LoadKind::earlier_for_patient ? "; by earlier notices for the patient " : "; by the team's notices in the window ";
+        else
+            out += ", ";
+        out += load_band_name(r.band) + ": " + percent(r.share) + " (" + percent(r.declared) + ", n=" + std::to_string(r.notices) + ")";
+    }
+    return out.empty() ? out : out + ".\n";
+}
+
 RunTables run_tables(const ReplicationResults& r, const TimeZone& zone) {
     RunTables t;
     t.plan_summary = plan_summary_table(r);
@@ -189,6 +220,7 @@ RunTables run_tables(const ReplicationResults& r, const TimeZone& zone) {
         if (r.staff->task_log) t.task_log = task_log_table(*r.staff->task_log, zone);
     }
     if (r.notice_log) t.notice_log = notice_log_table(*r.notice_log);
+    if (!r.acceptance_by_load.empty()) t.acceptance_by_load = acceptance_by_load_table(r.acceptance_by_load);
     return t;
 }
 

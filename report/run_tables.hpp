@@ -22,6 +22,7 @@ struct RunTables {
     Table channel_burden;             // each channel's burden in its own unit
     Table rounds;                     // handoff lists and review rounds
     Table chart_interruptions;        // per unit x shift x opening role
+    std::optional<Table> acceptance_by_load;  // plans that declare fatigue
 };
 
 // Times are shown in `zone` (the notice log's in UTC).
@@ -42,6 +43,11 @@ Table task_log_table(const std::vector<LoggedTask>& log, const TimeZone& zone);
 Table channel_burden_table(const std::vector<ChannelBurdenSummary>& burden);
 Table rounds_table(const std::vector<ReportedRound>& rounds, const TimeZone& zone);
 Table chart_interruptions_table(const std::vector<ChartInterruptionCount>& counts, const TimeZone& zone);
+
+// Fatigue (analysis/acceptance_by_load.hpp).
+Table acceptance_by_load_table(const std::vector<LoadBandRow>& rows);
+// One line per plan that declares fatigue, for the terminal; empty when none does.
+std::string acceptance_by_load_text(const std::vector<LoadBandRow>& rows);
 
 // What a kind of exclusion is called in the exclusions table ("skipped rows").
 std::string excluded_name(Excluded what);

@@ -5,6 +5,7 @@
 
 #include "report/cautions.hpp"
 #include "report/cells.hpp"
+#include "report/averted_tables.hpp"
 #include "report/comparison_tables.hpp"
 #include "report/evaluation_tables.hpp"
 #include "report/score_comparison_tables.hpp"
@@ -162,6 +163,9 @@ std::string run_text(const Scenario& sc, const RunOutput& out, const RunSettings
         text += "\n" + channel_units_text(out.figures, out.first_replication.channels.burden);
     }
     else text += plan_summary_text(out.first_replication);
+    if (const std::string averted = outcomes_averted_text(out.figures); !averted.empty()) text += "\n" + averted;
+    if (const std::string fatigue = acceptance_by_load_text(out.first_replication.acceptance_by_load); !fatigue.empty())
+        text += "\nResponse that falls with load (replication 0, reporting period):\n" + fatigue;
     if (const std::string wards = per_ward_text(out.unit_figures); !wards.empty()) text += "\n" + wards;
     if (const std::string groups = who_is_reached_text(out.first_replication.groups, out.group_scores,
                                                        sc.analysis.smallest_group,

@@ -69,6 +69,7 @@ std::int64_t fire_chart_rule(const Plan& plan, const RuleClock& clock, std::span
         if (!reason) continue;
         const bool accepted = openings.acceptance_draws[i] < plan.chart.acceptance_probability;
         out.push_back(make_notice(origin, o.at, state.latest(), *reason, accepted, o.role));
+        out.back().response_draw = openings.acceptance_draws[i];
     }
     return asked;
 }

@@ -30,6 +30,10 @@ struct Notice {
     // For a chart interruption: the opener's role, an index into the
     // scenario's chart-opening roles; 0 for other channels.
     std::uint8_t opener_role = 0;
+    // The uniform draw that decided asks_evaluation: a chart interruption's
+    // acceptance draw, a page's response draw when its plan declares fatigue
+    // (sim/fatigue.hpp); 0 otherwise.
+    double response_draw = 0.0;
 };
 
 // Where a notice comes from and whom it is about: one plan's channel, one

@@ -11,6 +11,7 @@
 #include "models/time.hpp"
 #include "sim/channel_types.hpp"
 #include "sim/escalation.hpp"
+#include "sim/fatigue.hpp"
 #include "sim/notice.hpp"
 #include "sim/rules.hpp"
 #include "sim/shifts.hpp"
@@ -29,6 +30,8 @@ struct Plan {
     ChartSettings chart;      // channel chart_interruption
     HandoffSettings handoff;  // channel handoff_list
     ReviewSettings review;    // channel ranked_review
+    // Page and chart interruption: response that falls with load; none: off.
+    std::optional<FatigueEffect> fatigue;
     // The plan's own staffing, when it declares one; otherwise the scenario's.
     // A review answered by the nurse who also takes pages need not escalate
     // the way the pages do.

@@ -85,6 +85,16 @@ void join_blocks(std::vector<EncounterBlock>& blocks, std::size_t p, PlanRecord&
                      [](const Notice& a, const Notice& b) { return a.at < b.at; });
 }
 
+// Whether each notice of a plan that declares fatigue leads to an evaluation,
+// now that every notice of the plan is known in time order (sim/fatigue.hpp).
+void respond_with_fatigue(const SimulationSetup& setup, const Plan& plan, std::uint64_t replication,
+                          PlanRecord& record) {
+    const double base = plan.channel == Channel::chart_interruption ? plan.chart.acceptance_probability
+                                                                    : plan.fatigue->base_response;
+    const RecipientTeams teams{!setup.has_staff() || setup.roles[plan.staffing.first_role].per_unit};
+    record.loads = apply_fatigue(record.notices, *plan.fatigue, base, teams, ReplicationSeed{setup.seed, replication});
+}
+
 // One plan's staff. Only notices that ask for a bedside evaluation become
 // tasks (an interruption that is dismissed, a flag nobody follows up, do not);
 // TaskRecord::notice is mapped back to the index among all the plan's notices.
@@ -159,6 +169,7 @@ ReplicationRecord simulate_replication(const SimulationSetup& setup, const Popul
                     run_round_channel(setup, population, calendar, plan, static_cast<std::uint32_t>(p), replication);
             else
                 join_blocks(blocks, p, record.plans[p]);
+            if (plan.fatigue) respond_with_fatigue(setup, plan, replication, record.plans[p]);
         }
     }
     const auto span = phase(setup.has_staff() ? phases : nullptr, "staff");

@@ -8,6 +8,7 @@
 
 #include "models/phase_log.hpp"
 #include "models/population.hpp"
+#include "sim/fatigue.hpp"
 #include "sim/notice.hpp"
 #include "sim/setup.hpp"
 #include "sim/shifts.hpp"
@@ -29,6 +30,8 @@ struct PlanRecord {
     // Ranked review: (encounter, round instant) for every patient on a top-N
     // list, reviewed or left over by the team's capacity.
     std::vector<std::pair<std::uint32_t, Instant>> listed;
+    // When the plan declares fatigue: the load each notice met, one per notice.
+    std::vector<NoticeLoad> loads;
 };
 
 struct ReplicationRecord {

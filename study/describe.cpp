@@ -4,6 +4,7 @@
 #include <cmath>
 #include <sstream>
 
+#include "analysis/averted.hpp"
 #include "study/scenario.hpp"
 #include "study/scenario_load.hpp"
 
@@ -149,6 +150,18 @@ std::optional<std::string> channel_line(const Plan& p, const ShiftPattern& shift
     return std::nullopt;
 }
 
+// The declared fatigue effect, when the plan declares one (sim/fatigue.hpp).
+std::optional<std::string> fatigue_line(const Plan& p) {
+    if (!p.fatigue) return std::nullopt;
+    const FatigueEffect& f = *p.fatigue;
+    const std::string base = p.channel == Channel::page ? num(f.base_response) + " of pages with nothing before them"
+                                                        : "the acceptance probability";
+    return "assumed fatigue: from " + base + ", the odds of an evaluation x" + num(f.repeat_odds_ratio) +
+           " per earlier notice about the same patient and x" + num(f.recent_odds_ratio) +
+           " per notice the team received in the last " + duration_words(f.window) +
+           (p.channel == Channel::page ? "; a page not followed is acknowledged without an evaluation" : "");
+}
+
 std::string headcounts(const ShiftPattern& shifts, const std::vector<int>& row, const char* first) {
     std::string out;
     for (std::size_t k = 0; k < shifts.names.size(); ++k)
@@ -160,6 +173,7 @@ DescriptionItem plan_entry(const Plan& p, const Scenario& sc) {
     DescriptionItem entry = statement(p.name + ": " + std::string(to_string(p.channel)) + " to " + p.role + " when " +
                                       describe_rule(p.rule, sc.score_label));
     if (auto line = channel_line(p, sc.simulation.shifts)) entry.items.push_back(statement(*line));
+    if (auto line = fatigue_line(p)) entry.items.push_back(statement(*line));
     if (!p.description.empty()) entry.items.push_back(statement(p.description));
     if (sc.simulation.has_staff() && p.channel == Channel::ranked_review) {
         // One capacity model: the review team does the reviews (sim/simulate.cpp).
@@ -221,12 +235,27 @@ std::string describe_rule(const Rule& r, const std::string& label) {
     return out;
 }
 
+// The declared averted effect, said as the assumption it is.
+std::string averted_line(const AvertedEffect& e, Seconds min_lead) {
+    std::string how;
+    if (e.shape == AvertedShape::table) {
+        for (const AvertedStep& row : e.table)
+            how += (how.empty() ? "" : "; ") + num(row.probability) + " from " + duration_words(row.lead) + " ahead";
+    } else {
+        how = num(e.probability) + " when it starts at least " + duration_words(e.full_lead) + " ahead" +
+              (e.shape == AvertedShape::linear ? ", falling linearly to 0 at " + duration_words(min_lead) : ", 0 below");
+    }
+    return "Assumed effect (not an estimate from data): a case's first catching evaluation averts the outcome with "
+           "probability " + how + "; outcomes averted are this assumption applied to simulated catches";
+}
+
 ScenarioDescription scenario_description(const Scenario& sc) {
     ScenarioDescription d{.name = sc.name, .question = sc.description, .items = {}};
     d.items.push_back(statement(setting_line(sc)));
     d.items.push_back(statement(shifts_line(sc.simulation.shifts)));
     d.items.push_back(statement("Catch: an action starting between " + duration_words(sc.analysis.window) + " and " +
                                 duration_words(sc.analysis.min_lead) + " before time zero"));
+    if (sc.analysis.averted) d.items.push_back(statement(averted_line(*sc.analysis.averted, sc.analysis.min_lead)));
     add_population(d.items, sc);
     DescriptionItem plans{.text = "Plans (" + std::to_string(sc.simulation.plans.size()) + ")", .entry_label = "Plan", .items = {}};
     for (const Plan& p : sc.simulation.plans) plans.items.push_back(plan_entry(p, sc));

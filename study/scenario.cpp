@@ -98,6 +98,39 @@ ShiftPattern load_shifts(const Section& top) {
     return shifts;
 }
 
+// outcome.averted: the assumed effect of an evaluation by lead (analysis/averted.hpp).
+AvertedEffect load_averted(const Section& s, Seconds min_lead) {
+    AvertedEffect e;
+    const std::string shape = s.text("shape");
+    if (shape == "table") {
+        e.shape = AvertedShape::table;
+        for (const char* key : {"probability", "full_lead_hours"})
+            if (s.has(key)) s.fail(key, "a table effect takes its probabilities from its rows; leave " + std::string(key) + " out");
+        if (!s.has("table")) s.fail("table", "required for shape table: rows of lead_hours and probability");
+        std::size_t i = 0;
+        for (const auto& node : s.child("table")) {
+            Section row(node, "outcome.averted.table[]", s.file(), "outcome.averted.table[" + std::to_string(i++) + "]");
+            const AvertedStep step{static_cast<Seconds>(std::llround(row.real("lead_hours") * 3600)), row.real("probability")};
+            if (!e.table.empty() && step.lead <= e.table.back().lead)
+                row.fail("lead_hours", "rows must come by strictly ascending lead_hours");
+            e.table.push_back(step);
+        }
+        if (e.table.empty()) s.fail("table", "a table effect needs at least one row");
+        return e;
+    }
+    if (shape == "step") e.shape = AvertedShape::step;
+    else if (shape != "linear") s.fail("shape", "unknown shape '" + shape + "' (expected linear, step or table)");
+    for (const char* key : {"probability", "full_lead_hours"})
+        if (!s.has(key)) s.fail(key, "required for shape " + shape);
+    if (s.has("table")) s.fail("table", "only shape table takes rows");
+    e.probability = s.real("probability");
+    e.full_lead = static_cast<Seconds>(std::llround(s.real("full_lead_hours") * 3600));
+    if (e.shape == AvertedShape::linear && e.full_lead <= min_lead)
+        s.fail("full_lead_hours", "a linear effect rises from 0 at the minimum lead (outcome.min_lead_minutes) to its "
+                                  "full probability here, so it must be longer than the minimum lead");
+    return e;
+}
+
 // outcome: what counts as a catch.
 void load_outcome(const Section& top, AnalysisSettings& analysis) {
     Section s(top.child("outcome"), "outcome", top.file(), "outcome");
@@ -105,6 +138,9 @@ void load_outcome(const Section& top, AnalysisSettings& analysis) {
     analysis.min_lead = seconds_from_minutes(s.real("min_lead_minutes"));
     if (analysis.min_lead >= analysis.window)
         s.fail("min_lead_minutes", "minimum lead must be shorter than the window, or nothing could be caught");
+    if (s.has("averted"))
+        analysis.averted = load_averted(Section(s.child("averted"), "outcome.averted", s.file(), "outcome.averted"),
+                                        analysis.min_lead);
 }
 
 // reporting: the period per-shift figures are limited to.

@@ -169,6 +169,34 @@ void parse_channel_settings(const Section& s, Plan& p, const Scenario& sc, const
     else if (p.channel == Channel::ranked_review) parse_review(s, p, where);
 }
 
+// Response that falls with load (sim/fatigue.hpp): a page states its own base
+// response; a chart interruption starts from its acceptance probability.
+void parse_fatigue(const Section& s, Plan& p, const std::string& where) {
+    if (!s.has("fatigue")) return;
+    Section f(s.child("fatigue"), "plans[].fatigue", s.file(), where + ".fatigue");
+    if (p.channel != Channel::page && p.channel != Channel::chart_interruption)
+        s.fail("fatigue", "fatigue applies to pages and chart interruptions; a " + std::string(to_string(p.channel)) +
+                              " plan's notices are not answered one by one by the team that received them");
+    FatigueEffect e;
+    if (p.channel == Channel::page) {
+        if (!f.has("base_response"))
+            f.fail("base_response", "required for a page: the probability that a page leads to an evaluation when "
+                                    "nothing came before it (below 1, or no factor can lower it)");
+        e.base_response = f.real("base_response");
+    } else if (f.has("base_response")) {
+        f.fail("base_response", "a chart interruption starts from chart.acceptance_probability; leave base_response out");
+    }
+    e.repeat_odds_ratio = f.real("repeat_odds_ratio");
+    e.recent_odds_ratio = f.real("recent_odds_ratio");
+    e.window = static_cast<Seconds>(std::llround(f.real("window_hours") * 3600.0));
+    const double base = p.channel == Channel::page ? e.base_response : p.chart.acceptance_probability;
+    if (base >= 1.0 && (e.repeat_odds_ratio != 1.0 || e.recent_odds_ratio != 1.0))
+        f.fail(p.channel == Channel::page ? "base_response" : "repeat_odds_ratio",
+               "a base probability of 1 has infinite odds, which no odds ratio lowers: declare a base below 1 "
+               "(for a chart interruption, chart.acceptance_probability)");
+    p.fatigue = e;
+}
+
 // Who answers, in what order and what happens at shift end.
 void parse_staffing(const Section& s, Plan& p, const SimulationSetup& setup) {
     if (setup.has_staff()) {
@@ -223,6 +251,7 @@ Plan parse_plan(const Section& s, const Scenario& sc, const std::string& where) 
     else
         s.fail("rule", "required key 'rule' is missing (when the plan fires)");
     parse_channel_settings(s, p, sc, where);
+    parse_fatigue(s, p, where);
     return p;
 }
 

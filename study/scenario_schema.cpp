@@ -47,6 +47,27 @@ SectionSpec outcome_keys() {
             {
                 real_key("window_hours", {.unit = "hours", .fallback = 24, .range = {0.0166, 24 * 365}, .help = "How long before time zero an action can still count as a catch."}),
                 real_key("min_lead_minutes", {.unit = "minutes", .fallback = 0, .range = {0, 60 * 24 * 30}, .help = "How long before time zero an action must start to count."}),
+                section_key("averted", {.absent = "none", .help = "An assumed effect of an evaluation on the outcome, by lead (see outcome.averted); none: no outcomes-averted figures."}),
+            }};
+}
+
+SectionSpec outcome_averted_keys() {
+    return {"outcome.averted",
+            "An ASSUMPTION, not an estimate: the chance that a case's first catching evaluation prevents the outcome, by how long before time zero it starts. Every figure built on it is this assumption applied to simulated catches.",
+            {
+                text_key("shape", {.fallback = "linear", .help = "linear: probability from full_lead_hours on, falling linearly to 0 at the minimum lead; step: probability from full_lead_hours on, 0 before; table: by lead (see outcome.averted.table[])."}),
+                real_key("probability", {.unit = "probability", .range = {0, 1}, .help = "linear, step: chance of averting the outcome when the evaluation starts at least full_lead_hours ahead."}),
+                real_key("full_lead_hours", {.unit = "hours", .range = {0, 24 * 365}, .help = "linear, step: the lead from which the full probability applies (linear: above the minimum lead)."}),
+                list_key("table", {.help = "table: rows by ascending lead (see outcome.averted.table[]); a catch takes the last row whose lead it reaches, 0 before the first."}),
+            }};
+}
+
+SectionSpec outcome_averted_table_keys() {
+    return {"outcome.averted.table[]",
+            "One row of a table effect.",
+            {
+                real_key("lead_hours", {.unit = "hours", .required = true, .range = {0, 24 * 365}, .help = "From this lead on (until the next row's) ..."}),
+                real_key("probability", {.unit = "probability", .required = true, .range = {0, 1}, .help = "... the chance of averting the outcome."}),
             }};
 }
 
@@ -256,6 +277,7 @@ SectionSpec plans_keys() {
                 section_key("chart", {.help = "Chart interruption settings (see plans[].chart); required for that channel."}),
                 section_key("handoff", {.help = "Handoff list settings (see plans[].handoff); required for that channel."}),
                 section_key("review", {.help = "Ranked review settings (see plans[].review); required for that channel."}),
+                section_key("fatigue", {.absent = "none", .help = "Page or chart interruption: the chance that a notice leads to an evaluation falls with the notices before it (see plans[].fatigue); none: it does not."}),
             }};
 }
 
@@ -340,6 +362,17 @@ SectionSpec plans_chart_keys() {
             }};
 }
 
+SectionSpec plans_fatigue_keys() {
+    return {"plans[].fatigue",
+            "Response that falls with load (an assumption): the odds that a notice leads to an evaluation are multiplied by a factor per earlier notice about the same patient in this plan and per notice the same team received in the window before it.",
+            {
+                real_key("base_response", {.unit = "probability", .range = {0, 1}, .help = "Page only (required there): probability that a page leads to an evaluation when nothing came before it; a page not followed is acknowledged without an evaluation. A chart interruption starts from chart.acceptance_probability."}),
+                real_key("repeat_odds_ratio", {.unit = "odds ratio", .fallback = 1, .range = {1e-6, 1e6}, .help = "Odds multiplied by this for each earlier notice about the same patient in this plan (1: no effect)."}),
+                real_key("recent_odds_ratio", {.unit = "odds ratio", .fallback = 1, .range = {1e-6, 1e6}, .help = "Odds multiplied by this for each notice the same team received within window_hours before (1: no effect)."}),
+                real_key("window_hours", {.unit = "hours", .fallback = 8, .range = {0.001, 24 * 14}, .help = "How far back the team's notices count."}),
+            }};
+}
+
 SectionSpec plans_handoff_keys() {
     return {"plans[].handoff",
             "A handoff list: at each handoff every current inpatient whose rule fires is flagged. Quiet hours and max_per_shift do not apply.",
@@ -372,6 +405,8 @@ const std::vector<SectionSpec>& scenario_sections() {
         top_level_keys(),
         shifts_keys(),
         outcome_keys(),
+        outcome_averted_keys(),
+        outcome_averted_table_keys(),
         population_keys(),
         population_generate_keys(),
         population_generate_units_keys(),
@@ -395,6 +430,7 @@ const std::vector<SectionSpec>& scenario_sections() {
         roles_minutes_keys(),
         escalation_keys(),
         plans_chart_keys(),
+        plans_fatigue_keys(),
         plans_handoff_keys(),
         plans_review_keys(),
     };

@@ -12,7 +12,7 @@ namespace {
 // Every struct's fields are listed once, in `fields`, for both directions.
 // A field added to one of these structs and not listed here would silently
 // not travel: the sizes below stop the build instead (amd64).
-static_assert(sizeof(PlanFigures) == 496, "PlanFigures changed: list the new field in fields(PlanFigures) below");
+static_assert(sizeof(PlanFigures) == 528, "PlanFigures changed: list the new field in fields(PlanFigures) below");
 static_assert(sizeof(UnitFigures) == 312, "UnitFigures changed: list the new field in fields(UnitFigures) below");
 static_assert(sizeof(LoggedNotice) == 176, "LoggedNotice changed: list the new field in fields(LoggedNotice) below");
 static_assert(sizeof(Population) == 384, "Population changed: list the new field in fields(Population) below");
@@ -143,6 +143,7 @@ void fields(V& v, PlanFigures& f) {
     v(f.wait_median_minutes), v(f.wait_p90_minutes), v(f.never_taken_up);
     v(f.channel_burden_mean), v(f.channel_burden_p90), v(f.staff_minutes_per_unit_shift), v(f.evaluations_per_unit_shift);
     v(f.unit_shift_counts);
+    v(f.assumed_averted), v(f.evaluations_per_assumed_averted);
 }
 
 template <typename V>

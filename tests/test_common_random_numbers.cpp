@@ -92,12 +92,7 @@ RowsByPlan rows_by_plan(const RunWithZone& run) {
 RunWithZone run_text(const std::string& yaml) {
     Scenario sc = parse_scenario(yaml, "fernhollow-replay.yaml", scenario_dir);
     sc.replications = 2;
-    RunSettings settings;
-    settings.threads = 2;
-    settings.notice_log = true;
-    settings.task_log = true;
-    settings.evaluate = false;
-    return {run_scenario(sc, population_factory(sc.population), settings), sc.simulation.zone};
+    return {run_scenario(sc, population_factory(sc.population), logged_run_settings()), sc.simulation.zone};
 }
 
 // Every table row of plan `plan` in `a` equals the rows of plan `as` in `b`;

@@ -2,8 +2,11 @@
 // (SciPy, Virtanen et al. 2020) on random samples of several sizes.
 #include <doctest/doctest.h>
 
+#include <boost/math/distributions/chi_squared.hpp>
 #include <boost/random/normal_distribution.hpp>
 #include <sstream>
+#include <utility>
+#include <vector>
 
 #include "analysis/comparison.hpp"
 #include "models/random_streams.hpp"
@@ -45,5 +48,31 @@ TEST_CASE("reference.t_interval_matches_scipy") {
         CHECK(m.mean == doctest::Approx(mean).epsilon(1e-10));
         CHECK(m.low == doctest::Approx(low).epsilon(1e-9));
         CHECK(m.high == doctest::Approx(high).epsilon(1e-9));
+    }
+}
+
+// The chi-square quantile and tail that tests/test_fatigue.cpp's goodness-of-fit
+// check relies on (Boost.Math), against scipy.stats.chi2 (Virtanen et al. 2020).
+TEST_CASE("reference.chi_square_tail_matches_scipy") {
+    if (run_command("/usr/bin/python3 -c 'import scipy'").exit_code != 0) {
+        MESSAGE("SKIPPED: scipy is not installed for /usr/bin/python3 (./go test installs python3-scipy)");
+        return;
+    }
+    const auto r = run_command(
+        "/usr/bin/python3 -c 'from scipy.stats import chi2\n"
+        "print(repr(chi2.isf(0.001, 6)))\n"
+        "for x, df in ((3.5, 6), (12.0, 6), (22.0, 6), (7.0, 2), (40.0, 18)): print(repr(chi2.sf(x, df)))'");
+    REQUIRE(r.exit_code == 0);
+    std::istringstream out(r.output);
+    double critical = 0;
+    REQUIRE(static_cast<bool>(out >> critical));
+    const boost::math::chi_squared six(6);
+    CHECK(boost::math::quantile(boost::math::complement(six, 0.001)) == doctest::Approx(critical).epsilon(1e-10));
+    for (const auto& [x, df] : std::vector<std::pair<double, double>>{{3.5, 6}, {12.0, 6}, {22.0, 6}, {7.0, 2}, {40.0, 18}}) {
+        double tail = 0;
+        REQUIRE(static_cast<bool>(out >> tail));
+        CAPTURE(x);
+        CHECK(boost::math::cdf(boost::math::complement(boost::math::chi_squared(df), x)) ==
+              doctest::Approx(tail).epsilon(1e-10));
     }
 }

@@ -13,6 +13,7 @@
 #include <doctest/doctest.h>
 
 #include "models/errors.hpp"
+#include "study/run.hpp"
 #include "study/scenario.hpp"
 
 namespace tocsin::testing {
@@ -76,6 +77,17 @@ inline InputError scenario_error(const std::string& yaml) {
     }
     FAIL("expected an InputError");
     return InputError("", 0, 0, "", "");
+}
+
+// A run of two threads that keeps the notice and task logs and skips the model
+// evaluation: what the tests comparing whole runs table by table use.
+inline RunSettings logged_run_settings() {
+    RunSettings settings;
+    settings.threads = 2;
+    settings.notice_log = true;
+    settings.task_log = true;
+    settings.evaluate = false;
+    return settings;
 }
 
 inline CommandResult run_tocsin(const std::string& args) { return run_command(std::string(TOCSIN_BINARY) + " " + args); }
