@@ -29,6 +29,7 @@ enum class StreamPurpose : std::uint64_t {
     handoff_follow_up = 13, // entity: entity_key(encounter, handoff instant)
     rise_size = 14,         // entity: encounter (a case's own pre-outcome rise; drawn only when it varies)
     patient_group = 15,     // entity: entity_key(encounter, group column name)
+    other_work = 16,        // entity: entity_key(role name, unit, other-work class name, task number or ~0 for the instants); see sim/other_work.hpp
 };
 
 // SplitMix64 finaliser (Steele, Lea & Flood 2014): a bijective 64-bit mix.

@@ -69,6 +69,7 @@ Table roles_view(const std::vector<RoleWorkload>& workload) {
                        cell_or_empty(w.staff_minutes_per_shift_mean), cell_or_empty(w.staff_minutes_per_shift_p90), cell_or_empty(w.utilisation),
                        cell_or_empty(w.tasks_per_staff_member_per_shift), cell_or_empty(w.wait_minutes_p90), cell_or_empty(w.wait_minutes_max),
                        w.never_taken_up, w.overtime_minutes});
+    add_other_work_columns(roles, workload);
     return roles;
 }
 

@@ -86,8 +86,9 @@ void join_blocks(std::vector<EncounterBlock>& blocks, std::size_t p, PlanRecord&
 // One plan's staff. Only notices that ask for a bedside evaluation become
 // tasks (an interruption that is dismissed, a flag nobody follows up, do not);
 // TaskRecord::notice is mapped back to the index among all the plan's notices.
-StaffRun staff_for_plan(const std::vector<Notice>& notices, const StaffModel& model, const StaffPlan& staffing,
-                        const ShiftCalendar& calendar, ReplicationSeed draws) {
+StaffRun staff_for_plan(const std::vector<Notice>& notices, std::span<const OtherTask> other_work,
+                        const StaffModel& model, const StaffPlan& staffing, const ShiftCalendar& calendar,
+                        ReplicationSeed draws) {
     std::vector<Notice> asked;
     std::vector<std::uint32_t> original;
     for (std::uint32_t i = 0; i < notices.size(); ++i)
@@ -95,7 +96,7 @@ StaffRun staff_for_plan(const std::vector<Notice>& notices, const StaffModel& mo
             asked.push_back(notices[i]);
             original.push_back(i);
         }
-    StaffRun run = simulate_staff(asked, model, staffing, calendar, calendar.shifts().back().end, draws);
+    StaffRun run = simulate_staff(asked, other_work, model, staffing, calendar, calendar.shifts().back().end, draws);
     for (TaskRecord& t : run.tasks) t.notice = original[t.notice];
     return run;
 }
@@ -112,6 +113,10 @@ void run_staff(const SimulationSetup& setup, const Population& population, const
     std::stable_sort(order.begin(), order.end(), [&](std::size_t a, std::size_t b) {
         return record.plans[a].notices.size() > record.plans[b].notices.size();
     });
+    // The same other work reaches every plan's staff (it depends on no plan).
+    const std::vector<OtherTask> other_work =
+        generate_other_work(setup.roles, std::max<std::uint32_t>(1, units), setup.zone, calendar.shifts().front().start,
+                            calendar.shifts().back().end, ReplicationSeed{setup.seed, replication});
     parallel_for(n_plans, threads, [&](std::size_t k) {
         const std::size_t p = order[k];
         // One capacity model for reviews: the review team declared on the
@@ -120,7 +125,7 @@ void run_staff(const SimulationSetup& setup, const Population& population, const
         // cost each review twice (README, "The other channels").
         if (setup.plans[p].channel == Channel::ranked_review) return;
         const StaffModel model = staff_model(setup, setup.plans[p], units);
-        record.plans[p].staff = staff_for_plan(record.plans[p].notices, model, setup.plans[p].staffing, calendar,
+        record.plans[p].staff = staff_for_plan(record.plans[p].notices, other_work, model, setup.plans[p].staffing, calendar,
                                                ReplicationSeed{setup.seed, replication});
     });
 }

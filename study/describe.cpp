@@ -1,6 +1,7 @@
 // The plain-words description of a scenario, as items (study/describe.hpp).
 #include "study/describe.hpp"
 
+#include <algorithm>
 #include <cmath>
 #include <sstream>
 
@@ -187,7 +188,17 @@ DescriptionItem role_entry(const Role& r, const ShiftPattern& shifts) {
         for (std::size_t d = 0; d < 7; ++d)
             if (r.roster.by_weekday[d] != r.roster.by_shift)
                 text += "; " + std::string(weekday_names[d]) + headcounts(shifts, r.roster.by_weekday[d], " ");
-    return statement(text + "; " + describe(r.minutes_per_task) + " per task");
+    text += "; " + describe(r.minutes_per_task) + " per task";
+    for (const OtherWorkClass& w : r.other_work) {
+        const auto [low, high] = std::minmax_element(w.per_hour.begin(), w.per_hour.end());
+        text += "; other work '" + w.name + "': " +
+                (*low == *high ? num(*low) : num(*low) + " to " + num(*high)) + " per " +
+                (r.per_unit ? "unit" : "hospital") + " per hour, " + describe(w.minutes) + ", taken up " +
+                (w.priority == OtherWorkPriority::above_alerts   ? "before waiting alert tasks"
+                 : w.priority == OtherWorkPriority::below_alerts ? "after waiting alert tasks"
+                                                                 : "in one queue with alert tasks");
+    }
+    return statement(text);
 }
 
 void add_staff(std::vector<DescriptionItem>& items, const SimulationSetup& setup) {

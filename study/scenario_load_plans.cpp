@@ -229,20 +229,10 @@ ChartOpeningSource load_chart_openings(const Section& s, const std::string& dire
         for (const auto& other : src.roles)
             if (other.name == role.name) r.fail("name", "two chart-opening roles are named '" + role.name + "'");
         role.clinicians_per_unit = r.real("clinicians_per_unit");
-        const std::vector<double> rates = r.real_list("openings_per_hour");
         if (!r.has("openings_per_hour") && src.replay_path.empty())
             r.fail("openings_per_hour", "generated chart openings need a rate for each role (or give chart_openings.replay)");
-        if (r.has("openings_per_hour")) {
-            if (rates.size() != 1 && rates.size() != 24)
-                r.fail("openings_per_hour", "expected one rate (all day) or 24 rates (hour 00 first), found " +
-                                                std::to_string(rates.size()));
-            const Range& range = r.spec("openings_per_hour").range;
-            for (double v : rates)
-                if (!std::isfinite(v) || v < *range.min || v > *range.max)
-                    r.fail("openings_per_hour", "rates must be between " + number_text(*range.min) + " and " +
-                                                    number_text(*range.max) + " openings per patient per hour");
-            for (std::size_t h = 0; h < 24; ++h) role.openings_per_hour[h] = rates.size() == 1 ? rates[0] : rates[h];
-        }
+        if (r.has("openings_per_hour"))
+            role.openings_per_hour = hourly_rates(r, "openings_per_hour", "openings per patient per hour");
         src.roles.push_back(std::move(role));
     }
     if (src.roles.empty()) s.fail("roles", "at least one role is needed");
@@ -265,4 +255,19 @@ std::vector<Plan> load_plans(const Section& top, const Scenario& sc) {
     if (plans.empty()) top.fail("plans", "at least one plan is needed");
     return plans;
 }
+
+std::array<double, 24> hourly_rates(const Section& s, std::string_view key, const std::string& unit) {
+    const std::vector<double> rates = s.real_list(key);
+    if (rates.size() != 1 && rates.size() != 24)
+        s.fail(key, "expected one rate (all day) or 24 rates (hour 00 first), found " + std::to_string(rates.size()));
+    const Range& range = s.spec(key).range;
+    for (double v : rates)
+        if (!std::isfinite(v) || v < *range.min || v > *range.max)
+            s.fail(key, "rates must be between " + number_text(*range.min) + " and " + number_text(*range.max) + " " +
+                            unit);
+    std::array<double, 24> out{};
+    for (std::size_t h = 0; h < 24; ++h) out[h] = rates.size() == 1 ? rates[0] : rates[h];
+    return out;
+}
+
 }  // namespace tocsin::scenario_load

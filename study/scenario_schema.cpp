@@ -289,6 +289,18 @@ SectionSpec roles_keys() {
                 section_key("roster", {.unit = "people", .required = true, .help = "Headcount on duty per shift, by shift name, e.g. {day: 2, night: 1}; every shift must be given."}),
                 section_key("roster_by_weekday", {.unit = "people", .absent = "none", .help = "Overrides for some weekdays, e.g. {saturday: {day: 1, night: 1}}; days not listed use roster."}),
                 section_key("minutes", {.required = true, .help = "Minutes one evaluation takes (see roles[].minutes)."}),
+                list_key("other_work", {.absent = "none", .help = "Work no score raised that competes for the same staff, one item per class (see roles[].other_work[])."}),
+            }};
+}
+
+SectionSpec roles_other_work_keys() {
+    return {"roles[].other_work[]",
+            "One class of other work: tasks arriving at every team of the role as a Poisson process by local hour of day, with their own minutes and a priority against alert tasks. They never escalate and catch nobody.",
+            {
+                text_key("name", {.required = true, .help = "e.g. ward calls; unique within the role; with the role's name and the unit it keys the draws."}),
+                real_list_key("per_hour", {.unit = "tasks per team per hour", .required = true, .range = {0, 1000}, .help = "Rate by local hour: a list of one number (all day, e.g. [0.5]) or of 24 (hour 00 first)."}),
+                section_key("minutes", {.required = true, .help = "Minutes one such task takes (as roles[].minutes)."}),
+                text_key("priority", {.fallback = "equal", .help = "Against waiting alert tasks: above (taken up first), equal (one queue, the plan's order) or below (only when no alert task waits). Nothing interrupts work begun."}),
             }};
 }
 
@@ -377,6 +389,7 @@ const std::vector<SectionSpec>& scenario_sections() {
         sweep_vary_keys(),
         roles_keys(),
         roles_minutes_keys(),
+        roles_other_work_keys(),
         escalation_keys(),
         plans_chart_keys(),
         plans_handoff_keys(),
