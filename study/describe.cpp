@@ -192,8 +192,8 @@ DescriptionItem role_entry(const Role& r, const ShiftPattern& shifts) {
     for (const OtherWorkClass& w : r.other_work) {
         const auto [low, high] = std::minmax_element(w.per_hour.begin(), w.per_hour.end());
         text += "; other work '" + w.name + "': " +
-                (*low == *high ? num(*low) : num(*low) + " to " + num(*high)) + " per " +
-                (r.per_unit ? "unit" : "hospital") + " per hour, " + describe(w.minutes) + ", taken up " +
+                (*low == *high ? num(*low) : num(*low) + " to " + num(*high)) + " an hour " +
+                (r.per_unit ? "on each unit" : "for the hospital") + ", " + describe(w.minutes) + ", taken up " +
                 (w.priority == OtherWorkPriority::above_alerts   ? "before waiting alert tasks"
                  : w.priority == OtherWorkPriority::below_alerts ? "after waiting alert tasks"
                                                                  : "in one queue with alert tasks");

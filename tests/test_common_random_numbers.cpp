@@ -287,3 +287,32 @@ TEST_CASE("common_random_numbers.a_plan_with_its_own_escalation_changes_no_other
     CHECK(a.at("staff_workload").at("page-45-noisy").size() == 2);
     CHECK(b.at("staff_workload").at("page-45-noisy").size() == 1);
 }
+
+TEST_CASE("common_random_numbers.other_work_moves_no_notice_and_no_plan_that_does_not_meet_it") {
+    // The cover nurse (page-50-thin-nights' role) gains ward calls no score
+    // raised. Every notice of every plan is unchanged (other work draws from its
+    // own stream), every plan that never reaches the cover nurse keeps every
+    // figure, and page-50-thin-nights' staff now wait longer.
+    const std::string base = example_text();
+    const std::string busy = replace_once(base, "    minutes: {distribution: gamma, mean: 30, sd: 10}\n",
+                                          "    minutes: {distribution: gamma, mean: 30, sd: 10}\n"
+                                          "    other_work:\n"
+                                          "      - name: ward calls\n"
+                                          "        per_hour: [1.5]\n"
+                                          "        minutes: {distribution: exponential, mean: 30}\n");
+    const RowsByPlan a = rows_by_plan(run_text(base));
+    RowsByPlan b = rows_by_plan(run_text(busy));
+    // staff_workload gains seven columns for other work (zero or empty on roles
+    // without any): the columns the two runs share are compared.
+    for (auto& [plan, rows] : b.at("staff_workload"))
+        for (std::string& row : rows) {
+            CHECK(std::count(row.begin(), row.end(), ',') == 24);
+            for (int k = 0; k < 7; ++k) row.erase(row.rfind(',', row.size() - 2) + 1);
+        }
+    for (const std::string& plan : example_plans) {
+        CAPTURE(plan);
+        CHECK(a.at("notice_log").at(plan) == b.at("notice_log").at(plan));
+        if (plan != "page-50-thin-nights") CHECK(check_same_rows(a, plan, b, plan) > 0);
+    }
+    CHECK(a.at("task_log").at("page-50-thin-nights") != b.at("task_log").at("page-50-thin-nights"));
+}
