@@ -30,6 +30,7 @@ enum class StreamPurpose : std::uint64_t {
     rise_size = 14,         // entity: encounter (a case's own pre-outcome rise; drawn only when it varies)
     patient_group = 15,     // entity: entity_key(encounter, group column name)
     other_work = 16,        // entity: entity_key(role name, unit, other-work class name, task number or ~0 for the instants); see sim/other_work.hpp
+    score_lookup = 17,      // entity: entity_key(encounter, opening role name, opening instant, occurrence), as chart_acceptance
 };
 
 // SplitMix64 finaliser (Steele, Lea & Flood 2014): a bijective 64-bit mix.

@@ -29,9 +29,16 @@ struct EncounterBlock {
     std::vector<std::int64_t> occasions;
 };
 
+// Plans whose instants are chart openings.
 bool has_chart_plan(const SimulationSetup& setup) {
+    return std::any_of(setup.plans.begin(), setup.plans.end(), [](const Plan& p) {
+        return p.channel == Channel::chart_interruption || p.channel == Channel::score_lookup;
+    });
+}
+
+bool has_lookup_plan(const SimulationSetup& setup) {
     return std::any_of(setup.plans.begin(), setup.plans.end(),
-                       [](const Plan& p) { return p.channel == Channel::chart_interruption; });
+                       [](const Plan& p) { return p.channel == Channel::score_lookup; });
 }
 
 // Every per-encounter plan over encounters [first, last): all plans for one
@@ -44,7 +51,7 @@ void fire_encounter_plans(const SimulationSetup& setup, const Population& popula
     const std::size_t n_plans = setup.plans.size();
     out.notices.assign(n_plans, {});
     out.occasions.assign(n_plans, 0);
-    const bool any_chart = has_chart_plan(setup);
+    const bool any_chart = has_chart_plan(setup), any_lookup = has_lookup_plan(setup);
     EncounterOpenings openings;
     for (std::size_t e = first; e < last; ++e) {
         const auto scores = population.scores_of(e);
@@ -52,7 +59,8 @@ void fire_encounter_plans(const SimulationSetup& setup, const Population& popula
         const auto enc = static_cast<std::uint32_t>(e);
         const std::uint32_t unit = population.encounters[e].unit;
         // Openings are drawn once per encounter and shared by every chart plan.
-        if (any_chart) openings_for_encounter(setup, population, replayed_openings, e, replication, openings);
+        if (any_chart)
+            openings_for_encounter(setup, population, replayed_openings, e, replication, openings, any_lookup);
         for (std::size_t p = 0; p < n_plans; ++p) {
             const Plan& plan = setup.plans[p];
             const auto pi = static_cast<std::uint32_t>(p);
@@ -61,6 +69,8 @@ void fire_encounter_plans(const SimulationSetup& setup, const Population& popula
                 out.occasions[p] += static_cast<std::int64_t>(scores.size());
             } else if (plan.channel == Channel::chart_interruption) {
                 out.occasions[p] += fire_chart_rule(plan, clock, scores, openings, enc, unit, pi, out.notices[p]);
+            } else if (plan.channel == Channel::score_lookup) {
+                out.occasions[p] += fire_lookup_rule(plan, clock, scores, openings, enc, unit, pi, out.notices[p]);
             }
         }
     }

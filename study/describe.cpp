@@ -132,6 +132,12 @@ std::optional<std::string> channel_line(const Plan& p, const ShiftPattern& shift
     if (p.channel == Channel::chart_interruption)
         return "at each chart opening; " + num(p.chart.interruption_minutes) + " min per interruption; " +
                num(p.chart.acceptance_probability) + " of interruptions lead to an evaluation";
+    if (p.channel == Channel::score_lookup) {
+        const auto [low, high] = std::minmax_element(p.chart.lookup_probability.begin(), p.chart.lookup_probability.end());
+        return "nothing pushed: at each chart opening the score is looked up with probability " +
+               (*low == *high ? num(*low) : num(*low) + " to " + num(*high) + " by hour") + "; " +
+               num(p.chart.interruption_minutes) + " min per look-up; an evaluation when the rule fires on the score seen";
+    }
     if (p.channel == Channel::handoff_list) {
         const auto& times = p.handoff.times_minutes.empty() ? shifts.start_minutes : p.handoff.times_minutes;
         return "flagged at each handoff (" + clock_times(times, ", ") + "); " + num(p.handoff.minutes_per_flag) +

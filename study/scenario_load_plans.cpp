@@ -48,6 +48,9 @@ Rule parse_rule(const Section& s, Channel channel) {
             s.fail(quiet_key, "a handoff list is read only at its handoff times, so quiet hours do not apply; leave "
                               "a time out of handoff.times instead");
     }
+    if (channel == Channel::score_lookup && r.quiet_start_minute)
+        s.fail(quiet_key, "a look-up interrupts nobody, so quiet hours do not apply; give a lower "
+                          "lookup.probability for those hours instead");
     if (review) {
         if (r.snooze)
             s.fail("snooze_minutes", "a ranked review skips recently reviewed patients with review.skip_reviewed_hours, "
@@ -64,9 +67,11 @@ Rule parse_rule(const Section& s, Channel channel) {
 
 Channel parse_channel(const Section& s) {
     const std::string c = s.text("channel");
-    for (Channel k : {Channel::page, Channel::chart_interruption, Channel::handoff_list, Channel::ranked_review})
+    for (Channel k : {Channel::page, Channel::chart_interruption, Channel::handoff_list, Channel::ranked_review,
+                      Channel::score_lookup})
         if (c == to_string(k)) return k;
-    s.fail("channel", "unknown channel '" + c + "' (expected: page, chart_interruption, handoff_list or ranked_review)");
+    s.fail("channel", "unknown channel '" + c +
+                          "' (expected: page, chart_interruption, handoff_list, ranked_review or score_lookup)");
 }
 
 std::vector<int> clock_list(const Section& s, std::string_view key) {
@@ -88,7 +93,7 @@ std::vector<int> clock_list(const Section& s, std::string_view key) {
 void check_channel_sections(const Section& s, Channel channel) {
     struct Own { const char* key; Channel channel; };
     for (Own own : {Own{"chart", Channel::chart_interruption}, Own{"handoff", Channel::handoff_list},
-                    Own{"review", Channel::ranked_review}}) {
+                    Own{"review", Channel::ranked_review}, Own{"lookup", Channel::score_lookup}}) {
         if (own.channel == channel && !s.has(own.key))
             s.fail("channel", "a " + std::string(to_string(own.channel)) + " plan needs a '" + own.key +
                                   "' section (see plans[]." + own.key + ")");
@@ -98,21 +103,34 @@ void check_channel_sections(const Section& s, Channel channel) {
     }
 }
 
-void parse_chart(const Section& s, Plan& p, const Scenario& sc, const std::string& where) {
-    Section c(s.child("chart"), "plans[].chart", s.file(), where + ".chart");
+// The chart-opening role a chart interruption or look-up plan is limited to, when it names one.
+void parse_opening_role(const Section& s, Plan& p, const Scenario& sc) {
     if (!sc.simulation.chart_openings)
-        s.fail("channel", "a chart_interruption plan needs the top-level chart_openings section (when charts are opened)");
-    p.chart.interruption_minutes = c.real("interruption_minutes");
-    p.chart.acceptance_probability = c.real("acceptance_probability");
+        s.fail("channel", "a " + std::string(to_string(p.channel)) +
+                              " plan needs the top-level chart_openings section (when charts are opened)");
     if (s.has("role")) {
         const auto& roles = sc.simulation.chart_openings->roles;
         std::size_t r = 0;
         while (r < roles.size() && roles[r].name != p.role) ++r;
         if (r == roles.size())
-            s.fail("role", "a chart interruption goes to whoever opens the chart: role must be one of the "
-                           "chart_openings roles, or left out for every role");
+            s.fail("role", "a " + std::string(to_string(p.channel)) + " happens when a clinician opens the chart: "
+                           "role must be one of the chart_openings roles, or left out for every role");
         p.chart.role = static_cast<std::uint8_t>(r);
     }
+}
+
+void parse_chart(const Section& s, Plan& p, const Scenario& sc, const std::string& where) {
+    Section c(s.child("chart"), "plans[].chart", s.file(), where + ".chart");
+    parse_opening_role(s, p, sc);
+    p.chart.interruption_minutes = c.real("interruption_minutes");
+    p.chart.acceptance_probability = c.real("acceptance_probability");
+}
+
+void parse_lookup(const Section& s, Plan& p, const Scenario& sc, const std::string& where) {
+    Section c(s.child("lookup"), "plans[].lookup", s.file(), where + ".lookup");
+    parse_opening_role(s, p, sc);
+    p.chart.interruption_minutes = c.real("minutes_per_lookup");
+    p.chart.lookup_probability = hourly_rates(c, "probability", "(a probability)");
 }
 
 void parse_handoff(const Section& s, Plan& p, const std::string& where) {
@@ -165,6 +183,7 @@ void parse_review(const Section& s, Plan& p, const std::string& where) {
 void parse_channel_settings(const Section& s, Plan& p, const Scenario& sc, const std::string& where) {
     check_channel_sections(s, p.channel);
     if (p.channel == Channel::chart_interruption) parse_chart(s, p, sc, where);
+    else if (p.channel == Channel::score_lookup) parse_lookup(s, p, sc, where);
     else if (p.channel == Channel::handoff_list) parse_handoff(s, p, where);
     else if (p.channel == Channel::ranked_review) parse_review(s, p, where);
 }
@@ -202,7 +221,8 @@ Plan parse_plan(const Section& s, const Scenario& sc, const std::string& where) 
     p.description = s.text("description");
     p.channel = parse_channel(s);
     // A chart interruption goes to whoever opens the chart unless a role is named.
-    p.role = p.channel == Channel::chart_interruption && !s.has("role") ? "whoever opens the chart" : s.text("role");
+    const bool at_openings = p.channel == Channel::chart_interruption || p.channel == Channel::score_lookup;
+    p.role = at_openings && !s.has("role") ? "whoever opens the chart" : s.text("role");
     parse_staffing(s, p, sc.simulation);
     load_plan_staffing(s, p, sc.simulation, where);
     if (s.has("rule"))

@@ -231,7 +231,7 @@ SectionSpec plans_keys() {
             {
                 text_key("name", {.required = true, .help = "Unique plan name shown in every table."}),
                 text_key("description", {.help = "One line on what the plan is for."}),
-                text_key("channel", {.fallback = "page", .help = "How a firing is delivered: page, chart_interruption, handoff_list or ranked_review."}),
+                text_key("channel", {.fallback = "page", .help = "How a firing is delivered: page, chart_interruption, handoff_list, ranked_review or score_lookup (nothing pushed: the score is looked up at chart openings)."}),
                 text_key("role", {.fallback = "responder", .help = "Who answers the notice; when roles are declared, one of them. For a chart interruption, only openings by this chart-opening role are interrupted (default: every role)."}),
                 text_key("queue", {.fallback = "fifo", .help = "Order in which waiting tasks are taken up: fifo (first come) or priority (highest score first)."}),
                 text_key("at_shift_end", {.fallback = "hand_over", .help = "An evaluation still in progress when its nurse's shift ends: hand_over (an incoming colleague continues it) or drop (abandoned and counted)."}),
@@ -241,6 +241,7 @@ SectionSpec plans_keys() {
                 section_key("chart", {.help = "Chart interruption settings (see plans[].chart); required for that channel."}),
                 section_key("handoff", {.help = "Handoff list settings (see plans[].handoff); required for that channel."}),
                 section_key("review", {.help = "Ranked review settings (see plans[].review); required for that channel."}),
+                section_key("lookup", {.help = "Look-up settings (see plans[].lookup); required for channel score_lookup."}),
             }};
 }
 
@@ -337,6 +338,15 @@ SectionSpec plans_chart_keys() {
             }};
 }
 
+SectionSpec plans_lookup_keys() {
+    return {"plans[].lookup",
+            "A look-up (nothing pushed): at a chart opening the clinician looks the score up with the given probability, and acts (an evaluation) when the rule fires on the latest score then. Every look-up costs its minutes; nothing interrupts anyone.",
+            {
+                real_key("minutes_per_lookup", {.unit = "minutes", .required = true, .range = {0, 600}, .help = "The clinician's time taken by one look-up."}),
+                real_list_key("probability", {.unit = "probability", .required = true, .range = {0, 1}, .help = "Chance that an opening leads to a look-up, by local hour: one number (all day) or 24 (hour 00 first). The same draw per opening in every look-up plan."}),
+            }};
+}
+
 SectionSpec plans_handoff_keys() {
     return {"plans[].handoff",
             "A handoff list: at each handoff every current inpatient whose rule fires is flagged. Quiet hours and max_per_shift do not apply.",
@@ -393,6 +403,7 @@ const std::vector<SectionSpec>& scenario_sections() {
         escalation_keys(),
         plans_chart_keys(),
         plans_handoff_keys(),
+        plans_lookup_keys(),
         plans_review_keys(),
     };
     return sections;
