@@ -61,24 +61,39 @@ void openings_for_encounter(const SimulationSetup& setup, const Population& pop,
     }
 }
 
+namespace {
+
+// The openings a chart-opening plan sees (its role's, or every role's), in
+// time order, with `state` fed every score available by each: calls
+// `at_opening(index, opening)` and returns how many there were.
+template <class AtOpening>
+std::int64_t walk_openings(const Plan& plan, std::span<const Score> scores, const EncounterOpenings& openings,
+                           RuleState& state, AtOpening&& at_opening) {
+    std::size_t next = 0;
+    std::int64_t seen = 0;
+    for (std::size_t i = 0; i < openings.openings.size(); ++i) {
+        const ChartOpening& o = openings.openings[i];
+        if (plan.chart.role && o.role != *plan.chart.role) continue;
+        ++seen;
+        while (next < scores.size() && scores[next].available_at <= o.at) state.see(scores[next++]);
+        at_opening(i, o);
+    }
+    return seen;
+}
+
+}  // namespace
+
 std::int64_t fire_chart_rule(const Plan& plan, const RuleClock& clock, std::span<const Score> scores,
                              const EncounterOpenings& openings, std::uint32_t encounter, std::uint32_t unit,
                              std::uint32_t plan_index, std::vector<Notice>& out) {
     RuleState state(plan.rule, clock);
     const NoticeOrigin origin{encounter, unit, plan_index, Channel::chart_interruption};
-    std::size_t next = 0;
-    std::int64_t asked = 0;
-    for (std::size_t i = 0; i < openings.openings.size(); ++i) {
-        const ChartOpening& o = openings.openings[i];
-        if (plan.chart.role && o.role != *plan.chart.role) continue;
-        ++asked;
-        while (next < scores.size() && scores[next].available_at <= o.at) state.see(scores[next++]);
+    return walk_openings(plan, scores, openings, state, [&](std::size_t i, const ChartOpening& o) {
         const auto reason = state.fire_if_due(o.at);
-        if (!reason) continue;
+        if (!reason) return;
         const bool accepted = openings.acceptance_draws[i] < plan.chart.acceptance_probability;
         out.push_back(make_notice(origin, o.at, state.latest(), *reason, accepted, o.role));
-    }
-    return asked;
+    });
 }
 
 std::int64_t fire_lookup_rule(const Plan& plan, const RuleClock& clock, std::span<const Score> scores,
@@ -86,21 +101,14 @@ std::int64_t fire_lookup_rule(const Plan& plan, const RuleClock& clock, std::spa
                               std::uint32_t plan_index, std::vector<Notice>& out) {
     RuleState state(plan.rule, clock);
     const NoticeOrigin origin{encounter, unit, plan_index, Channel::score_lookup};
-    std::size_t next = 0;
-    std::int64_t considered = 0;
-    for (std::size_t i = 0; i < openings.openings.size(); ++i) {
-        const ChartOpening& o = openings.openings[i];
-        if (plan.chart.role && o.role != *plan.chart.role) continue;
-        ++considered;
-        while (next < scores.size() && scores[next].available_at <= o.at) state.see(scores[next++]);
-        const int hour = local_hour(*clock.zone, o.at);
-        if (!(openings.lookup_draws[i] < plan.chart.lookup_probability[static_cast<std::size_t>(hour)])) continue;
-        if (!state.has_seen()) continue;  // nothing to look up yet
+    return walk_openings(plan, scores, openings, state, [&](std::size_t i, const ChartOpening& o) {
+        const auto hour = static_cast<std::size_t>(local_hour(*clock.zone, o.at));
+        if (!(openings.lookup_draws[i] < plan.chart.lookup_probability[hour])) return;
+        if (!state.has_seen()) return;  // nothing to look up yet
         const auto reason = state.fire_if_due(o.at);
         out.push_back(make_notice(origin, o.at, state.latest(), reason ? *reason : NoticeReason::looked_up,
                                   reason.has_value(), o.role));
-    }
-    return considered;
+    });
 }
 
 std::vector<Instant> daily_instants(const std::vector<int>& times_minutes, const TimeZone& zone, Instant from,
