@@ -83,6 +83,20 @@ std::vector<std::string> story(const Population& pop, const std::vector<Notice>&
 
 using Expected = std::vector<std::string>;
 
+// The chart stories' patient: P1 on unit 0, 3 Mar 18:00 to 4 Mar 12:00, scores
+// 50 at 19:00, 70 available 20:10, 75 at 22:00; nurses (4 per unit) and a physician open charts.
+void chart_story_patient(Ward& w) {
+    const auto p = w.patient("P1", 0, at(3, 18), at(4, 12));
+    w.score(p, at(3, 19), 50).score(p, at(3, 20, 10), 70).score(p, at(3, 22), 75);
+    w.done();
+    w.sc.simulation.chart_openings = ChartOpeningSource{{{"nurse", 4, {}}, {"physician", 1, {}}}, ""};
+}
+
+// Its openings: nurses at 19:30, 20:05, 20:30, 21:00 and 22:00, the physician at 21:30.
+std::vector<ChartOpening> chart_story_openings() {
+    return {{at(3, 19, 30), 0}, {at(3, 20, 5), 0}, {at(3, 20, 30), 0}, {at(3, 21), 0}, {at(3, 21, 30), 1}, {at(3, 22), 0}};
+}
+
 }  // namespace
 
 TEST_CASE("channels.chart_interruption") {
@@ -93,16 +107,13 @@ TEST_CASE("channels.chart_interruption") {
     //   21:30 (physician) at t + S exactly: repeat.
     //   22:00 the 75 is available at that instant, but snoozed until 22:30 and no rise clause: no.
     Ward w;
-    const auto p = w.patient("P1", 0, at(3, 18), at(4, 12));
-    w.score(p, at(3, 19), 50).score(p, at(3, 20, 10), 70).score(p, at(3, 22), 75);
-    w.done();
-    w.sc.simulation.chart_openings = ChartOpeningSource{{{"nurse", 4, {}}, {"physician", 1, {}}}, ""};
+    chart_story_patient(w);
     Plan& plan = w.plan(Channel::chart_interruption, 60);
     plan.rule.snooze = minutes(60);
     plan.chart.interruption_minutes = 2;
     plan.chart.acceptance_probability = 0.5;
     EncounterOpenings o;
-    o.openings = {{at(3, 19, 30), 0}, {at(3, 20, 5), 0}, {at(3, 20, 30), 0}, {at(3, 21), 0}, {at(3, 21, 30), 1}, {at(3, 22), 0}};
+    o.openings = chart_story_openings();
     o.acceptance_draws = {0.9, 0.9, 0.2, 0.9, 0.7, 0.1};
     const ShiftCalendar cal = w.calendar();
     const RuleClock clock{&w.sc.simulation.zone, &cal};
@@ -143,17 +154,14 @@ TEST_CASE("channels.score_lookup") {
     //   21:30 (physician) draw 0.6: not looked up (so the 60-minute snooze never matters there).
     //   22:00 draw 0.1: looked up; the 75 is available, snoozed until 21:30 only: act (repeat).
     Ward w;
-    const auto p = w.patient("P1", 0, at(3, 18), at(4, 12));
-    w.score(p, at(3, 19), 50).score(p, at(3, 20, 10), 70).score(p, at(3, 22), 75);
-    w.done();
-    w.sc.simulation.chart_openings = ChartOpeningSource{{{"nurse", 4, {}}, {"physician", 1, {}}}, ""};
+    chart_story_patient(w);
     Plan& plan = w.plan(Channel::score_lookup, 60);
     plan.rule.snooze = minutes(60);
     plan.chart.interruption_minutes = 1;
     plan.chart.lookup_probability.fill(0.25);
     for (int h = 7; h < 19; ++h) plan.chart.lookup_probability[static_cast<std::size_t>(h)] = 0.5;
     EncounterOpenings o;
-    o.openings = {{at(3, 19, 30), 0}, {at(3, 20, 5), 0}, {at(3, 20, 30), 0}, {at(3, 21), 0}, {at(3, 21, 30), 1}, {at(3, 22), 0}};
+    o.openings = chart_story_openings();
     o.acceptance_draws = {0.9, 0.9, 0.9, 0.9, 0.9, 0.9};  // the chart channel's draws play no part
     o.lookup_draws = {0.4, 0.1, 0.2, 0.3, 0.6, 0.1};
     const ShiftCalendar cal = w.calendar();
