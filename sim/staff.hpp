@@ -17,7 +17,7 @@
 //   different roles should differ by the roles' minute distributions only, not
 //   by their draws.
 // - Simultaneous events run in this order: shift change, task finishes, then
-//   escalation timeouts, then new notices (in input order). So a colleague who
+//   escalation timeouts, then new notices (in input order), then new other work. So a colleague who
 //   finishes at the instant a timeout falls takes the task up before it
 //   escalates, and staff freed at an instant serve notices of that instant.
 // - End of shift, policy `hand_over` (default): an evaluation in progress is
