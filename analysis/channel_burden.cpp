@@ -91,8 +91,10 @@ ChannelBurden channel_burden(const SimulationSetup& setup, const Population& pop
             }
             break;
         }
-        case Channel::chart_interruption: {
-            b.measure = "interruptions per clinician per shift";
+        case Channel::chart_interruption:
+        case Channel::score_lookup: {
+            b.measure = plan.channel == Channel::chart_interruption ? "interruptions per clinician per shift"
+                                                                   : "look-ups per clinician per shift";
             const auto roles = chart_roles(setup, plan);
             const std::size_t n_roles = setup.chart_openings ? setup.chart_openings->roles.size() : 0;
             std::vector<double> count(n_units * n_shifts * n_roles, 0.0), minutes(count.size(), 0.0);
@@ -139,7 +141,7 @@ ChannelResults channel_results(const SimulationSetup& setup, const ReportingShif
         for (const Round& r : rec.rounds)
             out.rounds.push_back({plan.name, plan.channel, r.unit == whole_hospital ? std::string("hospital") : pop.units[r.unit],
                                   r.at, std::int64_t{r.listed}, std::int64_t{r.acted}, r.minutes});
-        if (plan.channel == Channel::chart_interruption)
+        if (plan.channel == Channel::chart_interruption || plan.channel == Channel::score_lookup)
             add_chart_interruptions(out.chart_interruptions, setup, pop, cal, rep, plan, b);
     }
     return out;

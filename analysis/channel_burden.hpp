@@ -6,6 +6,7 @@
 //                        opening role, divided by the role's clinicians_per_unit)
 //   handoff_list         patients flagged per unit per handoff
 //   ranked_review        patients reviewed per review round (per unit or hospital-wide)
+//   score_lookup         look-ups per clinician per shift (as chart_interruption)
 // Each over the reporting period, zeros included, with the staff minutes the
 // deliveries themselves take in the same unit. Catches and lead times are in
 // plan_summary and are computed the same way for every channel.

@@ -37,7 +37,7 @@ void count_notices(PlanFigures& f, const ShiftCalendar& cal, const ReportingShif
         ++f.notices;
         if (n.reason == NoticeReason::first) ++f.notices_first;
         else if (n.reason == NoticeReason::repeat) ++f.notices_repeat;
-        else ++f.notices_rise;
+        else if (n.reason == NoticeReason::rise) ++f.notices_rise;
         if (cal.contains(n.at)) {
             const std::size_t k = slot[cal.index_of(n.at)];
             if (k != SIZE_MAX) ++f.unit_shift_counts[n.unit * n_shifts + k];

@@ -57,7 +57,7 @@ std::vector<LoggedNotice> notice_log(const SimulationSetup& setup, const Populat
             LoggedNotice l{setup.plans[p].name, record.replication, pop.encounters[n.encounter].id, pop.units[n.unit],
                            n.at, n.score, n.reason, n.channel, n.asks_evaluation, std::nullopt,
                            delivery_minutes(setup.plans[p])};
-            if (n.channel == Channel::chart_interruption && setup.chart_openings)
+            if ((n.channel == Channel::chart_interruption || n.channel == Channel::score_lookup) && setup.chart_openings)
                 l.opener = setup.chart_openings->roles[n.opener_role].name;
             log.push_back(std::move(l));
         }

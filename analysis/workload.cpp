@@ -23,17 +23,15 @@ struct RoleTasks {
     std::vector<double> busy;   // seconds, [team * shifts + shift]
 };
 
-RoleTasks role_tasks(const PlanStaffRun& pr, const EscalationPath& path, std::uint32_t role_index,
-                     const ShiftCalendar& calendar, std::size_t n_shifts, const ReportPeriod& period) {
-    const Role& role = pr.model->roles[role_index];
+// Adds `tasks` created in the period to `r`: those that reached `role_index`
+// (followed at least `step` edges) as arrived, those that ended there otherwise.
+void add_tasks(RoleTasks& r, std::span<const TaskRecord> tasks, std::ptrdiff_t step, const Role& role,
+               std::uint32_t role_index, const ShiftCalendar& calendar, std::size_t n_shifts,
+               const ReportPeriod& period) {
     const auto& shifts = calendar.shifts();
-    RoleTasks r;
-    r.busy.assign(teams_of(role, *pr.model) * n_shifts, 0.0);
-    // A task reached this role when it followed at least `step` edges of the path.
-    const auto step = std::find(path.roles.begin(), path.roles.end(), role_index) - path.roles.begin();
-    for (const TaskRecord& task : pr.run->tasks) {
+    for (const TaskRecord& task : tasks) {
         if (!period.contains(task.created)) continue;
-        if (step <= task.escalations) ++r.arrived;
+        if (step <= task.escalations && (step > 0 || task.first_role == role_index)) ++r.arrived;
         if (task.role != role_index) continue;
         if (task.fate == TaskFate::never_taken_up) ++r.never;
         if (task.fate == TaskFate::dropped_nobody_free || task.fate == TaskFate::dropped_at_shift_end) ++r.dropped;
@@ -51,17 +49,37 @@ RoleTasks role_tasks(const PlanStaffRun& pr, const EscalationPath& path, std::ui
         }
     }
     std::sort(r.waits.begin(), r.waits.end());
+}
+
+RoleTasks role_tasks(const PlanStaffRun& pr, const EscalationPath& path, std::uint32_t role_index,
+                     const ShiftCalendar& calendar, std::size_t n_shifts, const ReportPeriod& period) {
+    const Role& role = pr.model->roles[role_index];
+    RoleTasks r;
+    r.busy.assign(teams_of(role, *pr.model) * n_shifts, 0.0);
+    // A task reached this role when it followed at least `step` edges of the path.
+    const auto step = std::find(path.roles.begin(), path.roles.end(), role_index) - path.roles.begin();
+    add_tasks(r, pr.run->tasks, step, role, role_index, calendar, n_shifts, period);
+    return r;
+}
+
+// The other work a role's teams did (it never escalates: every task stays at its role).
+RoleTasks other_role_tasks(const PlanStaffRun& pr, std::uint32_t role_index, const ShiftCalendar& calendar,
+                           std::size_t n_shifts, const ReportPeriod& period) {
+    const Role& role = pr.model->roles[role_index];
+    RoleTasks r;
+    r.busy.assign(teams_of(role, *pr.model) * n_shifts, 0.0);
+    add_tasks(r, pr.run->other_tasks, 0, role, role_index, calendar, n_shifts, period);
     return r;
 }
 
 // Fills the roster side of `w` (team and staff shifts, minutes per team-shift,
 // utilisation) over the complete shifts of the period.
 void add_roster_figures(RoleWorkload& w, const Role& role, std::size_t teams, const RoleTasks& tasks,
-                        const ShiftCalendar& calendar, std::size_t n_shifts, const StaffRun& run,
-                        const ReportPeriod& period) {
+                        const RoleTasks* other, const ShiftCalendar& calendar, std::size_t n_shifts,
+                        const StaffRun& run, const ReportPeriod& period) {
     const auto& shifts = calendar.shifts();
     std::vector<double> minutes_per_team_shift;
-    double rostered_seconds = 0, worked_seconds = 0;
+    double rostered_seconds = 0, worked_seconds = 0, other_seconds = 0;
     for (std::size_t team = 0; team < teams; ++team)
         for (std::size_t s = 0; s < n_shifts; ++s) {
             if (shifts[s].start < period.from || shifts[s].end > period.until) continue;
@@ -72,12 +90,17 @@ void add_roster_figures(RoleWorkload& w, const Role& role, std::size_t teams, co
             w.staff_shifts += heads;
             rostered_seconds += static_cast<double>(heads) * static_cast<double>(std::max<Instant>(0, to - from));
             worked_seconds += tasks.busy[team * n_shifts + s];
+            if (other) other_seconds += other->busy[team * n_shifts + s];
             minutes_per_team_shift.push_back(tasks.busy[team * n_shifts + s] / 60.0);
         }
     std::sort(minutes_per_team_shift.begin(), minutes_per_team_shift.end());
     w.staff_minutes_per_shift_mean = defined(mean(minutes_per_team_shift));
     w.staff_minutes_per_shift_p90 = defined(quantile_sorted(minutes_per_team_shift, 0.9));
     if (rostered_seconds > 0) w.utilisation = worked_seconds / rostered_seconds;
+    if (rostered_seconds > 0 && other) {
+        w.other_utilisation = other_seconds / rostered_seconds;
+        w.total_utilisation = (worked_seconds + other_seconds) / rostered_seconds;
+    }
     if (w.staff_shifts > 0)
         w.tasks_per_staff_member_per_shift = static_cast<double>(w.tasks_started) / static_cast<double>(w.staff_shifts);
 }
@@ -103,7 +126,18 @@ std::vector<RoleWorkload> staff_workload(std::span<const PlanStaffRun> runs, con
             w.per_unit = role.per_unit;
             w.tasks_arrived = tasks.arrived;
             w.tasks_started = tasks.started;
-            add_roster_figures(w, role, teams_of(role, model), tasks, calendar, n_shifts, *pr.run, period);
+            std::optional<RoleTasks> other;
+            if (!role.other_work.empty()) other = other_role_tasks(pr, role_index, calendar, n_shifts, period);
+            add_roster_figures(w, role, teams_of(role, model), tasks, other ? &*other : nullptr, calendar, n_shifts,
+                               *pr.run, period);
+            if (other) {
+                w.has_other_work = true;
+                w.other_tasks_arrived = other->arrived;
+                w.other_tasks_started = other->started;
+                w.other_never_taken_up = other->never;
+                w.other_wait_minutes_median = defined(quantile_sorted(other->waits, 0.5));
+                w.other_wait_minutes_p90 = defined(quantile_sorted(other->waits, 0.9));
+            }
             w.wait_minutes_median = defined(quantile_sorted(tasks.waits, 0.5));
             w.wait_minutes_p90 = defined(quantile_sorted(tasks.waits, 0.9));
             if (!tasks.waits.empty()) w.wait_minutes_max = tasks.waits.back();

@@ -54,6 +54,13 @@ struct RoleWorkload {
     std::optional<double> wait_minutes_median, wait_minutes_p90, wait_minutes_max;
     std::int64_t never_taken_up = 0, dropped = 0, handed_over = 0;
     double overtime_minutes = 0;
+    // Other work (roles[].other_work), apart from the alert work above; the
+    // figures above count alert tasks only. Utilisations share the roster's
+    // minutes: utilisation + other_utilisation = total_utilisation.
+    bool has_other_work = false;
+    std::int64_t other_tasks_arrived = 0, other_tasks_started = 0, other_never_taken_up = 0;
+    std::optional<double> other_utilisation, total_utilisation;
+    std::optional<double> other_wait_minutes_median, other_wait_minutes_p90;
 };
 std::vector<RoleWorkload> staff_workload(std::span<const PlanStaffRun> runs, const ShiftCalendar& calendar,
                                          const ReportPeriod& period = {});

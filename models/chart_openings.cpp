@@ -136,39 +136,29 @@ void generate_chart_openings(const std::vector<ChartOpeningRole>& roles, const E
     const std::size_t first = out.size();
     const Instant end = Population::usable_until(enc);
     for (std::size_t r = 0; r < roles.size(); ++r) {
-        const auto& rate = roles[r].openings_per_hour;
-        const double peak = *std::max_element(rate.begin(), rate.end());
-        if (!(peak > 0)) continue;
         SplitMixEngine stream = make_short_stream(draws, StreamPurpose::chart_openings,
                                                   entity_key({encounter_index, text_entity(roles[r].name)}));
-        // Candidates from a homogeneous process at the peak rate; each kept with
-        // probability rate(t) / peak (Lewis & Shedler 1979, thinning).
-        boost::random::exponential_distribution<double> gap_hours(peak);
-        boost::random::uniform_01<double> keep;
-        double t = static_cast<double>(enc.admitted);
-        for (;;) {
-            t += gap_hours(stream) * 3600.0;
-            if (t >= static_cast<double>(end)) break;
-            const auto at = static_cast<Instant>(t);
-            if (keep(stream) * peak < rate[static_cast<std::size_t>(local_hour(zone, at))])
-                out.push_back({at, static_cast<std::uint8_t>(r)});
-        }
+        hourly_poisson_arrivals(roles[r].openings_per_hour, zone, enc.admitted, end, stream,
+                                [&](Instant at) { out.push_back({at, static_cast<std::uint8_t>(r)}); });
     }
     std::stable_sort(out.begin() + static_cast<std::ptrdiff_t>(first), out.end(),
                      [](const ChartOpening& a, const ChartOpening& b) { return a.at < b.at; });
 }
 
-double expected_chart_openings(const ChartOpeningRole& role, const TimeZone& zone, Instant from, Instant to) {
+double hourly_rate_integral(const std::array<double, 24>& per_hour, const TimeZone& zone, Instant from, Instant to) {
     double total = 0;
     for (Instant t = from; t < to;) {
         const Instant local = zone.to_local_seconds(t);
         const Instant into_hour = ((local % 3600) + 3600) % 3600;
         const Instant until = std::min(to, t + (3600 - into_hour));
-        total += role.openings_per_hour[static_cast<std::size_t>(local_hour(zone, t))] *
-                 static_cast<double>(until - t) / 3600.0;
+        total += per_hour[static_cast<std::size_t>(local_hour(zone, t))] * static_cast<double>(until - t) / 3600.0;
         t = until;
     }
     return total;
+}
+
+double expected_chart_openings(const ChartOpeningRole& role, const TimeZone& zone, Instant from, Instant to) {
+    return hourly_rate_integral(role.openings_per_hour, zone, from, to);
 }
 
 }  // namespace tocsin

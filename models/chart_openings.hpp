@@ -18,12 +18,16 @@
 //     character; a bad timestamp.
 //   counted exclusions: openings before admission, at or after time zero, at
 //     or after discharge (no rule sees them).
+#include <algorithm>
 #include <array>
 #include <cstdint>
 #include <map>
 #include <span>
 #include <string>
 #include <vector>
+
+#include <boost/random/exponential_distribution.hpp>
+#include <boost/random/uniform_01.hpp>
 
 #include "models/population.hpp"
 #include "models/random_streams.hpp"
@@ -80,5 +84,28 @@ double expected_chart_openings(const ChartOpeningRole& role, const TimeZone& zon
 
 // Local hour of day (0..23) of an instant.
 int local_hour(const TimeZone& zone, Instant at);
+
+// The integral of a rate by local hour (per hour) over [from, to).
+double hourly_rate_integral(const std::array<double, 24>& per_hour, const TimeZone& zone, Instant from, Instant to);
+
+// Calls `arrive(instant)` for each arrival of a Poisson process over (from,
+// until) whose rate (per hour) depends on the local hour: candidates from a
+// homogeneous process at the peak rate, each kept with probability
+// rate(t) / peak (Lewis & Shedler 1979, thinning). Two draws per candidate.
+template <class Engine, class Arrive>
+void hourly_poisson_arrivals(const std::array<double, 24>& per_hour, const TimeZone& zone, Instant from,
+                             Instant until, Engine& stream, Arrive&& arrive) {
+    const double peak = *std::max_element(per_hour.begin(), per_hour.end());
+    if (!(peak > 0)) return;
+    boost::random::exponential_distribution<double> gap_hours(peak);
+    boost::random::uniform_01<double> keep;
+    double t = static_cast<double>(from);
+    for (;;) {
+        t += gap_hours(stream) * 3600.0;
+        if (t >= static_cast<double>(until)) break;
+        const auto at = static_cast<Instant>(t);
+        if (keep(stream) * peak < per_hour[static_cast<std::size_t>(local_hour(zone, at))]) arrive(at);
+    }
+}
 
 }  // namespace tocsin

@@ -126,11 +126,15 @@ std::string group_name(const ComparisonGroup& g) {
 std::string comparison_basis_text(const ReplicatedFigures& f, std::size_t burden) {
     const auto groups = comparison_groups(f, burden);
     const Metric& m = plan_metrics()[burden];
-    if (groups.size() > 1 || groups.front().channel)
+    if (groups.size() > 1 || groups.front().channel) {
+        const bool lookups = std::find(f.channels.begin(), f.channels.end(), Channel::score_lookup) != f.channels.end();
         return "Compared within each channel: " + std::string(m.name) + " (" + std::string(m.label) +
-               ") counts notices, and a notice is a page, a chart interruption, a handoff flag or a review, so plans "
+               ") counts notices, and a notice is a page, a chart interruption, a handoff flag" +
+               (lookups ? ", a review or a look-up" : " or a review") +
+               ", so plans "
                "of different channels are not ranked on it. For one ranking across channels choose a "
                "channel-neutral burden (staff_minutes_per_unit_shift or evaluations_per_unit_shift).";
+    }
     std::vector<Channel> seen;
     for (Channel c : f.channels)
         if (std::find(seen.begin(), seen.end(), c) == seen.end()) seen.push_back(c);

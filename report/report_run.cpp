@@ -39,7 +39,14 @@ const std::vector<std::pair<std::string, std::string>> staff_labels = {
     {"utilisation", "share of rostered time busy"},
     {"wait_minutes_median", "median wait, minutes"},
     {"wait_minutes_p90", "wait, 90th percentile, minutes"},
-    {"never_taken_up", "never taken up"}};
+    {"never_taken_up", "never taken up"},
+    {"other_tasks_arrived", "other work: tasks arrived"},
+    {"other_tasks_started", "other work: tasks started"},
+    {"other_utilisation", "other work: share of rostered time"},
+    {"total_utilisation", "share of rostered time busy, all work"},
+    {"other_wait_minutes_median", "other work: median wait, minutes"},
+    {"other_wait_minutes_p90", "other work: wait, 90th percentile, minutes"},
+    {"other_never_taken_up", "other work: never taken up"}};
 
 // The scenario's description (study/describe.hpp) after its name and
 // question, one line per statement: a list's entries stand alone, named by
@@ -247,9 +254,15 @@ void add_staff(ReportInput& in, const std::vector<RoleWorkload>& workload) {
         t.add_row({w.plan, w.role, std::string(w.per_unit ? "each unit" : "hospital"), w.tasks_started,
                    cell_or_empty(w.staff_minutes_per_shift_mean), cell_or_empty(w.staff_minutes_per_shift_p90), cell_or_empty(w.utilisation),
                    cell_or_empty(w.wait_minutes_median), cell_or_empty(w.wait_minutes_p90), w.never_taken_up});
+    add_other_work_columns(t, workload);
+    const bool other = std::any_of(workload.begin(), workload.end(), [](const RoleWorkload& w) { return w.has_other_work; });
     in.staff_and_waits = std::move(t);
     in.staff_note = "Utilisation is the staff minutes worked over the minutes rostered. A wait runs from the "
                     "notice to the start of the evaluation; tasks never taken up are counted apart, not as waits.";
+    if (other)
+        in.staff_note += " Other work is what the roles do that no score raised (declared per role, the same in every "
+                         "plan); it competes for the same staff, so it lengthens the alert tasks' waits. Its columns "
+                         "count it apart; the alert columns count alert tasks only, and total utilisation is both.";
     for (const auto& [name, label] : staff_labels) in.column_labels[name] = label;
 }
 

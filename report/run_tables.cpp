@@ -1,5 +1,6 @@
 #include "report/run_tables.hpp"
 
+#include <algorithm>
 #include <cmath>
 
 #include "report/cells.hpp"
@@ -101,7 +102,22 @@ Table staff_workload_table(const std::vector<RoleWorkload>& workload) {
                    cell_or_empty(w.staff_minutes_per_shift_p90), cell_or_empty(w.utilisation), cell_or_empty(w.tasks_per_staff_member_per_shift),
                    cell_or_empty(w.wait_minutes_median), cell_or_empty(w.wait_minutes_p90), cell_or_empty(w.wait_minutes_max), w.never_taken_up,
                    w.dropped, w.handed_over, w.overtime_minutes});
+    add_other_work_columns(t, workload);
     return t;
+}
+
+void add_other_work_columns(Table& t, const std::vector<RoleWorkload>& workload) {
+    if (std::none_of(workload.begin(), workload.end(), [](const RoleWorkload& w) { return w.has_other_work; })) return;
+    for (const char* column : {"other_tasks_arrived", "other_tasks_started", "other_utilisation", "total_utilisation",
+                               "other_wait_minutes_median", "other_wait_minutes_p90", "other_never_taken_up"})
+        t.columns.push_back(column);
+    for (std::size_t k = 0; k < t.rows.size(); ++k) {
+        const RoleWorkload& w = workload[k];
+        const std::vector<Cell> cells = {w.other_tasks_arrived, w.other_tasks_started, cell_or_empty(w.other_utilisation),
+                                         cell_or_empty(w.total_utilisation), cell_or_empty(w.other_wait_minutes_median),
+                                         cell_or_empty(w.other_wait_minutes_p90), w.other_never_taken_up};
+        t.rows[k].insert(t.rows[k].end(), cells.begin(), cells.end());
+    }
 }
 
 Table escalation_table(const std::vector<EscalationCount>& escalations) {

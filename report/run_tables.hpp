@@ -35,6 +35,10 @@ Table notice_log_table(const std::vector<LoggedNotice>& log);
 
 // Staff (analysis/workload.hpp).
 Table staff_workload_table(const std::vector<RoleWorkload>& workload);
+// When any role has other work: appends its columns (other work apart from
+// alert work, and the total utilisation) to `t`, whose rows are `workload`'s
+// in order; otherwise leaves `t` as it is.
+void add_other_work_columns(Table& t, const std::vector<RoleWorkload>& workload);
 Table escalation_table(const std::vector<EscalationCount>& escalations);
 Table task_fate_table(const std::vector<TaskFateCount>& fates);
 Table task_log_table(const std::vector<LoggedTask>& log, const TimeZone& zone);

@@ -1,5 +1,6 @@
 #include "report/run_text.hpp"
 
+#include <algorithm>
 #include <cmath>
 #include <sstream>
 
@@ -71,7 +72,26 @@ Table roles_view(const std::vector<RoleWorkload>& workload) {
                        cell_or_empty(w.staff_minutes_per_shift_mean), cell_or_empty(w.staff_minutes_per_shift_p90), cell_or_empty(w.utilisation),
                        cell_or_empty(w.tasks_per_staff_member_per_shift), cell_or_empty(w.wait_minutes_p90), cell_or_empty(w.wait_minutes_max),
                        w.never_taken_up, w.overtime_minutes});
+    add_other_work_columns(roles, workload);
     return roles;
+}
+
+// Printed only when a role has other work: staff time split into alert work
+// and other work, for runs whose terminal text shows no staff table.
+std::string other_work_text(const ReplicationResults& r) {
+    if (!r.staff || std::none_of(r.staff->workload.begin(), r.staff->workload.end(),
+                                 [](const RoleWorkload& w) { return w.has_other_work; }))
+        return "";
+    Table view;
+    view.title = "Staff time, alert work and other work apart (replication 0; all columns in staff_workload)";
+    view.columns = {"plan", "role", "utilisation", "other_utilisation", "total_utilisation", "wait_p90_min",
+                    "other_wait_p90_min"};
+    for (const RoleWorkload& w : r.staff->workload)
+        if (w.has_other_work)
+            view.add_row({w.plan, w.role, cell_or_empty(w.utilisation), cell_or_empty(w.other_utilisation),
+                          cell_or_empty(w.total_utilisation), cell_or_empty(w.wait_minutes_p90),
+                          cell_or_empty(w.other_wait_minutes_p90)});
+    return to_text(view);
 }
 
 Table burden_view(const std::vector<ChannelBurdenSummary>& burden) {
@@ -161,6 +181,7 @@ std::string run_text(const Scenario& sc, const RunOutput& out, const RunSettings
     if (sc.replications > 1) {
         text += comparison_text(out.figures);
         text += "\n" + channel_units_text(out.figures, out.first_replication.channels.burden);
+        if (const std::string other = other_work_text(out.first_replication); !other.empty()) text += "\n" + other;
     }
     else text += plan_summary_text(out.first_replication);
     if (const std::string averted = outcomes_averted_text(out.figures); !averted.empty()) text += "\n" + averted;

@@ -2,6 +2,7 @@
 // What each delivery channel needs besides the rule (declared per plan), and
 // what a round of a shared-time channel (handoff list, ranked review) records.
 // Meanings are in README ("The paging rule", "The other channels").
+#include <array>
 #include <cstdint>
 #include <optional>
 #include <vector>
@@ -10,10 +11,13 @@
 
 namespace tocsin {
 
+// Channels at chart openings: chart_interruption and score_lookup.
 struct ChartSettings {
     std::optional<std::uint8_t> role;     // only openings by this role (index into chart-opening roles); none: all
-    double interruption_minutes = 0.0;   // the opener's time per interruption
+    double interruption_minutes = 0.0;   // the opener's time per interruption, or per look-up
     double acceptance_probability = 1.0; // share of interruptions that lead to an evaluation
+    // score_lookup: the chance that an opening at each local hour leads to a look-up.
+    std::array<double, 24> lookup_probability{};
 };
 
 struct HandoffSettings {

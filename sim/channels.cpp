@@ -14,7 +14,8 @@ namespace tocsin {
 double delivery_minutes(const Plan& plan) {
     switch (plan.channel) {
         case Channel::page: return 0.0;
-        case Channel::chart_interruption: return plan.chart.interruption_minutes;
+        case Channel::chart_interruption:
+        case Channel::score_lookup: return plan.chart.interruption_minutes;
         case Channel::handoff_list: return plan.handoff.minutes_per_flag;
         case Channel::ranked_review: return plan.review.minutes_per_review;
     }
@@ -22,9 +23,10 @@ double delivery_minutes(const Plan& plan) {
 }
 
 void openings_for_encounter(const SimulationSetup& setup, const Population& pop, const ChartOpeningLog* replayed,
-                            std::size_t e, std::uint64_t replication, EncounterOpenings& out) {
+                            std::size_t e, std::uint64_t replication, EncounterOpenings& out, bool with_lookups) {
     out.openings.clear();
     out.acceptance_draws.clear();
+    out.lookup_draws.clear();
     if (!setup.chart_openings) return;
     const auto& roles = setup.chart_openings->roles;
     if (!setup.chart_openings->replay_path.empty()) {
@@ -50,28 +52,64 @@ void openings_for_encounter(const SimulationSetup& setup, const Population& pop,
             ReplicationSeed{setup.seed, replication}, StreamPurpose::chart_acceptance,
             entity_key({e, out.role_keys[o.role], static_cast<std::uint64_t>(o.at), occurrence}));
         out.acceptance_draws.push_back(draw(accept));
+        if (!with_lookups) continue;
+        // Keyed as the acceptance draw but by its own purpose: the same look-ups in every look-up plan.
+        SplitMixEngine lookup = make_short_stream(
+            ReplicationSeed{setup.seed, replication}, StreamPurpose::score_lookup,
+            entity_key({e, out.role_keys[o.role], static_cast<std::uint64_t>(o.at), occurrence}));
+        out.lookup_draws.push_back(draw(lookup));
     }
 }
+
+namespace {
+
+// The openings a chart-opening plan sees (its role's, or every role's), in
+// time order, with `state` fed every score available by each: calls
+// `at_opening(index, opening)` and returns how many there were.
+template <class AtOpening>
+std::int64_t walk_openings(const Plan& plan, std::span<const Score> scores, const EncounterOpenings& openings,
+                           RuleState& state, AtOpening&& at_opening) {
+    std::size_t next = 0;
+    std::int64_t seen = 0;
+    for (std::size_t i = 0; i < openings.openings.size(); ++i) {
+        const ChartOpening& o = openings.openings[i];
+        if (plan.chart.role && o.role != *plan.chart.role) continue;
+        ++seen;
+        while (next < scores.size() && scores[next].available_at <= o.at) state.see(scores[next++]);
+        at_opening(i, o);
+    }
+    return seen;
+}
+
+}  // namespace
 
 std::int64_t fire_chart_rule(const Plan& plan, const RuleClock& clock, std::span<const Score> scores,
                              const EncounterOpenings& openings, std::uint32_t encounter, std::uint32_t unit,
                              std::uint32_t plan_index, std::vector<Notice>& out) {
     RuleState state(plan.rule, clock);
     const NoticeOrigin origin{encounter, unit, plan_index, Channel::chart_interruption};
-    std::size_t next = 0;
-    std::int64_t asked = 0;
-    for (std::size_t i = 0; i < openings.openings.size(); ++i) {
-        const ChartOpening& o = openings.openings[i];
-        if (plan.chart.role && o.role != *plan.chart.role) continue;
-        ++asked;
-        while (next < scores.size() && scores[next].available_at <= o.at) state.see(scores[next++]);
+    return walk_openings(plan, scores, openings, state, [&](std::size_t i, const ChartOpening& o) {
         const auto reason = state.fire_if_due(o.at);
-        if (!reason) continue;
+        if (!reason) return;
         const bool accepted = openings.acceptance_draws[i] < plan.chart.acceptance_probability;
         out.push_back(make_notice(origin, o.at, state.latest(), *reason, accepted, o.role));
         out.back().response_draw = openings.acceptance_draws[i];
-    }
-    return asked;
+    });
+}
+
+std::int64_t fire_lookup_rule(const Plan& plan, const RuleClock& clock, std::span<const Score> scores,
+                              const EncounterOpenings& openings, std::uint32_t encounter, std::uint32_t unit,
+                              std::uint32_t plan_index, std::vector<Notice>& out) {
+    RuleState state(plan.rule, clock);
+    const NoticeOrigin origin{encounter, unit, plan_index, Channel::score_lookup};
+    return walk_openings(plan, scores, openings, state, [&](std::size_t i, const ChartOpening& o) {
+        const auto hour = static_cast<std::size_t>(local_hour(*clock.zone, o.at));
+        if (!(openings.lookup_draws[i] < plan.chart.lookup_probability[hour])) return;
+        if (!state.has_seen()) return;  // nothing to look up yet
+        const auto reason = state.fire_if_due(o.at);
+        out.push_back(make_notice(origin, o.at, state.latest(), reason ? *reason : NoticeReason::looked_up,
+                                  reason.has_value(), o.role));
+    });
 }
 
 std::vector<Instant> daily_instants(const std::vector<int>& times_minutes, const TimeZone& zone, Instant from,

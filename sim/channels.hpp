@@ -41,19 +41,31 @@ double delivery_minutes(const Plan& plan);
 struct EncounterOpenings {
     std::vector<ChartOpening> openings;
     std::vector<double> acceptance_draws;
+    std::vector<double> lookup_draws;      // only when a look-up plan is declared
     std::vector<std::uint64_t> role_keys;  // text_entity of each opening role's name, filled on first use
 };
 
-// Replayed (from `replayed`) or generated openings of encounter `e`.
+// Replayed (from `replayed`) or generated openings of encounter `e`, with
+// their acceptance draws and, `with_lookups`, their look-up draws.
 void openings_for_encounter(const SimulationSetup& setup, const Population& population,
                             const ChartOpeningLog* replayed, std::size_t e, std::uint64_t replication,
-                            EncounterOpenings& out);
+                            EncounterOpenings& out,
+                            bool with_lookups = false);
 
 // The chart-interruption rule of one plan for one encounter. Appends notices in
 // time order and returns the number of openings the rule was asked at.
 std::int64_t fire_chart_rule(const Plan& plan, const RuleClock& clock, std::span<const Score> scores,
                              const EncounterOpenings& openings, std::uint32_t encounter, std::uint32_t unit,
                              std::uint32_t plan_index, std::vector<Notice>& out);
+
+// The look-up channel of one plan for one encounter: at each opening by its
+// role, the opener looks the score up when the opening's look-up draw is below
+// the probability for its local hour; every look-up is a notice (it costs the
+// look-up minutes), and it asks for an evaluation when the rule fires on the
+// latest score then. Returns the number of openings considered.
+std::int64_t fire_lookup_rule(const Plan& plan, const RuleClock& clock, std::span<const Score> scores,
+                              const EncounterOpenings& openings, std::uint32_t encounter, std::uint32_t unit,
+                              std::uint32_t plan_index, std::vector<Notice>& out);
 
 // Every instant in [from, to] whose local time of day is one of `times_minutes`.
 // A time in a skipped hour (clocks go forward) moves forward by the gap; one in a

@@ -8,6 +8,7 @@ std::string_view to_string(Channel channel) {
         case Channel::chart_interruption: return "chart_interruption";
         case Channel::handoff_list: return "handoff_list";
         case Channel::ranked_review: return "ranked_review";
+        case Channel::score_lookup: return "score_lookup";
     }
     return "?";
 }
@@ -17,6 +18,7 @@ std::string_view to_string(NoticeReason reason) {
         case NoticeReason::first: return "first";
         case NoticeReason::repeat: return "repeat";
         case NoticeReason::rise: return "rise";
+        case NoticeReason::looked_up: return "looked_up";
     }
     return "?";
 }

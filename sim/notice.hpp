@@ -8,8 +8,10 @@
 
 namespace tocsin {
 
-enum class Channel : std::uint8_t { page, chart_interruption, handoff_list, ranked_review };
-enum class NoticeReason : std::uint8_t { first, repeat, rise };
+enum class Channel : std::uint8_t { page, chart_interruption, handoff_list, ranked_review, score_lookup };
+// looked_up: a look-up (channel score_lookup) at which the rule did not call
+// for action; every other reason is a firing.
+enum class NoticeReason : std::uint8_t { first, repeat, rise, looked_up };
 
 std::string_view to_string(Channel channel);
 std::string_view to_string(NoticeReason reason);
@@ -25,9 +27,10 @@ struct Notice {
     // Whether the notice asks for a bedside evaluation task (the staff model's
     // input, and the only notices that can catch a case). A page always asks;
     // a chart interruption asks when accepted, a handoff flag when followed
-    // up; a ranked review is itself the evaluation.
+    // up; a ranked review is itself the evaluation; a look-up asks when the
+    // rule fires at it (the score at or above the threshold).
     bool asks_evaluation = true;
-    // For a chart interruption: the opener's role, an index into the
+    // For a chart interruption or a look-up: the opener's role, an index into the
     // scenario's chart-opening roles; 0 for other channels.
     std::uint8_t opener_role = 0;
     // The uniform draw that decided asks_evaluation: a chart interruption's

@@ -29,9 +29,16 @@ struct EncounterBlock {
     std::vector<std::int64_t> occasions;
 };
 
+// Plans whose instants are chart openings.
 bool has_chart_plan(const SimulationSetup& setup) {
+    return std::any_of(setup.plans.begin(), setup.plans.end(), [](const Plan& p) {
+        return p.channel == Channel::chart_interruption || p.channel == Channel::score_lookup;
+    });
+}
+
+bool has_lookup_plan(const SimulationSetup& setup) {
     return std::any_of(setup.plans.begin(), setup.plans.end(),
-                       [](const Plan& p) { return p.channel == Channel::chart_interruption; });
+                       [](const Plan& p) { return p.channel == Channel::score_lookup; });
 }
 
 // Every per-encounter plan over encounters [first, last): all plans for one
@@ -44,7 +51,7 @@ void fire_encounter_plans(const SimulationSetup& setup, const Population& popula
     const std::size_t n_plans = setup.plans.size();
     out.notices.assign(n_plans, {});
     out.occasions.assign(n_plans, 0);
-    const bool any_chart = has_chart_plan(setup);
+    const bool any_chart = has_chart_plan(setup), any_lookup = has_lookup_plan(setup);
     EncounterOpenings openings;
     for (std::size_t e = first; e < last; ++e) {
         bool any_scores = false;
@@ -53,7 +60,8 @@ void fire_encounter_plans(const SimulationSetup& setup, const Population& popula
         const auto enc = static_cast<std::uint32_t>(e);
         const std::uint32_t unit = population.encounters[e].unit;
         // Openings are drawn once per encounter and shared by every chart plan.
-        if (any_chart) openings_for_encounter(setup, population, replayed_openings, e, replication, openings);
+        if (any_chart)
+            openings_for_encounter(setup, population, replayed_openings, e, replication, openings, any_lookup);
         for (std::size_t p = 0; p < n_plans; ++p) {
             const Plan& plan = setup.plans[p];
             const auto pi = static_cast<std::uint32_t>(p);
@@ -63,6 +71,8 @@ void fire_encounter_plans(const SimulationSetup& setup, const Population& popula
                 out.occasions[p] += static_cast<std::int64_t>(scores.size());
             } else if (plan.channel == Channel::chart_interruption) {
                 out.occasions[p] += fire_chart_rule(plan, clock, scores, openings, enc, unit, pi, out.notices[p]);
+            } else if (plan.channel == Channel::score_lookup) {
+                out.occasions[p] += fire_lookup_rule(plan, clock, scores, openings, enc, unit, pi, out.notices[p]);
             }
         }
     }
@@ -98,8 +108,9 @@ void respond_with_fatigue(const SimulationSetup& setup, const Plan& plan, std::u
 // One plan's staff. Only notices that ask for a bedside evaluation become
 // tasks (an interruption that is dismissed, a flag nobody follows up, do not);
 // TaskRecord::notice is mapped back to the index among all the plan's notices.
-StaffRun staff_for_plan(const std::vector<Notice>& notices, const StaffModel& model, const StaffPlan& staffing,
-                        const ShiftCalendar& calendar, ReplicationSeed draws) {
+StaffRun staff_for_plan(const std::vector<Notice>& notices, std::span<const OtherTask> other_work,
+                        const StaffModel& model, const StaffPlan& staffing, const ShiftCalendar& calendar,
+                        ReplicationSeed draws) {
     std::vector<Notice> asked;
     std::vector<std::uint32_t> original;
     for (std::uint32_t i = 0; i < notices.size(); ++i)
@@ -107,7 +118,7 @@ StaffRun staff_for_plan(const std::vector<Notice>& notices, const StaffModel& mo
             asked.push_back(notices[i]);
             original.push_back(i);
         }
-    StaffRun run = simulate_staff(asked, model, staffing, calendar, calendar.shifts().back().end, draws);
+    StaffRun run = simulate_staff(asked, other_work, model, staffing, calendar, calendar.shifts().back().end, draws);
     for (TaskRecord& t : run.tasks) t.notice = original[t.notice];
     return run;
 }
@@ -124,6 +135,10 @@ void run_staff(const SimulationSetup& setup, const Population& population, const
     std::stable_sort(order.begin(), order.end(), [&](std::size_t a, std::size_t b) {
         return record.plans[a].notices.size() > record.plans[b].notices.size();
     });
+    // The same other work reaches every plan's staff (it depends on no plan).
+    const std::vector<OtherTask> other_work =
+        generate_other_work(setup.roles, std::max<std::uint32_t>(1, units), setup.zone, calendar.shifts().front().start,
+                            calendar.shifts().back().end, ReplicationSeed{setup.seed, replication});
     parallel_for(n_plans, threads, [&](std::size_t k) {
         const std::size_t p = order[k];
         // One capacity model for reviews: the review team declared on the
@@ -132,7 +147,7 @@ void run_staff(const SimulationSetup& setup, const Population& population, const
         // cost each review twice (README, "The other channels").
         if (setup.plans[p].channel == Channel::ranked_review) return;
         const StaffModel model = staff_model(setup, setup.plans[p], units);
-        record.plans[p].staff = staff_for_plan(record.plans[p].notices, model, setup.plans[p].staffing, calendar,
+        record.plans[p].staff = staff_for_plan(record.plans[p].notices, other_work, model, setup.plans[p].staffing, calendar,
                                                ReplicationSeed{setup.seed, replication});
     });
 }

@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cassert>
+#include <cmath>
 #include <stdexcept>
 
 #include "sim/event_queue.hpp"
@@ -53,6 +54,16 @@ std::string staff_model_problems(const StaffModel& model, const ShiftPattern& pa
                 check_row(role, role.roster.by_weekday[d], std::string("roster for ") + day_names[d]);
         }
         if (std::string p = service_time_problem(role.minutes_per_task); !p.empty()) add(role.name, p);
+        for (const OtherWorkClass& work : role.other_work) {
+            const std::string what = "other work '" + work.name + "': ";
+            if (work.name.empty()) add(role.name, "other work has an empty name");
+            if (std::count_if(role.other_work.begin(), role.other_work.end(),
+                              [&](const OtherWorkClass& w) { return w.name == work.name; }) > 1)
+                add(role.name, what + "two classes have this name");
+            for (double rate : work.per_hour)
+                if (!(rate >= 0) || !std::isfinite(rate)) add(role.name, what + "rates must be finite and >= 0");
+            if (std::string p = service_time_problem(work.minutes); !p.empty()) add(role.name, what + p);
+        }
     }
     if (model.escalation.role_count() != model.roles.size())
         add("-", "the escalation graph has " + std::to_string(model.escalation.role_count()) + " roles; expected " +
@@ -92,6 +103,7 @@ struct TaskState {
 };
 
 struct QueueEntry {
+    std::uint8_t level;  // lower first: other work above alerts 0, alert tasks 1, other work below 2
     double order_score;  // higher first (0 under FIFO)
     Instant joined;
     std::uint32_t task;  // also breaks ties: tasks are numbered in notice order
@@ -101,6 +113,7 @@ struct QueueEntry {
 // Max-heap comparator: returns true when a should be served after b.
 struct ServedLater {
     bool operator()(const QueueEntry& a, const QueueEntry& b) const {
+        if (a.level != b.level) return a.level > b.level;
         if (a.order_score != b.order_score) return a.order_score < b.order_score;
         if (a.joined != b.joined) return a.joined > b.joined;
         return a.task > b.task;
@@ -128,14 +141,24 @@ struct Event {
 };
 constexpr int finish_priority = 0;
 constexpr int escalation_priority = 1;
+constexpr std::uint8_t alert_level = 1;
+
+std::uint8_t queue_level(OtherWorkPriority priority) {
+    switch (priority) {
+        case OtherWorkPriority::above_alerts: return alert_level - 1;
+        case OtherWorkPriority::with_alerts: return alert_level;
+        case OtherWorkPriority::below_alerts: return alert_level + 1;
+    }
+    return alert_level;
+}
 
 // The staff on duty for one plan: shift changes, notices and the event queue of
 // task finishes and escalation timeouts, merged in time order (see staff.hpp).
 class StaffQueue {
 public:
-    StaffQueue(std::span<const Notice> notices, const StaffModel& model, const StaffPlan& plan,
-               const ShiftCalendar& calendar, Instant until, ReplicationSeed draws)
-        : notices_(notices), model_(model), plan_(plan), calendar_(calendar), until_(until),
+    StaffQueue(std::span<const Notice> notices, std::span<const OtherTask> other, const StaffModel& model,
+               const StaffPlan& plan, const ShiftCalendar& calendar, Instant until, ReplicationSeed draws)
+        : notices_(notices), other_(other), model_(model), plan_(plan), calendar_(calendar), until_(until),
           minutes_seed_(purpose_seed(draws.seed, draws.replication, StreamPurpose::task_minutes)) {
         team_base_.resize(model.roles.size());
         std::uint32_t teams = 0;
@@ -153,8 +176,9 @@ public:
 
     StaffRun run() {
         const std::size_t n = notices_.size();
-        run_.tasks.resize(n);
-        state_.resize(n);
+        // Tasks of other work are numbered after the notices' (n, n + 1, ...).
+        run_.tasks.resize(n + other_.size());
+        state_.resize(n + other_.size());
         count_occurrences();
         now_ = run_.start;
         events_.start_at(now_);
@@ -162,13 +186,14 @@ public:
         change_shift(0);
 
         const auto& shifts = calendar_.shifts();
-        std::size_t next_shift = 1, next_notice = 0;
+        std::size_t next_shift = 1, next_notice = 0, next_other = 0;
         constexpr Instant never = std::numeric_limits<Instant>::max();
         for (;;) {
             const Instant t_shift = next_shift < shifts.size() ? shifts[next_shift].start : never;
             const Instant t_event = events_.empty() ? never : events_.next_at();
             const Instant t_notice = next_notice < n ? notices_[next_notice].at : never;
-            const Instant t = std::min({t_shift, t_event, t_notice});
+            const Instant t_other = next_other < other_.size() ? other_[next_other].at : never;
+            const Instant t = std::min({t_shift, t_event, t_notice, t_other});
             if (t >= until_) break;
             assert(t >= now_ && "the clock never runs backwards");
             now_ = t;
@@ -180,8 +205,10 @@ public:
                     finish(e.payload.task);
                 else
                     escalate(e.payload.task, e.payload.escalations);
-            } else {
+            } else if (t_notice == t) {
                 arrive(static_cast<std::uint32_t>(next_notice++));
+            } else {
+                arrive_other(static_cast<std::uint32_t>(next_other++));
             }
         }
         close();
@@ -213,6 +240,30 @@ private:
         join(i);
     }
 
+    void arrive_other(std::uint32_t k) {
+        const OtherTask& work = other_[k];
+        const auto i = static_cast<std::uint32_t>(notices_.size() + k);
+        TaskRecord& task = run_.tasks[i];
+        task.created = work.at;
+        task.notice = k;
+        task.unit = work.unit;
+        task.first_role = work.role;
+        task.role = work.role;
+        join(i);
+    }
+
+    bool is_other(std::uint32_t i) const { return i >= notices_.size(); }
+
+    // Where a waiting task stands in its team's queue (see staff.hpp).
+    QueueEntry queue_entry(std::uint32_t i) const {
+        const TaskRecord& task = run_.tasks[i];
+        const bool by_score = plan_.discipline == QueueDiscipline::priority_by_score;
+        if (!is_other(i)) return QueueEntry{alert_level, by_score ? task.score : 0.0, now_, i, task.escalations};
+        const OtherTask& work = other_[i - notices_.size()];
+        const double no_score = by_score ? -std::numeric_limits<double>::infinity() : 0.0;
+        return QueueEntry{queue_level(model_.roles[work.role].other_work[work.work_class].priority), no_score, now_, i, 0};
+    }
+
     // The task arrives at the team of its current role.
     void join(std::uint32_t i) {
         TaskRecord& task = run_.tasks[i];
@@ -231,10 +282,10 @@ private:
             return;
         }
         st.stage = Stage::waiting;
-        const double order = plan_.discipline == QueueDiscipline::priority_by_score ? task.score : 0.0;
-        team.queue.push_back(QueueEntry{order, now_, i, task.escalations});
+        team.queue.push_back(queue_entry(i));
         std::push_heap(team.queue.begin(), team.queue.end(), ServedLater{});
         ++team.waiting;
+        if (is_other(i)) return;  // other work never escalates
         if (const auto& step = model_.escalation.next(task.role))
             events_.schedule(now_ + step->timeout_seconds, escalation_priority,
                              Event{EventKind::escalation, task.escalations, i});
@@ -249,7 +300,7 @@ private:
         st.slot = static_cast<std::uint32_t>(team.working.size());
         team.working.push_back(i);
         task.started_at = now_;
-        task.service_seconds = drawn_seconds(i, task);
+        task.service_seconds = is_other(i) ? other_[i - notices_.size()].service_seconds : drawn_seconds(i, task);
         st.finish_at = now_ + task.service_seconds;
         events_.schedule(st.finish_at, finish_priority, Event{EventKind::finish, 0, i});
     }
@@ -415,9 +466,13 @@ private:
                 case Stage::done: break;
             }
         }
+        const auto n = static_cast<std::ptrdiff_t>(notices_.size());
+        run_.other_tasks.assign(run_.tasks.begin() + n, run_.tasks.end());
+        run_.tasks.erase(run_.tasks.begin() + n, run_.tasks.end());
     }
 
     std::span<const Notice> notices_;
+    std::span<const OtherTask> other_;
     const StaffModel& model_;
     const StaffPlan& plan_;
     const ShiftCalendar& calendar_;
@@ -435,6 +490,31 @@ private:
 
 StaffRun simulate_staff(std::span<const Notice> notices, const StaffModel& model, const StaffPlan& plan,
                         const ShiftCalendar& calendar, Instant until, ReplicationSeed draws) {
+    return simulate_staff(notices, {}, model, plan, calendar, until, draws);
+}
+
+namespace {
+
+void check_other_work(std::span<const OtherTask> other, const StaffModel& model, const ShiftCalendar& calendar,
+                      Instant until) {
+    for (std::size_t k = 0; k < other.size(); ++k) {
+        const OtherTask& w = other[k];
+        const std::string which = "staff: other-work task " + std::to_string(k);
+        if (k > 0 && w.at < other[k - 1].at)
+            throw std::invalid_argument(which + " at " + format_utc(w.at) + " comes before the one ahead of it; sort by time");
+        if (w.at < calendar.shifts().front().start || w.at >= until)
+            throw std::invalid_argument(which + " at " + format_utc(w.at) + " lies outside the run");
+        if (w.role >= model.roles.size() || w.work_class >= model.roles[w.role].other_work.size() ||
+            w.unit >= (model.roles[w.role].per_unit ? model.unit_count : 1u) || w.service_seconds < 0)
+            throw std::invalid_argument(which + " names no declared role, unit and class, or has negative minutes");
+    }
+}
+
+}  // namespace
+
+StaffRun simulate_staff(std::span<const Notice> notices, std::span<const OtherTask> other_work,
+                        const StaffModel& model, const StaffPlan& plan, const ShiftCalendar& calendar, Instant until,
+                        ReplicationSeed draws) {
     if (std::string p = staff_model_problems(model, calendar.pattern()); !p.empty())
         throw std::invalid_argument("staff model: " + p);
     if (plan.first_role >= model.roles.size())
@@ -461,7 +541,10 @@ StaffRun simulate_staff(std::span<const Notice> notices, const StaffModel& model
                                         std::to_string(n.unit) + " but the staff model has " +
                                         std::to_string(model.unit_count) + " units");
     }
-    return StaffQueue(notices, model, plan, calendar, until, draws).run();
+    check_other_work(other_work, model, calendar, until);
+    if (notices.size() + other_work.size() >= std::numeric_limits<std::uint32_t>::max())
+        throw std::invalid_argument("staff: too many tasks for one plan");
+    return StaffQueue(notices, other_work, model, plan, calendar, until, draws).run();
 }
 
 std::uint64_t task_minutes_entity(std::uint32_t encounter, Instant at, std::uint32_t occurrence,

@@ -17,7 +17,7 @@
 //   different roles should differ by the roles' minute distributions only, not
 //   by their draws.
 // - Simultaneous events run in this order: shift change, task finishes, then
-//   escalation timeouts, then new notices (in input order). So a colleague who
+//   escalation timeouts, then new notices (in input order), then new other work. So a colleague who
 //   finishes at the instant a timeout falls takes the task up before it
 //   escalates, and staff freed at an instant serve notices of that instant.
 // - End of shift, policy `hand_over` (default): an evaluation in progress is
@@ -30,7 +30,14 @@
 //   counted (fate dropped_at_shift_end). Tasks still waiting stay in the queue
 //   for the incoming shift under either policy.
 // - Queue: FIFO by the time the task joined the role's queue (an escalated
-//   task joins at the back), or highest score first (ties FIFO).
+//   task joins at the back), or highest score first (ties FIFO). Ties at one
+//   instant go in notice order. Other work (sim/other_work.hpp) enters by its
+//   declared priority before anything else: a waiting task of priority
+//   `above` is taken up before every waiting alert task, one of `below` after
+//   all of them; one of `equal` shares the alert tasks' queue, FIFO by joining
+//   time under fifo (an alert task first at the same instant), and after the
+//   alert tasks waiting under priority_by_score (it has no score). Nothing
+//   preempts work already begun.
 #include <cstdint>
 #include <limits>
 #include <span>
@@ -42,6 +49,7 @@
 #include "models/time.hpp"
 #include "sim/escalation.hpp"
 #include "sim/notice.hpp"
+#include "sim/other_work.hpp"
 #include "sim/service_time.hpp"
 #include "sim/shifts.hpp"
 
@@ -59,6 +67,7 @@ struct Role {
     bool per_unit = false;        // one team on each unit (true) or one team for the hospital
     Roster roster;                // per unit when per_unit
     ServiceTime minutes_per_task = FixedMinutes{15.0};
+    std::vector<OtherWorkClass> other_work;  // work no score raised, competing for the same staff
 };
 
 struct StaffModel {
@@ -134,7 +143,10 @@ struct StaffRun {
     Instant start = 0;  // first shift start of the calendar
     Instant until = 0;  // end of the run (exclusive)
     std::vector<TaskRecord> tasks;  // one per notice, in notice order
-    std::vector<TeamLoad> teams;
+    std::vector<TeamLoad> teams;    // their integrals include other work
+    // One per task of other work, in the order given; `notice` is its index
+    // there, `encounter` and `score` are 0, `first_role` = `role`.
+    std::vector<TaskRecord> other_tasks;
 };
 
 // Runs one plan's notices (sorted by `at`; each at in [calendar start, until),
@@ -142,6 +154,12 @@ struct StaffRun {
 // Throws std::invalid_argument on unsorted or out-of-range notices or an invalid model.
 StaffRun simulate_staff(std::span<const Notice> notices, const StaffModel& model, const StaffPlan& plan,
                         const ShiftCalendar& calendar, Instant until, ReplicationSeed draws);
+// The same with the teams' other work (sorted by `at`, each in [calendar
+// start, until), naming a role, unit and class of `model`), which the
+// staff take up beside the notices' tasks.
+StaffRun simulate_staff(std::span<const Notice> notices, std::span<const OtherTask> other_work,
+                        const StaffModel& model, const StaffPlan& plan, const ShiftCalendar& calendar, Instant until,
+                        ReplicationSeed draws);
 
 // The task_minutes entity of a notice's task after `escalation_step` escalations (see above).
 std::uint64_t task_minutes_entity(std::uint32_t encounter, Instant at, std::uint32_t occurrence,

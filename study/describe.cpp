@@ -1,6 +1,7 @@
 // The plain-words description of a scenario, as items (study/describe.hpp).
 #include "study/describe.hpp"
 
+#include <algorithm>
 #include <cmath>
 #include <sstream>
 
@@ -132,6 +133,12 @@ std::optional<std::string> channel_line(const Plan& p, const ShiftPattern& shift
     if (p.channel == Channel::chart_interruption)
         return "at each chart opening; " + num(p.chart.interruption_minutes) + " min per interruption; " +
                num(p.chart.acceptance_probability) + " of interruptions lead to an evaluation";
+    if (p.channel == Channel::score_lookup) {
+        const auto [low, high] = std::minmax_element(p.chart.lookup_probability.begin(), p.chart.lookup_probability.end());
+        return "nothing pushed: at each chart opening the score is looked up with probability " +
+               (*low == *high ? num(*low) : num(*low) + " to " + num(*high) + " by hour") + "; " +
+               num(p.chart.interruption_minutes) + " min per look-up; an evaluation when the rule fires on the score seen";
+    }
     if (p.channel == Channel::handoff_list) {
         const auto& times = p.handoff.times_minutes.empty() ? shifts.start_minutes : p.handoff.times_minutes;
         return "flagged at each handoff (" + clock_times(times, ", ") + "); " + num(p.handoff.minutes_per_flag) +
@@ -201,7 +208,17 @@ DescriptionItem role_entry(const Role& r, const ShiftPattern& shifts) {
         for (std::size_t d = 0; d < 7; ++d)
             if (r.roster.by_weekday[d] != r.roster.by_shift)
                 text += "; " + std::string(weekday_names[d]) + headcounts(shifts, r.roster.by_weekday[d], " ");
-    return statement(text + "; " + describe(r.minutes_per_task) + " per task");
+    text += "; " + describe(r.minutes_per_task) + " per task";
+    for (const OtherWorkClass& w : r.other_work) {
+        const auto [low, high] = std::minmax_element(w.per_hour.begin(), w.per_hour.end());
+        text += "; other work '" + w.name + "': " +
+                (*low == *high ? num(*low) : num(*low) + " to " + num(*high)) + " an hour " +
+                (r.per_unit ? "on each unit" : "for the hospital") + ", " + describe(w.minutes) + ", taken up " +
+                (w.priority == OtherWorkPriority::above_alerts   ? "before waiting alert tasks"
+                 : w.priority == OtherWorkPriority::below_alerts ? "after waiting alert tasks"
+                                                                 : "in one queue with alert tasks");
+    }
+    return statement(text);
 }
 
 void add_staff(std::vector<DescriptionItem>& items, const SimulationSetup& setup) {

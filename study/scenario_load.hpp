@@ -1,4 +1,5 @@
 #pragma once
+#include <array>
 // The loader's own helpers, shared by study/scenario*.cpp: each reads one part
 // of a scenario file through `Section`, which takes every default and range
 // from the key's declaration (study/scenario_schema.cpp).
@@ -22,6 +23,9 @@ Instant timestamp(const Section& s, std::string_view key, const TimeZone& zone);
 // A sub-section, or an empty one when it is left out, so that each of its keys
 // still reads its declared default.
 YAML::Node section_or_empty(const Section& s, std::string_view key);
+// A rate by local hour from a list of one number (all day) or of 24 (hour 00
+// first), each within the key's declared range; `unit` names it in messages.
+std::array<double, 24> hourly_rates(const Section& s, std::string_view key, const std::string& unit);
 
 // population: replay or generate, bootstrap, stress test (study/scenario_load_population.cpp)
 void load_population(const Section& top, Scenario& sc);

@@ -48,6 +48,9 @@ Rule parse_rule(const Section& s, Channel channel) {
             s.fail(quiet_key, "a handoff list is read only at its handoff times, so quiet hours do not apply; leave "
                               "a time out of handoff.times instead");
     }
+    if (channel == Channel::score_lookup && r.quiet_start_minute)
+        s.fail(quiet_key, "a look-up interrupts nobody, so quiet hours do not apply; give a lower "
+                          "lookup.probability for those hours instead");
     if (review) {
         if (r.snooze)
             s.fail("snooze_minutes", "a ranked review skips recently reviewed patients with review.skip_reviewed_hours, "
@@ -64,9 +67,11 @@ Rule parse_rule(const Section& s, Channel channel) {
 
 Channel parse_channel(const Section& s) {
     const std::string c = s.text("channel");
-    for (Channel k : {Channel::page, Channel::chart_interruption, Channel::handoff_list, Channel::ranked_review})
+    for (Channel k : {Channel::page, Channel::chart_interruption, Channel::handoff_list, Channel::ranked_review,
+                      Channel::score_lookup})
         if (c == to_string(k)) return k;
-    s.fail("channel", "unknown channel '" + c + "' (expected: page, chart_interruption, handoff_list or ranked_review)");
+    s.fail("channel", "unknown channel '" + c +
+                          "' (expected: page, chart_interruption, handoff_list, ranked_review or score_lookup)");
 }
 
 std::vector<int> clock_list(const Section& s, std::string_view key) {
@@ -88,7 +93,7 @@ std::vector<int> clock_list(const Section& s, std::string_view key) {
 void check_channel_sections(const Section& s, Channel channel) {
     struct Own { const char* key; Channel channel; };
     for (Own own : {Own{"chart", Channel::chart_interruption}, Own{"handoff", Channel::handoff_list},
-                    Own{"review", Channel::ranked_review}}) {
+                    Own{"review", Channel::ranked_review}, Own{"lookup", Channel::score_lookup}}) {
         if (own.channel == channel && !s.has(own.key))
             s.fail("channel", "a " + std::string(to_string(own.channel)) + " plan needs a '" + own.key +
                                   "' section (see plans[]." + own.key + ")");
@@ -98,21 +103,34 @@ void check_channel_sections(const Section& s, Channel channel) {
     }
 }
 
-void parse_chart(const Section& s, Plan& p, const Scenario& sc, const std::string& where) {
-    Section c(s.child("chart"), "plans[].chart", s.file(), where + ".chart");
+// The chart-opening role a chart interruption or look-up plan is limited to, when it names one.
+void parse_opening_role(const Section& s, Plan& p, const Scenario& sc) {
     if (!sc.simulation.chart_openings)
-        s.fail("channel", "a chart_interruption plan needs the top-level chart_openings section (when charts are opened)");
-    p.chart.interruption_minutes = c.real("interruption_minutes");
-    p.chart.acceptance_probability = c.real("acceptance_probability");
+        s.fail("channel", "a " + std::string(to_string(p.channel)) +
+                              " plan needs the top-level chart_openings section (when charts are opened)");
     if (s.has("role")) {
         const auto& roles = sc.simulation.chart_openings->roles;
         std::size_t r = 0;
         while (r < roles.size() && roles[r].name != p.role) ++r;
         if (r == roles.size())
-            s.fail("role", "a chart interruption goes to whoever opens the chart: role must be one of the "
-                           "chart_openings roles, or left out for every role");
+            s.fail("role", "a " + std::string(to_string(p.channel)) + " happens when a clinician opens the chart: "
+                           "role must be one of the chart_openings roles, or left out for every role");
         p.chart.role = static_cast<std::uint8_t>(r);
     }
+}
+
+void parse_chart(const Section& s, Plan& p, const Scenario& sc, const std::string& where) {
+    Section c(s.child("chart"), "plans[].chart", s.file(), where + ".chart");
+    parse_opening_role(s, p, sc);
+    p.chart.interruption_minutes = c.real("interruption_minutes");
+    p.chart.acceptance_probability = c.real("acceptance_probability");
+}
+
+void parse_lookup(const Section& s, Plan& p, const Scenario& sc, const std::string& where) {
+    Section c(s.child("lookup"), "plans[].lookup", s.file(), where + ".lookup");
+    parse_opening_role(s, p, sc);
+    p.chart.interruption_minutes = c.real("minutes_per_lookup");
+    p.chart.lookup_probability = hourly_rates(c, "probability", "(a probability)");
 }
 
 void parse_handoff(const Section& s, Plan& p, const std::string& where) {
@@ -165,6 +183,7 @@ void parse_review(const Section& s, Plan& p, const std::string& where) {
 void parse_channel_settings(const Section& s, Plan& p, const Scenario& sc, const std::string& where) {
     check_channel_sections(s, p.channel);
     if (p.channel == Channel::chart_interruption) parse_chart(s, p, sc, where);
+    else if (p.channel == Channel::score_lookup) parse_lookup(s, p, sc, where);
     else if (p.channel == Channel::handoff_list) parse_handoff(s, p, where);
     else if (p.channel == Channel::ranked_review) parse_review(s, p, where);
 }
@@ -241,7 +260,8 @@ Plan parse_plan(const Section& s, const Scenario& sc, const std::string& where) 
     }
     p.channel = parse_channel(s);
     // A chart interruption goes to whoever opens the chart unless a role is named.
-    p.role = p.channel == Channel::chart_interruption && !s.has("role") ? "whoever opens the chart" : s.text("role");
+    const bool at_openings = p.channel == Channel::chart_interruption || p.channel == Channel::score_lookup;
+    p.role = at_openings && !s.has("role") ? "whoever opens the chart" : s.text("role");
     parse_staffing(s, p, sc.simulation);
     load_plan_staffing(s, p, sc.simulation, where);
     if (s.has("rule"))
@@ -269,20 +289,10 @@ ChartOpeningSource load_chart_openings(const Section& s, const std::string& dire
         for (const auto& other : src.roles)
             if (other.name == role.name) r.fail("name", "two chart-opening roles are named '" + role.name + "'");
         role.clinicians_per_unit = r.real("clinicians_per_unit");
-        const std::vector<double> rates = r.real_list("openings_per_hour");
         if (!r.has("openings_per_hour") && src.replay_path.empty())
             r.fail("openings_per_hour", "generated chart openings need a rate for each role (or give chart_openings.replay)");
-        if (r.has("openings_per_hour")) {
-            if (rates.size() != 1 && rates.size() != 24)
-                r.fail("openings_per_hour", "expected one rate (all day) or 24 rates (hour 00 first), found " +
-                                                std::to_string(rates.size()));
-            const Range& range = r.spec("openings_per_hour").range;
-            for (double v : rates)
-                if (!std::isfinite(v) || v < *range.min || v > *range.max)
-                    r.fail("openings_per_hour", "rates must be between " + number_text(*range.min) + " and " +
-                                                    number_text(*range.max) + " openings per patient per hour");
-            for (std::size_t h = 0; h < 24; ++h) role.openings_per_hour[h] = rates.size() == 1 ? rates[0] : rates[h];
-        }
+        if (r.has("openings_per_hour"))
+            role.openings_per_hour = hourly_rates(r, "openings_per_hour", "openings per patient per hour");
         src.roles.push_back(std::move(role));
     }
     if (src.roles.empty()) s.fail("roles", "at least one role is needed");
@@ -305,4 +315,19 @@ std::vector<Plan> load_plans(const Section& top, const Scenario& sc) {
     if (plans.empty()) top.fail("plans", "at least one plan is needed");
     return plans;
 }
+
+std::array<double, 24> hourly_rates(const Section& s, std::string_view key, const std::string& unit) {
+    const std::vector<double> rates = s.real_list(key);
+    if (rates.size() != 1 && rates.size() != 24)
+        s.fail(key, "expected one rate (all day) or 24 rates (hour 00 first), found " + std::to_string(rates.size()));
+    const Range& range = s.spec(key).range;
+    for (double v : rates)
+        if (!std::isfinite(v) || v < *range.min || v > *range.max)
+            s.fail(key, "rates must be between " + number_text(*range.min) + " and " + number_text(*range.max) + " " +
+                            unit);
+    std::array<double, 24> out{};
+    for (std::size_t h = 0; h < 24; ++h) out[h] = rates.size() == 1 ? rates[0] : rates[h];
+    return out;
+}
+
 }  // namespace tocsin::scenario_load

@@ -1,4 +1,5 @@
 #include <algorithm>
+#include <cmath>
 
 #include "study/scenario_load.hpp"
 
@@ -76,6 +77,30 @@ std::vector<std::vector<int>> parse_weekdays(const Section& s, const std::vector
     return by_weekday;
 }
 
+// roles[].other_work[]: classes of work no score raised, by name, rate, minutes and priority.
+std::vector<OtherWorkClass> load_other_work(const Section& role, const std::string& where) {
+    std::vector<OtherWorkClass> out;
+    std::size_t i = 0;
+    for (const auto& node : role.child("other_work")) {
+        const std::string at = where + ".other_work[" + std::to_string(i++) + "]";
+        Section s(node, "roles[].other_work[]", role.file(), at);
+        OtherWorkClass w;
+        w.name = s.text("name");
+        if (w.name.empty()) s.fail("name", "the name of other work is empty");
+        for (const OtherWorkClass& other : out)
+            if (other.name == w.name) s.fail("name", "two classes of this role's other work are named '" + w.name + "'");
+        w.per_hour = hourly_rates(s, "per_hour", "tasks per team per hour");
+        w.minutes = parse_minutes(Section(s.child("minutes"), "roles[].minutes", role.file(), at + ".minutes"));
+        const std::string priority = s.text("priority");
+        if (priority == "above") w.priority = OtherWorkPriority::above_alerts;
+        else if (priority == "equal") w.priority = OtherWorkPriority::with_alerts;
+        else if (priority == "below") w.priority = OtherWorkPriority::below_alerts;
+        else s.fail("priority", "unknown priority '" + priority + "' (expected above, equal or below)");
+        out.push_back(std::move(w));
+    }
+    return out;
+}
+
 }  // namespace
 
 std::vector<Role> load_roles(const Section& top, const ShiftPattern& shifts) {
@@ -97,6 +122,7 @@ std::vector<Role> load_roles(const Section& top, const ShiftPattern& shifts) {
         r.roster.by_shift = parse_roster_row(s.child("roster"), shifts, file, where + ".roster");
         if (s.has("roster_by_weekday")) r.roster.by_weekday = parse_weekdays(s, r.roster.by_shift, shifts, where);
         r.minutes_per_task = parse_minutes(Section(s.child("minutes"), "roles[].minutes", file, where + ".minutes"));
+        r.other_work = load_other_work(s, where);
         roles.push_back(std::move(r));
     }
     if (roles.empty()) top.fail("roles", "the roles list is empty; leave it out for no staff model");

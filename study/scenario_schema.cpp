@@ -267,7 +267,7 @@ SectionSpec plans_keys() {
                 text_key("name", {.required = true, .help = "Unique plan name shown in every table."}),
                 text_key("description", {.help = "One line on what the plan is for."}),
                 text_key("score", {.absent = "the first score", .help = "Which score the plan's rule reads: score_name or one of population.other_scores[].name."}),
-                text_key("channel", {.fallback = "page", .help = "How a firing is delivered: page, chart_interruption, handoff_list or ranked_review."}),
+                text_key("channel", {.fallback = "page", .help = "How a firing is delivered: page, chart_interruption, handoff_list, ranked_review or score_lookup (nothing pushed: the score is looked up at chart openings)."}),
                 text_key("role", {.fallback = "responder", .help = "Who answers the notice; when roles are declared, one of them. For a chart interruption, only openings by this chart-opening role are interrupted (default: every role)."}),
                 text_key("queue", {.fallback = "fifo", .help = "Order in which waiting tasks are taken up: fifo (first come) or priority (highest score first)."}),
                 text_key("at_shift_end", {.fallback = "hand_over", .help = "An evaluation still in progress when its nurse's shift ends: hand_over (an incoming colleague continues it) or drop (abandoned and counted)."}),
@@ -278,6 +278,7 @@ SectionSpec plans_keys() {
                 section_key("handoff", {.help = "Handoff list settings (see plans[].handoff); required for that channel."}),
                 section_key("review", {.help = "Ranked review settings (see plans[].review); required for that channel."}),
                 section_key("fatigue", {.absent = "none", .help = "Page or chart interruption: the chance that a notice leads to an evaluation falls with the notices before it (see plans[].fatigue); none: it does not."}),
+                section_key("lookup", {.help = "Look-up settings (see plans[].lookup); required for channel score_lookup."}),
             }};
 }
 
@@ -326,6 +327,18 @@ SectionSpec roles_keys() {
                 section_key("roster", {.unit = "people", .required = true, .help = "Headcount on duty per shift, by shift name, e.g. {day: 2, night: 1}; every shift must be given."}),
                 section_key("roster_by_weekday", {.unit = "people", .absent = "none", .help = "Overrides for some weekdays, e.g. {saturday: {day: 1, night: 1}}; days not listed use roster."}),
                 section_key("minutes", {.required = true, .help = "Minutes one evaluation takes (see roles[].minutes)."}),
+                list_key("other_work", {.absent = "none", .help = "Work no score raised that competes for the same staff, one item per class (see roles[].other_work[])."}),
+            }};
+}
+
+SectionSpec roles_other_work_keys() {
+    return {"roles[].other_work[]",
+            "One class of other work: tasks arriving at every team of the role as a Poisson process by local hour of day, with their own minutes and a priority against alert tasks. They never escalate and catch nobody.",
+            {
+                text_key("name", {.required = true, .help = "e.g. ward calls; unique within the role; with the role's name and the unit it keys the draws."}),
+                real_list_key("per_hour", {.unit = "tasks per team per hour", .required = true, .range = {0, 1000}, .help = "Rate by local hour: a list of one number (all day, e.g. [0.5]) or of 24 (hour 00 first)."}),
+                section_key("minutes", {.required = true, .help = "Minutes one such task takes (as roles[].minutes)."}),
+                text_key("priority", {.fallback = "equal", .help = "Against waiting alert tasks: above (taken up first), equal (one queue, the plan's order) or below (only when no alert task waits). Nothing interrupts work begun."}),
             }};
 }
 
@@ -370,6 +383,15 @@ SectionSpec plans_fatigue_keys() {
                 real_key("repeat_odds_ratio", {.unit = "odds ratio", .fallback = 1, .range = {1e-6, 1e6}, .help = "Odds multiplied by this for each earlier notice about the same patient in this plan (1: no effect)."}),
                 real_key("recent_odds_ratio", {.unit = "odds ratio", .fallback = 1, .range = {1e-6, 1e6}, .help = "Odds multiplied by this for each notice the same team received within window_hours before (1: no effect)."}),
                 real_key("window_hours", {.unit = "hours", .fallback = 8, .range = {0.001, 24 * 14}, .help = "How far back the team's notices count."}),
+            }};
+}
+
+SectionSpec plans_lookup_keys() {
+    return {"plans[].lookup",
+            "A look-up (nothing pushed): at a chart opening the clinician looks the score up with the given probability, and acts (an evaluation) when the rule fires on the latest score then. Every look-up costs its minutes; nothing interrupts anyone.",
+            {
+                real_key("minutes_per_lookup", {.unit = "minutes", .required = true, .range = {0, 600}, .help = "The clinician's time taken by one look-up."}),
+                real_list_key("probability", {.unit = "probability", .required = true, .range = {0, 1}, .help = "Chance that an opening leads to a look-up, by local hour: one number (all day) or 24 (hour 00 first). The same draw per opening in every look-up plan."}),
             }};
 }
 
@@ -428,10 +450,12 @@ const std::vector<SectionSpec>& scenario_sections() {
         sweep_vary_keys(),
         roles_keys(),
         roles_minutes_keys(),
+        roles_other_work_keys(),
         escalation_keys(),
         plans_chart_keys(),
         plans_fatigue_keys(),
         plans_handoff_keys(),
+        plans_lookup_keys(),
         plans_review_keys(),
     };
     return sections;

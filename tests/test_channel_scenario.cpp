@@ -127,3 +127,32 @@ TEST_CASE("channel_scenario.sections_and_roles") {
     CHECK(error_of(scenario_text("    channel: ranked_review\n    review: {times: [\"8am\"], top_n: 5, minutes_per_review: 10}\n"))
               .find("expected a list of local times of day") != std::string::npos);
 }
+
+TEST_CASE("channel_scenario.score_lookup") {
+    SUBCASE("read: minutes per look-up, probability by hour, the role among the openers") {
+        const Scenario sc = parse_scenario(
+            scenario_text("    channel: score_lookup\n    role: nurse\n    rule: {threshold: 60, snooze_minutes: 240}\n"
+                          "    lookup: {minutes_per_lookup: 0.5, probability: [0.2]}\n",
+                          openings),
+            "s.yaml", "");
+        const Plan& p = sc.simulation.plans[0];
+        CHECK(p.channel == Channel::score_lookup);
+        CHECK(p.chart.role == 0);
+        CHECK(p.chart.interruption_minutes == 0.5);
+        CHECK(p.chart.lookup_probability[0] == 0.2);
+        CHECK(p.chart.lookup_probability[23] == 0.2);
+    }
+    const std::string lookup = "    channel: score_lookup\n    rule: {threshold: 50}\n";
+    CHECK(error_of(scenario_text(lookup, openings)).find("a score_lookup plan needs a 'lookup' section") != std::string::npos);
+    CHECK(error_of(scenario_text(lookup + "    lookup: {minutes_per_lookup: 1, probability: [0.5]}\n"))
+              .find("a score_lookup plan needs the top-level chart_openings section") != std::string::npos);
+    const std::string e = error_of(scenario_text(lookup + "    lookup: {minutes_per_lookup: 1, probability: [1.5]}\n", openings));
+    CHECK(e.find("plans[0].lookup.probability: rates must be between 0 and 1") != std::string::npos);
+    CHECK(error_of(scenario_text("    channel: score_lookup\n    rule: {threshold: 50, quiet_from: \"22:00\", quiet_until: \"06:00\"}\n"
+                                 "    lookup: {minutes_per_lookup: 1, probability: [0.5]}\n",
+                                 openings))
+              .find("a look-up interrupts nobody, so quiet hours do not apply") != std::string::npos);
+    CHECK(error_of(scenario_text(lookup + "    chart: {interruption_minutes: 1}\n    lookup: {minutes_per_lookup: 1, probability: [0.5]}\n",
+                                 openings))
+              .find("a 'chart' section applies only to channel chart_interruption, not score_lookup") != std::string::npos);
+}

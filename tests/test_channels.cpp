@@ -83,6 +83,20 @@ std::vector<std::string> story(const Population& pop, const std::vector<Notice>&
 
 using Expected = std::vector<std::string>;
 
+// The chart stories' patient: P1 on unit 0, 3 Mar 18:00 to 4 Mar 12:00, scores
+// 50 at 19:00, 70 available 20:10, 75 at 22:00; nurses (4 per unit) and a physician open charts.
+void chart_story_patient(Ward& w) {
+    const auto p = w.patient("P1", 0, at(3, 18), at(4, 12));
+    w.score(p, at(3, 19), 50).score(p, at(3, 20, 10), 70).score(p, at(3, 22), 75);
+    w.done();
+    w.sc.simulation.chart_openings = ChartOpeningSource{{{"nurse", 4, {}}, {"physician", 1, {}}}, ""};
+}
+
+// Its openings: nurses at 19:30, 20:05, 20:30, 21:00 and 22:00, the physician at 21:30.
+std::vector<ChartOpening> chart_story_openings() {
+    return {{at(3, 19, 30), 0}, {at(3, 20, 5), 0}, {at(3, 20, 30), 0}, {at(3, 21), 0}, {at(3, 21, 30), 1}, {at(3, 22), 0}};
+}
+
 }  // namespace
 
 TEST_CASE("channels.chart_interruption") {
@@ -93,16 +107,13 @@ TEST_CASE("channels.chart_interruption") {
     //   21:30 (physician) at t + S exactly: repeat.
     //   22:00 the 75 is available at that instant, but snoozed until 22:30 and no rise clause: no.
     Ward w;
-    const auto p = w.patient("P1", 0, at(3, 18), at(4, 12));
-    w.score(p, at(3, 19), 50).score(p, at(3, 20, 10), 70).score(p, at(3, 22), 75);
-    w.done();
-    w.sc.simulation.chart_openings = ChartOpeningSource{{{"nurse", 4, {}}, {"physician", 1, {}}}, ""};
+    chart_story_patient(w);
     Plan& plan = w.plan(Channel::chart_interruption, 60);
     plan.rule.snooze = minutes(60);
     plan.chart.interruption_minutes = 2;
     plan.chart.acceptance_probability = 0.5;
     EncounterOpenings o;
-    o.openings = {{at(3, 19, 30), 0}, {at(3, 20, 5), 0}, {at(3, 20, 30), 0}, {at(3, 21), 0}, {at(3, 21, 30), 1}, {at(3, 22), 0}};
+    o.openings = chart_story_openings();
     o.acceptance_draws = {0.9, 0.9, 0.2, 0.9, 0.7, 0.1};
     const ShiftCalendar cal = w.calendar();
     const RuleClock clock{&w.sc.simulation.zone, &cal};
@@ -128,6 +139,72 @@ TEST_CASE("channels.chart_interruption") {
         out.clear();
         CHECK(fire_chart_rule(plan, clock, w.pop.scores_of(0), o, 0, 0, 0, out) == 1);
         CHECK(story(w.pop, out) == Expected{"03 21:30 P1 first !"});
+    }
+}
+
+TEST_CASE("channels.score_lookup") {
+    // The chart story's patient and openings, as a look-up plan (nothing
+    // pushed): threshold 60, snooze 60 min, 1 min per look-up. Look-up
+    // probability 0.5 by day (07:00-18:59), 0.25 by night; the openings'
+    // look-up draws are 0.4, 0.1, 0.2, 0.3, 0.6, 0.1 (all are night hours):
+    //   19:30 draw 0.4 >= 0.25: not looked up.
+    //   20:05 draw 0.1: looked up; only the 50 is available: below threshold, no action.
+    //   20:30 draw 0.2: looked up; latest 70: act (first).
+    //   21:00 draw 0.3: not looked up.
+    //   21:30 (physician) draw 0.6: not looked up (so the 60-minute snooze never matters there).
+    //   22:00 draw 0.1: looked up; the 75 is available, snoozed until 21:30 only: act (repeat).
+    Ward w;
+    chart_story_patient(w);
+    Plan& plan = w.plan(Channel::score_lookup, 60);
+    plan.rule.snooze = minutes(60);
+    plan.chart.interruption_minutes = 1;
+    plan.chart.lookup_probability.fill(0.25);
+    for (int h = 7; h < 19; ++h) plan.chart.lookup_probability[static_cast<std::size_t>(h)] = 0.5;
+    EncounterOpenings o;
+    o.openings = chart_story_openings();
+    o.acceptance_draws = {0.9, 0.9, 0.9, 0.9, 0.9, 0.9};  // the chart channel's draws play no part
+    o.lookup_draws = {0.4, 0.1, 0.2, 0.3, 0.6, 0.1};
+    const ShiftCalendar cal = w.calendar();
+    const RuleClock clock{&w.sc.simulation.zone, &cal};
+    std::vector<Notice> out;
+    CHECK(fire_lookup_rule(plan, clock, w.pop.scores_of(0), o, 0, 0, 0, out) == 6);
+    // "!" marks a look-up that asks for no evaluation.
+    CHECK(story(w.pop, out) == Expected{"03 20:05 P1 looked_up !", "03 20:30 P1 first", "03 22:00 P1 repeat"});
+    REQUIRE(out.size() == 3);
+    CHECK(out[0].score == 50);
+    CHECK(out[2].score == 75);
+    CHECK(out[1].channel == Channel::score_lookup);
+    CHECK(delivery_minutes(plan) == 1);
+
+    SUBCASE("the probability by hour") {
+        // 0.5 at every hour but 21:00-21:59, where nobody looks: the draws
+        // below 0.5 are at 19:30, 20:05, 20:30, 21:00 and 22:00, and 21:00 is
+        // in the hour of probability 0. 19:30 and 20:05 see the 50: no action.
+        plan.chart.lookup_probability.fill(0.5);
+        plan.chart.lookup_probability[21] = 0.0;
+        out.clear();
+        fire_lookup_rule(plan, clock, w.pop.scores_of(0), o, 0, 0, 0, out);
+        CHECK(story(w.pop, out) == Expected{"03 19:30 P1 looked_up !", "03 20:05 P1 looked_up !", "03 20:30 P1 first",
+                                            "03 22:00 P1 repeat"});
+    }
+    SUBCASE("before any score there is nothing to look up") {
+        for (auto& opening : o.openings) opening.at -= hours(12);  // 07:30 ... 10:00, before admission's first score
+        plan.chart.lookup_probability.fill(1.0);
+        out.clear();
+        CHECK(fire_lookup_rule(plan, clock, w.pop.scores_of(0), o, 0, 0, 0, out) == 6);
+        CHECK(out.empty());
+    }
+    SUBCASE("burden: look-ups per clinician per shift") {
+        const ReportingShifts rep = reporting_shifts(w.sc.analysis, w.pop, cal);
+        PlanRecord r;
+        r.notices = out;
+        const ChannelBurden b = channel_burden(w.sc.simulation, w.pop, cal, rep, plan, r);
+        CHECK(b.measure == "look-ups per clinician per shift");
+        // Three nurse look-ups on unit 0 in the 3 Mar night shift, 4 nurses: 0.75, at 1 min each.
+        CHECK(std::find(b.values.begin(), b.values.end(), 0.75) != b.values.end());
+        double total_minutes = 0;
+        for (double m : b.minutes) total_minutes += m * 4;  // nurse rows only are non-zero
+        CHECK(total_minutes == doctest::Approx(3.0));
     }
 }
 

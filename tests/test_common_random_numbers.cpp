@@ -282,3 +282,77 @@ TEST_CASE("common_random_numbers.a_plan_with_its_own_escalation_changes_no_other
     CHECK(a.at("staff_workload").at("page-45-noisy").size() == 2);
     CHECK(b.at("staff_workload").at("page-45-noisy").size() == 1);
 }
+
+TEST_CASE("common_random_numbers.other_work_moves_no_notice_and_no_plan_that_does_not_meet_it") {
+    // The cover nurse (page-50-thin-nights' role) gains ward calls no score
+    // raised. Every notice of every plan is unchanged (other work draws from its
+    // own stream), every plan that never reaches the cover nurse keeps every
+    // figure, and page-50-thin-nights' staff now wait longer.
+    const std::string base = example_text();
+    const std::string busy = replace_once(base, "    minutes: {distribution: gamma, mean: 30, sd: 10}\n",
+                                          "    minutes: {distribution: gamma, mean: 30, sd: 10}\n"
+                                          "    other_work:\n"
+                                          "      - name: ward calls\n"
+                                          "        per_hour: [1.5]\n"
+                                          "        minutes: {distribution: exponential, mean: 30}\n");
+    const RowsByPlan a = rows_by_plan(run_text(base));
+    RowsByPlan b = rows_by_plan(run_text(busy));
+    // staff_workload gains seven columns for other work (zero or empty on roles
+    // without any): the columns the two runs share are compared.
+    for (auto& [plan, rows] : b.at("staff_workload"))
+        for (std::string& row : rows) {
+            CHECK(std::count(row.begin(), row.end(), ',') == 24);
+            for (int k = 0; k < 7; ++k) row.erase(row.rfind(',', row.size() - 2) + 1);
+        }
+    for (const std::string& plan : example_plans) {
+        CAPTURE(plan);
+        CHECK(a.at("notice_log").at(plan) == b.at("notice_log").at(plan));
+        if (plan != "page-50-thin-nights") CHECK(check_same_rows(a, plan, b, plan) > 0);
+    }
+    CHECK(a.at("task_log").at("page-50-thin-nights") != b.at("task_log").at("page-50-thin-nights"));
+}
+
+TEST_CASE("common_random_numbers.a_look_up_plan_changes_no_other_plan") {
+    // Two look-up plans (nothing pushed) inserted before chart-60: their
+    // look-up draws have a purpose of their own, so every other plan, the chart
+    // interruptions included, keeps every figure. The two see the same
+    // look-ups (the same draw per opening) and differ only in what they do
+    // with the score, and their burden is counted in look-ups per clinician.
+    const std::string lookups = R"(  - name: lookup-60
+    channel: score_lookup
+    role: ward nurse
+    rule: {threshold: 60, snooze_minutes: 240}
+    lookup: {minutes_per_lookup: 0.5, probability: [0.1]}
+  - name: lookup-45
+    channel: score_lookup
+    role: ward nurse
+    rule: {threshold: 45, snooze_minutes: 240}
+    lookup: {minutes_per_lookup: 0.5, probability: [0.1]}
+)";
+    const std::string base = example_text();
+    const std::string more = replace_once(base, "  - name: chart-60\n", lookups + "  - name: chart-60\n");
+    const RowsByPlan a = rows_by_plan(run_text(base)), b = rows_by_plan(run_text(more));
+    int compared = 0;
+    for (const std::string& plan : example_plans) compared += check_same_rows(a, plan, b, plan);
+    CHECK(compared > 1000);
+    const auto notices_of = [&](const std::string& plan) {
+        std::vector<std::string> at;  // encounter, unit, instant of each look-up
+        for (const std::string& row : b.at("notice_log").at(plan)) {
+            std::vector<std::string> cells;
+            std::size_t from = 0;
+            for (std::size_t to = row.find(','); to != std::string::npos; from = to + 1, to = row.find(',', from))
+                cells.push_back(row.substr(from, to - from));
+            at.push_back(cells[0] + "," + cells[1] + "," + cells[2] + "," + cells[3]);  // replication, encounter, unit, at
+        }
+        return at;
+    };
+    const auto looked_60 = notices_of("lookup-60"), looked_45 = notices_of("lookup-45");
+    CHECK(looked_60.size() > 100);
+    CHECK(looked_60 == looked_45);
+    const std::string burden = b.at("channel_burden").at("lookup-60").front();
+    CHECK(burden.find("score_lookup,") != std::string::npos);
+    CHECK(burden.find("look-ups per clinician per shift") != std::string::npos);
+    // The lower threshold acts on more look-ups.
+    const std::string caught_60 = b.at("plan_summary").at("lookup-60").front(), caught_45 = b.at("plan_summary").at("lookup-45").front();
+    CHECK(caught_60 != caught_45);
+}

@@ -128,6 +128,60 @@ TEST_CASE("scenario.staff_errors") {
     }
 }
 
+TEST_CASE("scenario.other_work") {
+    const std::string nurse = "  - name: ward nurse\n"                                   // 15
+                              "    roster: {day: 3, night: 1}\n"                         // 16
+                              "    minutes: {distribution: fixed, minutes: 10}\n"        // 17
+                              "    other_work:\n";                                       // 18
+    SUBCASE("read: one rate all day, or 24; priority defaults to equal") {
+        const Scenario sc = parse_scenario(
+            scenario_with(nurse + "      - name: requests\n"
+                                  "        per_hour: [1.5]\n"
+                                  "        minutes: {distribution: exponential, mean: 8}\n"
+                                  "      - name: calls\n"
+                                  "        per_hour: [0, 0, 0, 0, 0, 0, 0, 0, 2, 2, 2, 2, 2, 2, 2, 2, 2, 2, 2, 2, 0, 0, 0, 0]\n"
+                                  "        minutes: {distribution: fixed, minutes: 20}\n"
+                                  "        priority: below\n"),
+            "s.yaml", "");
+        const auto& work = sc.simulation.roles[0].other_work;
+        REQUIRE(work.size() == 2);
+        CHECK(work[0].name == "requests");
+        CHECK(work[0].per_hour[3] == 1.5);
+        CHECK(work[0].priority == OtherWorkPriority::with_alerts);
+        CHECK(std::get<ExponentialMinutes>(work[0].minutes).mean_minutes == 8);
+        CHECK(work[1].per_hour[7] == 0);
+        CHECK(work[1].per_hour[8] == 2);
+        CHECK(work[1].priority == OtherWorkPriority::below_alerts);
+    }
+    SUBCASE("a rate list of the wrong length names the line and what was expected") {
+        const InputError e = load_error(scenario_with(nurse + "      - name: requests\n"       // 19
+                                                              "        per_hour: [1, 2]\n"      // 20
+                                                              "        minutes: {distribution: fixed, minutes: 5}\n"));
+        CHECK(e.line == 20);
+        CHECK(std::string(e.what()).find("expected one rate (all day) or 24 rates (hour 00 first), found 2") !=
+              std::string::npos);
+    }
+    SUBCASE("an unknown priority") {
+        const InputError e = load_error(scenario_with(nurse + "      - name: requests\n"
+                                                              "        per_hour: [1]\n"
+                                                              "        minutes: {distribution: fixed, minutes: 5}\n"
+                                                              "        priority: urgent\n"));  // 22
+        CHECK(e.line == 22);
+        CHECK(std::string(e.what()).find("unknown priority 'urgent' (expected above, equal or below)") != std::string::npos);
+    }
+    SUBCASE("two classes of one name, a negative rate, minutes missing") {
+        const std::string item = "      - name: requests\n        per_hour: [1]\n        minutes: {distribution: fixed, minutes: 5}\n";
+        CHECK(std::string(load_error(scenario_with(nurse + item + item)).what()).find("two classes of this role's other work are named 'requests'") !=
+              std::string::npos);
+        CHECK(std::string(load_error(scenario_with(nurse + "      - name: requests\n        per_hour: [-1]\n"
+                                                           "        minutes: {distribution: fixed, minutes: 5}\n"))
+                              .what())
+                  .find("rates must be between 0 and 1000 tasks per team per hour") != std::string::npos);
+        CHECK(std::string(load_error(scenario_with(nurse + "      - name: requests\n        per_hour: [1]\n")).what())
+                  .find("minutes") != std::string::npos);
+    }
+}
+
 TEST_CASE("scenario.review_capacity_declared_once") {
     // One capacity model for a ranked review: its review team (review.*) does
     // the reviews at minutes_per_review each within its capacity per round; the
