@@ -358,6 +358,17 @@ Section evaluation_section(const ReportInput& in, const HtmlTableOptions& table_
     return {"evaluation", "How well the score performs", body};
 }
 
+Section score_comparison_section(const ReportInput& in, const HtmlTableOptions& table_options) {
+    std::string body = paragraph(in.score_comparison_intro);
+    if (in.score_comparison_roc)
+        body += "<figure>" + figure_title(in.score_comparison_roc->title) +
+                line_svg(*in.score_comparison_roc, "fig-two-scores-roc") + "<figcaption>" +
+                html_escape(in.score_comparison_roc->description) + "</figcaption></figure>\n";
+    for (const Table& t : in.score_comparison_tables) body += html_table(t, table_options);
+    body += paragraph(in.score_comparison_note, "note");
+    return {"two-scores", "Two scores on the same stays", body};
+}
+
 Section groups_section(const ReportInput& in, const HtmlTableOptions& table_options) {
     std::string body = paragraph(in.group_intro);
     if (!in.group_lines.empty()) body += "<div class=\"findings\">" + list(in.group_lines, "findings-list") + "</div>\n";
@@ -400,6 +411,7 @@ std::vector<Section> report_sections(const ReportInput& in) {
     if (given(in.acceptance_by_load))
         sections.push_back({"fatigue", "Response that falls with load",
                             html_table(*in.acceptance_by_load, table_options) + paragraph(in.acceptance_note, "note")});
+    if (!in.score_comparison_tables.empty()) sections.push_back(score_comparison_section(in, table_options));
     if (!in.evaluation_tables.empty() || !in.evaluation_charts.empty())
         sections.push_back(evaluation_section(in, table_options));
     sections.push_back({"run", "How this report was made", run_record_body(in.run)});

@@ -109,6 +109,10 @@ struct ReportInput {
     std::optional<Table> acceptance_by_load;  // plans that declare fatigue: realised against declared
     std::string acceptance_note;
 
+    // Two scores of the same stays: the paired comparison, and both ROC curves.
+    std::vector<Table> score_comparison_tables;
+    std::optional<LineChart> score_comparison_roc;
+    std::string score_comparison_intro, score_comparison_note;
     std::vector<Table> evaluation_tables;       // model-evaluation measures
     std::vector<LineChart> evaluation_charts;   // e.g. roc_chart(), calibration_chart(), decision_curve_chart()
     std::string evaluation_note;

@@ -63,13 +63,6 @@ Table thresholds_to_read(const std::vector<ThresholdMeasures>& rows) {
     return t;
 }
 
-LineChart roc_of(const std::vector<ThresholdMeasures>& rows, const std::string& score_label) {
-    std::vector<CurvePoint> roc = {{0, 0}, {1, 1}};
-    for (const ThresholdMeasures& m : rows) roc.push_back({1 - value_or_nan(m.specificity), value_or_nan(m.sensitivity)});
-    LineChart chart = roc_chart(sorted_by_x(roc), score_label);
-    chart.description += " Points are the thresholds of the table's grid.";
-    return chart;
-}
 
 // Committees read "calibration intercept" as calibration-in-the-large, so the
 // two-parameter fit's intercept is left to the CSV. Intervals are Wald, from
@@ -140,6 +133,14 @@ LineChart decision_curve_of(const DecisionCurveResult& curve, const std::string&
 }
 
 }  // namespace
+
+LineChart roc_of(const std::vector<ThresholdMeasures>& rows, const std::string& score_label) {
+    std::vector<CurvePoint> roc = {{0, 0}, {1, 1}};
+    for (const ThresholdMeasures& m : rows) roc.push_back({1 - value_or_nan(m.specificity), value_or_nan(m.sensitivity)});
+    LineChart chart = roc_chart(sorted_by_x(roc), score_label);
+    chart.description += " Points are the thresholds of the table's grid.";
+    return chart;
+}
 
 void add_evaluation(ReportInput& in, const Evaluation& e, const std::string& score_label) {
     const std::vector<std::pair<std::string, std::string>> labels = {

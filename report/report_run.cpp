@@ -17,6 +17,7 @@
 #include "report/group_tables.hpp"
 #include "report/html.hpp"
 #include "report/run_tables.hpp"
+#include "report/score_comparison_tables.hpp"
 #include "report/run_text.hpp"
 #include "report/unit_tables.hpp"
 
@@ -312,6 +313,7 @@ ReportInput report_input_for_run(const Scenario& sc, const RunOutput& out, const
     add_per_ward(in, out.unit_figures, settings.budget_limit ? budget : nullptr);
     if (in.per_ward) in.per_ward->basis = basis.replications;
     add_groups(in, sc, out, basis);
+    if (out.evaluation) add_score_comparison(in, out.score_comparison, *out.evaluation, out.other_evaluations, basis.first_scores);
     add_burden_per_night(in, out.first_replication, f.plans);
     in.channel_units = channel_units_table(f, out.first_replication.channels.burden);
     if (in.channel_units) in.channel_units->basis = basis.replications;

@@ -1,10 +1,13 @@
 #include "report/score_comparison_tables.hpp"
 
+#include <algorithm>
 #include <cmath>
 #include <cstdio>
 
 #include "report/cells.hpp"
 #include "report/evaluation_tables.hpp"
+#include "report/report.hpp"
+#include "report/report_evaluation.hpp"
 
 namespace tocsin {
 
@@ -67,6 +70,32 @@ std::vector<Table> other_score_evaluation_tables(const Evaluation& evaluation, s
         t.title += " - score " + name;
     }
     return tables;
+}
+
+void add_score_comparison(ReportInput& in, const ScoreComparison& c, const Evaluation& first,
+                          const std::vector<Evaluation>& others, const std::string& basis) {
+    if (c.auc.empty()) return;
+    in.score_comparison_intro =
+        "Each score is compared with the first on the same stays: those with a usable value of both. At each plan's "
+        "threshold, the other score is set to the threshold that flags as many stays, so the two are compared at the "
+        "same stay-level burden: who each flags that the other does not, and net benefit with the difference's "
+        "interval from resampling whole stays.";
+    LineChart roc = roc_of(first.thresholds, c.auc.front().first);
+    for (std::size_t k = 0; k < others.size() && k < c.auc.size(); ++k) {
+        Curve other = roc_of(others[k].thresholds, c.auc[k].other).curves.front();
+        other.dashed = true;
+        roc.curves.push_back(std::move(other));
+    }
+    roc.title = "Both scores' ROC curves, encounter level";
+    roc.description = "Each stay's highest usable value of each score; points are each score's threshold grid. "
+                      "The first score is the solid line, the other dashed.";
+    in.score_comparison_roc = std::move(roc);
+    in.score_comparison_tables.push_back(score_comparison_auc_table(c));
+    in.score_comparison_tables.push_back(score_comparison_thresholds_table(c));
+    for (Table& t : in.score_comparison_tables) t.basis = basis;
+    in.score_comparison_note =
+        "A better score is not yet a better plan: the plans on each score, run on the same patients, are compared in "
+        "the tables above. These figures rest on this log and its exclusions.";
 }
 
 namespace {

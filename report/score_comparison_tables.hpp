@@ -33,6 +33,13 @@ Table score_comparison_thresholds_table(const ScoreComparison& comparison);
 // the score's name.
 std::vector<Table> other_score_evaluation_tables(const Evaluation& evaluation, std::size_t k, const std::string& name);
 
+// The report's "Two scores on the same stays" section: both encounter-level
+// ROC curves (from each score's threshold grid), the paired test and the
+// threshold comparison, with what they rest on.
+struct ReportInput;
+void add_score_comparison(ReportInput& report, const ScoreComparison& comparison, const Evaluation& first,
+                          const std::vector<Evaluation>& others, const std::string& basis);
+
 // Terminal lines: the paired AUC test, then at each plan's threshold the
 // stays each score alone flags, and the net-benefit difference at N = 10.
 std::string score_comparison_text(const ScoreComparison& comparison);

@@ -156,3 +156,47 @@ TEST_CASE("reference.paired_delong_pROC_generated_pair") {
     CHECK(c.covariance > 0.0);  // the shared severity shows
     check_against(c, ref);
 }
+
+TEST_CASE("reference.two_score_example_against_pROC_on_stay_maxima_read_by_python") {
+    if (!pROC_available()) {
+        MESSAGE("SKIPPED: R or the pROC package not installed (./go test installs r-base-core r-cran-proc)");
+        return;
+    }
+    // The whole path: `tocsin run` on the two-score example writes
+    // score_comparison_auc.csv; Python reads the same log's CSV files on its
+    // own (tests/reference/two_score_maxima.py: each stay's highest usable
+    // value of each score) and pROC's roc.test(paired = TRUE) tests them.
+    // The issue asks for 1e-6; the CSV holds 17 significant digits.
+    testing::ScratchDir dir;
+    const std::string scenarios = std::string(TOCSIN_SOURCE_DIR) + "/scenarios/";
+    const auto run = testing::run_tocsin("run " + scenarios + "fernhollow-two-scores.yaml --out " + dir.path("out"));
+    INFO(run.output);
+    REQUIRE(run.exit_code == 0);
+    const std::string pairs = dir.path("pairs.csv");
+    const auto py = testing::run_command("/usr/bin/python3 " + std::string(TOCSIN_SOURCE_DIR) +
+                                         "/tests/reference/two_score_maxima.py America/Chicago " + scenarios +
+                                         "demo/encounters.csv " + scenarios + "demo/scores.csv score " + scenarios +
+                                         "demo/bedside_scores.csv bedside " + pairs);
+    INFO(py.output);
+    REQUIRE(py.exit_code == 0);
+    const auto ref = reference(pairs);
+    std::ifstream in(dir.path("out/score_comparison_auc.csv"));
+    std::string header, row;
+    REQUIRE(std::getline(in, header));
+    REQUIRE(std::getline(in, row));
+    std::vector<std::string> cells;
+    std::stringstream split(row);
+    for (std::string cell; std::getline(split, cell, ',');) cells.push_back(cell);
+    REQUIRE(cells.size() >= 16);
+    CHECK(cells[0] == "candidate");
+    CHECK(cells[1] == "bedside");
+    CHECK(std::stoll(cells[2]) == static_cast<long long>(read_pairs(pairs).a.size()));
+    // auc_first, auc_other, difference, se, lower, upper, z, p
+    CHECK(std::abs(std::stod(cells[8]) - ref.at("auc_a")) < 1e-6);
+    CHECK(std::abs(std::stod(cells[9]) - ref.at("auc_b")) < 1e-6);
+    CHECK(std::abs(std::stod(cells[10]) - ref.at("difference")) < 1e-6);
+    CHECK(std::abs(std::stod(cells[12]) - ref.at("lower")) < 1e-6);
+    CHECK(std::abs(std::stod(cells[13]) - ref.at("upper")) < 1e-6);
+    CHECK(std::abs(std::stod(cells[14]) - ref.at("z")) < 1e-6);
+    CHECK(std::abs(std::stod(cells[15]) - ref.at("p")) < 1e-6);
+}
