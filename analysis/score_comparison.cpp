@@ -109,6 +109,29 @@ ThresholdComparison compare_at(const Paired& p, const Plan& plan, const std::str
 
 }  // namespace
 
+std::vector<MatchedPlans> matched_plans(const ReplicatedFigures& f, const std::vector<Plan>& plans,
+                                        const std::vector<std::string>& score_names, std::size_t burden,
+                                        std::size_t benefit) {
+    std::vector<MatchedPlans> out;
+    auto mean_of = [&](std::size_t p, std::size_t metric) { return mean_interval(f.of(p, metric)).mean; };
+    for (std::size_t p = 0; p < plans.size() && p < f.plans.size(); ++p) {
+        if (plans[p].score == 0 || plans[p].score >= score_names.size()) continue;
+        std::optional<std::size_t> best;
+        double best_gap = 0;
+        for (std::size_t q = 0; q < plans.size() && q < f.plans.size(); ++q) {
+            if (plans[q].score != 0 || plans[q].channel != plans[p].channel) continue;
+            const double gap = std::abs(mean_of(q, burden) - mean_of(p, burden));
+            if (!std::isfinite(gap)) continue;
+            if (!best || gap < best_gap) best = q, best_gap = gap;
+        }
+        if (!best) continue;
+        out.push_back({plans[p].name, plans[*best].name, score_names[plans[p].score], score_names[0],
+                       std::string(plan_metrics()[burden].name), std::string(plan_metrics()[benefit].name),
+                       paired_difference(f, p, *best, burden), paired_difference(f, p, *best, benefit)});
+    }
+    return out;
+}
+
 ScoreComparison compare_scores(const Population& pop, const std::vector<Plan>& plans,
                                const ScoreComparisonOptions& options) {
     ScoreComparison out;

@@ -17,6 +17,7 @@
 #include <string>
 #include <vector>
 
+#include "analysis/comparison.hpp"
 #include "analysis/roc.hpp"
 #include "models/population.hpp"
 #include "sim/setup.hpp"
@@ -75,5 +76,19 @@ std::vector<double> stay_maxima(const Population& population, std::size_t score)
 // values >= it nearest to `flagged` (the higher of two equally near);
 // +infinity when `flagged` is 0.
 double threshold_flagging(std::vector<double> values, std::int64_t flagged);
+
+// The committee's headline: each plan on another score against the plan on
+// the first score, of the same channel, nearest to it in mean burden; the
+// paired differences (this plan minus that one, replication by replication on
+// the same patients) in burden and benefit. Intervals need 2 replications.
+struct MatchedPlans {
+    std::string plan, versus;  // plan on another score; its match on the first score
+    std::string plan_score, versus_score;
+    std::string burden_metric, benefit_metric;
+    MeanInterval burden_difference, benefit_difference;
+};
+std::vector<MatchedPlans> matched_plans(const ReplicatedFigures& figures, const std::vector<Plan>& plans,
+                                        const std::vector<std::string>& score_names, std::size_t burden_metric,
+                                        std::size_t benefit_metric);
 
 }  // namespace tocsin

@@ -151,7 +151,9 @@ std::string frontier_figure(const ReportInput& in, const std::vector<const Repor
         chart.x_limit_label = "budget " + format_for_people(*in.burden_limit);
     }
     for (const ReportFrontierPoint* p : points)
-        chart.points.push_back({p->plan, p->burden, p->burden_lo, p->burden_hi, p->benefit, p->benefit_lo, p->benefit_hi, p->on_frontier});
+        chart.points.push_back({p->plan, p->burden, p->burden_lo, p->burden_hi, p->benefit, p->benefit_lo, p->benefit_hi,
+                                p->on_frontier, p->series});
+    chart.series_names = in.frontier_series;
     const bool crowded = chart.points.size() > chart.max_labels;
     const bool numbered = frontier_numbered(chart);
     std::string caption = "Bars show the interval of each figure.";
@@ -160,6 +162,9 @@ std::string frontier_figure(const ReportInput& in, const std::vector<const Repor
                   " plans, only those on the frontier carry interval bars and " +
                   (numbered ? "numbers (see the list below)" : "names") +
                   "; the other plans are small circles, named when the pointer rests on them.";
+    if (in.frontier_series.size() > 1)
+        caption += " Plans on the first score (" + in.frontier_series.front() +
+                   ") are round; plans on another score are diamonds in that score's colour, named in the legend.";
     if (in.burden_limit)
         caption += " The dashed line marks the budget of " + format_for_people(*in.burden_limit) + " " + in.burden_label + ".";
     std::string body = "<figure>" + figure_title(chart.title) + scatter_svg(chart) + "<figcaption>" + html_escape(caption) + "</figcaption></figure>\n";

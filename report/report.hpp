@@ -39,6 +39,7 @@ struct ReportFrontierPoint {
     double benefit = 0, benefit_lo = none, benefit_hi = none;
     bool on_frontier = false;
     std::string group;  // the plans it is compared with, e.g. "page plans"; empty: all plans
+    std::size_t series = 0;  // index into ReportInput::frontier_series (the score the plan reads)
 };
 
 // How the numbers were made, printed at the end of the report. Leave `threads`
@@ -75,6 +76,7 @@ struct ReportInput {
     std::string burden_label = "pages per unit per night";
     std::string benefit_label = "cases caught with at least the minimum lead";
     std::optional<double> burden_limit;    // the committee's budget in burden_label units, drawn on the frontier
+    std::vector<std::string> frontier_series;  // with several scores: each score's name, marked apart on the frontier
     std::string budget_answer;             // plain-word answer to the budget question, if asked
     std::vector<ReportFrontierPoint> frontier;  // one chart per group, in the order groups first appear
     std::string comparison_basis;          // which plans are ranked together on the burden, and why

@@ -156,6 +156,16 @@ void add_comparison(ReportInput& in, const ReplicatedFigures& f, const std::vect
     }
 }
 
+// With several scores, each plan's frontier mark says which score it reads.
+void mark_scores_on_frontier(ReportInput& in, const Scenario& sc) {
+    if (sc.other_scores.empty()) return;
+    in.frontier_series = {sc.score_name};
+    for (const ScoreLabel& s : sc.other_scores) in.frontier_series.push_back(s.name);
+    for (ReportFrontierPoint& p : in.frontier)
+        for (const Plan& plan : sc.simulation.plans)
+            if (plan.name == p.plan) p.series = plan.score;
+}
+
 void add_frontier(ReportInput& in, const ReplicatedFigures& f, const Metric& burden, const Metric& benefit) {
     in.burden_label = std::string(burden.label);
     in.benefit_label = std::string(benefit.label);
@@ -304,6 +314,7 @@ ReportInput report_input_for_run(const Scenario& sc, const RunOutput& out, const
     in.comparison.basis = basis.replications;
     if (in.differences) in.differences->basis = basis.replications;
     if (burden && benefit) add_frontier(in, f, *burden, *benefit);
+    mark_scores_on_frontier(in, sc);
     if (settings.budget_limit && budget && benefit && !out.budget.empty()) {
         in.budget_answer = budget_sentence(out, *budget, *benefit, *settings.budget_limit);
         if (budget == burden) in.burden_limit = settings.budget_limit;
@@ -313,7 +324,9 @@ ReportInput report_input_for_run(const Scenario& sc, const RunOutput& out, const
     add_per_ward(in, out.unit_figures, settings.budget_limit ? budget : nullptr);
     if (in.per_ward) in.per_ward->basis = basis.replications;
     add_groups(in, sc, out, basis);
-    if (out.evaluation) add_score_comparison(in, out.score_comparison, *out.evaluation, out.other_evaluations, basis.first_scores);
+    if (out.evaluation)
+        add_score_comparison(in, out.score_comparison, *out.evaluation, out.other_evaluations, basis.first_scores,
+                             out.matched_plans, basis.replications);
     add_burden_per_night(in, out.first_replication, f.plans);
     in.channel_units = channel_units_table(f, out.first_replication.channels.burden);
     if (in.channel_units) in.channel_units->basis = basis.replications;

@@ -72,6 +72,7 @@ std::vector<OutputFile> run_output_files(const Scenario& sc, const RunOutput& ou
     if (!out.score_comparison.auc.empty()) {
         add(score_comparison_auc_table(out.score_comparison), basis.first_scores);
         add(score_comparison_thresholds_table(out.score_comparison), basis.first_scores);
+        add(matched_plans_table(out.matched_plans), basis.replications);
     }
     if (t.notice_log) add(std::move(*t.notice_log), basis.every);
     for (auto* staff : {&t.staff_workload, &t.staff_escalations, &t.task_fates})

@@ -63,6 +63,21 @@ Table score_comparison_thresholds_table(const ScoreComparison& c) {
     return t;
 }
 
+Table matched_plans_table(const std::vector<MatchedPlans>& matched) {
+    Table t = make_table("matched_plans",
+                         "Each plan on another score against the plan on the first score nearest in burden, same patients",
+                         {"plan", "plan_score", "versus", "versus_score", "burden_metric", "burden_difference",
+                          "burden_difference_lower", "burden_difference_upper", "benefit_metric", "benefit_difference",
+                          "benefit_difference_lower", "benefit_difference_upper", "replications"});
+    for (const MatchedPlans& m : matched)
+        t.add_row({m.plan, m.plan_score, m.versus, m.versus_score, m.burden_metric,
+                   finite_or_empty(m.burden_difference.mean), finite_or_empty(m.burden_difference.low),
+                   finite_or_empty(m.burden_difference.high), m.benefit_metric, finite_or_empty(m.benefit_difference.mean),
+                   finite_or_empty(m.benefit_difference.low), finite_or_empty(m.benefit_difference.high),
+                   static_cast<std::int64_t>(m.burden_difference.n)});
+    return t;
+}
+
 std::vector<Table> other_score_evaluation_tables(const Evaluation& evaluation, std::size_t k, const std::string& name) {
     std::vector<Table> tables = evaluation_tables(evaluation);
     for (Table& t : tables) {
@@ -73,7 +88,8 @@ std::vector<Table> other_score_evaluation_tables(const Evaluation& evaluation, s
 }
 
 void add_score_comparison(ReportInput& in, const ScoreComparison& c, const Evaluation& first,
-                          const std::vector<Evaluation>& others, const std::string& basis) {
+                          const std::vector<Evaluation>& others, const std::string& basis,
+                          const std::vector<MatchedPlans>& matched, const std::string& matched_basis) {
     if (c.auc.empty()) return;
     in.score_comparison_intro =
         "Each score is compared with the first on the same stays: those with a usable value of both. At each plan's "
@@ -93,9 +109,14 @@ void add_score_comparison(ReportInput& in, const ScoreComparison& c, const Evalu
     in.score_comparison_tables.push_back(score_comparison_auc_table(c));
     in.score_comparison_tables.push_back(score_comparison_thresholds_table(c));
     for (Table& t : in.score_comparison_tables) t.basis = basis;
+    if (!matched.empty()) {
+        in.score_comparison_tables.insert(in.score_comparison_tables.begin(), matched_plans_table(matched));
+        in.score_comparison_tables.front().basis = matched_basis;
+    }
     in.score_comparison_note =
-        "A better score is not yet a better plan: the plans on each score, run on the same patients, are compared in "
-        "the tables above. These figures rest on this log and its exclusions.";
+        "A better score is not yet a better plan: the first table sets each plan on another score against the plan "
+        "on the first score nearest to it in burden, run on the same patients. These figures rest on this log, its "
+        "exclusions and the scenario's assumptions.";
 }
 
 namespace {
@@ -107,6 +128,21 @@ std::string number(double v, int decimals) {
 }
 
 }  // namespace
+
+std::string matched_plans_text(const std::vector<MatchedPlans>& matched) {
+    if (matched.empty()) return "";
+    std::string s = "Plans on different scores, matched on burden (same patients; plan minus its match):\n";
+    auto with_interval = [](const MeanInterval& m) {
+        std::string out = (m.mean > 0 ? "+" : "") + number(m.mean, 2);
+        if (std::isfinite(m.low) && std::isfinite(m.high)) out += " (" + number(m.low, 2) + " to " + number(m.high, 2) + ")";
+        return out;
+    };
+    for (const MatchedPlans& m : matched)
+        s += "  " + m.plan + " (" + m.plan_score + ") against " + m.versus + " (" + m.versus_score + "): " +
+             m.burden_metric + " " + with_interval(m.burden_difference) + ", " + m.benefit_metric + " " +
+             with_interval(m.benefit_difference) + "\n";
+    return s;
+}
 
 std::string score_comparison_text(const ScoreComparison& c) {
     if (c.auc.empty()) return "";

@@ -28,6 +28,14 @@ Table score_comparison_auc_table(const ScoreComparison& comparison);
 // difference_lower, difference_upper, resamples.
 Table score_comparison_thresholds_table(const ScoreComparison& comparison);
 
+// matched_plans, one row per plan on another score. Columns: plan,
+// plan_score, versus, versus_score, burden_metric, burden_difference,
+// burden_difference_lower, burden_difference_upper, benefit_metric,
+// benefit_difference, benefit_difference_lower, benefit_difference_upper,
+// replications (differences are plan minus versus, paired by replication).
+Table matched_plans_table(const std::vector<MatchedPlans>& matched);
+std::string matched_plans_text(const std::vector<MatchedPlans>& matched);
+
 // The evaluation tables of other score `k` (1-based: population.other_scores
 // order): evaluation_tables' own, named "other_score_<k>_..." and titled with
 // the score's name.
@@ -38,7 +46,8 @@ std::vector<Table> other_score_evaluation_tables(const Evaluation& evaluation, s
 // threshold comparison, with what they rest on.
 struct ReportInput;
 void add_score_comparison(ReportInput& report, const ScoreComparison& comparison, const Evaluation& first,
-                          const std::vector<Evaluation>& others, const std::string& basis);
+                          const std::vector<Evaluation>& others, const std::string& basis,
+                          const std::vector<MatchedPlans>& matched, const std::string& matched_basis);
 
 // Terminal lines: the paired AUC test, then at each plan's threshold the
 // stays each score alone flags, and the net-benefit difference at N = 10.

@@ -113,6 +113,31 @@ std::string scatter_legend(double left) {
     return out;
 }
 
+// A plan of series k > 0: a diamond in the series' colour, filled when on the frontier.
+std::string series_mark(double px, double py, std::size_t series, bool on_frontier, bool crowded) {
+    const std::string& colour = plan_colours()[(4 + series) % plan_colours().size()];
+    const double r = on_frontier ? 7.5 : (crowded ? 4.5 : 6.5);
+    return "<polygon points=\"" + svg_number(px) + "," + svg_number(py - r) + " " + svg_number(px + r) + "," +
+           svg_number(py) + " " + svg_number(px) + "," + svg_number(py + r) + " " + svg_number(px - r) + "," +
+           svg_number(py) + "\" fill=\"" + (on_frontier ? colour : std::string("#ffffff")) + "\" stroke=\"" + colour +
+           "\" stroke-width=\"1.5\"/>";
+}
+
+// A legend row naming each series by its mark.
+std::string series_legend(const ScatterChart& chart, double left, double y) {
+    std::string out;
+    double at = left;
+    for (std::size_t k = 0; k < chart.series_names.size(); ++k) {
+        out += k == 0 ? "<circle cx=\"" + svg_number(at + 8) + "\" cy=\"" + svg_number(y - 4) + "\" r=\"5.5\" fill=\"" +
+                            frontier_colour + "\"/>"
+                      : series_mark(at + 8, y - 4, k, true, false);
+        const std::string name = shorten(chart.series_names[k], 48);
+        out += text(at + 20, y, name, "fill=\"" + std::string(ink) + "\"");
+        at += 40 + 7.0 * static_cast<double>(name.size());
+    }
+    return out;
+}
+
 // The line through the frontier's plans, left to right.
 std::string frontier_polyline(const ScatterChart& chart, const Scale& x, const Scale& y) {
     const std::vector<std::size_t> order = frontier_order(chart.points);
@@ -157,7 +182,9 @@ std::string scatter_point(const ScatterChart& chart, const ScatterPoint& p, cons
                                   format_for_people(p.y_hi) + ")") +
                       "</title>";
     if (!style.crowded || p.on_frontier) out += interval_bars(p, x, y);
-    if (p.on_frontier)
+    if (p.series > 0)
+        out += series_mark(px, py, p.series, p.on_frontier, style.crowded);
+    else if (p.on_frontier)
         out += "<circle cx=\"" + svg_number(px) + "\" cy=\"" + svg_number(py) + "\" r=\"6\" fill=\"" + frontier_colour + "\"/>";
     else
         out += "<circle cx=\"" + svg_number(px) + "\" cy=\"" + svg_number(py) + "\" r=\"" + (style.crowded ? "3.5" : "5.5") +
@@ -183,7 +210,8 @@ std::string scatter_svg(const ScatterChart& chart) {
     const std::string description = scatter_description(chart, drawn);
     if (drawn.empty()) return nothing_to_draw(chart.id, chart.title, "No plan has both figures to draw. " + description);
 
-    const double height = 520, left = 78, right = chart_width - 28, top = 48, bottom = height - 64;
+    const bool series = chart.series_names.size() > 1;
+    const double height = 520, left = 78, right = chart_width - 28, top = series ? 64 : 48, bottom = height - 64;
     const auto [x_axis_ends, y_axis_ends] = scatter_axes(chart, drawn);
     const Scale x{x_axis_ends, left, right};
     const Scale y{y_axis_ends, bottom, top};
@@ -194,6 +222,7 @@ std::string scatter_svg(const ScatterChart& chart) {
     out += y_axis(y, left, right, chart.y_label);
     out += x_axis(x, top, bottom, chart.x_label);
     out += scatter_legend(left);
+    if (series) out += series_legend(chart, left, 46);
     if (chart.x_limit && finite(*chart.x_limit)) {
         const double px = x(*chart.x_limit);
         out += line(px, top, px, bottom, limit_colour, 1.5, "stroke-dasharray=\"6 4\"");

@@ -33,6 +33,7 @@ struct ScatterPoint {
     double x = 0, x_lo = 0, x_hi = 0;
     double y = 0, y_lo = 0, y_hi = 0;
     bool on_frontier = false;
+    std::size_t series = 0;  // index into ScatterChart::series_names
 };
 struct ScatterChart {
     std::string id;  // unique in the page, plain [a-z0-9-]
@@ -41,6 +42,10 @@ struct ScatterChart {
     std::optional<double> x_limit;  // a budget drawn as a vertical line
     std::string x_limit_label;
     std::size_t max_labels = 12;    // more points than this: only frontier points are named
+    // Plans of several kinds (e.g. the score each reads): series 0 keeps the
+    // usual round mark; series 1 is a diamond in its own colour, named in a
+    // legend row, so shape carries the meaning as well as colour. Empty: one kind.
+    std::vector<std::string> series_names{};
 };
 std::string scatter_svg(const ScatterChart& chart);
 // Indices of the drawn frontier points from lightest to heaviest (ties: less

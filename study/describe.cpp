@@ -1,6 +1,7 @@
 // The plain-words description of a scenario, as items (study/describe.hpp).
 #include "study/describe.hpp"
 
+#include <filesystem>
 #include <algorithm>
 #include <cmath>
 #include <sstream>
@@ -116,6 +117,21 @@ std::optional<std::string> groups_line(const Scenario& sc) {
            std::to_string(sc.analysis.smallest_group) + " encounters are suppressed";
 }
 
+// Every score, when there are several: what plans call each and where it is read.
+std::optional<std::string> scores_line(const Scenario& sc) {
+    if (sc.other_scores.empty()) return std::nullopt;
+    std::string out = "Scores of the same stays: " + sc.score_name + " (" + sc.score_label + ", the first)";
+    const auto& sources = sc.population.replay.other_scores;
+    for (std::size_t k = 0; k < sc.other_scores.size(); ++k) {
+        out += "; " + sc.other_scores[k].name + " (" + sc.other_scores[k].label;
+        if (k < sources.size())
+            out += ", column " + sources[k].column + " of " + std::filesystem::path(sources[k].path).filename().string() +
+                   ", range " + num(sources[k].score_low) + " to " + num(sources[k].score_high);
+        out += ")";
+    }
+    return out + "; each is compared with the first on the stays that have both";
+}
+
 void add_population(std::vector<DescriptionItem>& items, const Scenario& sc) {
     const PopulationSetup& pop = sc.population;
     if (pop.source == PopulationSource::replay) {
@@ -126,6 +142,7 @@ void add_population(std::vector<DescriptionItem>& items, const Scenario& sc) {
     }
     if (pop.shift) items.push_back(statement(stress_line(*pop.shift, sc.simulation.zone)));
     if (auto groups = groups_line(sc)) items.push_back(statement(*groups));
+    if (auto scores = scores_line(sc)) items.push_back(statement(*scores));
 }
 
 // What the plan's channel does, when it is more than a page.
@@ -178,7 +195,7 @@ std::string headcounts(const ShiftPattern& shifts, const std::vector<int>& row, 
 
 DescriptionItem plan_entry(const Plan& p, const Scenario& sc) {
     DescriptionItem entry = statement(p.name + ": " + std::string(to_string(p.channel)) + " to " + p.role + " when " +
-                                      describe_rule(p.rule, sc.score_label));
+                                      describe_rule(p.rule, p.score == 0 ? sc.score_label : sc.other_scores.at(p.score - 1).label));
     if (auto line = channel_line(p, sc.simulation.shifts)) entry.items.push_back(statement(*line));
     if (auto line = fatigue_line(p)) entry.items.push_back(statement(*line));
     if (!p.description.empty()) entry.items.push_back(statement(p.description));

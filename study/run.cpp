@@ -111,6 +111,13 @@ void finish_run(const Scenario& sc, const RunSettings& settings, ReplicationsKep
     out.figures.first_is_log = replication_zero_is_the_log(sc.population);
     out.unit_figures = collect_unit_figures(names, kept.unit_figures);
     out.group_figures = collect_group_figures(names, kept.group_figures);
+    if (!sc.other_scores.empty()) {
+        std::vector<std::string> score_names{sc.score_name};
+        for (const ScoreLabel& s : sc.other_scores) score_names.push_back(s.name);
+        out.matched_plans = matched_plans(out.figures, sc.simulation.plans, score_names,
+                                          metric_index(metric_named(settings.burden_metric)),
+                                          metric_index(metric_named(settings.benefit_metric)));
+    }
     if (settings.budget_limit)
         out.budget = budget_by_group(out.figures, metric_index(metric_named(settings.budget_metric)),
                                      *settings.budget_limit, metric_index(metric_named(settings.benefit_metric)));

@@ -53,6 +53,7 @@ struct RunOutput {
     // paired comparison with the first, on replication 0's population.
     std::vector<Evaluation> other_evaluations;
     ScoreComparison score_comparison;
+    std::vector<MatchedPlans> matched_plans;  // plans on other scores against their match on the first
     PlanWarnings warnings;                 // thresholds outside replication 0's scores, identical plans
 };
 

@@ -298,3 +298,40 @@ TEST_CASE("two_scores.the_resampled_interval_has_the_spread_of_resampling_stays"
     const double width = x.difference_interval.upper - x.difference_interval.lower;
     CHECK(width / (2 * 1.959964) == doctest::Approx(sd).epsilon(0.05));
 }
+
+TEST_CASE("two_scores.each_plan_on_another_score_meets_the_first_scores_plan_nearest_in_burden") {
+    // Plans A1, A2 on the first score, B1 on the other, P (a handoff list) on
+    // the first score but another channel. Three replications of (burden, caught):
+    const std::size_t burden = metric_index(*find_metric("per_unit_night_mean"));
+    const std::size_t benefit = metric_index(*find_metric("caught"));
+    const std::vector<std::vector<std::pair<double, double>>> values{
+        {{1, 10}, {1, 12}, {1, 14}},  // A1: mean burden 1
+        {{3, 20}, {3, 22}, {3, 21}},  // A2: mean burden 3
+        {{2.5, 15}, {2.5, 16}, {2.5, 20}},  // B1: mean burden 2.5, nearest A2
+        {{2.4, 30}, {2.4, 30}, {2.4, 30}},  // H: nearer still, but another channel
+    };
+    ReplicatedFigures f;
+    f.plans = {"A1", "A2", "B1", "H"};
+    f.replications = 3;
+    f.values.assign(4, std::vector<std::vector<double>>(plan_metrics().size(), std::vector<double>(3, 0)));
+    for (std::size_t p = 0; p < 4; ++p)
+        for (std::size_t r = 0; r < 3; ++r) {
+            f.values[p][burden][r] = values[p][r].first;
+            f.values[p][benefit][r] = values[p][r].second;
+        }
+    std::vector<Plan> plans(4);
+    for (std::size_t p = 0; p < 4; ++p) plans[p].name = f.plans[p];
+    plans[2].score = 1;
+    plans[3].channel = Channel::handoff_list;
+    const auto matched = matched_plans(f, plans, {"a", "b"}, burden, benefit);
+    REQUIRE(matched.size() == 1);
+    CHECK(matched[0].plan == "B1");
+    CHECK(matched[0].versus == "A2");
+    CHECK(matched[0].plan_score == "b");
+    CHECK(matched[0].burden_difference.mean == doctest::Approx(-0.5));
+    // caught, B1 - A2 by replication: -5, -6, -1: mean -4, sd sqrt(7), t(0.975, 2) = 4.303 (Student's t table):
+    // -4 -/+ 4.303 x sqrt(7 / 3).
+    CHECK(matched[0].benefit_difference.mean == doctest::Approx(-4));
+    CHECK(matched[0].benefit_difference.low == doctest::Approx(-4 - 4.302653 * std::sqrt(7.0 / 3)).epsilon(1e-5));
+    CHECK(matched[0].benefit_difference.high == doctest::Approx(-4 + 4.302653 * std::sqrt(7.0 / 3)).epsilon(1e-5));
+}
