@@ -10,6 +10,13 @@
 
 namespace tocsin {
 
+std::vector<Evaluation> other_score_evaluations(const Population& pop, EvaluationOptions options) {
+    options.probability.reset();
+    std::vector<Evaluation> out;
+    for (std::size_t k = 1; k < pop.score_count(); ++k) out.push_back(evaluate(with_only_score(pop, k), options));
+    return out;
+}
+
 std::vector<double> stay_maxima(const Population& pop, std::size_t score) {
     std::vector<double> out(pop.encounters.size(), std::numeric_limits<double>::quiet_NaN());
     for (std::size_t e = 0; e < pop.encounters.size(); ++e)

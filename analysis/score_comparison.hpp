@@ -18,6 +18,7 @@
 #include <vector>
 
 #include "analysis/comparison.hpp"
+#include "analysis/evaluation.hpp"
 #include "analysis/roc.hpp"
 #include "models/population.hpp"
 #include "sim/setup.hpp"
@@ -68,6 +69,11 @@ struct ScoreComparisonOptions {
 // threshold (a ranked review without a floor) are left out.
 ScoreComparison compare_scores(const Population& population, const std::vector<Plan>& plans,
                                const ScoreComparisonOptions& options);
+
+// Every evaluation measure of each other score (population.other_scores
+// order), with `options` less any probability mapping: a mapping declared for
+// the first score says nothing of the others.
+std::vector<Evaluation> other_score_evaluations(const Population& population, EvaluationOptions options);
 
 // Each stay's highest usable value of score `score` (NaN when it has none).
 std::vector<double> stay_maxima(const Population& population, std::size_t score);

@@ -8,6 +8,7 @@
 #include "analysis/evaluation.hpp"
 #include "study/evaluation_scenario.hpp"
 #include "report/evaluation_tables.hpp"
+#include "report/score_comparison_tables.hpp"
 #include "report/output.hpp"
 #include "cli/option_specs.hpp"
 #include "models/errors.hpp"
@@ -132,11 +133,24 @@ int run_evaluate_command(const EvaluateCommand& c) {
     o.threads = threads;
 
     const Evaluation ev = evaluate(pop, o);
+    const std::vector<Evaluation> others = other_score_evaluations(pop, o);
+    const ScoreComparison comparison =
+        compare_scores(pop, sc.simulation.plans, ScoreComparisonOptions{.seed = sc.simulation.seed});
     std::cout << evaluation_summary(ev) << "\n" << to_text(encounter_auc_table(ev.encounter_auc), 3) << "\n"
-              << to_text(prediction_auc_table(ev.prediction_auc), 3) << "\n" << cautions_text() << "\n";
+              << to_text(prediction_auc_table(ev.prediction_auc), 3);
+    std::cout << other_score_summaries(others, comparison);
+    if (!comparison.auc.empty()) std::cout << "\n" << score_comparison_text(comparison);
+    std::cout << "\n" << cautions_text() << "\n";
     if (!c.out_dir.empty()) {
         std::vector<OutputFile> files;
         for (const Table& t : evaluation_tables(ev)) add_table_files(files, t);
+        for (std::size_t k = 0; k < others.size(); ++k)
+            for (const Table& t : other_score_evaluation_tables(others[k], k + 1, comparison.auc.at(k).other))
+                add_table_files(files, t);
+        if (!comparison.auc.empty()) {
+            add_table_files(files, score_comparison_auc_table(comparison));
+            add_table_files(files, score_comparison_thresholds_table(comparison));
+        }
         files.push_back({"CAUTIONS.txt", cautions_text() + "\n"});
         write_output_files(c.out_dir, files);
         std::cout << "Wrote " << files.size() << " files to " << c.out_dir << "\n";

@@ -194,6 +194,7 @@ std::string run_text(const Scenario& sc, const RunOutput& out, const RunSettings
         !groups.empty())
         text += "\n" + groups;
     if (out.evaluation) text += "\nThe score on the same population (replication 0):\n" + evaluation_summary(*out.evaluation);
+    text += other_score_summaries(out.other_evaluations, out.score_comparison);
     if (!out.score_comparison.auc.empty()) text += "\n" + score_comparison_text(out.score_comparison);
     if (!out.matched_plans.empty()) text += "\n" + matched_plans_text(out.matched_plans);
     if (sc.simulation.plans.size() > 2) text += "\n" + frontier_text(out.figures, burden, benefit);

@@ -129,6 +129,13 @@ std::string number(double v, int decimals) {
 
 }  // namespace
 
+std::string other_score_summaries(const std::vector<Evaluation>& others, const ScoreComparison& c) {
+    std::string s;
+    for (std::size_t k = 0; k < others.size() && k < c.auc.size(); ++k)
+        s += "\nThe other score " + c.auc[k].other + " on the same population:\n" + evaluation_summary(others[k]);
+    return s;
+}
+
 std::string matched_plans_text(const std::vector<MatchedPlans>& matched) {
     if (matched.empty()) return "";
     std::string s = "Plans on different scores, matched on burden (same patients; plan minus its match):\n";

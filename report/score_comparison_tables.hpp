@@ -53,4 +53,7 @@ void add_score_comparison(ReportInput& report, const ScoreComparison& comparison
 // stays each score alone flags, and the net-benefit difference at N = 10.
 std::string score_comparison_text(const ScoreComparison& comparison);
 
+// Each other score's evaluation summary, named, for the terminal.
+std::string other_score_summaries(const std::vector<Evaluation>& others, const ScoreComparison& comparison);
+
 }  // namespace tocsin

@@ -74,10 +74,7 @@ void keep_replication(const Scenario& sc, const RunSettings& settings, std::uint
     std::vector<Evaluation> other_evaluations;
     if (settings.evaluate) {
         evaluation = evaluate(pop, measures);
-        EvaluationOptions other_measures = measures;
-        other_measures.probability.reset();  // a mapping declared for the first score says nothing of the others
-        for (std::size_t k = 1; k < pop.score_count(); ++k)
-            other_evaluations.push_back(evaluate(with_only_score(pop, k), other_measures));
+        other_evaluations = other_score_evaluations(pop, measures);
     }
     ScoreComparison comparison =
         compare_scores(pop, sc.simulation.plans, ScoreComparisonOptions{.seed = sc.simulation.seed});
