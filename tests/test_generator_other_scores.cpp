@@ -223,3 +223,24 @@ plans:
     CHECK(on_replay.field.find("generate") != std::string::npos);
     CHECK(on_replay.line == 12);
 }
+
+TEST_CASE("generator_other_scores.example_runs_and_compares_the_scores") {
+    // The generated two-score example end to end: the comparison is printed,
+    // what the further score reached is among the report's assumptions, and
+    // the comparison's table is the same on one thread as on two.
+    ScratchDir dir;
+    const std::string scenario = std::string(TOCSIN_SOURCE_DIR) + "/scenarios/generated-two-scores.yaml";
+    const auto two = run_tocsin("run " + scenario + " --threads 2 --out " + dir.path("two"));
+    INFO(two.output);
+    REQUIRE(two.exit_code == 0);
+    CHECK(two.output.find("Two scores on the same stays") != std::string::npos);
+    CHECK(two.output.find("candidate against bedside") != std::string::npos);
+    CHECK(two.output.find("Other score 'bedside': encounter-level AUC 0.7") != std::string::npos);
+    CHECK(read_file(dir.path("two/report.html")).find("Other score &#39;bedside&#39;: encounter-level AUC") !=
+          std::string::npos);
+    const auto one = run_tocsin("run " + scenario + " --threads 1 --out " + dir.path("one"));
+    REQUIRE(one.exit_code == 0);
+    const std::string table = read_file(dir.path("two/score_comparison_auc.csv"));
+    CHECK(table.find("bedside") != std::string::npos);
+    CHECK(table == read_file(dir.path("one/score_comparison_auc.csv")));
+}
