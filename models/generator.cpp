@@ -458,7 +458,8 @@ DriftFound find_drift(const GeneratorConfig& calibration, std::size_t score, dou
     if (target_auc > high.auc + auc_tolerance)
         throw std::invalid_argument("calibrate_to_auc: target AUC " + fixed(target_auc, 3) + " cannot be reached: " +
                                     reachable +
-                                    ". Lower within_patient_sd or between_patient_sd, or shorten the stays.");
+                                    ". Lower " + std::string(score == 0 ? "scores." : "") +
+                                    "within_patient_sd or between_patient_sd, or shorten the stays.");
     double lo = 0.0, hi = widest;
     const bool low_closer = std::abs(low.auc - target_auc) <= std::abs(high.auc - target_auc);
     found.point = low_closer ? low : high;

@@ -13,7 +13,8 @@
 // drift size or the missing-score probability leaves every other draw where
 // it was. A patient-group value comes from (patient_group, entity_key(entity,
 // column name)): declaring groups moves no other draw, and a group's score
-// shift moves only its own patients' scores.
+// shift moves only its own patients' scores. A further score's draws come
+// from (other_score, entity_key(entity, score name)): see GeneratedOtherScore.
 #include <array>
 #include <cstdint>
 #include <functional>

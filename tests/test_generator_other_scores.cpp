@@ -244,3 +244,32 @@ TEST_CASE("generator_other_scores.example_runs_and_compares_the_scores") {
     CHECK(table.find("bedside") != std::string::npos);
     CHECK(table == read_file(dir.path("one/score_comparison_auc.csv")));
 }
+
+TEST_CASE("generator_other_scores.unreachable_target_names_the_key") {
+    const std::string yaml = R"(scenario_schema: 1
+name: t
+time_zone: UTC
+shifts: [{name: day, starts: "07:00"}]
+outcome: {window_hours: 24}
+plans:
+  - {name: p, rule: {threshold: 5}}
+population:
+  generate:
+    start: 2026-01-05T00:00:00Z
+    end: 2026-02-05T00:00:00Z
+    units: [{name: w, beds: 10, arrivals_per_hour: [0.1]}]
+  other_scores:
+    - name: bedside
+      generate: {within_patient_sd: 40, between_patient_sd: 40, target_auc: 0.999}
+)";
+    const Scenario sc = parse_scenario(yaml, "s.yaml", "");
+    try {
+        prepare_population(sc.population);
+        FAIL("expected an InputError");
+    } catch (const InputError& e) {
+        CHECK(e.field == "population.other_scores");
+        CHECK(e.line == 14);
+        CHECK(std::string(e.what()).find("other score 'bedside'") != std::string::npos);
+        CHECK(std::string(e.what()).find("cannot be reached") != std::string::npos);
+    }
+}
