@@ -243,6 +243,7 @@ struct PreparedRun {
     PopulationFactory factory;
     std::optional<ChartOpeningLog> openings;
     std::optional<std::string> period_warning;
+    std::vector<std::string> other_scores_reached;  // generated further scores: what they reached
     RunSettings settings;
 };
 
@@ -265,6 +266,7 @@ void prepare_population_of(PreparedRun& run, const std::function<PreparedPopulat
     const auto preparing = phase(&run.phases, "prepare");
     std::cout << describe_prepared(sc.population, prepared);
     run.period_warning = reporting_period_warning(sc, prepared);
+    run.other_scores_reached = other_scores_reached(prepared);
     if (run.period_warning) std::cout << *run.period_warning << "\n";
     run.factory = population_factory(sc.population, prepared);
     if (sc.simulation.chart_openings && !sc.simulation.chart_openings->replay_path.empty()) {
@@ -344,6 +346,7 @@ int command_run(const RunOptions& opt, bool sweep, MpiRanks* ranks) {
     if (!opt.out_dir.empty() || !opt.report_path.empty()) {
         ReportInput input = report_input_for_run(sc, out, settings);
         if (period_warning) input.key_findings.push_back(*period_warning);
+        for (const std::string& line : run.other_scores_reached) input.assumptions.push_back(line);
         if (out.evaluation) add_evaluation(input, *out.evaluation, sc.score_label);
         report = render_report(input);
         whatif = render_whatif_page(whatif_input_for_run(sc, out, settings, input, sweep ? &run.swept.grid : nullptr));

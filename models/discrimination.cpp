@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cmath>
 #include <limits>
+#include <numeric>
 
 namespace tocsin {
 
@@ -46,6 +47,41 @@ EncounterMaxima encounter_maxima(const Population& population) {
         (population.encounters[e].outcome_at ? maxima.cases : maxima.controls).push_back(highest);
     }
     return maxima;
+}
+
+namespace {
+
+// 1-based midranks of `x`: tied values share the average of their ranks.
+std::vector<double> midranks(std::span<const double> x) {
+    std::vector<std::size_t> order(x.size());
+    std::iota(order.begin(), order.end(), std::size_t{0});
+    std::stable_sort(order.begin(), order.end(), [&](std::size_t a, std::size_t b) { return x[a] < x[b]; });
+    std::vector<double> rank(x.size());
+    for (std::size_t i = 0; i < order.size();) {
+        std::size_t j = i;
+        while (j < order.size() && x[order[j]] == x[order[i]]) ++j;
+        const double midrank = (static_cast<double>(i + 1) + static_cast<double>(j)) / 2.0;
+        for (std::size_t k = i; k < j; ++k) rank[order[k]] = midrank;
+        i = j;
+    }
+    return rank;
+}
+
+}  // namespace
+
+double spearman_rank_correlation(std::span<const double> x, std::span<const double> y) {
+    const double nan = std::numeric_limits<double>::quiet_NaN();
+    if (x.size() != y.size() || x.size() < 2) return nan;
+    const std::vector<double> rx = midranks(x), ry = midranks(y);
+    const double mean = (static_cast<double>(x.size()) + 1.0) / 2.0;  // of any set of midranks
+    double sxy = 0, sxx = 0, syy = 0;
+    for (std::size_t i = 0; i < rx.size(); ++i) {
+        sxy += (rx[i] - mean) * (ry[i] - mean);
+        sxx += (rx[i] - mean) * (rx[i] - mean);
+        syy += (ry[i] - mean) * (ry[i] - mean);
+    }
+    if (sxx == 0 || syy == 0) return nan;
+    return sxy / std::sqrt(sxx * syy);
 }
 
 }  // namespace tocsin

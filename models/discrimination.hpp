@@ -23,4 +23,8 @@ struct EncounterMaxima {
 };
 EncounterMaxima encounter_maxima(const Population& population);
 
+// Spearman's rank correlation: Pearson's correlation of the midranks (ties
+// share their average rank). NaN with fewer than 2 pairs or no spread.
+double spearman_rank_correlation(std::span<const double> x, std::span<const double> y);
+
 }  // namespace tocsin

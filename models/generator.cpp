@@ -71,17 +71,63 @@ double assign_groups(const std::vector<GeneratedGroup>& groups, std::uint64_t en
     return shift;
 }
 
-// One encounter's usable scores into `out` (cleared first); counts what it drops.
+// A further score's latent level along one stay (see GeneratedOtherScore).
+struct OtherTrajectory {
+    const GeneratedOtherScore* score;
+    RandomEngine engine;
+    double offset = 0.0, rise = 0.0, noise = 0.0;
+};
+
+std::vector<OtherTrajectory> start_other_scores(const GeneratorConfig& config, std::uint64_t entity,
+                                                std::uint64_t seed, std::uint64_t replication, double z_first) {
+    std::vector<OtherTrajectory> others;
+    for (const GeneratedOtherScore& o : config.other_scores) {
+        OtherTrajectory t{&o, make_stream(seed, replication, StreamPurpose::other_score,
+                                          entity_key({entity, text_entity(o.name)}))};
+        const double z_own = standard_normal(t.engine);
+        const double z_rise = standard_normal(t.engine);  // drawn for every stay, so the count never varies
+        const double rho = o.correlation;
+        t.offset = o.level.between_patient_sd * (rho * z_first + std::sqrt(1.0 - rho * rho) * z_own);
+        t.rise = o.level.drift_size + o.level.drift_size_sd * z_rise;
+        others.push_back(std::move(t));
+    }
+    return others;
+}
+
+// Rule order (available_at, then scored_at, then schedule order) for every
+// score at once: they share their instants, so one permutation serves all.
+void sort_in_rule_order(std::vector<std::vector<Score>>& out) {
+    auto before = [](const Score& a, const Score& b) {
+        return a.available_at != b.available_at ? a.available_at < b.available_at : a.scored_at < b.scored_at;
+    };
+    if (std::is_sorted(out[0].begin(), out[0].end(), before)) return;
+    std::vector<std::size_t> order(out[0].size());
+    for (std::size_t i = 0; i < order.size(); ++i) order[i] = i;
+    std::stable_sort(order.begin(), order.end(),
+                     [&](std::size_t a, std::size_t b) { return before(out[0][a], out[0][b]); });
+    for (std::vector<Score>& values : out) {
+        std::vector<Score> sorted;
+        sorted.reserve(values.size());
+        for (std::size_t i : order) sorted.push_back(values[i]);
+        values = std::move(sorted);
+    }
+}
+
+// One encounter's usable scores into out[0] (the first score) and, when
+// out.size() > 1, out[k] (other score k); counts what it drops.
 void generate_scores(const GeneratorConfig& config, const Encounter& encounter, std::uint64_t entity,
-                     std::uint64_t seed, std::uint64_t replication, double group_shift, std::vector<Score>& out,
-                     GenerationSummary& summary) {
-    out.clear();
+                     std::uint64_t seed, std::uint64_t replication, double group_shift,
+                     std::vector<std::vector<Score>>& out, GenerationSummary& summary) {
+    for (std::vector<Score>& values : out) values.clear();
     const ScoreConfig& sc = config.scores;
     RandomEngine engine = make_stream(seed, replication, StreamPurpose::trajectory, entity);
-    const double patient_offset = sc.between_patient_sd * standard_normal(engine);
+    const double z_patient = standard_normal(engine);
+    const double patient_offset = sc.between_patient_sd * z_patient;
     const double onset_hours =
         sc.drift_onset_min_hours + (sc.drift_onset_max_hours - sc.drift_onset_min_hours) * uniform01(engine);
     const double first_phase = uniform01(engine);
+    std::vector<OtherTrajectory> others;
+    if (out.size() > 1) others = start_other_scores(config, entity, seed, replication, z_patient);
 
     const Instant usable_until = Population::usable_until(encounter);
     const bool is_case = encounter.outcome_at.has_value();
@@ -105,24 +151,33 @@ void generate_scores(const GeneratorConfig& config, const Encounter& encounter, 
         const double z_noise = standard_normal(engine);
         const double z_latency = standard_normal(engine);
         const Instant scored_at = static_cast<Instant>(t);
+        const double gap_hours = (t - previous_t) / 3600.0;
         // 0^gap = 0: with no carry-over the noise is z_noise itself, bit for bit.
-        const double carried = t > previous_t ? std::pow(sc.noise_carryover, (t - previous_t) / 3600.0) : 0.0;
+        const double carried = t > previous_t ? std::pow(sc.noise_carryover, gap_hours) : 0.0;
         noise = carried * noise + std::sqrt(1.0 - carried * carried) * z_noise;
+        for (OtherTrajectory& o : others) {  // on every scheduled row too, missing or not
+            const double kept = t > previous_t ? std::pow(o.score->level.noise_carryover, gap_hours) : 0.0;
+            o.noise = kept * o.noise + std::sqrt(1.0 - kept * kept) * standard_normal(o.engine);
+        }
         previous_t = t;
+        const double progress = is_case ? std::clamp((t - (time_zero - onset_seconds)) / onset_seconds, 0.0, 1.0) : 0.0;
         if (u_missing < sc.missing_probability) {
             ++missing;
         } else {
-            double latent = sc.baseline + patient_offset + sc.within_patient_sd * noise + group_shift;
-            if (is_case) {
-                const double progress = (t - (time_zero - onset_seconds)) / onset_seconds;
-                latent += rise * std::clamp(progress, 0.0, 1.0);
-            }
+            const double latent =
+                sc.baseline + patient_offset + sc.within_patient_sd * noise + group_shift + rise * progress;
             const Seconds latency = sc.latency_median_minutes > 0.0
                                         ? static_cast<Seconds>(std::exp(latency_mu + sc.latency_log_sd * z_latency))
                                         : 0;
             const Instant available_at = scored_at + latency;
             if (available_at < usable_until) {
-                out.push_back({available_at, scored_at, score_value(sc.scale, latent)});
+                out[0].push_back({available_at, scored_at, score_value(sc.scale, latent)});
+                for (std::size_t k = 0; k < others.size(); ++k) {
+                    const OtherTrajectory& o = others[k];
+                    const ScoreConfig& level = o.score->level;
+                    const double own = level.baseline + o.offset + level.within_patient_sd * o.noise + o.rise * progress;
+                    out[k + 1].push_back({available_at, scored_at, score_value(level.scale, own)});
+                }
             } else if (is_case && usable_until == *encounter.outcome_at) {
                 ++after_outcome;
             } else {
@@ -131,10 +186,7 @@ void generate_scores(const GeneratorConfig& config, const Encounter& encounter, 
         }
         t += cadence_seconds + (2.0 * u_jitter - 1.0) * jitter_seconds;
     }
-    auto before = [](const Score& a, const Score& b) {
-        return a.available_at != b.available_at ? a.available_at < b.available_at : a.scored_at < b.scored_at;
-    };
-    if (!std::is_sorted(out.begin(), out.end(), before)) std::stable_sort(out.begin(), out.end(), before);
+    sort_in_rule_order(out);
     if (missing) summary.excluded.notes["scheduled score missing (generator)"] += missing;
     if (after_outcome) summary.excluded.scores_by_reason[reason_after_outcome] += after_outcome;
     if (after_discharge) summary.excluded.scores_by_reason[reason_after_discharge] += after_discharge;
@@ -183,6 +235,18 @@ void validate(const GeneratorConfig& c) {
     require(s.drift_onset_min_hours >= 0 && s.drift_onset_min_hours <= s.drift_onset_max_hours &&
                 std::isfinite(s.drift_onset_max_hours),
             "scores.drift_onset_min_hours/max_hours", "need 0 <= min <= max");
+    for (const GeneratedOtherScore& o : c.other_scores) {
+        const std::string field = "other_scores." + o.name;
+        require(!o.name.empty() && o.name != c.score_name, field + ".name", "needs a name of its own");
+        require(o.correlation >= 0 && o.correlation <= 1, field + ".correlation", "must be in [0, 1]");
+        require(std::isfinite(o.level.baseline), field + ".baseline", "must be finite");
+        require(finite_nonnegative(o.level.between_patient_sd), field + ".between_patient_sd", "must be >= 0");
+        require(finite_nonnegative(o.level.within_patient_sd), field + ".within_patient_sd", "must be >= 0");
+        require(o.level.noise_carryover >= 0 && o.level.noise_carryover < 1, field + ".noise_carryover",
+                "must be in [0, 1)");
+        require(std::isfinite(o.level.drift_size), field + ".drift_size", "must be finite");
+        require(finite_nonnegative(o.level.drift_size_sd), field + ".drift_size_sd", "must be >= 0");
+    }
     for (const GeneratedGroup& g : c.groups) {
         const std::string field = "groups." + g.column.name;
         require(g.shares.size() == g.column.values.size(), field + ".shares", "needs one share per value");
@@ -207,9 +271,17 @@ int hour_of_week(Instant at, const TimeZone& zone) {
 
 GenerationSummary generate_streaming(const GeneratorConfig& config, std::uint64_t seed, std::uint64_t replication,
                                      const EncounterSink& sink) {
+    GeneratorConfig first_only = config;
+    first_only.other_scores.clear();  // the first score's draws do not depend on the others
+    return generate_streaming(first_only, seed, replication,
+                              [&](const Encounter& e, std::span<const std::vector<Score>> all) { sink(e, all[0]); });
+}
+
+GenerationSummary generate_streaming(const GeneratorConfig& config, std::uint64_t seed, std::uint64_t replication,
+                                     const EncounterScoresSink& sink) {
     validate(config);
     GenerationSummary summary;
-    std::vector<Score> scores;
+    std::vector<std::vector<Score>> scores(1 + config.other_scores.size());
     const double arrivals_from =
         static_cast<double>(config.period_start) - config.warmup_days * 86400.0;
     for (std::uint32_t u = 0; u < config.units.size(); ++u) {
@@ -264,8 +336,8 @@ GenerationSummary generate_streaming(const GeneratorConfig& config, std::uint64_
             const double group_shift = assign_groups(config.groups, entity, seed, replication, e);
             generate_scores(config, e, entity, seed, replication, group_shift, scores, summary);
             ++summary.encounters;
-            summary.scores += static_cast<std::int64_t>(scores.size());
-            sink(e, std::span<const Score>(scores));
+            summary.scores += static_cast<std::int64_t>(scores[0].size());
+            sink(e, std::span<const std::vector<Score>>(scores));
         }
         if (turned_away) summary.excluded.encounters_by_reason["arrival turned away, unit full: " + unit.name] +=
             turned_away;
@@ -276,12 +348,22 @@ GenerationSummary generate_streaming(const GeneratorConfig& config, std::uint64_
 Population generate_population(const GeneratorConfig& config, std::uint64_t seed, std::uint64_t replication) {
     Population pop;
     pop.score_start.push_back(0);
-    GenerationSummary summary =
-        generate_streaming(config, seed, replication, [&](const Encounter& e, std::span<const Score> scores) {
+    for (const GeneratedOtherScore& o : config.other_scores)
+        pop.other_scores.push_back({.name = o.name, .score_start = {0}});
+    GenerationSummary summary = generate_streaming(
+        config, seed, replication, [&](const Encounter& e, std::span<const std::vector<Score>> scores) {
             pop.encounters.push_back(e);
-            pop.scores.insert(pop.scores.end(), scores.begin(), scores.end());
+            pop.scores.insert(pop.scores.end(), scores[0].begin(), scores[0].end());
             pop.score_start.push_back(pop.scores.size());
+            for (std::size_t k = 1; k < scores.size(); ++k) {
+                OtherScore& o = pop.other_scores[k - 1];
+                o.scores.insert(o.scores.end(), scores[k].begin(), scores[k].end());
+                o.score_start.push_back(o.scores.size());
+            }
         });
+    // The other scores share the first score's rows, so the same rows were dropped.
+    for (OtherScore& o : pop.other_scores) o.excluded_by_reason = summary.excluded.scores_by_reason;
+    if (!config.other_scores.empty()) pop.score_name = config.score_name;
     pop.units = std::move(summary.units);
     for (const GeneratedGroup& g : config.groups) pop.groups.push_back(g.column);
     pop.excluded = std::move(summary.excluded);
@@ -297,14 +379,27 @@ struct AucPoint {
     std::int64_t cases = 0, controls = 0;
 };
 
-AucPoint auc_with_drift(GeneratorConfig config, double drift_size, std::uint64_t seed) {
-    config.scores.drift_size = drift_size;
+// The drift of score `score` (0 the first, k other_scores[k - 1]).
+double& drift_of(GeneratorConfig& config, std::size_t score) {
+    return score == 0 ? config.scores.drift_size : config.other_scores[score - 1].level.drift_size;
+}
+
+ScoreScale scale_of(const GeneratorConfig& config, std::size_t score) {
+    return score == 0 ? config.scores.scale : config.other_scores[score - 1].level.scale;
+}
+
+double highest(std::span<const Score> scores) {
+    double top = scores.front().value;
+    for (const Score& s : scores) top = std::max(top, s.value);
+    return top;
+}
+
+AucPoint auc_with_drift(GeneratorConfig config, std::size_t score, double drift_size, std::uint64_t seed) {
+    drift_of(config, score) = drift_size;
     EncounterMaxima maxima;
-    generate_streaming(config, seed, 0, [&](const Encounter& e, std::span<const Score> scores) {
-        if (scores.empty()) return;
-        double highest = scores.front().value;
-        for (const Score& s : scores) highest = std::max(highest, s.value);
-        (e.outcome_at ? maxima.cases : maxima.controls).push_back(highest);
+    generate_streaming(config, seed, 0, [&](const Encounter& e, std::span<const std::vector<Score>> all) {
+        if (all[score].empty()) return;
+        (e.outcome_at ? maxima.cases : maxima.controls).push_back(highest(all[score]));
     });
     return {mann_whitney_auc(maxima.cases, maxima.controls), static_cast<std::int64_t>(maxima.cases.size()),
             static_cast<std::int64_t>(maxima.controls.size())};
@@ -316,6 +411,71 @@ std::string fixed(double x, int decimals) {
     out.precision(decimals);
     out << x;
     return out.str();
+}
+
+// The calibration population's end: long enough for about `calibration_cases`
+// expected cases, at least 28 days, at most 3 years (see calibrate_to_auc).
+Instant calibration_end(const GeneratorConfig& config, double calibration_cases) {
+    // Expected cases per hour from the declared rates (an over-estimate when
+    // units are often full, which only lengthens the calibration period).
+    double admissions_per_hour = 0.0;
+    for (const UnitConfig& u : config.units)
+        for (double r : u.arrivals_per_hour) admissions_per_hour += r / hours_per_week;
+    const double hours_needed =
+        calibration_cases / std::max(admissions_per_hour * config.outcome.probability, 1e-9);
+    const double calibration_hours = std::clamp(hours_needed, 28.0 * 24.0, 3.0 * 365.0 * 24.0);
+    return config.period_start + static_cast<Seconds>(calibration_hours * 3600.0);
+}
+
+struct DriftFound {
+    AucPoint point;
+    double drift_size = 0.0;
+    int populations_generated = 0;
+};
+
+// Bisection on score `score`'s drift over the calibration population
+// `calibration` (see calibrate_to_auc); `what` names the score in errors.
+DriftFound find_drift(const GeneratorConfig& calibration, std::size_t score, double target_auc, std::uint64_t seed,
+                      double auc_tolerance, const std::string& what) {
+    // The widest rise that still means something on the scale: the whole points
+    // range, or 20 logit units (a probability from 0.5 to 1 - 2e-9).
+    const double widest = scale_of(calibration, score) == ScoreScale::points ? 100.0 : 20.0;
+    AucPoint low = auc_with_drift(calibration, score, 0.0, seed);
+    AucPoint high = auc_with_drift(calibration, score, widest, seed);
+    DriftFound found;
+    found.populations_generated = 2;
+    if (low.cases == 0 || low.controls == 0)
+        throw std::invalid_argument("calibrate_to_auc: the calibration population has " + std::to_string(low.cases) +
+                                    " cases and " + std::to_string(low.controls) +
+                                    " controls with scores; lengthen the period or add units");
+    const std::string reachable = "reachable AUCs" + what + " with these settings run from " + fixed(low.auc, 3) +
+                                  " (no rise before time zero) to " + fixed(high.auc, 3) + " (drift_size " +
+                                  fixed(widest, 0) + ")";
+    if (target_auc < low.auc - auc_tolerance)
+        throw std::invalid_argument("calibrate_to_auc: target AUC " + fixed(target_auc, 3) +
+                                    " is below what the generator reaches without any rise: " + reachable +
+                                    ". Scores that fall before time zero are not modelled.");
+    if (target_auc > high.auc + auc_tolerance)
+        throw std::invalid_argument("calibrate_to_auc: target AUC " + fixed(target_auc, 3) + " cannot be reached: " +
+                                    reachable +
+                                    ". Lower " + std::string(score == 0 ? "scores." : "") +
+                                    "within_patient_sd or between_patient_sd, or shorten the stays.");
+    double lo = 0.0, hi = widest;
+    const bool low_closer = std::abs(low.auc - target_auc) <= std::abs(high.auc - target_auc);
+    found.point = low_closer ? low : high;
+    found.drift_size = low_closer ? 0.0 : widest;
+    for (int step = 0; step < 60 && std::abs(found.point.auc - target_auc) > auc_tolerance; ++step) {
+        const double mid = 0.5 * (lo + hi);
+        AucPoint p = auc_with_drift(calibration, score, mid, seed);
+        ++found.populations_generated;
+        if (std::abs(p.auc - target_auc) < std::abs(found.point.auc - target_auc)) {
+            found.point = p;
+            found.drift_size = mid;
+        }
+        (p.auc < target_auc ? lo : hi) = mid;
+        if (hi - lo < 1e-9 * widest) break;
+    }
+    return found;
 }
 
 }  // namespace
@@ -331,59 +491,64 @@ AucCalibration calibrate_to_auc(const GeneratorConfig& input, double target_auc,
     GeneratorConfig config = input;
     config.outcome.probability = target_outcome_rate;
     validate(config);
-    // Expected cases per hour from the declared rates (an over-estimate when
-    // units are often full, which only lengthens the calibration period).
-    double admissions_per_hour = 0.0;
-    for (const UnitConfig& u : config.units)
-        for (double r : u.arrivals_per_hour) admissions_per_hour += r / hours_per_week;
-    const double hours_needed = calibration_cases / std::max(admissions_per_hour * target_outcome_rate, 1e-9);
-    const double calibration_hours = std::clamp(hours_needed, 28.0 * 24.0, 3.0 * 365.0 * 24.0);
     GeneratorConfig calibration = config;
-    calibration.period_end = config.period_start + static_cast<Seconds>(calibration_hours * 3600.0);
-    // The widest rise that still means something on the scale: the whole points
-    // range, or 20 logit units (a probability from 0.5 to 1 - 2e-9).
-    const double widest = config.scores.scale == ScoreScale::points ? 100.0 : 20.0;
+    calibration.other_scores.clear();  // the first score's draws do not depend on the others
+    calibration.period_end = calibration_end(config, calibration_cases);
+    const DriftFound found = find_drift(calibration, 0, target_auc, seed, auc_tolerance, "");
+    config.scores.drift_size = found.drift_size;
     AucCalibration result;
-    AucPoint low = auc_with_drift(calibration, 0.0, seed);
-    AucPoint high = auc_with_drift(calibration, widest, seed);
-    result.populations_generated = 2;
-    if (low.cases == 0 || low.controls == 0)
-        throw std::invalid_argument("calibrate_to_auc: the calibration population has " + std::to_string(low.cases) +
-                                    " cases and " + std::to_string(low.controls) +
-                                    " controls with scores; lengthen the period or add units");
-    const std::string reachable = "reachable AUCs with these settings run from " + fixed(low.auc, 3) +
-                                  " (no rise before time zero) to " + fixed(high.auc, 3) + " (drift_size " +
-                                  fixed(widest, 0) + ")";
-    if (target_auc < low.auc - auc_tolerance)
-        throw std::invalid_argument("calibrate_to_auc: target AUC " + fixed(target_auc, 3) +
-                                    " is below what the generator reaches without any rise: " + reachable +
-                                    ". Scores that fall before time zero are not modelled.");
-    if (target_auc > high.auc + auc_tolerance)
-        throw std::invalid_argument("calibrate_to_auc: target AUC " + fixed(target_auc, 3) + " cannot be reached: " +
-                                    reachable +
-                                    ". Lower scores.within_patient_sd or between_patient_sd, or shorten the stays.");
-    double lo = 0.0, hi = widest;
-    const bool low_closer = std::abs(low.auc - target_auc) <= std::abs(high.auc - target_auc);
-    AucPoint best = low_closer ? low : high;
-    double best_drift = low_closer ? 0.0 : widest;
-    for (int step = 0; step < 60 && std::abs(best.auc - target_auc) > auc_tolerance; ++step) {
-        const double mid = 0.5 * (lo + hi);
-        AucPoint p = auc_with_drift(calibration, mid, seed);
-        ++result.populations_generated;
-        if (std::abs(p.auc - target_auc) < std::abs(best.auc - target_auc)) {
-            best = p;
-            best_drift = mid;
-        }
-        (p.auc < target_auc ? lo : hi) = mid;
-        if (hi - lo < 1e-9 * widest) break;
-    }
-    config.scores.drift_size = best_drift;
     result.config = config;
-    result.achieved_auc = best.auc;
-    result.drift_size = best_drift;
-    result.cases = best.cases;
-    result.controls = best.controls;
+    result.achieved_auc = found.point.auc;
+    result.drift_size = found.drift_size;
+    result.populations_generated = found.populations_generated;
+    result.cases = found.point.cases;
+    result.controls = found.point.controls;
     result.calibration_period_end = calibration.period_end;
+    return result;
+}
+
+OtherScoresCalibration calibrate_other_scores(const GeneratorConfig& config, std::uint64_t seed,
+                                              double auc_tolerance, double calibration_cases) {
+    validate(config);
+    OtherScoresCalibration result;
+    result.config = config;
+    result.calibration_period_end = calibration_end(config, calibration_cases);
+    for (std::size_t k = 1; k <= config.other_scores.size(); ++k) {
+        const GeneratedOtherScore& o = config.other_scores[k - 1];
+        if (!o.target_auc) continue;
+        GeneratorConfig calibration = result.config;
+        calibration.period_end = result.calibration_period_end;
+        const std::string what = " for other score '" + o.name + "'";
+        result.config.other_scores[k - 1].level.drift_size =
+            find_drift(calibration, k, *o.target_auc, seed, auc_tolerance, what).drift_size;
+    }
+    // What was reached, on one generation of the calibration population.
+    GeneratorConfig calibration = result.config;
+    calibration.period_end = result.calibration_period_end;
+    const std::size_t n = config.other_scores.size();
+    std::vector<EncounterMaxima> maxima(n + 1);
+    std::vector<std::vector<double>> first_of_pair(n), other_of_pair(n);
+    generate_streaming(calibration, seed, 0, [&](const Encounter& e, std::span<const std::vector<Score>> all) {
+        for (std::size_t k = 0; k <= n; ++k)
+            if (!all[k].empty()) (e.outcome_at ? maxima[k].cases : maxima[k].controls).push_back(highest(all[k]));
+        for (std::size_t k = 1; k <= n; ++k) {
+            if (all[0].empty() || all[k].empty()) continue;
+            first_of_pair[k - 1].push_back(highest(all[0]));
+            other_of_pair[k - 1].push_back(highest(all[k]));
+        }
+    });
+    result.cases = static_cast<std::int64_t>(maxima[0].cases.size());
+    result.controls = static_cast<std::int64_t>(maxima[0].controls.size());
+    for (std::size_t k = 1; k <= n; ++k) {
+        const GeneratedOtherScore& o = result.config.other_scores[k - 1];
+        result.reached.push_back({.name = o.name,
+                                  .target_auc = o.target_auc,
+                                  .drift_size = o.level.drift_size,
+                                  .achieved_auc = mann_whitney_auc(maxima[k].cases, maxima[k].controls),
+                                  .maxima_rank_correlation =
+                                      spearman_rank_correlation(first_of_pair[k - 1], other_of_pair[k - 1]),
+                                  .stays = static_cast<std::int64_t>(first_of_pair[k - 1].size())});
+    }
     return result;
 }
 

@@ -13,10 +13,12 @@
 // drift size or the missing-score probability leaves every other draw where
 // it was. A patient-group value comes from (patient_group, entity_key(entity,
 // column name)): declaring groups moves no other draw, and a group's score
-// shift moves only its own patients' scores.
+// shift moves only its own patients' scores. A further score's draws come
+// from (other_score, entity_key(entity, score name)): see GeneratedOtherScore.
 #include <array>
 #include <cstdint>
 #include <functional>
+#include <optional>
 #include <span>
 #include <string>
 #include <vector>
@@ -88,6 +90,25 @@ struct ScoreConfig {
     double drift_onset_max_hours = 48.0;
 };
 
+// A further score of the same generated patients, e.g. the score in use today
+// beside a candidate. It is scored at the first score's instants (scored_at
+// and available_at alike, the same scheduled rows missing), so the two differ
+// only in their values. Its latent level has its own baseline, spreads,
+// noise carry-over, rise (drift_size, drift_size_sd) and scale, taken from
+// `level`; the schedule and drift onset fields of `level` are not used: the
+// case's rise starts when the first score's does. `correlation` is the share
+// of the patient's own level it has in common with the first score:
+// offset = between_patient_sd x (correlation x z1 + sqrt(1 - correlation^2) x z),
+// z1 the first score's standardised patient offset. Its own draws come from
+// (other_score, entity_key(entity, text_entity(name))), so declaring it moves
+// no draw of the first score. Group score shifts apply to the first score only.
+struct GeneratedOtherScore {
+    std::string name;
+    ScoreConfig level;
+    double correlation = 0.0;
+    std::optional<double> target_auc{};  // calibrate level.drift_size to this encounter-level AUC
+};
+
 // A patient-group column the generator fills in: each encounter's value is
 // drawn with the declared shares, and its scores' latent level may be moved
 // by a value's own shift, to show what a score that runs low (or high) for
@@ -104,6 +125,8 @@ struct GeneratorConfig {
     StayConfig stay;
     OutcomeConfig outcome;
     ScoreConfig scores;
+    std::vector<GeneratedOtherScore> other_scores{};
+    std::string score_name = "score";  // the first score's name, when there are other scores
     Instant period_start = 0;  // the population covers [period_start, period_end)
     Instant period_end = 0;
     // Arrivals start this long before period_start so that the census at the
@@ -140,12 +163,18 @@ struct GenerationSummary {
 // valid during the call only.
 using EncounterSink = std::function<void(const Encounter&, std::span<const Score>)>;
 
+// Every score of one encounter: [0] the first, [k] other_scores[k - 1].
+using EncounterScoresSink = std::function<void(const Encounter&, std::span<const std::vector<Score>>)>;
+
 // Streaming form: the population never sits in memory at once (one unit's
 // current occupants and one encounter's scores at a time). Encounters come
 // unit by unit, not in global time order: a consumer that needs time order
 // across units (shared staff queues) must merge per-unit streams itself.
 GenerationSummary generate_streaming(const GeneratorConfig& config, std::uint64_t seed, std::uint64_t replication,
                                      const EncounterSink& sink);
+// The same with the other scores (GeneratorConfig::other_scores) beside the first.
+GenerationSummary generate_streaming(const GeneratorConfig& config, std::uint64_t seed, std::uint64_t replication,
+                                     const EncounterScoresSink& sink);
 
 // The whole population in memory. Encounters are ordered by unit, then admission.
 Population generate_population(const GeneratorConfig& config, std::uint64_t seed, std::uint64_t replication);
@@ -178,5 +207,31 @@ struct AucCalibration {
 // AUCs are reachable, when the target is not.
 AucCalibration calibrate_to_auc(const GeneratorConfig& config, double target_auc, double target_outcome_rate,
                                 std::uint64_t seed, double auc_tolerance = 0.002, double calibration_cases = 1000);
+
+// What calibrate_other_scores found for one further score, on the
+// calibration population (replication 0 over [period_start,
+// calibration_period_end)): its AUC, and the Spearman rank correlation of
+// the stays' highest first score and highest further score (stays with both).
+struct OtherScoreReached {
+    std::string name;
+    std::optional<double> target_auc;
+    double drift_size = 0.0;
+    double achieved_auc = 0.0;
+    double maxima_rank_correlation = 0.0;
+    std::int64_t stays = 0;  // with both scores
+};
+struct OtherScoresCalibration {
+    GeneratorConfig config;  // with each targeted score's drift_size set
+    std::vector<OtherScoreReached> reached;
+    Instant calibration_period_end = 0;
+    std::int64_t cases = 0, controls = 0;
+};
+
+// Calibrates each other score that has a target AUC the way calibrate_to_auc
+// does the first (same bisection, same calibration population), then reports
+// what every other score reached. `config` should already carry the first
+// score's calibrated drift.
+OtherScoresCalibration calibrate_other_scores(const GeneratorConfig& config, std::uint64_t seed,
+                                              double auc_tolerance = 0.002, double calibration_cases = 1000);
 
 }  // namespace tocsin

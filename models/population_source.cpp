@@ -44,6 +44,15 @@ PreparedPopulation prepare_population(const PopulationSetup& sc) {
         }
         p.generator = p.calibration->config;
     }
+    if (!p.generator.other_scores.empty()) {
+        try {
+            p.other_scores = calibrate_other_scores(p.generator, sc.seed);
+        } catch (const std::invalid_argument& e) {
+            throw InputError(sc.file, sc.other_scores_at.line, sc.other_scores_at.column, "population.other_scores",
+                             e.what());
+        }
+        p.generator = p.other_scores->config;
+    }
     return p;
 }
 
@@ -73,6 +82,25 @@ std::string replication_zero_basis(const PopulationSetup& sc) {
     return several ? "replication 0 (" + what + ")" : what;
 }
 
+std::vector<std::string> other_scores_reached(const PreparedPopulation& p) {
+    std::vector<std::string> lines;
+    if (!p.other_scores) return lines;
+    const OtherScoresCalibration& c = *p.other_scores;
+    const GeneratorConfig& g = p.generator;
+    for (const OtherScoreReached& r : c.reached) {
+        std::ostringstream o;
+        o.setf(std::ios::fixed);
+        o.precision(3);
+        o << "Other score '" << r.name << "': encounter-level AUC " << r.achieved_auc;
+        if (r.target_auc) o << " (target " << *r.target_auc << ", drift_size " << r.drift_size << ")";
+        o << "; rank correlation (Spearman) of the stays' highest " << g.score_name << " and highest " << r.name
+          << " " << r.maxima_rank_correlation << " over " << r.stays << " stays with both, on a calibration population of "
+          << (c.calibration_period_end - g.period_start) / 86400 << " days.";
+        lines.push_back(o.str());
+    }
+    return lines;
+}
+
 std::string describe_prepared(const PopulationSetup& sc, const PreparedPopulation& p) {
     std::ostringstream o;
     if (p.calibration) {
@@ -83,6 +111,7 @@ std::string describe_prepared(const PopulationSetup& sc, const PreparedPopulatio
           << (p.calibration->calibration_period_end - p.generator.period_start) / 86400 << " days with "
           << p.calibration->cases << " cases and " << p.calibration->controls << " controls.\n";
     }
+    for (const std::string& line : other_scores_reached(p)) o << line << "\n";
     if (p.log && sc.bootstrap && p.bootstrap_days) o << describe_eligible_days(*p.bootstrap_days, *p.log, *sc.bootstrap, sc.zone);
     return o.str();
 }

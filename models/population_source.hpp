@@ -8,6 +8,7 @@
 #include <memory>
 #include <optional>
 #include <string>
+#include <vector>
 
 #include "models/bootstrap.hpp"
 #include "models/generator.hpp"
@@ -41,7 +42,7 @@ struct PopulationSetup {
     // Where target_auc and shift were declared, so errors found while
     // preparing name the scenario file's line.
     std::string file;
-    KeyLocation target_auc_at, shift_at, bootstrap_at;
+    KeyLocation target_auc_at, shift_at, bootstrap_at, other_scores_at;
 };
 
 // What is worth doing once per scenario rather than once per replication:
@@ -53,6 +54,7 @@ struct PreparedPopulation {
     std::optional<EligibleDays> bootstrap_days;  // replay with bootstrap: the days it draws from
     GeneratorConfig generator;                  // generate, after calibration
     std::optional<AucCalibration> calibration;  // generate with target_auc
+    std::optional<OtherScoresCalibration> other_scores;  // generate with other scores: what each reached
 };
 
 // Throws InputError (naming the scenario key) on bad input, when a target AUC
@@ -76,6 +78,10 @@ std::string replication_zero_basis(const PopulationSetup& setup);
 // A line or two on where the population comes from (calibration result, the
 // days a bootstrap draws from), for `check` and `run`.
 std::string describe_prepared(const PopulationSetup& setup, const PreparedPopulation& prepared);
+// One line per generated further score: the AUC and the rank correlation of
+// stay maxima with the first score it reached (part of describe_prepared,
+// and of a run report's assumptions).
+std::vector<std::string> other_scores_reached(const PreparedPopulation& prepared);
 
 // Makes the population of any replication (safe to call from several threads
 // at once). Shared and read-only: replication 0 of a plain replay is the

@@ -33,6 +33,7 @@ enum class StreamPurpose : std::uint64_t {
     score_comparison = 17,  // entity: entity_key(plan name, other score name, N x 1000); replication 0
     other_work = 18,        // entity: entity_key(role name, unit, other-work class name, task number or ~0 for the instants); see sim/other_work.hpp
     score_lookup = 19,      // entity: entity_key(encounter, opening role name, opening instant, occurrence), as chart_acceptance
+    other_score = 20,       // entity: entity_key(encounter, score name); a generated population's further score (models/generator.hpp)
 };
 
 // SplitMix64 finaliser (Steele, Lea & Flood 2014): a bijective 64-bit mix.

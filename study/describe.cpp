@@ -75,6 +75,11 @@ std::string generated_line(const PopulationSetup& pop, const TimeZone& zone) {
                       "; outcome in " + num(100 * g.outcome.probability) + " % of stays; scores every " +
                       num(g.scores.cadence_minutes) + " min";
     if (pop.target_auc) out += "; rise before time zero calibrated to an encounter-level AUC of " + num(*pop.target_auc);
+    for (const GeneratedOtherScore& o : g.other_scores) {
+        out += "; other score " + o.name + " at the same instants, patient level correlation " + num(o.correlation) +
+               " with " + g.score_name;
+        if (o.target_auc) out += ", calibrated to an encounter-level AUC of " + num(*o.target_auc);
+    }
     return out;
 }
 

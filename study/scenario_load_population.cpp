@@ -277,6 +277,24 @@ GeneratedGroup parse_group(const Section& g, bool generated, const std::vector<G
     return x;
 }
 
+// population.other_scores[].generate: a further generated score's own latent level.
+GeneratedOtherScore parse_other_generated(const Section& o, const std::string& name) {
+    const Section g(o.child("generate"), "population.other_scores[].generate", o.file(),
+                    o.where() + ".generate");
+    GeneratedOtherScore x;
+    x.name = name;
+    x.level.scale = score_scale(g, "scale");
+    x.correlation = g.real("correlation");
+    x.level.baseline = g.real("baseline");
+    x.level.between_patient_sd = g.real("between_patient_sd");
+    x.level.within_patient_sd = g.real("within_patient_sd");
+    x.level.noise_carryover = g.real("noise_carryover");
+    x.level.drift_size = g.real("drift_size");
+    x.level.drift_size_sd = g.real("drift_size_sd");
+    x.target_auc = g.optional_real("target_auc");
+    return x;
+}
+
 // population.other_scores[]: each further score's name and label, and for a
 // replayed log where its values are read.
 void load_other_scores(const Section& pop, Scenario& sc) {
@@ -298,8 +316,15 @@ void load_other_scores(const Section& pop, Scenario& sc) {
             for (std::string_view key : {"column", "file", "score_range"})
                 if (o.has(key))
                     o.fail(key, "only a replayed log reads " + std::string(key) + "; a generated population makes its scores");
-            o.fail("name", "a generated population makes one score for now; declare other scores with a replayed log");
+            if (!o.has("generate"))
+                o.fail("name", "a generated population makes every score: give this one a generate section "
+                               "(see population.other_scores[].generate)");
+            sc.population.generator.other_scores.push_back(parse_other_generated(o, named.name));
+            sc.other_scores.push_back(std::move(named));
+            continue;
         }
+        if (o.has("generate"))
+            o.fail("generate", "only a generated population makes its scores; a replayed log's are read from its files");
         OtherScoreSource src{.name = named.name,
                              .path = o.has("file") ? resolve(sc.directory, o.text("file")) : sc.population.replay.scores_path,
                              .column = o.text("column")};
@@ -318,6 +343,11 @@ void load_other_scores(const Section& pop, Scenario& sc) {
         sc.other_scores.push_back(std::move(named));
     }
     sc.population.replay.score_name = sc.score_name;
+    sc.population.generator.score_name = sc.score_name;
+    if (!sc.other_scores.empty()) {
+        const YAML::Node at = pop.child("other_scores");
+        sc.population.other_scores_at = {at.Mark().line + 1, at.Mark().column + 1};
+    }
 }
 
 void load_groups(const Section& pop, Scenario& sc) {

@@ -93,6 +93,23 @@ SectionSpec population_other_scores_keys() {
                 text_key("column", {.fallback = "score", .help = "replay: the column holding its values."}),
                 text_key("file", {.unit = "path", .absent = "population.replay.scores", .help = "replay: a file of its own with columns encounter,scored_at,available_at and `column`."}),
                 real_list_key("score_range", {.unit = "score", .fallback = {0, 100}, .help = "replay: [low, high]; its values outside it are bad rows."}),
+                section_key("generate", {.help = "generate: how the generator makes this score (see population.other_scores[].generate); required for a generated population, refused for a replayed log."}),
+            }};
+}
+
+SectionSpec population_other_scores_generate_keys() {
+    return {"population.other_scores[].generate",
+            "A further generated score: scored at the first score's instants (the same rows missing, the same delays), its case rise starting when the first score's does, with a latent level of its own: baseline + patient offset + noise + (cases) a rise before time zero.",
+            {
+                text_key("scale", {.fallback = "points", .help = "points (0-100, latent in points) or probability (latent on the logit scale)."}),
+                real_key("correlation", {.fallback = 0, .range = {0, 1}, .help = "Share of the patient's own level in common with the first score: offset = between_patient_sd x (correlation x z1 + sqrt(1 - correlation^2) x z), z1 the first score's standardised patient offset."}),
+                real_key("baseline", {.unit = "latent", .fallback = 20, .range = {-1e6, 1e6}, .help = "Average level for everyone."}),
+                real_key("between_patient_sd", {.unit = "latent", .fallback = 6, .range = {0, 1e6}, .help = "Spread of patients' own levels."}),
+                real_key("within_patient_sd", {.unit = "latent", .fallback = 6, .range = {0, 1e6}, .help = "Score-to-score noise, drawn apart from the first score's."}),
+                real_key("noise_carryover", {.fallback = 0, .range = {0, 0.99}, .help = "Correlation of its score-to-score noise one hour apart."}),
+                real_key("drift_size", {.unit = "latent", .fallback = 20, .range = {-1e6, 1e6}, .help = "Cases: rise reached at time zero (ignored when target_auc is given)."}),
+                real_key("drift_size_sd", {.unit = "latent", .fallback = 0, .range = {0, 1e6}, .help = "Cases: spread of each patient's own rise around drift_size (normal)."}),
+                real_key("target_auc", {.absent = "none", .range = {0.01, 0.999}, .help = "Find drift_size so that this score's encounter-level AUC is this (reported with the rank correlation of the two scores' stay maxima reached; refused when out of reach)."}),
             }};
 }
 
@@ -441,6 +458,7 @@ const std::vector<SectionSpec>& scenario_sections() {
         population_replay_keys(),
         population_groups_keys(),
         population_other_scores_keys(),
+        population_other_scores_generate_keys(),
         reporting_keys(),
         chart_openings_keys(),
         chart_openings_roles_keys(),
