@@ -24,7 +24,11 @@ PopulationSummary population_summary(const Population& pop, const ReportingShift
 std::vector<Exclusion> exclusions(const Population& pop, const ChartOpeningLog* replayed_openings) {
     std::vector<Exclusion> out;
     for (const auto& [reason, n] : pop.excluded.encounters_by_reason) out.push_back({Excluded::encounters, reason, n, {}});
-    for (const auto& [reason, n] : pop.excluded.scores_by_reason) out.push_back({Excluded::scores, reason, n, {}});
+    // With several scores each score's exclusions are its own, named by the score.
+    const std::string first = pop.other_scores.empty() ? "" : pop.score_name + ": ";
+    for (const auto& [reason, n] : pop.excluded.scores_by_reason) out.push_back({Excluded::scores, first + reason, n, {}});
+    for (const OtherScore& o : pop.other_scores)
+        for (const auto& [reason, n] : o.excluded_by_reason) out.push_back({Excluded::scores, o.name + ": " + reason, n, {}});
     for (const auto& [reason, n] : pop.excluded.notes) out.push_back({Excluded::notes, reason, n, {}});
     for (const auto& [reason, rows] : pop.excluded.rows_skipped)
         out.push_back({Excluded::skipped_rows, reason, rows.count, rows});

@@ -7,6 +7,7 @@
 #include <cmath>
 #include <limits>
 
+#include "analysis/results.hpp"
 #include "analysis/score_comparison.hpp"
 #include "models/bootstrap.hpp"
 #include "models/errors.hpp"
@@ -86,6 +87,14 @@ TEST_CASE("two_scores.a_column_of_the_scores_file_is_read_with_its_own_exclusion
     CHECK(pop.excluded.scores_by_reason.at("available at or after discharge") == 1);
     CHECK(pop.other_scores[0].excluded_by_reason.at("not recorded in this row (empty bedside)") == 1);
     CHECK(pop.other_scores[0].excluded_by_reason.at("available at or after discharge") == 1);
+    // The exclusions table names each score's own reasons.
+    int named = 0;
+    for (const Exclusion& x : exclusions(pop))
+        if (x.what == Excluded::scores) {
+            CHECK((x.reason.rfind("candidate: ", 0) == 0 || x.reason.rfind("bedside: ", 0) == 0));
+            ++named;
+        }
+    CHECK(named == 4);
     CHECK(score_index(pop, "bedside") == std::optional<std::size_t>(1));
     CHECK(score_index(pop, "candidate") == std::optional<std::size_t>(0));
     CHECK_FALSE(score_index(pop, "other").has_value());
