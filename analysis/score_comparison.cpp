@@ -10,10 +10,13 @@
 
 namespace tocsin {
 
-std::vector<Evaluation> other_score_evaluations(const Population& pop, EvaluationOptions options) {
-    options.probability.reset();
+std::vector<Evaluation> other_score_evaluations(const Population& pop, EvaluationOptions options,
+                                                const std::vector<std::optional<ProbabilityMapping>>& probability) {
     std::vector<Evaluation> out;
-    for (std::size_t k = 1; k < pop.score_count(); ++k) out.push_back(evaluate(with_only_score(pop, k), options));
+    for (std::size_t k = 1; k < pop.score_count(); ++k) {
+        options.probability = k - 1 < probability.size() ? probability[k - 1] : std::nullopt;
+        out.push_back(evaluate(with_only_score(pop, k), options));
+    }
     return out;
 }
 

@@ -71,9 +71,11 @@ ScoreComparison compare_scores(const Population& population, const std::vector<P
                                const ScoreComparisonOptions& options);
 
 // Every evaluation measure of each other score (population.other_scores
-// order), with `options` less any probability mapping: a mapping declared for
-// the first score says nothing of the others.
-std::vector<Evaluation> other_score_evaluations(const Population& population, EvaluationOptions options);
+// order), with `options` and, for score k, `probability[k - 1]` (a mapping
+// declared for the first score says nothing of the others; none when the
+// list is shorter).
+std::vector<Evaluation> other_score_evaluations(const Population& population, EvaluationOptions options,
+                                                const std::vector<std::optional<ProbabilityMapping>>& probability);
 
 // Each stay's highest usable value of score `score` (NaN when it has none).
 std::vector<double> stay_maxima(const Population& population, std::size_t score);

@@ -133,7 +133,7 @@ int run_evaluate_command(const EvaluateCommand& c) {
     o.threads = threads;
 
     const Evaluation ev = evaluate(pop, o);
-    const std::vector<Evaluation> others = other_score_evaluations(pop, o);
+    const std::vector<Evaluation> others = other_score_evaluations(pop, o, other_score_probabilities(sc));
     const ScoreComparison comparison =
         compare_scores(pop, sc.simulation.plans, ScoreComparisonOptions{.seed = sc.simulation.seed});
     std::cout << evaluation_summary(ev) << "\n" << to_text(encounter_auc_table(ev.encounter_auc), 3) << "\n"

@@ -369,6 +369,10 @@ Section score_comparison_section(const ReportInput& in, const HtmlTableOptions& 
         body += "<figure>" + figure_title(in.score_comparison_roc->title) +
                 line_svg(*in.score_comparison_roc, "fig-two-scores-roc") + "<figcaption>" +
                 html_escape(in.score_comparison_roc->description) + "</figcaption></figure>\n";
+    if (in.score_comparison_curves)
+        body += "<figure>" + figure_title(in.score_comparison_curves->title) +
+                line_svg(*in.score_comparison_curves, "fig-two-scores-decision") + "<figcaption>" +
+                html_escape(in.score_comparison_curves->description) + "</figcaption></figure>\n";
     for (const Table& t : in.score_comparison_tables) body += html_table(t, table_options);
     body += paragraph(in.score_comparison_note, "note");
     return {"two-scores", "Two scores on the same stays", body};

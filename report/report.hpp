@@ -114,6 +114,7 @@ struct ReportInput {
     // Two scores of the same stays: the paired comparison, and both ROC curves.
     std::vector<Table> score_comparison_tables;
     std::optional<LineChart> score_comparison_roc;
+    std::optional<LineChart> score_comparison_curves;  // decision curves, when the scores are probabilities
     std::string score_comparison_intro, score_comparison_note;
     std::vector<Table> evaluation_tables;       // model-evaluation measures
     std::vector<LineChart> evaluation_charts;   // e.g. roc_chart(), calibration_chart(), decision_curve_chart()

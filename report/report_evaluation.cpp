@@ -123,6 +123,9 @@ LineChart calibration_of(const std::vector<CalibrationBin>& bins, const Smoothed
     return chart;
 }
 
+
+}  // namespace
+
 LineChart decision_curve_of(const DecisionCurveResult& curve, const std::string& score_label) {
     std::vector<CurvePoint> model, treat_all;
     for (const DecisionCurvePoint& d : curve.points) {
@@ -131,8 +134,6 @@ LineChart decision_curve_of(const DecisionCurveResult& curve, const std::string&
     }
     return decision_curve_chart(sorted_by_x(model), sorted_by_x(treat_all), score_label);
 }
-
-}  // namespace
 
 LineChart roc_of(const std::vector<ThresholdMeasures>& rows, const std::string& score_label) {
     std::vector<CurvePoint> roc = {{0, 0}, {1, 1}};

@@ -10,6 +10,9 @@ namespace tocsin {
 // The encounter-level ROC curve through the evaluation's threshold grid.
 LineChart roc_of(const std::vector<ThresholdMeasures>& rows, const std::string& score_label);
 
+// The decision curve: the score's net benefit beside evaluating everyone.
+LineChart decision_curve_of(const DecisionCurveResult& curve, const std::string& score_label);
+
 void add_evaluation(ReportInput& report, const Evaluation& evaluation, const std::string& score_label = "score");
 
 }  // namespace tocsin

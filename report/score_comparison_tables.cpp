@@ -106,6 +106,20 @@ void add_score_comparison(ReportInput& in, const ScoreComparison& c, const Evalu
     roc.description = "Each stay's highest usable value of each score; points are each score's threshold grid. "
                       "The first score is the solid line, the other dashed.";
     in.score_comparison_roc = std::move(roc);
+    // Decision curves need each score read as a probability.
+    if (first.decision_curve) {
+        LineChart curves = decision_curve_of(*first.decision_curve, c.auc.front().first);
+        bool added = false;
+        for (std::size_t k = 0; k < others.size() && k < c.auc.size(); ++k)
+            if (others[k].decision_curve) {
+                added = true;
+                Curve other = decision_curve_of(*others[k].decision_curve, c.auc[k].other).curves.front();
+                other.name = c.auc[k].other;
+                other.dashed = true;
+                curves.curves.insert(curves.curves.begin() + static_cast<std::ptrdiff_t>(k + 1), std::move(other));
+            }
+        if (added) in.score_comparison_curves = std::move(curves);
+    }
     in.score_comparison_tables.push_back(score_comparison_auc_table(c));
     in.score_comparison_tables.push_back(score_comparison_thresholds_table(c));
     for (Table& t : in.score_comparison_tables) t.basis = basis;
@@ -114,6 +128,10 @@ void add_score_comparison(ReportInput& in, const ScoreComparison& c, const Evalu
         in.score_comparison_tables.front().basis = matched_basis;
     }
     in.score_comparison_note =
+        std::string(in.score_comparison_curves
+                        ? ""
+                        : "Decision curves need each score read as a probability, which these scores are not; the "
+                          "net benefit of each score at each plan's threshold is in the last table. ") +
         "A better score is not yet a better plan: the first table sets each plan on another score against the plan "
         "on the first score nearest to it in burden, run on the same patients. These figures rest on this log, its "
         "exclusions and the scenario's assumptions.";

@@ -13,4 +13,13 @@ EvaluationOptions evaluation_options_for(const Scenario& sc) {
     return o;
 }
 
+std::vector<std::optional<ProbabilityMapping>> other_score_probabilities(const Scenario& sc) {
+    std::vector<std::optional<ProbabilityMapping>> out(sc.other_scores.size());
+    if (sc.population.source != PopulationSource::generate) return out;
+    const auto& generated = sc.population.generator.other_scores;
+    for (std::size_t k = 0; k < out.size() && k < generated.size(); ++k)
+        if (generated[k].level.scale == ScoreScale::probability) out[k] = ProbabilityMapping{};
+    return out;
+}
+
 }  // namespace tocsin

@@ -9,5 +9,8 @@
 namespace tocsin {
 
 EvaluationOptions evaluation_options_for(const Scenario& scenario);
+// Each other score's probability mapping: a generated score on the
+// probability scale is read as a probability; others have none.
+std::vector<std::optional<ProbabilityMapping>> other_score_probabilities(const Scenario& scenario);
 
 }  // namespace tocsin

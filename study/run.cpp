@@ -74,7 +74,7 @@ void keep_replication(const Scenario& sc, const RunSettings& settings, std::uint
     std::vector<Evaluation> other_evaluations;
     if (settings.evaluate) {
         evaluation = evaluate(pop, measures);
-        other_evaluations = other_score_evaluations(pop, measures);
+        other_evaluations = other_score_evaluations(pop, measures, other_score_probabilities(sc));
     }
     ScoreComparison comparison =
         compare_scores(pop, sc.simulation.plans, ScoreComparisonOptions{.seed = sc.simulation.seed});

@@ -10,6 +10,8 @@
 #include "analysis/results.hpp"
 #include "analysis/score_comparison.hpp"
 #include "models/bootstrap.hpp"
+#include "report/report.hpp"
+#include "report/score_comparison_tables.hpp"
 #include "models/errors.hpp"
 #include "models/replay.hpp"
 #include "sim/simulate.hpp"
@@ -343,4 +345,29 @@ TEST_CASE("two_scores.each_plan_on_another_score_meets_the_first_scores_plan_nea
     CHECK(matched[0].benefit_difference.mean == doctest::Approx(-4));
     CHECK(matched[0].benefit_difference.low == doctest::Approx(-4 - 4.302653 * std::sqrt(7.0 / 3)).epsilon(1e-5));
     CHECK(matched[0].benefit_difference.high == doctest::Approx(-4 + 4.302653 * std::sqrt(7.0 / 3)).epsilon(1e-5));
+}
+
+TEST_CASE("two_scores.the_report_draws_both_decision_curves_only_for_probabilities") {
+    ScoreComparison c;
+    c.auc.push_back({.first = "a", .other = "b"});
+    Evaluation first, other;
+    ReportInput without;
+    add_score_comparison(without, c, first, {other}, "basis", {}, "");
+    CHECK_FALSE(without.score_comparison_curves.has_value());
+    CHECK(without.score_comparison_note.find("Decision curves need each score read as a probability") != std::string::npos);
+    REQUIRE(without.score_comparison_roc.has_value());
+    CHECK(without.score_comparison_roc->curves.size() == 2);
+    CHECK(without.score_comparison_roc->curves[1].dashed);
+    DecisionCurveResult curve;
+    curve.points = {DecisionCurvePoint{.threshold_probability = 0.1, .net_benefit_model = 0.02, .net_benefit_treat_all = 0.01},
+                    DecisionCurvePoint{.threshold_probability = 0.2, .net_benefit_model = 0.01, .net_benefit_treat_all = -0.05}};
+    first.decision_curve = curve;
+    other.decision_curve = curve;
+    ReportInput with;
+    add_score_comparison(with, c, first, {other}, "basis", {}, "");
+    REQUIRE(with.score_comparison_curves.has_value());
+    REQUIRE(with.score_comparison_curves->curves.size() == 4);  // a, b, evaluate everyone, no one
+    CHECK(with.score_comparison_curves->curves[1].name == "b");
+    CHECK(with.score_comparison_curves->curves[1].dashed);
+    CHECK(with.score_comparison_note.find("Decision curves need") == std::string::npos);
 }
