@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cmath>
 #include <limits>
+#include <map>
 
 #include <boost/random/binomial_distribution.hpp>
 
@@ -28,10 +29,11 @@ std::vector<double> stay_maxima(const Population& pop, std::size_t score) {
     return out;
 }
 
-double threshold_flagging(std::vector<double> values, std::int64_t flagged) {
-    std::erase_if(values, [](double v) { return std::isnan(v); });
+namespace {
+
+// threshold_flagging on values already in descending order, without NaN.
+double threshold_in_descending(const std::vector<double>& values, std::int64_t flagged) {
     if (flagged <= 0 || values.empty()) return std::numeric_limits<double>::infinity();
-    std::sort(values.begin(), values.end(), std::greater<>());
     const auto n = static_cast<std::int64_t>(values.size());
     const double at = values[static_cast<std::size_t>(std::min(flagged, n) - 1)];
     // A threshold at `at` flags every value >= it, ties included; the next
@@ -41,6 +43,14 @@ double threshold_flagging(std::vector<double> values, std::int64_t flagged) {
     if (first_at == 0) return at;
     const double above = values[static_cast<std::size_t>(first_at - 1)];
     return flagged - first_at <= last_at - flagged ? above : at;
+}
+
+}  // namespace
+
+double threshold_flagging(std::vector<double> values, std::int64_t flagged) {
+    std::erase_if(values, [](double v) { return std::isnan(v); });
+    std::sort(values.begin(), values.end(), std::greater<>());
+    return threshold_in_descending(values, flagged);
 }
 
 namespace {
@@ -157,14 +167,24 @@ ScoreComparison compare_scores(const Population& pop, const std::vector<Plan>& p
         if (a.cases > 0 && a.controls > 0) a.test = paired_auc_delong(p.a, p.b, p.outcome, options.confidence);
         out.auc.push_back(std::move(a));
     }
+    // The stays of each pair of scores, and the other score's values in
+    // descending order, made once for every plan that reads the same score
+    // (a sweep may hold hundreds).
+    std::map<std::pair<std::size_t, std::size_t>, std::pair<Paired, std::vector<double>>> pairs;
     for (const Plan& plan : plans) {
         if (!std::isfinite(plan.rule.threshold) || plan.score >= pop.score_count()) continue;
         for (std::size_t k = 0; k < pop.score_count(); ++k) {
             if (k == plan.score) continue;
-            const Paired p = paired_stays(pop, maxima[plan.score], maxima[k], nullptr);
+            auto [at, fresh] = pairs.try_emplace({plan.score, k});
+            if (fresh) {
+                at->second.first = paired_stays(pop, maxima[plan.score], maxima[k], nullptr);
+                at->second.second = at->second.first.b;
+                std::sort(at->second.second.begin(), at->second.second.end(), std::greater<>());
+            }
+            const Paired& p = at->second.first;
             std::int64_t flagged = 0;
             for (double v : p.a) flagged += v >= plan.rule.threshold;
-            const double matched = threshold_flagging(p.b, flagged);
+            const double matched = threshold_in_descending(at->second.second, flagged);
             const ThresholdComparison base = compare_at(p, plan, name_of(plan.score), name_of(k), matched);
             for (double per_case : options.evaluations_per_case) {
                 ThresholdComparison c = base;

@@ -217,7 +217,7 @@ TEST_CASE("two_scores.threshold_flagging_matches_the_count_as_near_as_the_values
     const std::vector<double> v{1, 2, 2, 2, 3, 5, nan};
     CHECK(threshold_flagging(v, 1) == 5);  // exactly one value >= 5
     CHECK(threshold_flagging(v, 2) == 3);  // 3 and 5
-    // 3 flagged: ">= 3" flags 2, ">= 2" flags 5; 2 is nearer to 2 than... |3-2| = 1 < |5-3| = 2.
+    // 3 wanted: ">= 3" flags 2 values, ">= 2" flags 5; |3 - 2| = 1 < |5 - 3| = 2, so ">= 3".
     CHECK(threshold_flagging(v, 3) == 3);
     CHECK(threshold_flagging(v, 4) == 2);  // |4-2| = 2 against |5-4| = 1: ">= 2"
     CHECK(threshold_flagging(v, 6) == 1);
